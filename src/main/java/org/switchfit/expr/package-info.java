@@ -1,0 +1,6 @@
+/**
+ * Immutable expression trees, simplification, symbolic derivatives, a reference interpreter and compilation to JVM bytecode.
+ *
+ * <p>Layering: may import project packages {util} only.
+ */
+package org.switchfit.expr;

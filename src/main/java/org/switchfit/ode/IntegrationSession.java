@@ -1,0 +1,45 @@
+package org.switchfit.ode;
+
+/**
+ * One running integration: advances in time, stops at requested output times exactly and at sign changes of
+ * the switching functions. Not thread-safe. Forward integration only (tOut &gt; current time).
+ *
+ * <p>Root semantics: when some g_k changes sign inside a step, the session locates the earliest such change by
+ * bracketing on the dense output until the bracket [tL, tR] is narrower than
+ * {@code 4 * ulp(max(|tR|, 1)) + 1e-12 * max(|tR|, 1)}, then stops at tR, where the new sign holds.
+ */
+public interface IntegrationSession {
+
+    /**
+     * Advances to {@code tOut} or to the first root before it.
+     *
+     * @param tOut target time
+     * @param yOut receives y at the time reached (length n)
+     * @param sOut receives sensitivities at the time reached (layout as in {@link Integrator#start}), or null
+     * @return the time reached: {@code tOut} or a root time &lt; tOut
+     * @throws IntegrationException when the step size underflows, the step count is exceeded, Newton fails
+     *                              repeatedly or values become non-finite
+     */
+    double advance(double tOut, double[] yOut, double[] sOut);
+
+    /** True when the last {@link #advance} stopped at a root. */
+    boolean stoppedAtRoot();
+
+    /** Indices of switching functions whose sign changed at the last root (valid when {@link #stoppedAtRoot}). */
+    int[] rootsFound();
+
+    /** Current time. */
+    double time();
+
+    /**
+     * Restarts at the current time from new values (after an event changed states or parameters). Solver history is
+     * discarded.
+     *
+     * @param y new state (copied)
+     * @param s new sensitivities or null to keep none/unchanged
+     */
+    void reset(double[] y, double[] s);
+
+    /** Statistics: steps, right-hand-side calls, Jacobian evaluations, LU factorisations. */
+    SolverStats stats();
+}
