@@ -73,6 +73,7 @@ public final class OdeForm {
     private Block init;
     private final List<BoundEvent> events = new ArrayList<>();
     private final Map<String, Expr> derivSymbolic = new HashMap<>();
+    private final List<Event> resolvedEvents = new ArrayList<>();
 
     private OdeForm(Model model) {
         this.model = model;
@@ -565,6 +566,15 @@ public final class OdeForm {
         for (String id : stateIds) {
             derivs.add(resolveRateOf(derivSymbolic.get(id)));
         }
+        for (Event e : model.events()) {
+            List<Event.Assignment> as = new ArrayList<>();
+            for (Event.Assignment a : e.assignments()) {
+                as.add(new Event.Assignment(a.variable(), resolveRateOf(a.math())));
+            }
+            resolvedEvents.add(new Event(e.id(), resolveRateOf(e.trigger()), e.initialValue(), e.persistent(),
+                    e.delay() == null ? null : resolveRateOf(e.delay()),
+                    e.priority() == null ? null : resolveRateOf(e.priority()), e.useValuesFromTriggerTime(), as));
+        }
         // order definitions
         List<String> order = topoSort(defs, "assignment rules and reaction rates");
         List<String> names = new ArrayList<>();
@@ -697,6 +707,11 @@ public final class OdeForm {
 
     /** Replaces symbols by runtime leaves: locals first, then states, then parameters. */
     private Expr bind(Expr e, String context) {
+        if (e.contains(x -> x.op() == Op.DELAY)) {
+            throw new UnsupportedConstructException(SourceLocation.ofElement(file, context),
+                    "the delay function (a delay differential equation)",
+                    "replace the delay by a chain of intermediate species");
+        }
         return e.mapLeaves(x -> {
             if (x.op() != Op.SYMBOL) {
                 return x;
@@ -728,11 +743,7 @@ public final class OdeForm {
         Map<String, Expr> idefs = new LinkedHashMap<>();
         Map<String, Expr> ias = new HashMap<>();
         for (InitialAssignment ia : model.initialAssignments()) {
-            if (ia.math().contains(x -> x.op() == Op.RATEOF)) {
-                throw new UnsupportedConstructException(SourceLocation.ofElement(file, ia.symbol()),
-                        "rateOf in an initial assignment", "compute the initial value another way");
-            }
-            ias.put(ia.symbol(), ia.math());
+            ias.put(ia.symbol(), resolveRateOf(ia.math()));
         }
         for (Map.Entry<String, QType> en : types.entrySet()) {
             String id = en.getKey();
@@ -741,7 +752,7 @@ public final class OdeForm {
             if (ias.containsKey(id)) {
                 d = ias.get(id);
             } else if (assignRules.containsKey(id)) {
-                d = assignRules.get(id);
+                d = defs.get(id);
             } else if (t == QType.REACTION) {
                 d = defs.get(id);
             } else if (t == QType.SPECIES) {
@@ -759,11 +770,12 @@ public final class OdeForm {
             } else {
                 d = Expr.symbol("#declared:" + id);
             }
-            if (d.contains(x -> x.op() == Op.RATEOF)) {
-                throw new UnsupportedConstructException(SourceLocation.ofElement(file, id),
-                        "rateOf needed at the initial time", "compute the initial value another way");
-            }
             idefs.put(id, d);
+        }
+        for (Map.Entry<String, Expr> en : defs.entrySet()) {
+            if (en.getKey().startsWith("rateOf:")) {
+                idefs.put(en.getKey(), stateLeavesToSymbols(en.getValue()));
+            }
         }
         List<String> order = topoSort(idefs, "initial assignments and assignment rules");
         Map<String, Integer> il = new HashMap<>();
@@ -810,14 +822,28 @@ public final class OdeForm {
         init = new Block(names, bound, outs);
     }
 
+    /** Replaces state leaves by the symbol form of the state value (amount = value * size where needed). */
+    private Expr stateLeavesToSymbols(Expr e) {
+        return e.mapLeaves(x -> {
+            if (x.op() != Op.STATE) {
+                return x;
+            }
+            String id = stateIds.get(x.index());
+            if (isAmountStateWithConcSymbol(id)) {
+                return Expr.mul(Expr.symbol(id), Expr.symbol(model.species(id).compartment()));
+            }
+            return Expr.symbol(id);
+        });
+    }
+
     // ------------------------------------------------------------------ events
 
     private void bindEvents() {
-        for (Event e : model.events()) {
+        for (Event e : resolvedEvents) {
             String ctx = "event '" + e.id() + "'";
             List<BoundEvent.Target> targets = new ArrayList<>();
             for (Event.Assignment a : e.assignments()) {
-                Expr v = bind(resolveRateOfOrFail(a.math(), e.id()), ctx);
+                Expr v = bind(a.math(), ctx);
                 int si = stateIndex.get(a.variable());
                 Expr scale = null;
                 if (isAmountStateWithConcSymbol(a.variable())) {
@@ -825,25 +851,12 @@ public final class OdeForm {
                 }
                 targets.add(new BoundEvent.Target(a.variable(), si, v, scale));
             }
-            Expr trig = bind(resolveRateOfOrFail(e.trigger(), e.id()), ctx);
-            Expr delay = e.delay() == null ? null : bind(resolveRateOfOrFail(e.delay(), e.id()), ctx);
-            Expr prio = e.priority() == null ? null : bind(resolveRateOfOrFail(e.priority(), e.id()), ctx);
+            Expr trig = bind(e.trigger(), ctx);
+            Expr delay = e.delay() == null ? null : bind(e.delay(), ctx);
+            Expr prio = e.priority() == null ? null : bind(e.priority(), ctx);
             events.add(new BoundEvent(e.id(), trig, e.initialValue(), e.persistent(), delay, prio,
                     e.useValuesFromTriggerTime(), targets));
         }
     }
 
-    private Expr resolveRateOfOrFail(Expr e, String id) {
-        if (e.contains(x -> x.op() == Op.RATEOF)) {
-            // rateOf definitions added now would not be part of the runtime block
-            Expr r = resolveRateOf(e);
-            if (r.contains(x -> x.op() == Op.SYMBOL && !localIndex.containsKey(x.name())
-                    && !stateIndex.containsKey(x.name()) && !paramIndex.containsKey(x.name()))) {
-                throw new UnsupportedConstructException(SourceLocation.ofElement(file, id),
-                        "rateOf inside an event", "move the rate into an assignment rule");
-            }
-            return r;
-        }
-        return e;
-    }
 }

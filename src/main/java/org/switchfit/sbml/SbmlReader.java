@@ -46,6 +46,8 @@ import org.switchfit.util.UserInputException;
  */
 public final class SbmlReader {
     private static volatile boolean loggingConfigured;
+    /** Strong reference: java.util.logging keeps loggers weakly, and a collected logger forgets its level. */
+    private static final java.util.logging.Logger JUL_SBML = java.util.logging.Logger.getLogger("org.sbml");
 
     private SbmlReader() {
     }
@@ -61,6 +63,7 @@ public final class SbmlReader {
                     } catch (RuntimeException | LinkageError e) {
                         // logging backend absent: nothing to silence
                     }
+                    JUL_SBML.setLevel(java.util.logging.Level.OFF);
                     loggingConfigured = true;
                 }
             }
@@ -113,7 +116,8 @@ public final class SbmlReader {
 
     private static SBMLDocument flatten(SBMLDocument doc, Path path) {
         try {
-            doc.setLocationURI(path.toAbsolutePath().getParent().toUri().toString());
+            doc.setLocationURI(path.toAbsolutePath().toUri().toString());
+            absolutiseExternalSources(doc, path.toAbsolutePath().getParent());
             SBMLDocument flat = new CompFlatteningConverter().flatten(doc);
             if (flat == null || flat.getModel() == null) {
                 throw new UnsupportedConstructException(SourceLocation.ofFile(path.toString()),
@@ -126,6 +130,22 @@ public final class SbmlReader {
             throw new UnsupportedConstructException(SourceLocation.ofFile(path.toString()),
                     "hierarchical model composition that could not be flattened (" + firstLine(String.valueOf(
                             e.getMessage())) + ")", "flatten the model first");
+        }
+    }
+
+    /** Rewrites relative external model sources to absolute file URIs (JSBML resolves them against the CWD). */
+    private static void absolutiseExternalSources(SBMLDocument doc, Path dir) {
+        org.sbml.jsbml.ext.comp.CompSBMLDocumentPlugin plug = (org.sbml.jsbml.ext.comp.CompSBMLDocumentPlugin)
+                doc.getPlugin(CompConstants.shortLabel);
+        if (plug == null) {
+            return;
+        }
+        for (org.sbml.jsbml.ext.comp.ExternalModelDefinition emd : plug.getListOfExternalModelDefinitions()) {
+            String src = emd.getSource();
+            if (src != null && !src.contains(":")) {
+                Path f = dir.resolve(src);
+                emd.setSource(f.toString());
+            }
         }
     }
 
@@ -189,6 +209,9 @@ public final class SbmlReader {
             }
             List<Rule> rules = new ArrayList<>();
             for (org.sbml.jsbml.Rule r : m.getListOfRules()) {
+                if (r.getMath() == null) {
+                    continue; // SBML L3V2 allows math to be absent: the rule then has no effect
+                }
                 String rid = r.isSetMetaId() ? r.getMetaId() : null;
                 if (r instanceof AlgebraicRule) {
                     rules.add(new Rule(Rule.Kind.ALGEBRAIC, null, conv.convert(r.getMath(), Map.of(),
@@ -205,12 +228,19 @@ public final class SbmlReader {
             }
             List<InitialAssignment> ias = new ArrayList<>();
             for (org.sbml.jsbml.InitialAssignment ia : m.getListOfInitialAssignments()) {
+                if (ia.getMath() == null) {
+                    continue;
+                }
                 ias.add(new InitialAssignment(ia.getVariable(), conv.convert(ia.getMath(), Map.of(),
                         ia.getVariable())));
             }
             List<Event> events = new ArrayList<>();
             int en = 0;
             for (org.sbml.jsbml.Event e : m.getListOfEvents()) {
+                if (e.getTrigger() == null || e.getTrigger().getMath() == null) {
+                    en++;
+                    continue; // SBML L3V2: an event without trigger math never fires
+                }
                 events.add(event(e, en++));
             }
             String cf = m.isSetConversionFactor() ? m.getConversionFactor() : null;
