@@ -113,6 +113,8 @@ final class CompFlattener {
         List<Model> parts = new ArrayList<>();
         Map<String, Def> subDefs = new HashMap<>();
         Set<String> remove = new HashSet<>();
+        Set<String> deleted = new HashSet<>();
+        Map<String, String> idRename = new HashMap<>();
         if (plug != null) {
             for (Submodel s : plug.getListOfSubmodels()) {
                 if (s.isSetTimeConversionFactor() || s.isSetExtentConversionFactor()) {
@@ -124,7 +126,9 @@ final class CompFlattener {
                 Model sub = flatten(def.model(), def.doc(), sp, depth + 1);
                 parts.add(sub);
                 for (Deletion d : s.getListOfDeletions()) {
-                    remove.add(target(d, def, sp, depth));
+                    String tid = target(d, def, sp, depth);
+                    remove.add(tid);
+                    deleted.add(tid);
                 }
             }
         }
@@ -161,12 +165,14 @@ final class CompFlattener {
                     throw new Unhandled("unknown submodel " + rb.getSubmodelRef());
                 }
                 String tid = target(rb, def, prefix + rb.getSubmodelRef() + "__", depth);
+                // the submodel element survives under the parent's id
                 remove.add(eid);
-                rename.put(eid, tid);
-                alias.put(eid, Expr.symbol(tid));
+                idRename.put(tid, eid);
+                rename.put(tid, eid);
+                alias.put(tid, Expr.symbol(eid));
             }
         }
-        return merge(m.getId(), parts, remove, alias, rename);
+        return merge(m.getId(), parts, remove, deleted, idRename, alias, rename);
     }
 
     private static String idOf(SBase el) {
@@ -254,8 +260,8 @@ final class CompFlattener {
 
     // ------------------------------------------------------------------ merging
 
-    private Model merge(String id, List<Model> parts, Set<String> remove, Map<String, Expr> alias,
-                        Map<String, String> rename) {
+    private Model merge(String id, List<Model> parts, Set<String> remove, Set<String> deleted,
+                        Map<String, String> idRename, Map<String, Expr> alias, Map<String, String> rename) {
         List<Compartment> comps = new ArrayList<>();
         List<Species> species = new ArrayList<>();
         List<Parameter> params = new ArrayList<>();
@@ -267,39 +273,39 @@ final class CompFlattener {
         for (Model p : parts) {
             for (Compartment c : p.compartments()) {
                 if (!remove.contains(c.id())) {
-                    comps.add(c);
+                    comps.add(new Compartment(ren(c.id(), idRename), c.size(), c.spatialDimensions(), c.constant()));
                 }
             }
             for (Species s : p.species()) {
                 if (!remove.contains(s.id())) {
-                    species.add(new Species(s.id(), ren(s.compartment(), rename), s.initialAmount(),
+                    species.add(new Species(ren(s.id(), idRename), ren(s.compartment(), rename), s.initialAmount(),
                             s.initialConcentration(), s.hasOnlySubstanceUnits(), s.boundaryCondition(), s.constant(),
                             s.conversionFactor() == null ? null : ren(s.conversionFactor(), rename)));
                 }
             }
             for (Parameter q : p.parameters()) {
                 if (!remove.contains(q.id())) {
-                    params.add(q);
+                    params.add(new Parameter(ren(q.id(), idRename), q.value(), q.constant()));
                 }
             }
             for (Reaction r : p.reactions()) {
                 if (remove.contains(r.id())) {
                     continue;
                 }
-                reactions.add(new Reaction(r.id(), refs(r.reactants(), remove, alias, rename),
+                reactions.add(new Reaction(ren(r.id(), idRename), refs(r.reactants(), remove, alias, rename),
                         refs(r.products(), remove, alias, rename), sub(r.kineticLaw(), alias), r.localParameters(),
                         r.reversible(), r.fast()));
             }
             for (Rule r : p.rules()) {
-                if (r.elementId() != null && remove.contains(r.elementId())
-                        || r.variable() != null && remove.contains(r.variable()) && !rename.containsKey(r.variable())) {
+                if (r.elementId() != null && deleted.contains(r.elementId())
+                        || r.variable() != null && deleted.contains(r.variable())) {
                     continue;
                 }
                 rules.add(new Rule(r.kind(), r.variable() == null ? null : ren(r.variable(), rename),
                         sub(r.math(), alias), r.elementId()));
             }
             for (InitialAssignment ia : p.initialAssignments()) {
-                if (remove.contains(ia.symbol()) && !rename.containsKey(ia.symbol())) {
+                if (deleted.contains(ia.symbol())) {
                     continue;
                 }
                 ias.add(new InitialAssignment(ren(ia.symbol(), rename), sub(ia.math(), alias)));
@@ -310,12 +316,12 @@ final class CompFlattener {
                 }
                 List<Event.Assignment> as = new ArrayList<>();
                 for (Event.Assignment a : e.assignments()) {
-                    if (remove.contains(a.variable()) && !rename.containsKey(a.variable())) {
+                    if (deleted.contains(a.variable())) {
                         continue;
                     }
                     as.add(new Event.Assignment(ren(a.variable(), rename), sub(a.math(), alias)));
                 }
-                events.add(new Event(e.id(), sub(e.trigger(), alias), e.initialValue(), e.persistent(),
+                events.add(new Event(ren(e.id(), idRename), sub(e.trigger(), alias), e.initialValue(), e.persistent(),
                         sub(e.delay(), alias), sub(e.priority(), alias), e.useValuesFromTriggerTime(), as));
             }
             if (p.conversionFactor() != null && cf == null) {
