@@ -117,13 +117,16 @@ final class CompFlattener {
         Map<String, String> idRename = new HashMap<>();
         if (plug != null) {
             for (Submodel s : plug.getListOfSubmodels()) {
-                if (s.isSetTimeConversionFactor() || s.isSetExtentConversionFactor()) {
-                    throw new Unhandled("submodel conversion factors");
-                }
                 Def def = resolve(s.getModelRef(), doc, depth);
                 String sp = prefix + s.getId() + "__";
                 subDefs.put(s.getId(), def);
                 Model sub = flatten(def.model(), def.doc(), sp, depth + 1);
+                Expr tcf = s.isSetTimeConversionFactor() ? Expr.symbol(prefix + s.getTimeConversionFactor()) : null;
+                Expr ecf = s.isSetExtentConversionFactor() ? Expr.symbol(prefix + s.getExtentConversionFactor())
+                        : null;
+                if (tcf != null || ecf != null) {
+                    sub = convertUnits(sub, tcf, ecf);
+                }
                 parts.add(sub);
                 for (Deletion d : s.getListOfDeletions()) {
                     String tid = target(d, def, sp, depth);
@@ -173,6 +176,57 @@ final class CompFlattener {
             }
         }
         return merge(m.getId(), parts, remove, deleted, idRename, alias, rename);
+    }
+
+    /**
+     * Applies submodel conversion factors (comp specification, section 3.5.1): submodel time is parent time
+     * divided by the time factor, so rates per submodel time are divided by it and durations multiplied; reaction
+     * extents are multiplied by the extent factor.
+     */
+    private static Model convertUnits(Model m, Expr tcf, Expr ecf) {
+        java.util.function.Function<Expr, Expr> time = e -> e == null || tcf == null ? e
+                : e.mapLeaves(x -> x.op() == Op.TIME ? Expr.div(Expr.TIME, tcf) : x);
+        List<Reaction> rs = new ArrayList<>();
+        for (Reaction r : m.reactions()) {
+            Expr k = time.apply(r.kineticLaw());
+            if (k != null) {
+                if (ecf != null) {
+                    k = Expr.mul(k, ecf);
+                }
+                if (tcf != null) {
+                    k = Expr.div(k, tcf);
+                }
+            }
+            rs.add(new Reaction(r.id(), r.reactants(), r.products(), k, r.localParameters(), r.reversible(),
+                    r.fast()));
+        }
+        List<Rule> rules = new ArrayList<>();
+        for (Rule r : m.rules()) {
+            Expr e = time.apply(r.math());
+            if (r.kind() == Rule.Kind.RATE && tcf != null) {
+                e = Expr.div(e, tcf);
+            }
+            rules.add(new Rule(r.kind(), r.variable(), e, r.elementId()));
+        }
+        List<InitialAssignment> ias = new ArrayList<>();
+        for (InitialAssignment ia : m.initialAssignments()) {
+            ias.add(new InitialAssignment(ia.symbol(), time.apply(ia.math())));
+        }
+        List<Event> evs = new ArrayList<>();
+        for (Event e : m.events()) {
+            List<Event.Assignment> as = new ArrayList<>();
+            for (Event.Assignment a : e.assignments()) {
+                as.add(new Event.Assignment(a.variable(), time.apply(a.math())));
+            }
+            Expr delay = time.apply(e.delay());
+            if (delay != null && tcf != null) {
+                delay = Expr.mul(delay, tcf);
+            }
+            evs.add(new Event(e.id(), time.apply(e.trigger()), e.initialValue(), e.persistent(), delay,
+                    time.apply(e.priority()), e.useValuesFromTriggerTime(), as));
+        }
+        return new Model(m.id(), m.source(), m.compartments(), m.species(), m.parameters(), rs, rules, ias, evs,
+                m.conversionFactor());
     }
 
     private static String idOf(SBase el) {
