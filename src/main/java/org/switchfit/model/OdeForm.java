@@ -74,6 +74,8 @@ public final class OdeForm {
     private final List<BoundEvent> events = new ArrayList<>();
     private final Map<String, Expr> derivSymbolic = new HashMap<>();
     private final List<Event> resolvedEvents = new ArrayList<>();
+    private final List<Expr> delaySlots = new ArrayList<>();
+    private final List<Expr> delayLags = new ArrayList<>();
 
     private OdeForm(Model model) {
         this.model = model;
@@ -147,6 +149,16 @@ public final class OdeForm {
     /** Initial block: reads declared p (y unused), outputs y0 (n entries) then effective p (m entries). */
     public Block initial() {
         return init;
+    }
+
+    /** Bound expressions x of the delay nodes, by slot (the runtime uses {@code DELAY(slot, lag)} nodes). */
+    public List<Expr> delaySlots() {
+        return List.copyOf(delaySlots);
+    }
+
+    /** Bound lag expressions of the delay nodes, by slot. */
+    public List<Expr> delayLags() {
+        return List.copyOf(delayLags);
     }
 
     public List<BoundEvent> events() {
@@ -224,7 +236,6 @@ public final class OdeForm {
                 }
             }
         }
-        checkNoDelay();
         solveAlgebraicRules();
         classify();
         buildRuntime();
@@ -706,11 +717,20 @@ public final class OdeForm {
     }
 
     /** Replaces symbols by runtime leaves: locals first, then states, then parameters. */
-    private Expr bind(Expr e, String context) {
-        if (e.contains(x -> x.op() == Op.DELAY)) {
-            throw new UnsupportedConstructException(SourceLocation.ofElement(file, context),
-                    "the delay function (a delay differential equation)",
-                    "replace the delay by a chain of intermediate species");
+    private Expr bind(Expr e0, String context) {
+        Expr e = e0;
+        if (e.contains(x -> x.op() == Op.DELAY && !x.arg(0).isConst())) {
+            e = e.rewrite(x -> {
+                if (x.op() != Op.DELAY) {
+                    return null;
+                }
+                Expr xb = bind(x.arg(0), context);
+                Expr lag = bind(x.arg(1), context);
+                int slot = delaySlots.size();
+                delaySlots.add(xb);
+                delayLags.add(lag);
+                return Expr.call(Op.DELAY, Expr.constant(slot), lag);
+            });
         }
         return e.mapLeaves(x -> {
             if (x.op() != Op.SYMBOL) {
@@ -770,11 +790,11 @@ public final class OdeForm {
             } else {
                 d = Expr.symbol("#declared:" + id);
             }
-            idefs.put(id, d);
+            idefs.put(id, withoutDelays(d));
         }
         for (Map.Entry<String, Expr> en : defs.entrySet()) {
             if (en.getKey().startsWith("rateOf:")) {
-                idefs.put(en.getKey(), stateLeavesToSymbols(en.getValue()));
+                idefs.put(en.getKey(), withoutDelays(stateLeavesToSymbols(en.getValue())));
             }
         }
         List<String> order = topoSort(idefs, "initial assignments and assignment rules");
@@ -820,6 +840,14 @@ public final class OdeForm {
             outs.add(Expr.local(il.get(id), id));
         }
         init = new Block(names, bound, outs);
+    }
+
+    /** At the initial time a delayed value is the initial value (no history exists before the start). */
+    private static Expr withoutDelays(Expr e) {
+        if (!e.contains(x -> x.op() == Op.DELAY)) {
+            return e;
+        }
+        return e.rewrite(x -> x.op() == Op.DELAY ? withoutDelays(x.arg(0)) : null);
     }
 
     /** Replaces state leaves by the symbol form of the state value (amount = value * size where needed). */
