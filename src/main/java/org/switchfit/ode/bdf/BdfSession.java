@@ -251,7 +251,8 @@ public final class BdfSession implements IntegrationSession {
 
     /**
      * Forbids steps past {@code t} (for example a known discontinuity of the right-hand side); the integrator
-     * then lands on t exactly. Pass {@code Double.POSITIVE_INFINITY} to clear.
+     * then lands on t exactly. Once reached, the stop time clears itself, so the next step may go past it (call
+     * {@link #reset} first if the right-hand side changes there). Pass {@code Double.POSITIVE_INFINITY} to clear.
      *
      * @param t stop time, &gt;= {@link #time()}
      */
@@ -430,7 +431,9 @@ public final class BdfSession implements IntegrationSession {
         double dm = Math.max(d1, d2);
         double h1 = dm <= 1e-15 || !Double.isFinite(dm) ? Math.max(1e-6 * tdist, h0 * 1e-3) : Math.sqrt(0.01 / dm);
         double h = Math.min(Math.min(100 * h0, h1), Math.min(tdist, hmax));
-        if (tn + h > tStop) {
+        if (tn >= tStop) {
+            tStop = Double.POSITIVE_INFINITY;
+        } else if (tn + h > tStop) {
             h = tStop - tn;
         }
         if (!(h > 0) || tn + h == tn) {
@@ -477,7 +480,9 @@ public final class BdfSession implements IntegrationSession {
         if (nst > 0 && (hprime != h || qprime != q)) {
             adjustParams();
         }
-        if (tn + h > tStop) {
+        if (tn >= tStop) {
+            tStop = Double.POSITIVE_INFINITY;
+        } else if (tn + h > tStop) {
             eta = (tStop - tn) / h;
             rescale();
         }
