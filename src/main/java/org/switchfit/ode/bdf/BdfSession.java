@@ -3,7 +3,6 @@ package org.switchfit.ode.bdf;
 import java.util.Locale;
 import org.switchfit.linalg.LuSolver;
 import org.switchfit.linalg.LuSolvers;
-import org.switchfit.linalg.SparsePattern;
 import org.switchfit.ode.IntegrationException;
 import org.switchfit.ode.IntegrationSession;
 import org.switchfit.ode.OdeSystem;
@@ -224,19 +223,10 @@ public final class BdfSession implements IntegrationSession {
         this.sensWork = new double[nsn];
         this.jac = new double[n * n];
         this.jacP = new double[needJacP ? n * m : 0];
-        int[][] pattern = sys.jacobianPattern();
-        long nnz = SparsePattern.countWithDiagonal(n, pattern);
-        this.rowStart = new int[n + 1];
-        this.colIndex = new int[Math.toIntExact(nnz)];
-        int pos = 0;
-        for (int i = 0; i < n; i++) {
-            rowStart[i] = pos;
-            for (int j : pattern[i]) {
-                colIndex[pos++] = j;
-            }
-        }
-        rowStart[n] = pos;
-        this.lu = LuSolvers.create(n, pattern);
+        SystemStructure structure = SystemStructure.of(sys);
+        this.rowStart = structure.rowStart;
+        this.colIndex = structure.colIndex;
+        this.lu = structure.plan.newSolver();
         this.roots = roots;
         this.nr = roots == null ? 0 : roots.count();
         this.rootLocator = nr > 0 ? new RootLocator(this, nr, n) : null;
