@@ -17,7 +17,8 @@ import org.switchfit.util.AtomicFiles;
  *
  * <p>The page carries {@code <meta name="switchfit-figures" content="id1 id2 ...">} listing every figure id, so a
  * headless-browser check ({@code .ci/render-report.sh}) can verify that each {@code <svg data-figure="id">} is
- * present and drawn.
+ * present and drawn. The page is also well-formed XML (void elements self-closed, only XML entities), which the
+ * tests use to check escaping.
  */
 public final class HtmlReport {
     /** Kind of a note box. */
