@@ -10,7 +10,7 @@ import java.util.List;
  *
  * <p>The SVG has a viewBox, an accessible {@code <title>} and {@code <desc>} (referenced by {@code aria-labelledby}),
  * a {@code data-figure} attribute carrying the id (the headless-browser check looks for it), generic font families
- * only, and no scripts, styles sheets or external references. Element ids inside the SVG are prefixed with the
+ * only, and no scripts, style sheets or external references. Element ids inside the SVG are prefixed with the
  * figure id, so several figures can be inlined in one HTML page as long as their ids differ.
  */
 public final class Figure {
