@@ -8,7 +8,8 @@ import java.util.regex.Pattern;
  *
  * <p>Accepted: decimal and scientific notation ({@code 12}, {@code -1.5e-3}, {@code .5}), and the special
  * values {@code nan}, {@code inf}, {@code +inf}, {@code -inf}, {@code infinity}, {@code -infinity} in any letter
- * case (the spellings written by common spreadsheet and dataframe tools; common practice). Rejected: Java-only
+ * case, and the YAML forms {@code .nan}, {@code .inf}, {@code -.inf} (the spellings written by common
+ * spreadsheet and dataframe tools and by YAML 1.1; common practice). Rejected: Java-only
  * forms that a user would not mean as numbers, such as hexadecimal literals or the {@code d}/{@code f} suffixes
  * {@link Double#parseDouble} accepts. Stateless and thread-safe.
  */
@@ -37,14 +38,18 @@ public final class DataNumbers {
             case "nan":
             case "+nan":
             case "-nan":
+            case ".nan":
                 return Double.NaN;
             case "inf":
             case "+inf":
             case "infinity":
             case "+infinity":
+            case ".inf":
+            case "+.inf":
                 return Double.POSITIVE_INFINITY;
             case "-inf":
             case "-infinity":
+            case "-.inf":
                 return Double.NEGATIVE_INFINITY;
             default:
                 throw new NumberFormatException("not a number: '" + text + "'");
