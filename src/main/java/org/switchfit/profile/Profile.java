@@ -41,6 +41,23 @@ public record Profile(String name, int parameterIndex, double optimumValue, doub
         return optimumTheta.clone();
     }
 
+    /**
+     * A profile that could not be computed at all (for example the objective fails at the optimum): both sides
+     * {@link SideStatus#FAILED}, intervals open, classified practically non-identifiable, with the reason.
+     */
+    public static Profile failed(String name, int parameterIndex, double[] theta, double level, String message) {
+        double inf = Double.POSITIVE_INFINITY;
+        ConfidenceInterval open = new ConfidenceInterval(level, 1, Double.NaN, -inf, inf, Double.NaN, Double.NaN);
+        double z = parameterIndex >= 0 ? theta[parameterIndex] : Double.NaN;
+        return new Profile(name, parameterIndex, z, Double.NaN, theta, List.of(), open, open, SideStatus.FAILED,
+                SideStatus.FAILED, Identifiability.PRACTICALLY_NONIDENTIFIABLE, List.of(), false, 0, 0, message);
+    }
+
+    /** True when a side failed (see {@link #message()}). */
+    public boolean hasFailure() {
+        return lowerSide == SideStatus.FAILED || upperSide == SideStatus.FAILED;
+    }
+
     /** Largest likelihood-ratio statistic {@code 2 (nll - nll*)} over the points. */
     public double maxDeltaChi2() {
         double mx = 0;

@@ -173,7 +173,15 @@ public final class ProfileLikelihood {
                 out.add(d);
             } else {
                 final int idx = k;
-                tasks.add(() -> profileParameter(problem, optimum, idx));
+                tasks.add(() -> {
+                    try {
+                        return profileParameter(problem, optimum, idx);
+                    } catch (RuntimeException e) {
+                        // One failed profile is a result, not an abort: the others are kept.
+                        return Profile.failed(problem.id(idx), idx, problem.clamp(optimum), level,
+                                "profile failed: " + e.getMessage());
+                    }
+                });
             }
         }
         out.addAll(executor.runAll(tasks, listener == null ? null : (i, p) -> listener.profileFinished(p)));
