@@ -134,7 +134,8 @@ public final class Multistart {
             }
         }
         long ms = (System.nanoTime() - t0) / 1_000_000L;
-        return new FitResult(problem.ids(), any ? best.theta() : null, any ? best.nll() : Double.NaN, all, near, ms);
+        return new FitResult(problem.ids(), problem.scales(), any ? best.theta() : null,
+                any ? best.nll() : Double.NaN, all, near, ms);
     }
 
     private StartResult runStart(FitProblem problem, int index, double[] x0) {

@@ -15,6 +15,7 @@ import org.switchfit.fit.CurveObjective;
 import org.switchfit.fit.FitProblem;
 import org.switchfit.fit.LevenbergMarquardt;
 import org.switchfit.fit.LocalFit;
+import org.switchfit.objective.Objective;
 import org.switchfit.objective.Prediction;
 
 /**
@@ -161,5 +162,75 @@ class NonlinearProfileTest {
             LocalFit f = LevenbergMarquardt.defaults().minimize(fixedK, new double[] {fit.theta()[0], k});
             assertEquals(f.nll(), pt.nll(), 1e-8, "at g = " + pt.value());
         }
+    }
+
+    @Test
+    void nonlinearPredictionProfileEqualsProfileOfReparameterisedModel() {
+        // g(θ) = A exp(-k t*) at t* = 3, a nonlinear prediction. Reparameterising the model by (g, k), with
+        // A = g exp(k t*), turns g into a parameter, so the prediction profile must equal the ordinary parameter
+        // profile of g in the reparameterised problem (Kreutz et al. 2012, §Methods: a prediction profile is the
+        // profile likelihood of the prediction as if it were a parameter). Independent computations: the
+        // constrained path uses the augmented Lagrangian, the other fixes a parameter.
+        double ts = 3.0;
+        FitProblem p = problem();
+        CurveObjective base = objective();
+        LocalFit fit = LevenbergMarquardt.defaults().minimize(p, new double[] {1, 1});
+        Prediction g = new Prediction() {
+            @Override
+            public int parameterCount() {
+                return 2;
+            }
+
+            @Override
+            public double evaluate(double[] theta, double[] gradient) {
+                double e = Math.exp(-theta[1] * ts);
+                if (gradient != null) {
+                    gradient[0] = e;
+                    gradient[1] = -theta[0] * ts * e;
+                }
+                return theta[0] * e;
+            }
+        };
+        Objective re = new Objective() {
+            @Override
+            public int parameterCount() {
+                return 2;
+            }
+
+            @Override
+            public int residualCount() {
+                return base.residualCount();
+            }
+
+            @Override
+            public double evaluate(double[] theta, double[] residuals, double[] jacobian) {
+                double ek = Math.exp(theta[1] * ts);
+                double[] ab = {theta[0] * ek, theta[1]};
+                double[] jb = jacobian == null ? null : new double[residuals.length * 2];
+                double nll = base.evaluate(ab, residuals, jb);
+                if (jacobian != null) {
+                    for (int i = 0; i < residuals.length; i++) {
+                        double dA = jb[2 * i];
+                        jacobian[2 * i] = dA * ek;
+                        jacobian[2 * i + 1] = dA * theta[0] * ts * ek + jb[2 * i + 1];
+                    }
+                }
+                return nll;
+            }
+        };
+        FitProblem rp = FitProblem.of(re, new String[] {"g", "k"}, new double[] {1e-4, 0.01},
+                new double[] {10, 5});
+        double[] th = fit.theta();
+        double[] rth = {g.evaluate(th, null), th[1]};
+        ProfileLikelihood pl = ProfileLikelihood.defaults();
+        Profile viaParameter = pl.profileParameter(rp, rth, 0);
+        Profile viaPrediction = pl.profilePrediction(p, th, g, "y(3)", Double.NEGATIVE_INFINITY,
+                Double.POSITIVE_INFINITY);
+        assertEquals(Identifiability.IDENTIFIABLE, viaPrediction.identifiability());
+        // 1e-6 absolute in g units (g about 0.18, SE about 0.02): both ends refined to |Δχ² - q| <= 1e-9.
+        assertEquals(viaParameter.pointwise().lower(), viaPrediction.pointwise().lower(), 1e-6);
+        assertEquals(viaParameter.pointwise().upper(), viaPrediction.pointwise().upper(), 1e-6);
+        assertEquals(viaParameter.simultaneous().lower(), viaPrediction.simultaneous().lower(), 1e-6);
+        assertEquals(viaParameter.simultaneous().upper(), viaPrediction.simultaneous().upper(), 1e-6);
     }
 }
