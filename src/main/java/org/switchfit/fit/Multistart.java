@@ -138,6 +138,17 @@ public final class Multistart {
                 any ? best.nll() : Double.NaN, all, near, ms);
     }
 
+    /**
+     * Computes start {@code index} alone, exactly as {@link #run} would: the entry point for a worker that holds
+     * the same problem and configuration (for example a distributed {@link TaskExecutor} shipping only indices).
+     */
+    public StartResult runStart(FitProblem problem, double[] initialGuess, int index) {
+        if (index < 0 || index >= starts) {
+            throw new IllegalArgumentException("start index " + index + " outside [0, " + starts + ")");
+        }
+        return runStart(problem, index, startPoints(problem, initialGuess)[index]);
+    }
+
     private StartResult runStart(FitProblem problem, int index, double[] x0) {
         try {
             LocalFit f = optimizer.minimize(problem, x0);
