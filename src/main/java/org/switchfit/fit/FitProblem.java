@@ -127,6 +127,10 @@ public final class FitProblem {
         return scales[index];
     }
 
+    public ParameterScale[] scales() {
+        return scales.clone();
+    }
+
     /** Index of the parameter with the given id, or -1. */
     public int indexOf(String id) {
         for (int k = 0; k < ids.length; k++) {

@@ -134,7 +134,19 @@ public final class Multistart {
             }
         }
         long ms = (System.nanoTime() - t0) / 1_000_000L;
-        return new FitResult(problem.ids(), any ? best.theta() : null, any ? best.nll() : Double.NaN, all, near, ms);
+        return new FitResult(problem.ids(), problem.scales(), any ? best.theta() : null,
+                any ? best.nll() : Double.NaN, all, near, ms);
+    }
+
+    /**
+     * Computes start {@code index} alone, exactly as {@link #run} would: the entry point for a worker that holds
+     * the same problem and configuration (for example a distributed {@link TaskExecutor} shipping only indices).
+     */
+    public StartResult runStart(FitProblem problem, double[] initialGuess, int index) {
+        if (index < 0 || index >= starts) {
+            throw new IllegalArgumentException("start index " + index + " outside [0, " + starts + ")");
+        }
+        return runStart(problem, index, startPoints(problem, initialGuess)[index]);
     }
 
     private StartResult runStart(FitProblem problem, int index, double[] x0) {

@@ -120,6 +120,38 @@ class BoundedLevenbergMarquardtTest {
     }
 
     @Test
+    void reportedEvaluationCountsAreExact() {
+        CurveObjective base = line();
+        int[] calls = new int[2];
+        org.switchfit.objective.Objective counting = new org.switchfit.objective.Objective() {
+            @Override
+            public int parameterCount() {
+                return 2;
+            }
+
+            @Override
+            public int residualCount() {
+                return base.residualCount();
+            }
+
+            @Override
+            public double evaluate(double[] theta, double[] residuals, double[] jacobian) {
+                synchronized (calls) {
+                    calls[0]++;
+                    calls[1] += jacobian != null ? 1 : 0;
+                }
+                return base.evaluate(theta, residuals, jacobian);
+            }
+        };
+        FitProblem p = FitProblem.of(counting, new String[] {"a", "b"}, new double[] {-10, -10},
+                new double[] {10, 10});
+        LocalFit f = LevenbergMarquardt.defaults().minimize(p, new double[] {4, -3});
+        assertEquals(calls[0], f.evaluations());
+        assertEquals(calls[1], f.jacobianEvaluations());
+        assertTrue(f.iterations() >= 1);
+    }
+
+    @Test
     void invalidBoundsAreAUserError() {
         UserInputException e = assertThrows(UserInputException.class, () -> FitProblem.of(line(),
                 new String[] {"a", "b"}, new double[] {0, 5}, new double[] {1, 5}));

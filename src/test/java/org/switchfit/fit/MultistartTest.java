@@ -163,6 +163,56 @@ class MultistartTest {
         assertTrue(e.getMessage().contains("'omega'") && e.getMessage().contains("finite bounds"), e.getMessage());
     }
 
+    @Test
+    void everyStartFailingGivesAnEmptyBest() {
+        FitProblem ok = sine();
+        Objective always = new Objective() {
+            @Override
+            public int parameterCount() {
+                return 2;
+            }
+
+            @Override
+            public int residualCount() {
+                return ok.objective().residualCount();
+            }
+
+            @Override
+            public double evaluate(double[] theta, double[] residuals, double[] jacobian) {
+                throw new ObjectiveException("solver diverged");
+            }
+        };
+        FitResult r = Multistart.defaults().withStarts(5).run(ok.withObjective(always), null,
+                LocalTaskExecutor.ofThreads(2));
+        assertNull(r.bestTheta());
+        assertTrue(Double.isNaN(r.bestNll()));
+        assertEquals(5, r.failedCount());
+        assertEquals(0, r.startsNearBest());
+    }
+
+    @Test
+    void singleStartEntryPointMatchesTheRun() {
+        Multistart ms = Multistart.defaults().withStarts(6).withSeed(SEED);
+        FitResult all = ms.run(sine(), null, LocalTaskExecutor.sequential());
+        for (StartResult s : all.starts()) {
+            assertSameStarts(List.of(s), List.of(ms.runStart(sine(), null, s.index())));
+        }
+    }
+
+    @Test
+    void startPointsLieInTheBoxAndFixedValuesAreKept() {
+        FitProblem p = sine().withFixed(0, true);
+        for (StartSampling s : StartSampling.values()) {
+            double[][] pts = Multistart.defaults().withStarts(50).withSampling(s).startPoints(p,
+                    new double[] {1.25, 3});
+            assertEquals(1.25, pts[0][0], 0.0);
+            for (double[] x : pts) {
+                assertEquals(1.25, x[0], 0.0, "fixed parameter");
+                assertTrue(x[1] >= 0.1 && x[1] <= 10, "inside bounds: " + x[1]);
+            }
+        }
+    }
+
     static void assertSameStarts(List<StartResult> a, List<StartResult> b) {
         assertEquals(a.size(), b.size());
         for (int i = 0; i < a.size(); i++) {
