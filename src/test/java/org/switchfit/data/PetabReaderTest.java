@@ -115,15 +115,23 @@ class PetabReaderTest {
         replaceLine(f.resolve("measurements.tsv"), 3, "q_ob\tstarved\tfed\t1\t2.5\t\t\t\t");
         fails(f, "measurements.tsv, line 3", "observableId 'q_ob' is not in the observable table",
                 "did you mean 'q_obs'?", "add it there");
-        replaceLine(f.resolve("measurements.tsv"), 3, "q_obs\tstarve\tfed\t1\t2.5\t\t\t\t");
+        replaceLine(f.resolve("measurements.tsv"), 3, "q_obs\tstarve\tfed\t1\t2.5\t1;0\t0.1\t\t");
         fails(f, "line 3", "preequilibrationConditionId 'starve' is not in the condition table",
                 "did you mean 'starved'?");
-        replaceLine(f.resolve("measurements.tsv"), 3, "q_obs\t\tfeed\t1\t2.5\t\t\t\t");
+        replaceLine(f.resolve("measurements.tsv"), 3, "q_obs\t\tfeed\t1\t2.5\t1;0\t0.1\t\t");
         fails(f, "line 3", "simulationConditionId 'feed'", "add the condition");
         replaceLine(f.resolve("measurements.tsv"), 3, "q_obs\t\tfed\t1\t2.5\t1;2 x\t\t\t");
         fails(f, "line 3, column 6", "'2 x' is neither a number nor a parameter id", "separated by ';'");
         replaceLine(f.resolve("measurements.tsv"), 3, "q_obs\t\tfed\t1\t-inf\t\t\t\t");
         fails(f, "line 3, column 5", "time '-inf' is not allowed", "inf for a steady-state");
+        // PEtab v1: one override per observableParameterN_<id> / noiseParameterN_<id> placeholder.
+        replaceLine(f.resolve("measurements.tsv"), 3, "q_obs\t\tfed\t1\t2.5\tscale_q\t0.02\t\t");
+        fails(f, "measurements.tsv, line 3", "'observableParameters' gives 1 value(s) but observable 'q_obs' has 2",
+                "one value per placeholder");
+        replaceLine(f.resolve("measurements.tsv"), 3, "q_obs\t\tfed\t1\t2.5\tscale_q;1\t\t\t");
+        fails(f, "line 3", "'noiseParameters' gives 0 value(s) but observable 'q_obs' has 1");
+        replaceLine(f.resolve("measurements.tsv"), 3, "p_log\t\tfed\t1\t2.5\t\t0.3\t\t");
+        fails(f, "line 3", "'noiseParameters' gives 1 value(s) but observable 'p_log' has 0");
     }
 
     @Test
