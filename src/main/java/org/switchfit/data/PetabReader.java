@@ -335,16 +335,44 @@ public final class PetabReader {
         conditions.forEach(c -> conditionIds.add(c.id()));
         Set<String> observableIds = new java.util.HashSet<>();
         observables.forEach(o -> observableIds.add(o.id()));
+        Map<String, int[]> placeholders = new HashMap<>();
+        for (PetabObservable o : observables) {
+            placeholders.put(o.id(), new int[] {placeholderCount(o.formula(), "observableParameter", o.id()),
+                placeholderCount(o.noiseFormula(), "noiseParameter", o.id())});
+        }
         for (PetabMeasurement m : measurements) {
             if (!observableIds.contains(m.observableId())) {
                 throw UserInputException.of(m.location(), "observableId '%s' is not in the observable table%s;"
                         + " add it there or correct the name", m.observableId(),
                         Spelling.didYouMean(m.observableId(), observableIds));
             }
+            int[] counts = placeholders.get(m.observableId());
+            checkOverrideCount(m, "observableParameters", "observableParameter", m.observableParameters().size(),
+                    counts[0]);
+            checkOverrideCount(m, "noiseParameters", "noiseParameter", m.noiseParameters().size(), counts[1]);
             checkCondition(m.simulationConditionId(), "simulationConditionId", m, conditionIds);
             if (m.preequilibrationConditionId() != null) {
                 checkCondition(m.preequilibrationConditionId(), "preequilibrationConditionId", m, conditionIds);
             }
+        }
+    }
+
+    /** Highest N among placeholders {@code <kind>N_<observableId>} in the formula (PEtab v1 naming), or 0. */
+    static int placeholderCount(String formula, String kind, String observableId) {
+        java.util.regex.Matcher mt = java.util.regex.Pattern.compile("\\b" + kind + "(\\d+)_"
+                + java.util.regex.Pattern.quote(observableId) + "\\b").matcher(formula);
+        int max = 0;
+        while (mt.find()) {
+            max = Math.max(max, Integer.parseInt(mt.group(1)));
+        }
+        return max;
+    }
+
+    private static void checkOverrideCount(PetabMeasurement m, String column, String kind, int given, int expected) {
+        if (given != expected) {
+            throw UserInputException.of(m.location(), "column '%s' gives %d value(s) but observable '%s' has %d"
+                    + " placeholder(s) %s1_%s..; give exactly one value per placeholder, separated by ';'", column,
+                    given, m.observableId(), expected, kind, m.observableId());
         }
     }
 

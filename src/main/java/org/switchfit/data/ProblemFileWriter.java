@@ -2,6 +2,7 @@ package org.switchfit.data;
 
 import java.nio.file.Path;
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
@@ -45,7 +46,7 @@ public final class ProblemFileWriter {
             Path f = dir.resolve(stem + "-timecourses.csv");
             List<List<?>> rows = new ArrayList<>();
             for (TimecoursePoint p : problem.timecourses()) {
-                rows.add(List.of(p.experiment(), p.observable(), p.time(), p.value(), sigmaField(p.sigma())));
+                rows.add(Arrays.asList(p.experiment(), p.observable(), p.time(), p.value(), sigmaField(p.sigma())));
             }
             AtomicFiles.writeString(f, DelimitedWriter.format(DataTableReader.TIMECOURSE_COLUMNS, rows, ','));
             written.add(f);
@@ -53,7 +54,7 @@ public final class ProblemFileWriter {
         }
         Map<String, List<List<?>>> byControl = new LinkedHashMap<>();
         for (DoseResponsePoint p : problem.doseResponses()) {
-            byControl.computeIfAbsent(p.control(), k -> new ArrayList<>()).add(List.of(p.experiment(),
+            byControl.computeIfAbsent(p.control(), k -> new ArrayList<>()).add(Arrays.asList(p.experiment(),
                     p.observable(), p.dose(), p.value(), sigmaField(p.sigma()),
                     p.history() == DoseResponsePoint.History.LOW ? "low" : "high"));
         }

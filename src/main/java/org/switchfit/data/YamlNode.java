@@ -38,15 +38,14 @@ final class YamlNode {
     private final Map<String, Integer> keyLines;
     private final List<YamlNode> list;
     private final String text;
-    private final JsonToken token;
 
     private YamlNode(String source, Kind kind, JsonLocation loc, String path, Map<String, YamlNode> map,
-            List<YamlNode> list, String text, JsonToken token) {
-        this(source, kind, loc, path, map, null, list, text, token);
+            List<YamlNode> list, String text) {
+        this(source, kind, loc, path, map, null, list, text);
     }
 
     private YamlNode(String source, Kind kind, JsonLocation loc, String path, Map<String, YamlNode> map,
-            Map<String, Integer> keyLines, List<YamlNode> list, String text, JsonToken token) {
+            Map<String, Integer> keyLines, List<YamlNode> list, String text) {
         this.source = source;
         this.keyLines = keyLines;
         this.kind = kind;
@@ -56,7 +55,6 @@ final class YamlNode {
         this.map = map;
         this.list = list;
         this.text = text;
-        this.token = token;
     }
 
     /** Parses a whole YAML document; an empty document gives a NULL node. */
@@ -64,7 +62,7 @@ final class YamlNode {
         try (Reader r = new StringReader(content); JsonParser p = FACTORY.createParser(r)) {
             JsonToken t = p.nextToken();
             if (t == null) {
-                return new YamlNode(source, Kind.NULL, null, "", null, null, null, null);
+                return new YamlNode(source, Kind.NULL, null, "", null, null, null);
             }
             return read(p, source, "");
         } catch (JsonProcessingException e) {
@@ -96,7 +94,7 @@ final class YamlNode {
                 m.put(key, child);
                 lines.put(key, keyLoc.getLineNr());
             }
-            return new YamlNode(source, Kind.MAP, loc, path, Collections.unmodifiableMap(m), lines, null, null, t);
+            return new YamlNode(source, Kind.MAP, loc, path, Collections.unmodifiableMap(m), lines, null, null);
         }
         if (t == JsonToken.START_ARRAY) {
             List<YamlNode> l = new ArrayList<>();
@@ -105,12 +103,12 @@ final class YamlNode {
                 l.add(read(p, source, path + "[" + i + "]"));
                 i++;
             }
-            return new YamlNode(source, Kind.LIST, loc, path, null, Collections.unmodifiableList(l), null, t);
+            return new YamlNode(source, Kind.LIST, loc, path, null, Collections.unmodifiableList(l), null);
         }
         if (t == JsonToken.VALUE_NULL) {
-            return new YamlNode(source, Kind.NULL, loc, path, null, null, null, t);
+            return new YamlNode(source, Kind.NULL, loc, path, null, null, null);
         }
-        return new YamlNode(source, Kind.SCALAR, loc, path, null, null, p.getText(), t);
+        return new YamlNode(source, Kind.SCALAR, loc, path, null, null, p.getText());
     }
 
     Kind kind() {
