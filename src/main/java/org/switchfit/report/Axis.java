@@ -5,7 +5,7 @@ package org.switchfit.report;
  * {@code withX} methods return changed copies.
  *
  * <p>With no fixed range the axis spans the data of all series, widened outwards to nice ticks (see
- * {@link Ticks}). On a log10 axis non-positive values cannot be drawn and are treated like NaN (gaps).
+ * {@link Ticks#linearTight} and {@link Ticks#log10}). On a log10 axis non-positive values cannot be drawn and are treated like NaN (gaps).
  */
 public final class Axis {
     /** Axis scale. */
@@ -94,7 +94,7 @@ public final class Axis {
             return scale == Scale.LOG10 ? Ticks.log10(1, 10, tickTarget) : Ticks.linear(0, 1, tickTarget);
         }
         return scale == Scale.LOG10 ? Ticks.log10(dataMin, dataMax, tickTarget)
-                : Ticks.linear(dataMin, dataMax, tickTarget);
+                : Ticks.linearTight(dataMin, dataMax, tickTarget);
     }
 
     private double[] inside(double[] v) {

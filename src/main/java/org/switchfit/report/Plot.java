@@ -11,6 +11,8 @@ import java.util.List;
 public final class Plot {
     /** Where the legend box goes, inside the plot area. */
     public enum Legend {
+        /** The corner where the box hides the least of what is drawn (default). */
+        AUTO,
         /** Top right corner. */
         TOP_RIGHT,
         /** Top left corner. */
@@ -27,7 +29,7 @@ public final class Plot {
     private final Axis x;
     private final Axis y;
     private final List<Series> series = new ArrayList<>();
-    private Legend legend = Legend.TOP_RIGHT;
+    private Legend legend = Legend.AUTO;
 
     /**
      * @param title panel title (may be empty)

@@ -13,6 +13,8 @@ final class SvgRenderer {
     private static final double FONT = 12;
     private static final double SMALL = 11;
     private static final double CHAR_EM = 0.6;
+    /** Average advance of mixed-case text, em (DejaVu Sans lower case is about 0.55 em; common practice). */
+    private static final double LEGEND_EM = 0.56;
     private static final String INK = "#222222";
     private static final String GRID = "#E6E6E6";
     private static final String FONTS = "DejaVu Sans, Liberation Sans, Arial, Helvetica, sans-serif";
@@ -102,6 +104,7 @@ final class SvgRenderer {
         private final double pw;
         private final double ph;
         private final String[] colors;
+        private final Occupancy occ;
 
         Panel(Plot plot, int index) {
             this.plot = plot;
@@ -123,6 +126,7 @@ final class SvgRenderer {
             double bottom = 12 + SMALL + 6 + (plot.x().label().isEmpty() ? 0 : FONT + 8) + 4;
             pw = Math.max(40, fig.panelWidth() - left - 18);
             ph = Math.max(40, fig.panelHeight() - top - bottom);
+            occ = new Occupancy(left, top, pw, ph);
             colors = new String[plot.series().size()];
             int auto = 0;
             for (int i = 0; i < colors.length; i++) {
@@ -300,6 +304,7 @@ final class SvgRenderer {
         }
 
         private void series(Series s, String color) {
+            occ.weight(s instanceof Series.Points || s instanceof Series.Note ? 8 : 1);
             sb.append("<g data-series=\"").append(Svg.esc(s.label())).append("\">");
             if (s instanceof Series.Band b) {
                 band(b, color);
@@ -308,6 +313,7 @@ final class SvgRenderer {
             } else if (s instanceof Series.Line l) {
                 polyline(l.x(), l.y(), color, l.width(), l.dash());
                 if (l.marker() != Series.Marker.NONE) {
+                    occ.weight(3);
                     markers(l.x(), l.y(), l.marker(), 3 + 2 * l.width(), color, true);
                 }
             } else if (s instanceof Series.Points p) {
@@ -332,6 +338,8 @@ final class SvgRenderer {
         private void polyline(double[] x, double[] y, String color, double width, Series.Dash dash) {
             StringBuilder d = new StringBuilder();
             boolean pen = false;
+            double pa = 0;
+            double pb = 0;
             for (int i = 0; i < x.length; i++) {
                 double a = px(x[i]);
                 double b = py(y[i]);
@@ -339,6 +347,13 @@ final class SvgRenderer {
                     pen = false;
                     continue;
                 }
+                if (pen) {
+                    occ.segment(pa, pb, a, b);
+                } else {
+                    occ.point(a, b);
+                }
+                pa = a;
+                pb = b;
                 d.append(pen ? 'L' : 'M');
                 Svg.num(d, a).append(' ');
                 Svg.num(d, b);
@@ -364,6 +379,16 @@ final class SvgRenderer {
                     i++;
                 }
                 if (i - start >= 2) {
+                    int m = i - start;
+                    double[] rx = new double[2 * m];
+                    double[] ry = new double[2 * m];
+                    for (int k = 0; k < m; k++) {
+                        rx[k] = px(x[start + k]);
+                        ry[k] = py(hi[start + k]);
+                        rx[2 * m - 1 - k] = rx[k];
+                        ry[2 * m - 1 - k] = py(lo[start + k]);
+                    }
+                    ring(rx, ry);
                     for (int k = start; k < i; k++) {
                         d.append(k == start ? 'M' : 'L');
                         Svg.num(d, px(x[k])).append(' ');
@@ -384,6 +409,33 @@ final class SvgRenderer {
             }
         }
 
+        private double[][] pixels(double[] x, double[] y, int from, int to) {
+            double[][] r = new double[2][to - from];
+            for (int i = from; i < to; i++) {
+                r[0][i - from] = px(x[i]);
+                r[1][i - from] = py(y[i]);
+            }
+            return r;
+        }
+
+        private void ring(double[] rx, double[] ry) {
+            occ.fill(new double[][] {rx}, new double[][] {ry});
+            outline(rx, ry);
+        }
+
+        private void outline(double[] rx, double[] ry) {
+            for (int k = 0; k < rx.length; k++) {
+                int j = (k + 1) % rx.length;
+                occ.segment(rx[k], ry[k], rx[j], ry[j]);
+            }
+        }
+
+        private void box(double x, double y, double w, double h) {
+            for (double yy = y; yy <= y + h; yy += Occupancy.CELL / 2) {
+                occ.segment(x, yy, x + w, yy);
+            }
+        }
+
         private boolean ok(double x, double lo, double hi) {
             return plot.x().drawable(x) && plot.y().drawable(lo) && plot.y().drawable(hi);
         }
@@ -393,20 +445,34 @@ final class SvgRenderer {
             double[] y = a.y();
             StringBuilder d = new StringBuilder();
             boolean pen = false;
+            List<double[][]> rings = new ArrayList<>();
+            int ringStart = 0;
             for (int i = 0; i <= x.length; i++) {
                 boolean good = i < x.length && !Double.isNaN(px(x[i])) && !Double.isNaN(py(y[i]));
                 if (!good) {
                     if (pen) {
                         d.append('Z');
+                        rings.add(pixels(x, y, ringStart, i));
                     }
                     pen = false;
                     continue;
+                }
+                if (!pen) {
+                    ringStart = i;
                 }
                 d.append(pen ? 'L' : 'M');
                 Svg.num(d, px(x[i])).append(' ');
                 Svg.num(d, py(y[i]));
                 pen = true;
             }
+            double[][] rxs = new double[rings.size()][];
+            double[][] rys = new double[rings.size()][];
+            for (int r = 0; r < rxs.length; r++) {
+                rxs[r] = rings.get(r)[0];
+                rys[r] = rings.get(r)[1];
+                outline(rxs[r], rys[r]);
+            }
+            occ.fill(rxs, rys);
             if (d.length() > 0) {
                 sb.append("<path d=\"").append(d).append("\" fill=\"").append(color).append("\" fill-opacity=\"")
                         .append(a.opacity()).append("\" fill-rule=\"evenodd\" stroke=\"")
@@ -426,6 +492,7 @@ final class SvgRenderer {
                     double b1 = py(lo[i]);
                     double b2 = py(hi[i]);
                     if (!Double.isNaN(a) && !Double.isNaN(b1) && !Double.isNaN(b2)) {
+                        occ.segment(a, b1, a, b2);
                         line(a, b1, a, b2);
                         line(a - 3, b1, a + 3, b1);
                         line(a - 3, b2, a + 3, b2);
@@ -440,6 +507,7 @@ final class SvgRenderer {
                     double a1 = px(lo[i]);
                     double a2 = px(hi[i]);
                     if (!Double.isNaN(b) && !Double.isNaN(a1) && !Double.isNaN(a2)) {
+                        occ.segment(a1, b, a2, b);
                         line(a1, b, a2, b);
                         line(a1, b - 3, a1, b + 3);
                         line(a2, b - 3, a2, b + 3);
@@ -461,6 +529,7 @@ final class SvgRenderer {
                 double a = px(x[i]);
                 double b = py(y[i]);
                 if (!Double.isNaN(a) && !Double.isNaN(b)) {
+                    box(a - size / 2, b - size / 2, size, size);
                     marker(sb, m, a, b, size);
                 }
             }
@@ -476,17 +545,23 @@ final class SvgRenderer {
             sb.append("<g stroke=\"").append(color).append("\" stroke-width=\"1.3\"").append(dashAttr(r.dash()))
                     .append('>');
             if (r.vertical()) {
+                occ.segment(v, top, v, top + ph);
                 line(v, top, v, top + ph);
             } else {
+                occ.segment(left, v, left + pw, v);
                 line(left, v, left + pw, v);
             }
             sb.append("</g>");
             if (r.label() != null && !r.label().isEmpty()) {
+                occ.weight(8);
                 sb.append("<text x=\"");
+                double tw = r.label().length() * CHAR_EM * SMALL;
                 if (r.vertical()) {
+                    box(v + 4, top + 2, tw, SMALL + 2);
                     Svg.num(sb, v + 4).append("\" y=\"");
                     Svg.num(sb, top + SMALL + 3).append("\"");
                 } else {
+                    box(left + pw - 4 - tw, v - 4 - SMALL, tw, SMALL + 2);
                     Svg.num(sb, left + pw - 4).append("\" y=\"");
                     Svg.num(sb, v - 4).append("\" text-anchor=\"end\"");
                 }
@@ -501,10 +576,19 @@ final class SvgRenderer {
             if (Double.isNaN(a) || Double.isNaN(b) || t.label() == null) {
                 return;
             }
+            box(a, b - SMALL, t.label().length() * CHAR_EM * SMALL, SMALL + 2);
             sb.append("<text x=\"");
             Svg.num(sb, a).append("\" y=\"");
             Svg.num(sb, b).append("\" font-size=\"").append((int) SMALL).append("\" fill=\"").append(color)
                     .append('"').append(HALO).append('>').append(Svg.esc(t.label())).append("</text>");
+        }
+
+        private double legendX(Plot.Legend c, double bw) {
+            return c == Plot.Legend.TOP_RIGHT || c == Plot.Legend.BOTTOM_RIGHT ? left + pw - 8 - bw : left + 8;
+        }
+
+        private double legendY(Plot.Legend c, double bh) {
+            return c == Plot.Legend.TOP_RIGHT || c == Plot.Legend.TOP_LEFT ? top + 8 : top + ph - 8 - bh;
         }
 
         private void legend() {
@@ -519,7 +603,7 @@ final class SvgRenderer {
                 if (s.label() != null && !s.label().isEmpty() && !(s instanceof Series.RefLine)
                         && !(s instanceof Series.Note)) {
                     entries.add(i);
-                    textW = Math.max(textW, s.label().length() * CHAR_EM * SMALL);
+                    textW = Math.max(textW, s.label().length() * LEGEND_EM * SMALL);
                 }
             }
             if (entries.isEmpty()) {
@@ -528,10 +612,29 @@ final class SvgRenderer {
             double rowH = SMALL + 7;
             double bw = 8 + 26 + 6 + textW + 8;
             double bh = entries.size() * rowH + 8;
-            boolean right = plot.legend() == Plot.Legend.TOP_RIGHT || plot.legend() == Plot.Legend.BOTTOM_RIGHT;
-            boolean upper = plot.legend() == Plot.Legend.TOP_RIGHT || plot.legend() == Plot.Legend.TOP_LEFT;
-            double bx = right ? left + pw - 8 - bw : left + 8;
-            double by = upper ? top + 8 : top + ph - 8 - bh;
+            double bx;
+            double by;
+            if (plot.legend() == Plot.Legend.AUTO) {
+                // Candidate anchors as fractions of the free space (x: 1 right, 0 left; y: 0 top, 1 bottom), in
+                // order of preference; the first one hiding the fewest occupied cells wins.
+                double[][] anchors = {{1, 0}, {0, 0}, {1, 1}, {0, 1}, {0.5, 0}, {0.5, 1}, {1, 0.5}, {0, 0.5}};
+                int best = Integer.MAX_VALUE;
+                bx = left + 8;
+                by = top + 8;
+                for (double[] a : anchors) {
+                    double cx = left + 8 + a[0] * Math.max(0, pw - 16 - bw);
+                    double cy = top + 8 + a[1] * Math.max(0, ph - 16 - bh);
+                    int hidden = occ.count(cx, cy, bw, bh);
+                    if (hidden < best) {
+                        best = hidden;
+                        bx = cx;
+                        by = cy;
+                    }
+                }
+            } else {
+                bx = legendX(plot.legend(), bw);
+                by = legendY(plot.legend(), bh);
+            }
             sb.append("<g data-legend=\"").append(index).append("\"><rect x=\"");
             Svg.num(sb, bx).append("\" y=\"");
             Svg.num(sb, by).append("\" width=\"");

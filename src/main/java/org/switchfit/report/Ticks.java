@@ -102,6 +102,34 @@ public record Ticks(double lo, double hi, double step, int fractionDigits, doubl
     }
 
     /**
+     * Linear ticks that waste the least axis length: Heckbert's loose labeling ({@link #linear}) run with tick
+     * targets {@code targetCount - 1 .. targetCount + 2}, keeping results with at most {@code targetCount + 3}
+     * ticks, choosing the narrowest axis (ties: tick count nearest the target, then the smaller target). Each
+     * candidate is a plain Heckbert result; only the choice among them is ours.
+     *
+     * @param min         lower end of the data, finite
+     * @param max         upper end of the data, finite, at least min
+     * @param targetCount desired number of ticks, at least 2
+     * @return the chosen ticks
+     */
+    public static Ticks linearTight(double min, double max, int targetCount) {
+        Ticks best = linear(min, max, targetCount);
+        for (int n = Math.max(2, targetCount - 1); n <= targetCount + 2; n++) {
+            Ticks t = linear(min, max, n);
+            if (t.major.length > targetCount + 3) {
+                continue;
+            }
+            double span = t.hi - t.lo;
+            double bestSpan = best.hi - best.lo;
+            if (span < bestSpan || (span == bestSpan && Math.abs(t.major.length - targetCount)
+                    < Math.abs(best.major.length - targetCount))) {
+                best = t;
+            }
+        }
+        return best;
+    }
+
+    /**
      * Log10 ticks for positive data in [min, max]: the axis runs from the power of ten at or below min to the power
      * of ten at or above max (widened by one decade on each side when min == max is itself a power of ten). Major
      * ticks are at every k-th decade, k = 1 while there are at most {@code targetCount} decades, else a nice

@@ -116,7 +116,7 @@ final class SampleReport {
             idx[i] = i + 1;
         }
         Plot p = new Plot("Multistart waterfall (50 starts, 1 failed)", Axis.linear("start (sorted by final NLL)"),
-                Axis.linear("final NLL")).legend(Plot.Legend.TOP_LEFT);
+                Axis.linear("final NLL"));
         p.add(Series.line("final NLL", idx, nll).marker(Series.Marker.CIRCLE).width(1.2));
         p.add(Series.horizontal("best + 1.92 (95 %, 1 df)", -123.456 + 1.92));
         return Figure.of("waterfall", "Multistart waterfall").add(p).panelSize(720, 340);
@@ -163,8 +163,7 @@ final class SampleReport {
         for (int k = 0; k < 3; k++) {
             pp[k] = Arrays.stream(part[k]).map(v -> v * v * v - 3 * v).toArray();
         }
-        Plot p = new Plot("Steady states", Axis.linear("inducer p"), Axis.linear("steady-state x"))
-                .legend(Plot.Legend.TOP_LEFT);
+        Plot p = new Plot("Steady states", Axis.linear("inducer p"), Axis.linear("steady-state x"));
         p.add(Series.line("stable", pp[0], part[0]).color(Palette.BLUE));
         p.add(Series.line("unstable", pp[1], part[1]).color(Palette.BLUE).dashed());
         p.add(Series.line(null, pp[2], part[2]).color(Palette.BLUE));
@@ -189,8 +188,7 @@ final class SampleReport {
             px[2 * n - 1 - i] = a[i];
             py[2 * n - 1 - i] = -w;
         }
-        Plot p = new Plot("Region of bistability", Axis.linear("cooperativity a"), Axis.linear("inducer p"))
-                .legend(Plot.Legend.TOP_LEFT);
+        Plot p = new Plot("Region of bistability", Axis.linear("cooperativity a"), Axis.linear("inducer p"));
         p.add(Series.area("bistable", px, py).color(Palette.ORANGE));
         p.add(Series.points("measured hysteresis", new double[] {2.2, 1.0}, new double[] {0.5, 1.5})
                 .color(Palette.BLACK).marker(Series.Marker.TRIANGLE));
@@ -207,8 +205,7 @@ final class SampleReport {
             xu[i] = pu[i] < 2 ? lowerBranch(pu[i]) : upperBranch(pu[i]);
             xd[i] = pd[i] > -2 ? upperBranch(pd[i]) : lowerBranch(pd[i]);
         }
-        Plot p = new Plot("Hysteresis sweep", Axis.linear("inducer p"), Axis.linear("x at end of step"))
-                .legend(Plot.Legend.TOP_LEFT);
+        Plot p = new Plot("Hysteresis sweep", Axis.linear("inducer p"), Axis.linear("x at end of step"));
         p.add(Series.line("up sweep", pu, xu).marker(Series.Marker.TRIANGLE).width(1.2));
         p.add(Series.line("down sweep", pd, xd).marker(Series.Marker.CIRCLE).width(1.2).dashed());
         p.add(Series.vertical("jump up", 2));
@@ -239,7 +236,7 @@ final class SampleReport {
             vNull[i] = alpha / (1 + g[i] * g[i] * g[i]);
         }
         Plot p = new Plot("Phase plane (toggle switch)", Axis.linear("repressor U"), Axis.linear("repressor V")
-                .withRange(0, 4.5)).legend(Plot.Legend.TOP_RIGHT);
+                .withRange(0, 4.5));
         p.add(Series.line("dU/dt = 0", uNull, g).color(Palette.BLUE).width(2.2));
         p.add(Series.line("dV/dt = 0", g, vNull).color(Palette.VERMILLION).width(2.2));
         double[][] starts = {{0.2, 0.5}, {0.5, 0.2}, {4.2, 4.0}, {3.8, 4.3}, {1.0, 3.5}, {3.5, 1.0}};
