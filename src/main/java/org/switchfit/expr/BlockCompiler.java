@@ -35,11 +35,19 @@ public final class BlockCompiler {
      * @throws IllegalStateException when Janino rejects the generated source (a bug)
      */
     public static List<CompiledBlock> compileAll(List<Block> blocks) {
+        return compileAll(blocks, null);
+    }
+
+    /**
+     * Compiles several blocks; {@code positions.get(b)}, when not null, maps output k of block b to the array slot
+     * it is written to ({@code out[positions[k]]}), for scattering sparse derivatives into dense arrays.
+     */
+    public static List<CompiledBlock> compileAll(List<Block> blocks, List<int[]> positions) {
         String outer = "SwitchfitGen" + COUNTER.incrementAndGet();
         StringBuilder src = new StringBuilder();
         src.append("public final class ").append(outer).append(" {\n");
         for (int b = 0; b < blocks.size(); b++) {
-            appendBlockClass(src, "B" + b, blocks.get(b));
+            appendBlockClass(src, "B" + b, blocks.get(b), positions == null ? null : positions.get(b));
         }
         src.append("}\n");
         SimpleCompiler sc = new SimpleCompiler();
@@ -62,11 +70,11 @@ public final class BlockCompiler {
     /** Java source of one block as a static nested class (visible for tests and debugging). */
     public static String source(Block block) {
         StringBuilder sb = new StringBuilder();
-        appendBlockClass(sb, "B", block);
+        appendBlockClass(sb, "B", block, null);
         return sb.toString();
     }
 
-    private static void appendBlockClass(StringBuilder sb, String name, Block block) {
+    private static void appendBlockClass(StringBuilder sb, String name, Block block, int[] pos) {
         sb.append("public static final class ").append(name)
                 .append(" implements org.switchfit.expr.CompiledBlock {\n");
         sb.append("public void eval(double t, double[] y, double[] p, double[] out) {\n");
@@ -78,7 +86,7 @@ public final class BlockCompiler {
                 sb.append(";\n");
             }
             for (int k = 0; k < block.outputCount(); k++) {
-                sb.append("out[").append(k).append("] = ");
+                sb.append("out[").append(pos == null ? k : pos[k]).append("] = ");
                 g.expr(sb, block.output(k));
                 sb.append(";\n");
             }
@@ -103,7 +111,8 @@ public final class BlockCompiler {
             if (s < block.localCount()) {
                 cur.append("w[").append(s).append("] = ");
             } else {
-                cur.append("out[").append(s - block.localCount()).append("] = ");
+                int k = s - block.localCount();
+                cur.append("out[").append(pos == null ? k : pos[k]).append("] = ");
             }
             g.expr(cur, e);
             cur.append(";\n");
