@@ -90,7 +90,8 @@ public final class HtmlReport {
     }
 
     /**
-     * Adds a figure with a caption (the figure title when caption is null); returns this.
+     * Adds a figure with a caption (the figure title when caption is null); returns this. The figure is rendered
+     * now, so later changes to it do not show.
      *
      * @throws IllegalArgumentException if a figure with the same id is already in the report
      */
