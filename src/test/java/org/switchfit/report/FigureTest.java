@@ -234,5 +234,10 @@ class FigureTest {
         Ticks lg = Ticks.log10(0.01, 100, 6);
         assertEquals("0.01", SvgRenderer.tickLabel(0.01, lg).base());
         assertEquals("100", SvgRenderer.tickLabel(100, lg).base());
+        // An axis reaching beyond 0.01..1000 writes every tick as a power, including 0.01 and 1.
+        Ticks wide = Ticks.log10(1e-4, 0.1, 6);
+        assertEquals("10", SvgRenderer.tickLabel(0.01, wide).base());
+        assertEquals("\u22122", SvgRenderer.tickLabel(0.01, wide).sup());
+        assertEquals("\u22121", SvgRenderer.tickLabel(0.1, wide).sup());
     }
 }
