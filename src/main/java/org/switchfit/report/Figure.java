@@ -1,8 +1,10 @@
 package org.switchfit.report;
 
+import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.Collections;
 import java.util.List;
+import org.switchfit.util.AtomicFiles;
 
 /**
  * A figure: one or more {@link Plot} panels in a grid, rendered to a self-contained SVG string. Fluent and mutable
@@ -117,6 +119,14 @@ public final class Figure {
                     .append(p.y().scale() == Axis.Scale.LOG10 ? ", log scale" : "").append(')');
         }
         return sb.toString();
+    }
+
+    /**
+     * Writes the figure as a standalone SVG file (XML prolog plus {@link #toSvg()}, UTF-8) atomically, creating
+     * parent directories.
+     */
+    public void writeSvg(Path file) {
+        AtomicFiles.writeString(file, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n" + toSvg());
     }
 
     /** Renders the figure as a standalone SVG document fragment (an {@code <svg>} element, no XML prolog). */

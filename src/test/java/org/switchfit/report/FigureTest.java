@@ -203,6 +203,19 @@ class FigureTest {
     }
 
     @Test
+    void writesStandaloneSvgFile(@org.junit.jupiter.api.io.TempDir java.nio.file.Path dir) throws Exception {
+        java.nio.file.Path f = dir.resolve("figs/a.svg");
+        Figure.of("a", "A \u00B5").add(new Plot("", Axis.linear("x"), Axis.linear("y"))).writeSvg(f);
+        javax.xml.parsers.DocumentBuilderFactory dbf = javax.xml.parsers.DocumentBuilderFactory.newInstance();
+        dbf.setNamespaceAware(true);
+        Document d = dbf.newDocumentBuilder().parse(f.toFile());
+        assertEquals("A \u00B5", all(d.getDocumentElement(), "title").get(0).getTextContent());
+        try (java.util.stream.Stream<java.nio.file.Path> s = java.nio.file.Files.list(f.getParent())) {
+            assertEquals(1, s.count(), "no temporary files left");
+        }
+    }
+
+    @Test
     void emptyPlotStillRenders() throws Exception {
         Document d = svg(Figure.of("empty", "").add(new Plot("", Axis.log10(""), Axis.linear(""))));
         assertEquals("svg", d.getDocumentElement().getLocalName());
