@@ -6,11 +6,16 @@ import static org.junit.jupiter.api.Assertions.assertNotNull;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import java.nio.file.Files;
+import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.HashSet;
 import java.util.List;
 import java.util.Set;
+import java.util.stream.Stream;
+import javax.xml.parsers.DocumentBuilderFactory;
 import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
 import org.w3c.dom.Document;
 import org.w3c.dom.Element;
 import org.w3c.dom.Node;
@@ -203,14 +208,14 @@ class FigureTest {
     }
 
     @Test
-    void writesStandaloneSvgFile(@org.junit.jupiter.api.io.TempDir java.nio.file.Path dir) throws Exception {
-        java.nio.file.Path f = dir.resolve("figs/a.svg");
+    void writesStandaloneSvgFile(@TempDir Path dir) throws Exception {
+        Path f = dir.resolve("figs/a.svg");
         Figure.of("a", "A \u00B5").add(new Plot("", Axis.linear("x"), Axis.linear("y"))).writeSvg(f);
-        javax.xml.parsers.DocumentBuilderFactory dbf = javax.xml.parsers.DocumentBuilderFactory.newInstance();
+        DocumentBuilderFactory dbf = DocumentBuilderFactory.newInstance();
         dbf.setNamespaceAware(true);
         Document d = dbf.newDocumentBuilder().parse(f.toFile());
         assertEquals("A \u00B5", all(d.getDocumentElement(), "title").get(0).getTextContent());
-        try (java.util.stream.Stream<java.nio.file.Path> s = java.nio.file.Files.list(f.getParent())) {
+        try (Stream<Path> s = Files.list(f.getParent())) {
             assertEquals(1, s.count(), "no temporary files left");
         }
     }
