@@ -22,6 +22,10 @@ const args = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '
   `--user-data-dir=${profile}`, '--remote-debugging-pipe', 'about:blank'];
 const child = spawn(chromium, args, { stdio: ['ignore', 'ignore', 'pipe', 'pipe', 'pipe'] });
 let browserLog = '';
+child.on('error', (e) => {
+  console.error(`render-report: could not start ${chromium}: ${e.message}`);
+  process.exit(2);
+});
 child.stderr.on('data', (d) => { browserLog += d; });
 
 const toBrowser = child.stdio[3];
@@ -150,6 +154,12 @@ try {
 } finally {
   clearTimeout(guard);
   try { await send('Browser.close'); } catch (e) { /* already gone */ }
-  setTimeout(() => child.kill('SIGKILL'), 2000).unref();
-  child.on('exit', () => { rmSync(profile, { recursive: true, force: true }); process.exit(code); });
+  process.exitCode = code;
+  const done = () => { rmSync(profile, { recursive: true, force: true }); process.exit(code); };
+  if (child.exitCode !== null || child.signalCode !== null) {
+    done();
+  } else {
+    setTimeout(() => child.kill('SIGKILL'), 2000).unref();
+    child.on('exit', done);
+  }
 }
