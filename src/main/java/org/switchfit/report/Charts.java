@@ -143,4 +143,55 @@ public final class Charts {
     public static Series.Points thresholds(String label, double[] p, double[] x, double[] sigma) {
         return Series.points(label, p, x).xSigma(sigma).marker(Series.Marker.SQUARE).color(Palette.GREEN);
     }
+
+    /**
+     * Data against a fitted trajectory: an optional prediction band, the fitted curve and the measurements with
+     * optional 1-sigma bars, all in one colour except the data (black).
+     *
+     * @param title  panel title
+     * @param tLabel time axis label (with unit)
+     * @param yLabel observable axis label (with unit)
+     * @param t      times of the fitted curve
+     * @param y      fitted curve
+     * @param lower  lower band edge at each t, or null for no band
+     * @param upper  upper band edge at each t, or null for no band
+     * @param tData  measurement times
+     * @param yData  measurements (NaN: missing)
+     * @param sigma  measurement standard deviations, or null for no bars
+     * @param color  colour of curve and band "#rrggbb"
+     * @return the panel
+     */
+    public static Plot timecourse(String title, String tLabel, String yLabel, double[] t, double[] y,
+                                  double[] lower, double[] upper, double[] tData, double[] yData, double[] sigma,
+                                  String color) {
+        Plot p = new Plot(title, Axis.linear(tLabel), Axis.linear(yLabel));
+        if (lower != null && upper != null) {
+            p.add(Series.band("prediction band", t, lower, upper).color(color));
+        }
+        p.add(Series.line("fit", t, y).color(color));
+        Series.Points d = Series.points("data", tData, yData).color(Palette.BLACK).size(6);
+        p.add(sigma == null ? d : d.ySigma(sigma));
+        return p;
+    }
+
+    /**
+     * A hysteresis sweep: the response after each step of an upward and a downward parameter sweep, with
+     * triangle and circle markers so the two directions stay apart in grey-scale print.
+     *
+     * @param pUp   parameter values of the upward sweep, in sweep order
+     * @param xUp   response at each upward step
+     * @param pDown parameter values of the downward sweep, in sweep order
+     * @param xDown response at each downward step
+     * @param pLabel parameter axis label
+     * @param xLabel response axis label
+     * @return the panel
+     */
+    public static Plot hysteresis(double[] pUp, double[] xUp, double[] pDown, double[] xDown, String pLabel,
+                                  String xLabel) {
+        Plot p = new Plot("Hysteresis sweep", Axis.linear(pLabel), Axis.linear(xLabel));
+        p.add(Series.line("up sweep", pUp, xUp).marker(Series.Marker.TRIANGLE).width(1.2).color(Palette.BLUE));
+        p.add(Series.line("down sweep", pDown, xDown).marker(Series.Marker.CIRCLE).width(1.2).dashed()
+                .color(Palette.VERMILLION));
+        return p;
+    }
 }

@@ -59,4 +59,20 @@ class ChartsTest {
         assertEquals(3, p.series().size());
         SampleReportTest.parse(Figure.of("p", "p").add(p).toSvg());
     }
+
+    @Test
+    void timecourseAndHysteresisPanels() throws Exception {
+        double[] t = {0, 1, 2};
+        Plot withBand = Charts.timecourse("GFP", "t [h]", "GFP", t, t, t, t, t, t, new double[] {1, 1, 1},
+                Palette.BLUE);
+        assertEquals(3, withBand.series().size());
+        Series.Points d = (Series.Points) withBand.series().get(2);
+        assertArrayEquals(new double[] {-1, 0, 1}, d.yLow(), "y - sigma");
+        Plot bare = Charts.timecourse("GFP", "t", "y", t, t, null, null, t, t, null, Palette.BLUE);
+        assertEquals(2, bare.series().size());
+        assertNull(((Series.Points) bare.series().get(1)).yLow());
+        Plot h = Charts.hysteresis(t, t, t, t, "p", "x");
+        assertEquals(Series.Dash.DASHED, ((Series.Line) h.series().get(1)).dash());
+        SampleReportTest.parse(Figure.of("h", "h").add(h).add(withBand).toSvg());
+    }
 }

@@ -194,9 +194,7 @@ final class SampleReport {
             xu[i] = pu[i] < 2 ? lowerBranch(pu[i]) : upperBranch(pu[i]);
             xd[i] = pd[i] > -2 ? upperBranch(pd[i]) : lowerBranch(pd[i]);
         }
-        Plot p = new Plot("Hysteresis sweep", Axis.linear("inducer p"), Axis.linear("x at end of step"));
-        p.add(Series.line("up sweep", pu, xu).marker(Series.Marker.TRIANGLE).width(1.2));
-        p.add(Series.line("down sweep", pd, xd).marker(Series.Marker.CIRCLE).width(1.2).dashed());
+        Plot p = Charts.hysteresis(pu, xu, pd, xd, "inducer p", "x at end of step");
         p.add(Series.vertical("jump up", 2));
         p.add(Series.vertical("jump down", -2));
         return Figure.of("hysteresis", "Hysteresis sweep").add(p).panelSize(520, 340);
