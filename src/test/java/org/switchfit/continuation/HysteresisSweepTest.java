@@ -62,4 +62,18 @@ class HysteresisSweepTest {
         assertTrue(errDown[1] > 0 && errDown[1] < errDown[0], java.util.Arrays.toString(errDown));
         assertTrue(errUp[1] < 0.01 && errDown[1] < 0.01);
     }
+
+    @Test
+    void projectBdfIntegratorGivesTheSameJumpAsTestRk4() {
+        // The sweep only needs the Integrator contract: the project's BDF at rtol 1e-10 and the test RK4 must find
+        // the same jump (delay 0.0199 at rate 1e-3, see above). 1e-4 absolute: the sample spacing in λ is 1e-4.
+        HysteresisSweep rk4 = new HysteresisSweep(new Rk4Integrator(0.01), 20001);
+        HysteresisSweep bdf = new HysteresisSweep(new org.switchfit.ode.bdf.BdfIntegrator(
+                org.switchfit.ode.SolverSettings.defaults().withTolerances(1e-10, 1e-12)), 20001);
+        double a = rk4.run(TestSystems.CUBIC, new double[] {-1.3}, new double[] {0, 1}, 0, -1, 1, 1e-3,
+                new double[] {1}).jumpParameter();
+        double b = bdf.run(TestSystems.CUBIC, new double[] {-1.3}, new double[] {0, 1}, 0, -1, 1, 1e-3,
+                new double[] {1}).jumpParameter();
+        assertEquals(a, b, 1e-4);
+    }
 }
