@@ -50,6 +50,9 @@ final class PredictionSlice implements Slice {
         solves++;
         double[] theta = warm.clone();
         double c = Double.NaN;
+        double bestViolation = Double.POSITIVE_INFINITY;
+        int sinceImprovement = 0;
+        double mu0 = mu;
         for (int outer = 0; outer < MAX_OUTER; outer++) {
             Augmented aug = new Augmented(problem.objective(), g, z, sigma, mu);
             LocalFit f = lm.minimize(problem.withObjective(aug), theta);
@@ -59,8 +62,20 @@ final class PredictionSlice implements Slice {
                 break;
             }
             mu += c / (sigma * sigma);
+            // Feasible problems shrink |c| by a roughly constant factor per update (linear convergence of the
+            // method of multipliers); no 10 % gain in 5 updates means z is out of reach inside the bounds.
+            if (Math.abs(c) < 0.9 * bestViolation) {
+                bestViolation = Math.abs(c);
+                sinceImprovement = 0;
+            } else if (++sinceImprovement >= 5) {
+                mu = mu0;
+                throw new InfeasibleValueException(String.format(Locale.ROOT,
+                        "prediction value %.10g is not reached inside the parameter bounds (closest %.10g)", z,
+                        z + c));
+            }
         }
         if (!(Math.abs(c) <= constraintTolerance)) {
+            mu = mu0;
             throw new ObjectiveException(String.format(Locale.ROOT,
                     "prediction constraint g = %.6g not met after %d multiplier updates (violation %.3g)", z,
                     MAX_OUTER, c));

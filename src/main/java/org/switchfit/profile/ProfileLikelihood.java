@@ -218,8 +218,7 @@ public final class ProfileLikelihood {
             target.fixSlope(slope0);
             Slice slice = target.slice(optimizer, sigmaZ, theta);
             double maxStep = target.maxStep(sigmaZ, theta);
-            double step0 = Double.isFinite(sigmaZ) ? Math.min(maxStep, sigmaZ * Math.sqrt(stepTarget))
-                    : 0.1 * maxStep;
+            double step0 = target.firstStep(sigmaZ * Math.sqrt(stepTarget), maxStep, theta);
             ProfilePoint p0 = new ProfilePoint(target.value(theta), nllStar, theta);
             ProfileTracer tracer = new ProfileTracer(slice, nllStar, stepTarget, stop, maxSteps, tolerance);
             ProfileTracer.Side lower;
@@ -341,6 +340,12 @@ public final class ProfileLikelihood {
 
         double maxStep(double sigmaZ, double[] theta);
 
+        /**
+         * First step from the curvature proposal (NaN when the curvature says nothing), floored so a locally flat
+         * start does not crawl (the step then doubles while Δχ² stays flat) and capped at maxStep.
+         */
+        double firstStep(double proposal, double maxStep, double[] theta);
+
         double toLinear(double v);
     }
 
@@ -388,10 +393,14 @@ public final class ProfileLikelihood {
         @Override
         public double maxStep(double sigmaZ, double[] theta) {
             double range = problem.upper(index) - problem.lower(index);
-            if (Double.isFinite(range)) {
-                return 0.1 * range;
-            }
-            return Double.isFinite(sigmaZ) ? 2 * sigmaZ : 1.0;
+            return Double.isFinite(range) ? 0.1 * range : Double.POSITIVE_INFINITY;
+        }
+
+        @Override
+        public double firstStep(double proposal, double maxStep, double[] theta) {
+            double floor = Double.isFinite(maxStep) ? 1e-4 * maxStep : 1e-4 * Math.max(1, Math.abs(theta[index]));
+            double s = Double.isFinite(proposal) ? Math.max(proposal, floor) : 100 * floor;
+            return Math.min(s, maxStep);
         }
 
         @Override
@@ -470,10 +479,15 @@ public final class ProfileLikelihood {
         @Override
         public double maxStep(double sigmaZ, double[] theta) {
             double range = upperLimit - lowerLimit;
-            if (Double.isFinite(range)) {
-                return 0.1 * range;
-            }
-            return Double.isFinite(sigmaZ) && sigmaZ > 0 ? 2 * sigmaZ : 0.1 * Math.max(1, Math.abs(value(theta)));
+            return Double.isFinite(range) ? 0.1 * range : Double.POSITIVE_INFINITY;
+        }
+
+        @Override
+        public double firstStep(double proposal, double maxStep, double[] theta) {
+            double floor = Double.isFinite(maxStep) ? 1e-4 * maxStep
+                    : 1e-6 * Math.max(1, Math.abs(value(theta)));
+            double s = Double.isFinite(proposal) ? Math.max(proposal, floor) : 1000 * floor;
+            return Math.min(s, maxStep);
         }
 
         @Override

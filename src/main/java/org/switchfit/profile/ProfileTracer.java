@@ -43,6 +43,7 @@ final class ProfileTracer {
 
     private static final double CROSSING_TOL = 1e-9;
     private static final int MAX_REFINE = 60;
+    private static final int MAX_INFEASIBLE_HALVINGS = 8;
 
     private final Slice slice;
     private final double nllStar;
@@ -71,12 +72,13 @@ final class ProfileTracer {
     Side trace(ProfilePoint p0, int dir, double step0, double maxStep, double[] slope0) {
         Side side = new Side();
         double limit = dir > 0 ? slice.upperLimit() : slice.lowerLimit();
-        double minStep = Math.max(1e-9 * maxStep, 1e-13 * (1 + Math.abs(p0.value())));
+        double minStep = Math.max(Math.min(1e-9 * maxStep, 1e-6 * step0), 1e-13 * (1 + Math.abs(p0.value())));
         double step = Math.min(step0, maxStep);
         ProfilePoint last = p0;
         double[] slope = slope0.clone();
         int accepted = 0;
         int attempts = 0;
+        int infeasible = 0;
         if (dir * (limit - p0.value()) <= 0) {
             side.status = SideStatus.OPEN_AT_BOUND;
             return side;
@@ -96,7 +98,18 @@ final class ProfileTracer {
             double[] warm = predict(last, slope, z);
             ProfilePoint p;
             try {
-                p = slice.solve(z, warm);
+                p = solveWithFallback(z, warm, last.theta());
+            } catch (InfeasibleValueException e) {
+                // The value is out of reach inside the parameter bounds: the reachable range ends between
+                // the last point and z. Approach it by at most MAX_INFEASIBLE_HALVINGS halvings in total, then
+                // report the side as bounded.
+                if (++infeasible <= MAX_INFEASIBLE_HALVINGS && step > minStep) {
+                    step = Math.max(minStep, step / 2);
+                    continue;
+                }
+                side.status = SideStatus.OPEN_AT_BOUND;
+                side.message = e.getMessage();
+                return side;
             } catch (ObjectiveException e) {
                 if (step > minStep) {
                     step = Math.max(minStep, step / 4);
@@ -200,6 +213,17 @@ final class ProfileTracer {
             pb = p;
         }
         return Math.abs(fa) < Math.abs(fb) ? za : zb;
+    }
+
+    /** Solves from the predicted warm start; when that start cannot be evaluated, retries from the last point. */
+    private ProfilePoint solveWithFallback(double z, double[] warm, double[] lastTheta) {
+        try {
+            return slice.solve(z, warm);
+        } catch (InfeasibleValueException e) {
+            throw e;
+        } catch (ObjectiveException e) {
+            return slice.solve(z, lastTheta);
+        }
     }
 
     private double root(ProfilePoint p) {
