@@ -196,6 +196,9 @@ final class ProfileTracer {
                 break;
             }
             extra.add(p);
+            // The slice may return a point at a value slightly off the request (prediction constraint met to
+            // its noise floor); its own value is the exact abscissa of its NLL.
+            z = p.value();
             double d = p.deltaChi2(nllStar);
             if (Math.abs(d - t) <= CROSSING_TOL) {
                 return z;
