@@ -10,11 +10,12 @@ import org.switchfit.objective.ObjectiveException;
  * parameters from a predicted warm start, until the likelihood ratio exceeds the largest threshold or a limit is
  * reached. Package-private; confined to one thread.
  *
- * <p>Step control: the first step is {@code σ_z √target} from the local curvature (σ_z the delta-method standard
- * error, so the first step raises Δχ² by about {@code target}); a step raising Δχ² by more than {@code target} is
- * halved and retried, one raising it by less than a quarter of it is doubled for the next step, capped at
- * {@code maxStep}. The warm start is the linear extrapolation of θ(z) through the last two points (for the first
- * step: the curvature predictor dθ/dz = H⁺e / (eᵀH⁺e)).
+ * <p>Step control works on the root {@code ρ = √max(Δχ², 0)}, which is linear in z for a quadratic profile: the
+ * first step is {@code σ_z · target} from the local curvature (σ_z the delta-method standard error, so ρ rises by
+ * about {@code target}); a step raising ρ by more than twice {@code target} is halved and retried, one raising it
+ * by less than half of it is doubled for the next step, capped at {@code maxStep}. The warm start is the linear
+ * extrapolation of θ(z) through the last two points (for the first step: the curvature predictor
+ * dθ/dz = H⁺e / (eᵀH⁺e)).
  *
  * <p>Crossings of a threshold t between two traced points are refined by the Illinois variant of regula falsi
  * (Dowell and Jarratt 1971, BIT 11:168-174, doi:10.1007/BF01934364) on {@code √Δχ²(z) - √t}, which is linear in z
@@ -123,8 +124,8 @@ final class ProfileTracer {
                 throw new BetterOptimumFound(p);
             }
             double d = p.deltaChi2(nllStar);
-            double inc = d - last.deltaChi2(nllStar);
-            if (inc > target && step > minStep && !(atLimit && step <= minStep)) {
+            double inc = root(p) - root(last);
+            if (inc > 2 * target && step > minStep) {
                 step = Math.max(minStep, step / 2);
                 continue;
             }
@@ -145,7 +146,7 @@ final class ProfileTracer {
                 side.status = SideStatus.OPEN_AT_BOUND;
                 return side;
             }
-            if (inc < 0.25 * target) {
+            if (inc < 0.5 * target) {
                 step = Math.min(maxStep, 2 * step);
             }
         }
