@@ -147,6 +147,33 @@ class ProfileRunTest {
         assertEquals(Double.POSITIVE_INFINITY, pg.pointwise().upper());
     }
 
+    @Test
+    void optimumOnABoundGivesASideOpenAtThatBound() {
+        // Straight line through exact data y = 1 + 2x with b <= 1.5: the optimum sits on b's upper bound
+        // (see BoundedLevenbergMarquardtTest), so b's profile is open there and closes below, and a's profile,
+        // re-optimising b under its bound, stays identifiable.
+        CurveObjective line = new CurveObjective(new double[] {0, 1, 2, 3, 4}, new double[] {1, 3, 5, 7, 9}, 0.5,
+                2, (x, b, g) -> {
+                    g[0] = 1;
+                    g[1] = x;
+                    return b[0] + b[1] * x;
+                });
+        FitProblem p = FitProblem.of(line, new String[] {"a", "b"}, new double[] {-10, -10},
+                new double[] {10, 1.5});
+        LocalFit fit = LevenbergMarquardt.defaults().minimize(p, new double[] {0, 0});
+        Profile pb = ProfileLikelihood.defaults().profileParameter(p, fit.theta(), 1);
+        assertEquals(SideStatus.OPEN_AT_BOUND, pb.upperSide());
+        assertEquals(SideStatus.CLOSED, pb.lowerSide());
+        assertEquals(Double.POSITIVE_INFINITY, pb.pointwise().upper());
+        assertEquals(Identifiability.PRACTICALLY_NONIDENTIFIABLE, pb.identifiability());
+        assertTrue(pb.pointwise().lower() < 1.5);
+        Profile pa = ProfileLikelihood.defaults().profileParameter(p, fit.theta(), 0);
+        assertEquals(Identifiability.IDENTIFIABLE, pa.identifiability());
+        for (ProfilePoint pt : pa.points()) {
+            assertTrue(pt.theta()[1] <= 1.5, "b respects its bound along a's profile");
+        }
+    }
+
     static void assertSameProfile(Profile a, Profile b) {
         assertEquals(a.name(), b.name());
         assertEquals(a.points().size(), b.points().size());
