@@ -1,0 +1,71 @@
+package org.switchfit.bench;
+
+import java.util.concurrent.TimeUnit;
+import org.openjdk.jmh.annotations.Benchmark;
+import org.openjdk.jmh.annotations.BenchmarkMode;
+import org.openjdk.jmh.annotations.Fork;
+import org.openjdk.jmh.annotations.Measurement;
+import org.openjdk.jmh.annotations.Mode;
+import org.openjdk.jmh.annotations.OutputTimeUnit;
+import org.openjdk.jmh.annotations.Param;
+import org.openjdk.jmh.annotations.Scope;
+import org.openjdk.jmh.annotations.Setup;
+import org.openjdk.jmh.annotations.State;
+import org.openjdk.jmh.annotations.Warmup;
+import org.switchfit.ode.IntegrationSession;
+import org.switchfit.ode.OdeSystem;
+import org.switchfit.ode.SolverSettings;
+import org.switchfit.ode.bdf.BdfIntegrator;
+
+/**
+ * Whole integrations with the BDF session: Robertson to t = 40 (with and without the 3 parameter sensitivities)
+ * and HIRES to t = 321.8122, at rtol 1e-8. Returns the final state so the work cannot be eliminated.
+ */
+@State(Scope.Thread)
+@BenchmarkMode(Mode.AverageTime)
+@OutputTimeUnit(TimeUnit.MICROSECONDS)
+@Warmup(iterations = 5, time = 1)
+@Measurement(iterations = 5, time = 1)
+@Fork(2)
+public class BdfBenchmark {
+
+    @Param({"robertson", "robertson-sens", "hires"})
+    public String problem;
+
+    private BdfIntegrator bdf;
+    private OdeSystem sys;
+    private double[] y0;
+    private double[] p;
+    private double tEnd;
+    private int[] sensParams;
+    private double[] y;
+    private double[] s;
+
+    @Setup
+    public void setUp() {
+        bdf = new BdfIntegrator(SolverSettings.defaults().withTolerances(1e-8, 1e-14));
+        switch (problem) {
+            case "hires":
+                sys = StiffProblems.HIRES;
+                y0 = new double[] {1, 0, 0, 0, 0, 0, 0, 0.0057};
+                p = new double[0];
+                tEnd = 321.8122;
+                break;
+            default:
+                sys = StiffProblems.ROBERTSON;
+                y0 = new double[] {1, 0, 0};
+                p = new double[] {0.04, 3e7, 1e4};
+                tEnd = 40.0;
+                sensParams = problem.endsWith("sens") ? new int[] {0, 1, 2} : null;
+        }
+        y = new double[y0.length];
+        s = sensParams == null ? null : new double[sensParams.length * y0.length];
+    }
+
+    @Benchmark
+    public double[] integrate() {
+        IntegrationSession session = bdf.start(sys, 0.0, y0, p, null, sensParams, null);
+        session.advance(tEnd, y, s);
+        return y;
+    }
+}

@@ -1,0 +1,111 @@
+package org.switchfit.bench;
+
+import org.switchfit.ode.OdeSystem;
+
+/** Classic stiff test problems with analytic Jacobians, for benchmarks. */
+final class StiffProblems {
+
+    private StiffProblems() {
+    }
+
+    /** Robertson (1966) kinetics; p = {0.04, 3e7, 1e4}, y0 = (1, 0, 0). */
+    static final OdeSystem ROBERTSON = new OdeSystem() {
+        public int stateCount() {
+            return 3;
+        }
+
+        public int parameterCount() {
+            return 3;
+        }
+
+        public void rhs(double t, double[] y, double[] p, double[] d) {
+            double r1 = p[0] * y[0];
+            double r2 = p[1] * y[1] * y[1];
+            double r3 = p[2] * y[1] * y[2];
+            d[0] = -r1 + r3;
+            d[1] = r1 - r2 - r3;
+            d[2] = r2;
+        }
+
+        public void jacobianY(double t, double[] y, double[] p, double[] j) {
+            j[0] = -p[0];
+            j[1] = p[2] * y[2];
+            j[2] = p[2] * y[1];
+            j[3] = p[0];
+            j[4] = -2 * p[1] * y[1] - p[2] * y[2];
+            j[5] = -p[2] * y[1];
+            j[6] = 0;
+            j[7] = 2 * p[1] * y[1];
+            j[8] = 0;
+        }
+
+        public void jacobianP(double t, double[] y, double[] p, double[] j) {
+            j[0] = -y[0];
+            j[1] = 0;
+            j[2] = y[1] * y[2];
+            j[3] = y[0];
+            j[4] = -y[1] * y[1];
+            j[5] = -y[1] * y[2];
+            j[6] = 0;
+            j[7] = y[1] * y[1];
+            j[8] = 0;
+        }
+    };
+
+    /**
+     * HIRES (Schaefer 1975, plant physiology; as in Hairer &amp; Wanner, Solving ODEs II, Sec. IV.10), 8 states, no
+     * parameters; y0 = (1, 0, 0, 0, 0, 0, 0, 0.0057), t in [0, 321.8122].
+     */
+    static final OdeSystem HIRES = new OdeSystem() {
+        public int stateCount() {
+            return 8;
+        }
+
+        public int parameterCount() {
+            return 0;
+        }
+
+        public void rhs(double t, double[] y, double[] p, double[] f) {
+            f[0] = -1.71 * y[0] + 0.43 * y[1] + 8.32 * y[2] + 0.0007;
+            f[1] = 1.71 * y[0] - 8.75 * y[1];
+            f[2] = -10.03 * y[2] + 0.43 * y[3] + 0.035 * y[4];
+            f[3] = 8.32 * y[1] + 1.71 * y[2] - 1.12 * y[3];
+            f[4] = -1.745 * y[4] + 0.43 * y[5] + 0.43 * y[6];
+            f[5] = -280.0 * y[5] * y[7] + 0.69 * y[3] + 1.71 * y[4] - 0.43 * y[5] + 0.69 * y[6];
+            f[6] = 280.0 * y[5] * y[7] - 1.81 * y[6];
+            f[7] = -f[6];
+        }
+
+        public void jacobianY(double t, double[] y, double[] p, double[] j) {
+            java.util.Arrays.fill(j, 0.0);
+            j[0] = -1.71;
+            j[1] = 0.43;
+            j[2] = 8.32;
+            j[8] = 1.71;
+            j[9] = -8.75;
+            j[18] = -10.03;
+            j[19] = 0.43;
+            j[20] = 0.035;
+            j[25] = 8.32;
+            j[26] = 1.71;
+            j[27] = -1.12;
+            j[36] = -1.745;
+            j[37] = 0.43;
+            j[38] = 0.43;
+            j[43] = 0.69;
+            j[44] = 1.71;
+            j[45] = -0.43 - 280.0 * y[7];
+            j[46] = 0.69;
+            j[47] = -280.0 * y[5];
+            j[53] = 280.0 * y[7];
+            j[54] = -1.81;
+            j[55] = 280.0 * y[5];
+            j[61] = -280.0 * y[7];
+            j[62] = 1.81;
+            j[63] = -280.0 * y[5];
+        }
+
+        public void jacobianP(double t, double[] y, double[] p, double[] j) {
+        }
+    };
+}

@@ -1,0 +1,484 @@
+package org.switchfit.profile;
+
+import java.util.ArrayList;
+import java.util.Collection;
+import java.util.Comparator;
+import java.util.HashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.concurrent.Callable;
+import org.hipparchus.distribution.continuous.ChiSquaredDistribution;
+import org.switchfit.fit.FitProblem;
+import org.switchfit.fit.LevenbergMarquardt;
+import org.switchfit.fit.LocalFit;
+import org.switchfit.fit.TaskExecutor;
+import org.switchfit.objective.Prediction;
+
+/**
+ * Profile likelihoods of parameters (Raue et al. 2009, "Structural and practical identifiability analysis of
+ * partially observed dynamical models by exploiting the profile likelihood", Bioinformatics 25(15):1923-1929,
+ * doi:10.1093/bioinformatics/btp358) and of predictions (Kreutz, Raue and Timmer 2012, "Likelihood based
+ * observability analysis and confidence intervals for predictions of dynamic models", BMC Syst Biol 6:120,
+ * doi:10.1186/1752-0509-6-120).
+ *
+ * <p>For each profiled quantity both directions are traced from the optimum ({@link ProfileTracer}), the other
+ * parameters re-optimised by the bounded {@link LevenbergMarquardt} with warm starts, until the likelihood ratio
+ * {@code 2 (nll - nll*)} exceeds the larger of the pointwise threshold (χ² quantile, 1 dof) and the simultaneous
+ * threshold (χ² quantile, #free-parameter dof), or a bound is hit. Interval ends are the refined crossings.
+ * If any profile point has an NLL below nll* by more than {@link #withBetterOptimumTolerance the tolerance}, the
+ * problem is re-fitted from there, the profile is flagged and restarted from the new optimum.
+ *
+ * <p>Classification: {@link Identifiability#STRUCTURALLY_NONIDENTIFIABLE} when no explored point rises above the
+ * flatness tolerance (default 1e-5 in Δχ² units) and no side closes. Justification of the default: the LM stops
+ * when the relative cost change is below 1e-14, so with costs up to 1e6 the re-optimised NLL is reproducible to
+ * about 1e-8; an exactly compensated direction therefore shows Δχ² ≲ 1e-7, while any data that carry information
+ * over a bounded range raise Δχ² far above 1e-5 (5 orders below the 95 % threshold 3.84). Objectives computed by
+ * ODE integration at a loose tolerance can need a larger value.
+ *
+ * <p>Immutable and thread-safe; {@code withX} returns changed copies.
+ */
+public final class ProfileLikelihood {
+
+    private final LevenbergMarquardt optimizer;
+    private final double level;
+    private final int maxSteps;
+    private final double stepFraction;
+    private final double flatTolerance;
+    private final double betterTolerance;
+    private final int maxRestarts;
+
+    private ProfileLikelihood(LevenbergMarquardt optimizer, double level, int maxSteps, double stepFraction,
+                              double flatTolerance, double betterTolerance, int maxRestarts) {
+        this.optimizer = optimizer;
+        this.level = level;
+        this.maxSteps = maxSteps;
+        this.stepFraction = stepFraction;
+        this.flatTolerance = flatTolerance;
+        this.betterTolerance = betterTolerance;
+        this.maxRestarts = maxRestarts;
+    }
+
+    /**
+     * Level 0.95; at most 100 accepted steps per side; target Δχ² increase per step 0.1 × the pointwise threshold
+     * (Raue et al. 2009 use a fraction q of the threshold, 0.1 here); flatness tolerance 1e-5 (Δχ²); better-optimum
+     * tolerance 1e-4 NLL units (moves interval ends by about 1e-4 standard errors, below plotting resolution, and
+     * well above the LM's convergence noise); at most 3 restarts.
+     */
+    public static ProfileLikelihood defaults() {
+        return new ProfileLikelihood(LevenbergMarquardt.defaults(), 0.95, 100, 0.1, 1e-5, 1e-4, 3);
+    }
+
+    public ProfileLikelihood withOptimizer(LevenbergMarquardt lm) {
+        return new ProfileLikelihood(lm, level, maxSteps, stepFraction, flatTolerance, betterTolerance,
+                maxRestarts);
+    }
+
+    /** Confidence level in (0, 1). */
+    public ProfileLikelihood withLevel(double newLevel) {
+        if (!(newLevel > 0 && newLevel < 1)) {
+            throw new IllegalArgumentException("level must be in (0, 1), got " + newLevel);
+        }
+        return new ProfileLikelihood(optimizer, newLevel, maxSteps, stepFraction, flatTolerance, betterTolerance,
+                maxRestarts);
+    }
+
+    public ProfileLikelihood withMaxSteps(int n) {
+        if (n < 1) {
+            throw new IllegalArgumentException("maxSteps must be >= 1, got " + n);
+        }
+        return new ProfileLikelihood(optimizer, level, n, stepFraction, flatTolerance, betterTolerance,
+                maxRestarts);
+    }
+
+    /** Target increase of Δχ² per step as a fraction of the pointwise threshold, in (0, 1]. */
+    public ProfileLikelihood withStepFraction(double f) {
+        if (!(f > 0 && f <= 1)) {
+            throw new IllegalArgumentException("stepFraction must be in (0, 1], got " + f);
+        }
+        return new ProfileLikelihood(optimizer, level, maxSteps, f, flatTolerance, betterTolerance, maxRestarts);
+    }
+
+    /** Largest Δχ² for which a profile still counts as flat. */
+    public ProfileLikelihood withFlatTolerance(double tol) {
+        if (!(tol >= 0)) {
+            throw new IllegalArgumentException("flatTolerance must be >= 0, got " + tol);
+        }
+        return new ProfileLikelihood(optimizer, level, maxSteps, stepFraction, tol, betterTolerance, maxRestarts);
+    }
+
+    /** NLL decrease below the optimum that triggers a restart. */
+    public ProfileLikelihood withBetterOptimumTolerance(double tol) {
+        if (!(tol > 0)) {
+            throw new IllegalArgumentException("betterOptimumTolerance must be > 0, got " + tol);
+        }
+        return new ProfileLikelihood(optimizer, level, maxSteps, stepFraction, flatTolerance, tol, maxRestarts);
+    }
+
+    public double level() {
+        return level;
+    }
+
+    /** The χ² quantile with {@code dof} degrees of freedom at the configured level. */
+    public double threshold(int dof) {
+        return new ChiSquaredDistribution(dof).inverseCumulativeProbability(level);
+    }
+
+    /**
+     * Profiles parameter {@code index}.
+     *
+     * @param problem the problem (fixed parameters stay fixed)
+     * @param optimum the fitted θ (estimation scale)
+     * @param index   the profiled parameter, which must be free
+     */
+    public Profile profileParameter(FitProblem problem, double[] optimum, int index) {
+        if (problem.isFixed(index)) {
+            throw new IllegalArgumentException("parameter '" + problem.id(index) + "' is fixed; profile a free one");
+        }
+        return run(problem, optimum, new ParameterTarget(problem, index));
+    }
+
+    /**
+     * Profiles a prediction g(θ) (Kreutz et al. 2012) by equality-constrained re-optimisation, see
+     * {@link PredictionSlice} for the method and its accuracy.
+     *
+     * @param lowerLimit smallest g value to explore (may be -∞; then the step limit ends an open side)
+     * @param upperLimit largest g value to explore (may be +∞)
+     */
+    public Profile profilePrediction(FitProblem problem, double[] optimum, Prediction g, String name,
+                                     double lowerLimit, double upperLimit) {
+        return run(problem, optimum, new PredictionTarget(problem, g, name, lowerLimit, upperLimit));
+    }
+
+    /**
+     * Profiles every free parameter as an independent task on {@code executor}; results (in parameter order) do
+     * not depend on the executor or thread count.
+     *
+     * @param listener told about each newly finished profile, or null
+     * @param finished profiles finished by an earlier run (matched by parameter id); reused, not recomputed
+     */
+    public List<Profile> profileAll(FitProblem problem, double[] optimum, TaskExecutor executor,
+                                    ProfileListener listener, Collection<Profile> finished) {
+        Map<String, Profile> done = new HashMap<>();
+        for (Profile p : finished) {
+            done.put(p.name(), p);
+        }
+        List<Profile> out = new ArrayList<>();
+        List<Callable<Profile>> tasks = new ArrayList<>();
+        for (int k = 0; k < problem.parameterCount(); k++) {
+            if (problem.isFixed(k)) {
+                continue;
+            }
+            Profile d = done.get(problem.id(k));
+            if (d != null) {
+                out.add(d);
+            } else {
+                final int idx = k;
+                tasks.add(() -> {
+                    try {
+                        return profileParameter(problem, optimum, idx);
+                    } catch (RuntimeException e) {
+                        // One failed profile is a result, not an abort: the others are kept.
+                        return Profile.failed(problem.id(idx), idx, problem.clamp(optimum), level,
+                                "profile failed: " + e.getMessage());
+                    }
+                });
+            }
+        }
+        out.addAll(executor.runAll(tasks, listener == null ? null : (i, p) -> listener.profileFinished(p)));
+        out.sort(Comparator.comparingInt(Profile::parameterIndex));
+        return out;
+    }
+
+    private Profile run(FitProblem problem, double[] optimum, Target target) {
+        double q1 = threshold(1);
+        double qn = threshold(Math.max(1, problem.freeCount()));
+        double stop = Math.max(q1, qn);
+        double stepTarget = stepFraction * q1;
+        double[] theta = problem.clamp(optimum);
+        int restarts = 0;
+        int solves = 0;
+        boolean better = false;
+        double tolerance = betterTolerance;
+        while (true) {
+            double nllStar = nll(problem, theta);
+            LocalCurvature curv = new LocalCurvature(problem, theta, 1e-10);
+            double[] e = target.gradient(theta);
+            double[] he = curv.covarianceTimes(e);
+            double var = 0;
+            for (int k = 0; k < e.length; k++) {
+                var += e[k] * he[k];
+            }
+            double sigmaZ = var > 0 ? Math.sqrt(var) : Double.NaN;
+            double[] slope0 = new double[e.length];
+            if (var > 0) {
+                for (int k = 0; k < e.length; k++) {
+                    slope0[k] = he[k] / var;
+                }
+            }
+            target.fixSlope(slope0);
+            Slice slice = target.slice(optimizer, sigmaZ, theta);
+            double maxStep = target.maxStep(sigmaZ, theta);
+            double step0 = Double.isFinite(sigmaZ) ? Math.min(maxStep, sigmaZ * Math.sqrt(stepTarget))
+                    : 0.1 * maxStep;
+            ProfilePoint p0 = new ProfilePoint(target.value(theta), nllStar, theta);
+            ProfileTracer tracer = new ProfileTracer(slice, nllStar, stepTarget, stop, maxSteps, tolerance);
+            ProfileTracer.Side lower;
+            ProfileTracer.Side upper;
+            try {
+                lower = tracer.trace(p0, -1, step0, maxStep, slope0);
+                upper = tracer.trace(p0, +1, step0, maxStep, slope0);
+            } catch (ProfileTracer.BetterOptimumFound b) {
+                solves += slice.solves();
+                better = true;
+                restarts++;
+                LocalFit f = optimizer.minimize(problem, b.point.theta());
+                theta = f.nll() < b.point.nll() ? f.theta() : b.point.theta();
+                if (restarts >= maxRestarts) {
+                    tolerance = Double.POSITIVE_INFINITY;
+                }
+                continue;
+            }
+            List<ProfilePoint> extra = new ArrayList<>();
+            double lo1 = tracer.crossing(p0, lower.points, q1, extra);
+            double hi1 = tracer.crossing(p0, upper.points, q1, extra);
+            double loN = tracer.crossing(p0, lower.points, qn, extra);
+            double hiN = tracer.crossing(p0, upper.points, qn, extra);
+            solves += slice.solves();
+            List<ProfilePoint> pts = new ArrayList<>();
+            pts.add(p0);
+            pts.addAll(lower.points);
+            pts.addAll(upper.points);
+            pts.addAll(extra);
+            pts.sort(Comparator.comparingDouble(ProfilePoint::value));
+            ConfidenceInterval ci1 = interval(target, 1, q1, lo1, hi1);
+            ConfidenceInterval ciN = interval(target, Math.max(1, problem.freeCount()), qn, loN, hiN);
+            double maxD = 0;
+            for (ProfilePoint p : pts) {
+                maxD = Math.max(maxD, p.deltaChi2(nllStar));
+            }
+            Identifiability cls;
+            if (maxD <= flatTolerance && lower.status != SideStatus.CLOSED && upper.status != SideStatus.CLOSED) {
+                cls = Identifiability.STRUCTURALLY_NONIDENTIFIABLE;
+            } else if (ci1.closed()) {
+                cls = Identifiability.IDENTIFIABLE;
+            } else {
+                cls = Identifiability.PRACTICALLY_NONIDENTIFIABLE;
+            }
+            String msg = (lower.message + " " + upper.message).trim();
+            return new Profile(target.name(), target.index(), p0.value(), nllStar, theta, pts, ci1, ciN,
+                    lower.status, upper.status, cls, compensations(problem, target.index(), pts), better, restarts,
+                    solves, msg);
+        }
+    }
+
+    private ConfidenceInterval interval(Target target, int dof, double q, double lo, double hi) {
+        double l = Double.isNaN(lo) ? Double.NEGATIVE_INFINITY : lo;
+        double u = Double.isNaN(hi) ? Double.POSITIVE_INFINITY : hi;
+        return new ConfidenceInterval(level, dof, q, l, u, target.toLinear(l), target.toLinear(u));
+    }
+
+    private static List<Compensation> compensations(FitProblem problem, int index, List<ProfilePoint> pts) {
+        List<Compensation> out = new ArrayList<>();
+        int n = problem.parameterCount();
+        double mz = 0;
+        for (ProfilePoint p : pts) {
+            mz += p.value();
+        }
+        mz /= pts.size();
+        double szz = 0;
+        for (ProfilePoint p : pts) {
+            szz += (p.value() - mz) * (p.value() - mz);
+        }
+        if (!(szz > 0)) {
+            return out;
+        }
+        for (int j = 0; j < n; j++) {
+            if (j == index || problem.isFixed(j)) {
+                continue;
+            }
+            double mj = 0;
+            double min = Double.POSITIVE_INFINITY;
+            double max = Double.NEGATIVE_INFINITY;
+            for (ProfilePoint p : pts) {
+                double v = p.theta()[j];
+                mj += v;
+                min = Math.min(min, v);
+                max = Math.max(max, v);
+            }
+            mj /= pts.size();
+            // Movements below 1e-9 relative are LM convergence noise, not compensation.
+            if (max - min <= 1e-9 * (1 + Math.abs(mj))) {
+                continue;
+            }
+            double szj = 0;
+            for (ProfilePoint p : pts) {
+                szj += (p.value() - mz) * (p.theta()[j] - mj);
+            }
+            out.add(new Compensation(problem.id(j), szj / szz, min, max));
+        }
+        out.sort(Comparator.comparingDouble((Compensation c) -> -Math.abs(c.slope())));
+        return out;
+    }
+
+    private static double nll(FitProblem problem, double[] theta) {
+        double[] r = new double[problem.objective().residualCount()];
+        return problem.objective().evaluate(theta, r, null);
+    }
+
+    /** What is profiled: a parameter or a prediction. */
+    private interface Target {
+        String name();
+
+        int index();
+
+        double value(double[] theta);
+
+        double[] gradient(double[] theta);
+
+        void fixSlope(double[] slope);
+
+        Slice slice(LevenbergMarquardt lm, double sigmaZ, double[] theta);
+
+        double maxStep(double sigmaZ, double[] theta);
+
+        double toLinear(double v);
+    }
+
+    private static final class ParameterTarget implements Target {
+        private final FitProblem problem;
+        private final int index;
+
+        ParameterTarget(FitProblem problem, int index) {
+            this.problem = problem;
+            this.index = index;
+        }
+
+        @Override
+        public String name() {
+            return problem.id(index);
+        }
+
+        @Override
+        public int index() {
+            return index;
+        }
+
+        @Override
+        public double value(double[] theta) {
+            return theta[index];
+        }
+
+        @Override
+        public double[] gradient(double[] theta) {
+            double[] e = new double[theta.length];
+            e[index] = 1;
+            return e;
+        }
+
+        @Override
+        public void fixSlope(double[] slope) {
+            slope[index] = 1;
+        }
+
+        @Override
+        public Slice slice(LevenbergMarquardt lm, double sigmaZ, double[] theta) {
+            return new ParameterSlice(problem, index, lm);
+        }
+
+        @Override
+        public double maxStep(double sigmaZ, double[] theta) {
+            double range = problem.upper(index) - problem.lower(index);
+            if (Double.isFinite(range)) {
+                return 0.1 * range;
+            }
+            return Double.isFinite(sigmaZ) ? 2 * sigmaZ : 1.0;
+        }
+
+        @Override
+        public double toLinear(double v) {
+            return problem.scale(index).toLinear(v);
+        }
+    }
+
+    private static final class PredictionTarget implements Target {
+        private final FitProblem problem;
+        private final Prediction g;
+        private final String name;
+        private final double lowerLimit;
+        private final double upperLimit;
+
+        PredictionTarget(FitProblem problem, Prediction g, String name, double lowerLimit, double upperLimit) {
+            if (g.parameterCount() != problem.parameterCount()) {
+                throw new IllegalArgumentException("prediction '" + name + "' has " + g.parameterCount()
+                        + " parameters, the problem " + problem.parameterCount());
+            }
+            if (!(lowerLimit < upperLimit)) {
+                throw new IllegalArgumentException("prediction limits must satisfy lower < upper, got "
+                        + lowerLimit + ", " + upperLimit);
+            }
+            this.problem = problem;
+            this.g = g;
+            this.name = name;
+            this.lowerLimit = lowerLimit;
+            this.upperLimit = upperLimit;
+        }
+
+        @Override
+        public String name() {
+            return name;
+        }
+
+        @Override
+        public int index() {
+            return -1;
+        }
+
+        @Override
+        public double value(double[] theta) {
+            return g.evaluate(theta, null);
+        }
+
+        @Override
+        public double[] gradient(double[] theta) {
+            double[] grad = new double[theta.length];
+            g.evaluate(theta, grad);
+            for (int k = 0; k < grad.length; k++) {
+                if (problem.isFixed(k)) {
+                    grad[k] = 0;
+                }
+            }
+            return grad;
+        }
+
+        @Override
+        public void fixSlope(double[] slope) {
+            // The curvature predictor is the only prior information; zeros (no prediction) when g is flat.
+        }
+
+        @Override
+        public Slice slice(LevenbergMarquardt lm, double sigmaZ, double[] theta) {
+            return new PredictionSlice(problem, g, lm, scale(sigmaZ, theta), lowerLimit, upperLimit);
+        }
+
+        private double scale(double sigmaZ, double[] theta) {
+            if (Double.isFinite(sigmaZ) && sigmaZ > 0) {
+                return sigmaZ;
+            }
+            return 1e-3 * Math.max(1.0, Math.abs(value(theta)));
+        }
+
+        @Override
+        public double maxStep(double sigmaZ, double[] theta) {
+            double range = upperLimit - lowerLimit;
+            if (Double.isFinite(range)) {
+                return 0.1 * range;
+            }
+            return Double.isFinite(sigmaZ) && sigmaZ > 0 ? 2 * sigmaZ : 0.1 * Math.max(1, Math.abs(value(theta)));
+        }
+
+        @Override
+        public double toLinear(double v) {
+            return v;
+        }
+    }
+}
