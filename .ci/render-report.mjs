@@ -106,7 +106,7 @@ async function main() {
   await send('Log.enable', {}, sessionId);
   await send('Emulation.setDeviceMetricsOverride',
     { width: 1200, height: 900, deviceScaleFactor: 1, mobile: false }, sessionId);
-  const loaded = waitFor('Page.loadEventFired', 30000);
+  const loaded = waitFor('Page.loadEventFired', 60000);
   const nav = await send('Page.navigate', { url: pathToFileURL(resolve(report)).href }, sessionId);
   if (nav.errorText) throw new Error(`navigation failed: ${nav.errorText}`);
   await loaded;
@@ -131,10 +131,10 @@ async function main() {
 
 let code = 0;
 const guard = setTimeout(() => {
-  console.error('render-report: timed out after 90 s');
+  console.error('render-report: timed out after 150 s');
   child.kill('SIGKILL');
   process.exit(2);
-}, 90000);
+}, 150000);
 try {
   const n = await main();
   if (problems.length) {
