@@ -171,12 +171,12 @@ public final class LevenbergMarquardt {
             while (why == null) {
                 gradient(g);
                 updateScaling(d);
-                if (scaledProjectedGradient(g, d) <= gradientTolerance) {
-                    why = Termination.GRADIENT;
-                    break;
-                }
                 if (cost == 0.0) {
                     why = Termination.ZERO_RESIDUAL;
+                    break;
+                }
+                if (scaledProjectedGradient(g, d) <= gradientTolerance) {
+                    why = Termination.GRADIENT;
                     break;
                 }
                 int[] work = workingSet(g);
