@@ -58,11 +58,13 @@ public final class LevenbergMarquardt {
         return new LevenbergMarquardt(1000, 5000, 1e-10, 1e-14, 1e-10, 1e-3);
     }
 
+    /** Limit on trial steps (accepted and rejected), n &gt; 0. */
     public LevenbergMarquardt withMaxIterations(int n) {
         return new LevenbergMarquardt(positive(n, "maxIterations"), maxEvaluations, gradientTolerance,
                 costTolerance, stepTolerance, initialDamping);
     }
 
+    /** Limit on objective evaluations, n &gt; 0. */
     public LevenbergMarquardt withMaxEvaluations(int n) {
         return new LevenbergMarquardt(maxIterations, positive(n, "maxEvaluations"), gradientTolerance,
                 costTolerance, stepTolerance, initialDamping);
@@ -90,6 +92,7 @@ public final class LevenbergMarquardt {
                 nonNegative(tol, "stepTolerance"), initialDamping);
     }
 
+    /** Initial λ relative to the column scaling D², λ &gt; 0. */
     public LevenbergMarquardt withInitialDamping(double lambda) {
         if (!(lambda > 0)) {
             throw new IllegalArgumentException("initialDamping must be > 0, got " + lambda);
@@ -98,10 +101,12 @@ public final class LevenbergMarquardt {
                 stepTolerance, lambda);
     }
 
+    /** The iteration limit. */
     public int maxIterations() {
         return maxIterations;
     }
 
+    /** The scaled projected-gradient tolerance. */
     public double gradientTolerance() {
         return gradientTolerance;
     }

@@ -68,6 +68,7 @@ public final class ProfileLikelihood {
         return new ProfileLikelihood(LevenbergMarquardt.defaults(), 0.95, 100, 0.25, 1e-5, 1e-4, 3);
     }
 
+    /** The LM used for the constrained re-optimisations and for re-fits from a better optimum. */
     public ProfileLikelihood withOptimizer(LevenbergMarquardt lm) {
         return new ProfileLikelihood(lm, level, maxSteps, stepTarget, flatTolerance, betterTolerance,
                 maxRestarts);
@@ -82,6 +83,7 @@ public final class ProfileLikelihood {
                 maxRestarts);
     }
 
+    /** Limit on accepted steps per side, n ≥ 1; a side stopped by it is {@link SideStatus#OPEN_STEP_LIMIT}. */
     public ProfileLikelihood withMaxSteps(int n) {
         if (n < 1) {
             throw new IllegalArgumentException("maxSteps must be >= 1, got " + n);
@@ -120,6 +122,7 @@ public final class ProfileLikelihood {
         return new ProfileLikelihood(optimizer, level, maxSteps, stepTarget, flatTolerance, tol, maxRestarts);
     }
 
+    /** The confidence level. */
     public double level() {
         return level;
     }
