@@ -22,8 +22,8 @@ import org.switchfit.objective.ObjectiveException;
  * <p>Stationarity is measured by the projected gradient {@code θ - P(θ - g)}, which vanishes at a local optimum
  * on the box even when g itself does not (optimum on a bound).
  *
- * <p>Evaluation failures ({@link ObjectiveException} or non-finite residuals) at a trial point count as a rejected
- * step; at the start point they propagate to the caller. Immutable and thread-safe: one configured instance can
+ * <p>Evaluation failures ({@link ObjectiveException} or non-finite residuals or Jacobian) at a trial point count
+ * as a rejected step; at the start point they propagate to the caller. Immutable and thread-safe: one configured instance can
  * serve every start on every thread.
  */
 public final class LevenbergMarquardt {
@@ -232,19 +232,18 @@ public final class LevenbergMarquardt {
                     double rho = actual / pred;
                     if (converging) {
                         if (finite && actual >= 0 && sNorm2 > 0) {
-                            accept(xt);
+                            accept(xt); // on failure the run ends at the current point, converged all the same
                         }
                         why = Termination.COST_CHANGE;
                         break;
                     }
-                    if (finite && rho > ACCEPT_RATIO) {
+                    double oldCost = cost;
+                    double xNorm = norm(x);
+                    if (finite && rho > ACCEPT_RATIO && accept(xt)) {
                         accepted = true;
                         double t = 2 * rho - 1;
                         lambda = Math.max(LAMBDA_MIN, lambda * Math.max(1.0 / 3.0, 1 - t * t * t));
                         nu = 2;
-                        double oldCost = cost;
-                        double xNorm = norm(x);
-                        accept(xt);
                         if (Math.abs(actual) <= costTolerance * oldCost && pred <= costTolerance * oldCost
                                 && rho <= 2) {
                             why = Termination.COST_CHANGE;
@@ -275,21 +274,30 @@ public final class LevenbergMarquardt {
             return new LocalFit(x, nll, why, iters, evals, jevals, pgNorm, active);
         }
 
-        /** Moves to xt and evaluates residuals and Jacobian there. */
-        private void accept(double[] xt) {
-            x = xt;
+        /**
+         * Evaluates residuals and Jacobian at xt and moves there; returns false (state unchanged) when that
+         * evaluation fails or is non-finite, so the caller can treat the step as rejected.
+         */
+        private boolean accept(double[] xt) {
             double[] rNew = new double[m];
+            double[] jNew = new double[m * n];
+            double v;
+            evals++;
+            jevals++;
             try {
-                evals++;
-                jevals++;
-                nll = obj.evaluate(x, rNew, jac);
+                v = obj.evaluate(xt, rNew, jNew);
             } catch (ObjectiveException e) {
-                throw new ObjectiveException("Jacobian failed at an accepted point where the residuals"
-                        + " were finite: " + e.getMessage(), e);
+                return false;
             }
+            if (!Double.isFinite(v) || !Double.isFinite(halfSquare(rNew)) || firstNonFinite(jNew) >= 0) {
+                return false;
+            }
+            x = xt;
             r = rNew;
+            jac = jNew;
+            nll = v;
             cost = halfSquare(r);
-            checkFinite(x);
+            return true;
         }
 
         private double evalStrict(double[] at, double[] res, double[] jj) {
@@ -307,12 +315,10 @@ public final class LevenbergMarquardt {
         }
 
         private void checkFinite(double[] at) {
-            for (int i = 0; i < jac.length; i++) {
-                if (!Double.isFinite(jac[i])) {
-                    int row = i / n;
-                    throw new ObjectiveException(String.format(Locale.ROOT,
-                            "non-finite Jacobian entry d r[%d] / d %s", row, problem.id(i % n)));
-                }
+            int i = firstNonFinite(jac);
+            if (i >= 0) {
+                throw new ObjectiveException(String.format(Locale.ROOT,
+                        "non-finite Jacobian entry d r[%d] / d %s at the start point", i / n, problem.id(i % n)));
             }
         }
 
@@ -426,6 +432,15 @@ public final class LevenbergMarquardt {
             }
             return 0.5 * red;
         }
+    }
+
+    private static int firstNonFinite(double[] a) {
+        for (int i = 0; i < a.length; i++) {
+            if (!Double.isFinite(a[i])) {
+                return i;
+            }
+        }
+        return -1;
     }
 
     static double halfSquare(double[] r) {
