@@ -23,8 +23,8 @@ import org.switchfit.objective.ObjectiveException;
  * on the box even when g itself does not (optimum on a bound).
  *
  * <p>Evaluation failures ({@link ObjectiveException} or non-finite residuals or Jacobian) at a trial point count
- * as a rejected step; at the start point they propagate to the caller. Immutable and thread-safe: one configured instance can
- * serve every start on every thread.
+ * as a rejected step; at the start point they propagate to the caller. Immutable and thread-safe: one configured
+ * instance can serve every start on every thread.
  */
 public final class LevenbergMarquardt {
 
@@ -52,7 +52,8 @@ public final class LevenbergMarquardt {
     /**
      * Defaults: 1000 iterations, 5000 evaluations, gradient tolerance 1e-10 (scaled, see
      * {@link #withGradientTolerance}),
-     * cost tolerance 1e-14 (relative change of ½|r|², about 100 ulp), step tolerance 1e-10 (relative to |θ|), initial λ 1e-3.
+     * cost tolerance 1e-14 (relative change of ½|r|², about 100 ulp), step tolerance 1e-10 (relative to |θ|),
+     * initial λ 1e-3.
      */
     public static LevenbergMarquardt defaults() {
         return new LevenbergMarquardt(1000, 5000, 1e-10, 1e-14, 1e-10, 1e-3);
