@@ -14,4 +14,10 @@ interface CurveProblem {
 
     /** Writes the N x (N + 1) Jacobian row-major: {@code jac[i * (N + 1) + j] = ∂H_i/∂u_j}. */
     void jacobian(double[] u, double[] jac);
+
+    /**
+     * Structural pattern of the N x (N + 1) Jacobian: {@code pattern[i]} lists the increasing columns of row i
+     * that may be non-zero.
+     */
+    int[][] pattern();
 }

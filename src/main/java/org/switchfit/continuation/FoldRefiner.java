@@ -42,7 +42,14 @@ final class FoldRefiner {
         double[] big = new double[nz * nz];
         double[] r = new double[nz];
         double[] tmp = new double[n];
-        LinearSolver lu = LinearSolvers.forSize(nz);
+        int[][] jpat = sys.jacobianPattern();
+        int[][] pat = new int[nz][];
+        for (int i = 0; i < n; i++) {
+            pat[i] = LinearSolvers.union(jpat[i], 0, null, 0, n);
+            pat[n + i] = LinearSolvers.union(jpat[i], 0, jpat[i], n + 1, n);
+        }
+        pat[2 * n] = LinearSolvers.denseRow(n + 1, 2 * n + 1);
+        LinearSolver lu = LinearSolvers.forPattern(nz, pat);
         for (int it = 0; it < maxIter; it++) {
             sys.rhs(0, y, q, tmp);
             System.arraycopy(tmp, 0, r, 0, n);

@@ -46,7 +46,7 @@ public record SteadyStateSolver(double residualTolerance, double stepTolerance, 
     public SteadyState solve(OdeSystem sys, double[] y0, double[] p) {
         int n = sys.stateCount();
         double[] y = y0.clone();
-        Work w = new Work(n);
+        Work w = new Work(n, sys.jacobianPattern());
         int[] iters = {0};
         boolean ok = newton(sys, y, p, w, iters);
         if (!ok) {
@@ -86,13 +86,13 @@ public record SteadyStateSolver(double residualTolerance, double stepTolerance, 
         final double[] yTrial;
         final LinearSolver lu;
 
-        Work(int n) {
+        Work(int n, int[][] pattern) {
             f = new double[n];
             fTrial = new double[n];
             jac = new double[n * n];
             dy = new double[n];
             yTrial = new double[n];
-            lu = LinearSolvers.forSize(n);
+            lu = LinearSolvers.forPattern(n, pattern);
         }
     }
 

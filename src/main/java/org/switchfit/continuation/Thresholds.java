@@ -31,6 +31,7 @@ import org.switchfit.ode.OdeSystem;
  */
 public final class Thresholds {
     private static final double DIFF_STEP = 1e-5;
+    private static final int ZOOM_LEVELS = 2;
 
     private final ContinuationSettings settings;
 
@@ -70,25 +71,41 @@ public final class Thresholds {
             return new Threshold(Threshold.Kind.FOLD, control, f.parameter(), Folds.parameterGradient(sys, f, q),
                     f.state(), f);
         }
-        return steepest(sys, br, q, control, readout);
+        return steepest(sys, br, q, control, readout, direction);
     }
 
-    private Threshold steepest(OdeSystem sys, Branch br, double[] p, int control, double[] c) {
+    private Threshold steepest(OdeSystem sys, Branch traced, double[] p, int control, double[] c, int direction) {
         int n = sys.stateCount();
-        int best = -1;
-        double bestR = -1;
-        for (int i = 0; i < br.size(); i++) {
-            double r = Math.abs(response(sys, br.point(i).state(), p, control, br.point(i).parameter(), c));
-            if (r > bestR) {
-                bestR = r;
-                best = i;
+        Branch br = traced;
+        int best = steepestIndex(sys, br, p, control, c);
+        // Zoom: near a cusp the two folds can be closer than the step, so the trace may have stepped across the
+        // small S between them. Re-trace between the neighbours of the steepest point with steps 1/50 of their
+        // distance, twice; a fold found there is the threshold.
+        for (int level = 0; level < ZOOM_LEVELS; level++) {
+            BranchPoint a = br.point(best - 1);
+            BranchPoint b = br.point(best + 1);
+            double dist = Math.hypot(distance(a.state(), b.state()), a.parameter() - b.parameter());
+            double lo = Math.min(a.parameter(), b.parameter());
+            double hi = Math.max(a.parameter(), b.parameter());
+            if (!(hi > lo) || !(dist > 0)) {
+                break;
             }
-        }
-        if (best <= 0 || best >= br.size() - 1) {
-            throw new ContinuationException(String.format(Locale.ROOT,
-                    "monostable response is steepest at the bound λ = %.6g: no switching threshold inside "
-                            + "[%.6g, %.6g]", br.point(Math.max(best, 0)).parameter(), settings.lowerBound(),
-                    settings.upperBound()));
+            ContinuationSettings cs = settings.withBounds(lo, hi).withEigenvalueLimit(0)
+                    .withSteps(dist / 200, Math.min(settings.minStep(), dist * 1e-9), dist / 50).withMaxPoints(2000);
+            double[] q = p.clone();
+            q[control] = a.parameter();
+            Branch local = new PseudoArclength(cs).trace(sys, a.state(), q, control, direction);
+            if (!local.folds().isEmpty()) {
+                Fold f = local.folds().get(0);
+                return new Threshold(Threshold.Kind.FOLD, control, f.parameter(), Folds.parameterGradient(sys, f, q),
+                        f.state(), f);
+            }
+            int lb = steepestIndexOrMinusOne(sys, local, p, control, c);
+            if (lb < 0) {
+                break;
+            }
+            br = local;
+            best = lb;
         }
         Evaluator ev = new Evaluator(sys, p, control, c);
         BranchPoint a = br.point(best - 1);
@@ -153,6 +170,44 @@ public final class Thresholds {
         }
         ev.g(lam, yStar);
         return new Threshold(Threshold.Kind.STEEPEST_RESPONSE, control, lam, grad, Arrays.copyOf(ev.y, n), null);
+    }
+
+    private int steepestIndex(OdeSystem sys, Branch br, double[] p, int control, double[] c) {
+        int best = steepestIndexOrMinusOne(sys, br, p, control, c);
+        if (best < 0) {
+            int i = argmaxResponse(sys, br, p, control, c);
+            throw new ContinuationException(String.format(Locale.ROOT,
+                    "monostable response is steepest at the bound λ = %.6g: no switching threshold inside "
+                            + "[%.6g, %.6g]", br.point(Math.max(i, 0)).parameter(), settings.lowerBound(),
+                    settings.upperBound()));
+        }
+        return best;
+    }
+
+    private static int steepestIndexOrMinusOne(OdeSystem sys, Branch br, double[] p, int control, double[] c) {
+        int best = argmaxResponse(sys, br, p, control, c);
+        return best <= 0 || best >= br.size() - 1 ? -1 : best;
+    }
+
+    private static int argmaxResponse(OdeSystem sys, Branch br, double[] p, int control, double[] c) {
+        int best = -1;
+        double bestR = -1;
+        for (int i = 0; i < br.size(); i++) {
+            double r = Math.abs(response(sys, br.point(i).state(), p, control, br.point(i).parameter(), c));
+            if (r > bestR) {
+                bestR = r;
+                best = i;
+            }
+        }
+        return best;
+    }
+
+    private static double distance(double[] a, double[] b) {
+        double s = 0;
+        for (int i = 0; i < a.length; i++) {
+            s += (a[i] - b[i]) * (a[i] - b[i]);
+        }
+        return Math.sqrt(s);
     }
 
     private static double response(OdeSystem sys, double[] y, double[] p, int control, double lam, double[] c) {

@@ -33,6 +33,21 @@ public record PetabProblem(Path yamlFile, int formatVersion, List<PetabParameter
         notes = List.copyOf(notes);
     }
 
+    /** The condition with that id, if any. */
+    public java.util.Optional<PetabCondition> condition(String id) {
+        return conditions.stream().filter(c -> c.id().equals(id)).findFirst();
+    }
+
+    /** The observable with that id, if any. */
+    public java.util.Optional<PetabObservable> observable(String id) {
+        return observables.stream().filter(o -> o.id().equals(id)).findFirst();
+    }
+
+    /** The parameter-table row with that id, if any. */
+    public java.util.Optional<PetabParameter> parameter(String id) {
+        return parameters.stream().filter(p -> p.id().equals(id)).findFirst();
+    }
+
     /** Parameters with estimate = 1, in table order. */
     public List<PetabParameter> estimatedParameters() {
         return parameters.stream().filter(PetabParameter::estimate).toList();

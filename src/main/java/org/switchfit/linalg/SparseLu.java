@@ -24,6 +24,7 @@ import org.ejml.sparse.csc.factory.LinearSolverFactory_DSCC;
 public final class SparseLu implements LuSolver {
 
     private final int n;
+    private final Symbolic symbolic;
     /** order[k'] = original index of permuted index k'. */
     private final int[] order;
     private final int[] denseIndex;
@@ -35,16 +36,50 @@ public final class SparseLu implements LuSolver {
     private boolean singular = true;
 
     /**
-     * Builds the symbolic structure.
+     * Result of the symbolic analysis: fill-reducing order, compressed-column structure of P A P^T and the map to
+     * dense indices. Immutable and thread-safe, so one analysis can serve many workspaces (for example every
+     * integration of the same model).
+     */
+    public static final class Symbolic {
+        final int n;
+        final int[] order;
+        final int[] colIdx;
+        final int[] rows;
+        final int[] denseIndex;
+        final boolean[] isDiagonal;
+
+        private Symbolic(int n, int[] order, int[] colIdx, int[] rows, int[] denseIndex) {
+            this.n = n;
+            this.order = order;
+            this.colIdx = colIdx;
+            this.rows = rows;
+            this.denseIndex = denseIndex;
+            this.isDiagonal = new boolean[denseIndex.length];
+            for (int s = 0; s < denseIndex.length; s++) {
+                isDiagonal[s] = denseIndex[s] / n == denseIndex[s] % n;
+            }
+        }
+
+        /** Dimension n. */
+        public int size() {
+            return n;
+        }
+
+        /** Structural non-zeros (diagonal included). */
+        public int nonZeros() {
+            return denseIndex.length;
+        }
+    }
+
+    /**
+     * Symbolic analysis of a pattern (setup cost: minimum-degree ordering, allocates).
      *
      * @param n       dimension
      * @param pattern {@code pattern[i]} = increasing columns of row i that may be non-zero (diagonal implied)
      */
-    public SparseLu(int n, int[][] pattern) {
-        long nnzLong = SparsePattern.countWithDiagonal(n, pattern);
-        int nnz = Math.toIntExact(nnzLong);
-        this.n = n;
-        this.order = SparsePattern.minimumDegreeOrder(n, pattern);
+    public static Symbolic analyze(int n, int[][] pattern) {
+        int nnz = Math.toIntExact(SparsePattern.countWithDiagonal(n, pattern));
+        int[] order = SparsePattern.minimumDegreeOrder(n, pattern);
         int[] inverse = new int[n];
         for (int k = 0; k < n; k++) {
             inverse[order[k]] = k;
@@ -86,19 +121,40 @@ public final class SparseLu implements LuSolver {
                 dense[slot] = i * n + i;
             }
         }
-        this.denseIndex = dense;
-        this.isDiagonal = new boolean[nnz];
-        for (int s = 0; s < nnz; s++) {
-            isDiagonal[s] = dense[s] / n == dense[s] % n;
-        }
+        return new Symbolic(n, order, colIdx, rows, dense);
+    }
+
+    /**
+     * Builds the symbolic structure and a workspace.
+     *
+     * @param n       dimension
+     * @param pattern {@code pattern[i]} = increasing columns of row i that may be non-zero (diagonal implied)
+     */
+    public SparseLu(int n, int[][] pattern) {
+        this(analyze(n, pattern));
+    }
+
+    /** Creates a workspace on an existing symbolic analysis (cheap: no ordering work). */
+    public SparseLu(Symbolic symbolic) {
+        this.symbolic = symbolic;
+        this.n = symbolic.n;
+        this.order = symbolic.order;
+        this.denseIndex = symbolic.denseIndex;
+        this.isDiagonal = symbolic.isDiagonal;
+        int nnz = denseIndex.length;
         this.matrix = new DMatrixSparseCSC(n, n, nnz);
-        System.arraycopy(colIdx, 0, matrix.col_idx, 0, n + 1);
-        System.arraycopy(rows, 0, matrix.nz_rows, 0, nnz);
+        System.arraycopy(symbolic.colIdx, 0, matrix.col_idx, 0, n + 1);
+        System.arraycopy(symbolic.rows, 0, matrix.nz_rows, 0, nnz);
         matrix.nz_length = nnz;
         matrix.indicesSorted = true;
         this.solver = LinearSolverFactory_DSCC.lu(FillReducing.NONE);
         this.rhs = new DMatrixRMaj(n, 1);
         this.sol = new DMatrixRMaj(n, 1);
+    }
+
+    /** The symbolic analysis this workspace uses. */
+    public Symbolic symbolic() {
+        return symbolic;
     }
 
     @Override

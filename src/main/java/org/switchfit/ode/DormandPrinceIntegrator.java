@@ -281,6 +281,9 @@ public final class DormandPrinceIntegrator implements Integrator {
 
             @Override
             public double g(ODEStateAndDerivative state) {
+                if (Thread.currentThread().isInterrupted()) {
+                    throw new IntegrationException(state.getTime(), "interrupted");
+                }
                 roots.evaluate(state.getTime(), state.getPrimaryState(), p, g);
                 return g[k];
             }

@@ -45,6 +45,61 @@ public final class Simulator {
         return new Trajectory(outputs.names(), times, values);
     }
 
+    /** A model without states, given one dummy state with zero derivative so integrators can run. */
+    private static final class Padded implements OdeSystem {
+        private final OdeSystem inner;
+
+        Padded(OdeSystem inner) {
+            this.inner = inner;
+        }
+
+        @Override
+        public int stateCount() {
+            return 1;
+        }
+
+        @Override
+        public int parameterCount() {
+            return inner.parameterCount();
+        }
+
+        @Override
+        public void rhs(double t, double[] y, double[] p, double[] dydt) {
+            dydt[0] = 0.0;
+        }
+
+        @Override
+        public void jacobianY(double t, double[] y, double[] p, double[] jac) {
+            jac[0] = 0.0;
+        }
+
+        @Override
+        public void jacobianP(double t, double[] y, double[] p, double[] jac) {
+            java.util.Arrays.fill(jac, 0, inner.parameterCount(), 0.0);
+        }
+    }
+
+    /** Switching functions of a state-free model evaluated with an empty state. */
+    private static final class PaddedRoots implements RootFunctions {
+        private final RootFunctions inner;
+        private final double[] empty;
+
+        PaddedRoots(RootFunctions inner, int n) {
+            this.inner = inner;
+            this.empty = n == 0 ? new double[0] : null;
+        }
+
+        @Override
+        public int count() {
+            return inner.count();
+        }
+
+        @Override
+        public void evaluate(double t, double[] y, double[] p, double[] g) {
+            inner.evaluate(t, empty == null ? y : empty, p, g);
+        }
+    }
+
     /** One pending event execution. */
     private static final class Pending {
         final int event;
@@ -70,6 +125,7 @@ public final class Simulator {
         final double[] w = new double[Math.max(1, model.localCount())];
         final boolean[] trig = new boolean[ne];
         final List<Pending> pending = new ArrayList<>();
+        final double[] scratch = new double[1];
         IntegrationSession session;
         double t;
         long seq;
@@ -80,9 +136,10 @@ public final class Simulator {
             for (int e = 0; e < ne; e++) {
                 trig[e] = events.get(e).initialValue();
             }
-            session = integrator.start(model, t0, y, p, ne > 0 ? model.switchingFunctions() : null, null, null);
+            session = integrator.start(n == 0 ? new Padded(model) : model, t0, n == 0 ? new double[1] : y, p,
+                    ne > 0 ? new PaddedRoots(model.switchingFunctions(), n) : null, null, null);
             if (handleEvents()) {
-                session.reset(y, null);
+                session.reset(n == 0 ? scratch : y, null);
             }
         }
 
@@ -94,9 +151,9 @@ public final class Simulator {
                         target = pe.time;
                     }
                 }
-                t = session.advance(target, y, null);
+                t = session.advance(target, n == 0 ? scratch : y, null);
                 if (ne > 0 && handleEvents()) {
-                    session.reset(y, null);
+                    session.reset(n == 0 ? scratch : y, null);
                 }
             }
         }

@@ -171,7 +171,11 @@ public final class SbmlReader {
                 double conc = s.isSetInitialConcentration() ? s.getInitialConcentration() : Double.NaN;
                 String cf = s.isSetConversionFactor() ? s.getConversionFactor() : null;
                 boolean constant = level >= 2 && s.getConstant();
-                species.add(new Species(s.getId(), s.getCompartment(), amt, conc, s.getHasOnlySubstanceUnits(),
+                org.sbml.jsbml.Compartment sc = m.getCompartment(s.getCompartment());
+                // a species in a 0-dimensional compartment has no concentration: its symbol is its amount
+                boolean zeroDim = sc != null && sc.isSetSpatialDimensions() && sc.getSpatialDimensions() == 0;
+                species.add(new Species(s.getId(), s.getCompartment(), amt, conc,
+                        s.getHasOnlySubstanceUnits() || zeroDim,
                         s.getBoundaryCondition(), constant, cf));
             }
             List<Parameter> params = new ArrayList<>();

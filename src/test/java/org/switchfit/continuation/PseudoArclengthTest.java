@@ -136,13 +136,13 @@ class PseudoArclengthTest {
         assertEquals(0, br.folds().size());
     }
 
-    @Test
-    void fiveHundredStateSystemRuns() {
-        // x_0' = -x_0^3 + x_0 + p drives a chain x_i' = x_{i-1} - x_i - 0.1 x_i^3 (i >= 1). The Jacobian is lower
-        // triangular with diagonal (1 - 3 x_0^2, -1 - 0.3 x_i^2, ...), so the only folds are those of x_0:
-        // p* = ±2/(3 sqrt 3) (closed form as in the cubic test).
-        int n = 500;
-        OdeSystem big = new OdeSystem() {
+    /**
+     * x_0' = -x_0^3 + x_0 + p drives a chain x_i' = x_{i-1} - x_i - 0.1 x_i^3 (i >= 1). The Jacobian is lower
+     * triangular with diagonal (1 - 3 x_0^2, -1 - 0.3 x_i^2, ...), so the only folds are those of x_0:
+     * p* = ±2/(3 sqrt 3) (closed form as in the cubic test).
+     */
+    private static OdeSystem chain(int n, boolean withPattern) {
+        return new OdeSystem() {
             public int stateCount() {
                 return n;
             }
@@ -171,16 +171,39 @@ class PseudoArclengthTest {
                 java.util.Arrays.fill(j, 0, n, 0);
                 j[0] = 1;
             }
+
+            public int[][] jacobianPattern() {
+                if (!withPattern) {
+                    return OdeSystem.super.jacobianPattern();
+                }
+                int[][] pat = new int[n][];
+                pat[0] = new int[] {0};
+                for (int i = 1; i < n; i++) {
+                    pat[i] = new int[] {i - 1, i};
+                }
+                return pat;
+            }
         };
+    }
+
+    @Test
+    void fiveHundredStateSystemRunsDenseAndSparse() {
+        int n = 500;
         double[] y0 = new double[n];
         java.util.Arrays.fill(y0, -1.0);
         ContinuationSettings s = ContinuationSettings.of(-1, 1).withMaxPoints(25).withEigenvalueLimit(0)
                 .withSteps(0.5, 1e-6, 4.0);
-        Branch br = new PseudoArclength(s).trace(big, y0, new double[] {-0.8}, 0, +1);
-        assertTrue(br.folds().size() >= 1, "fold found on the 500-state chain");
-        Fold f = br.folds().get(0);
-        assertTrue(f.refined());
         double pStar = 2 / (3 * Math.sqrt(3));
-        assertEquals(pStar, f.parameter(), REL_TOL_FOLD * pStar);
+        double[] found = new double[2];
+        for (int k = 0; k < 2; k++) {
+            Branch br = new PseudoArclength(s).trace(chain(n, k == 1), y0, new double[] {-0.8}, 0, +1);
+            assertTrue(br.folds().size() >= 1, "fold found on the 500-state chain");
+            Fold f = br.folds().get(0);
+            assertTrue(f.refined());
+            assertEquals(pStar, f.parameter(), REL_TOL_FOLD * pStar);
+            found[k] = f.parameter();
+        }
+        // Dense and sparse LU solve the same Newton systems; refined folds agree to the refinement tolerance.
+        assertEquals(found[0], found[1], 1e-12);
     }
 }

@@ -68,15 +68,16 @@ class ThresholdsTest {
         // Cubic -x^3 + q x + p, readout x (closed form): for q < 0 the branch p(x) = x^3 - q x is steepest in
         // x at x = 0, so the threshold is p = 0; for q > 0 switch-on is the fold at 2 (q/3)^{3/2}, which tends to
         // 0 as q -> 0+.
-        // Small steps: for q = 0.01 the S-shaped part spans only 0.12 in x, and larger predictor steps can jump it.
-        Thresholds th = new Thresholds(ContinuationSettings.of(-1, 1).withSteps(1e-3, 1e-9, 1e-2));
+        // Default steps (max 0.1): for q = 0.01 the S-shaped part spans only 0.12 in x, so this also checks that
+        // the corrector-distance limit stops the predictor from jumping across it.
+        Thresholds th = new Thresholds(ContinuationSettings.of(-1, 1));
         for (double q : new double[] {-0.1, -0.01}) {
             Threshold t = th.switchOn(TestSystems.CUBIC, new double[] {-1}, new double[] {0, q}, 0,
                     new double[] {1});
             assertEquals(Threshold.Kind.STEEPEST_RESPONSE, t.kind());
             assertEquals(0.0, t.value(), 1e-10);
         }
-        for (double q : new double[] {0.01, 0.1}) {
+        for (double q : new double[] {0.0001, 0.01, 0.1}) {
             Threshold t = th.switchOn(TestSystems.CUBIC, new double[] {-1}, new double[] {0, q}, 0,
                     new double[] {1});
             assertEquals(Threshold.Kind.FOLD, t.kind());

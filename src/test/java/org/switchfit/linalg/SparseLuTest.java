@@ -149,4 +149,27 @@ class SparseLuTest {
         int[] ao = SparsePattern.minimumDegreeOrder(n, arrow);
         assertTrue(ao[n - 1] == 0 || ao[n - 2] == 0);
     }
+
+    @Test
+    void planSharesOneSymbolicAnalysisAcrossWorkspaces() {
+        int n = 200;
+        Random rnd = new Random(SEED + 5);
+        int[][] pattern = randomPattern(rnd, n, 3);
+        LuPlan plan = LuPlan.of(n, pattern);
+        assertTrue(plan.isSparse());
+        SparseLu a = (SparseLu) plan.newSolver();
+        SparseLu b = (SparseLu) plan.newSolver();
+        assertTrue(a.symbolic() == b.symbolic(), "same analysis object");
+        double[] m = fill(rnd, n, pattern, 2.0);
+        assertTrue(a.factor(m));
+        assertTrue(b.factor(m));
+        double[] x = new double[n];
+        java.util.Arrays.fill(x, 1.0);
+        double[] y = x.clone();
+        a.solve(x);
+        b.solve(y);
+        // Same structure, same arithmetic: bitwise identical results (reproducibility, common practice).
+        assertArrayEquals(x, y, 0.0);
+        assertFalse(LuPlan.of(30, pattern.length == 30 ? pattern : randomPattern(rnd, 30, 2)).isSparse());
+    }
 }
