@@ -1,0 +1,219 @@
+package org.switchfit.ode;
+
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+import org.switchfit.expr.Block;
+import org.switchfit.expr.BlockCompiler;
+import org.switchfit.expr.CompiledBlock;
+import org.switchfit.expr.Derivative;
+import org.switchfit.expr.Expr;
+import org.switchfit.model.OdeForm;
+
+/**
+ * A model compiled to bytecode: the ODE right-hand side with its Jacobians, initial values, runtime locals and
+ * event switching functions. Immutable and thread-safe; the hot methods allocate nothing.
+ *
+ * <p>Parameter vector p: the layout of {@link OdeForm} (declared values of compartments, species, parameters,
+ * species references with ids, local parameters {@code reactionId.paramId}); {@link #parameterIndex} maps names.
+ * The right-hand side expects the effective parameters returned by {@link #initialValues} (initial assignments
+ * applied).
+ */
+public final class CompiledModel implements OdeSystem {
+    private final OdeForm form;
+    private final int n;
+    private final int m;
+    private final CompiledBlock rhs;
+    private final CompiledBlock locals;
+    private final CompiledBlock init;
+    private final CompiledBlock switching;
+    private final int switchingCount;
+    private final List<Expr> switchingExprs;
+    private final int[][] pattern;
+    private volatile CompiledBlock jacY;
+    private volatile CompiledBlock jacP;
+
+    CompiledModel(OdeForm form, List<Expr> switchingFunctions) {
+        this.form = form;
+        this.n = form.stateCount();
+        this.m = form.parameterCount();
+        Block rt = form.runtime();
+        Block localsBlock = rt.withOutputs(localRefs(rt));
+        Block sw = rt.withOutputs(switchingFunctions).prune();
+        List<CompiledBlock> cb = BlockCompiler.compileAll(List.of(rt.prune(), localsBlock, form.initial(), sw));
+        this.rhs = cb.get(0);
+        this.locals = cb.get(1);
+        this.init = cb.get(2);
+        this.switching = cb.get(3);
+        this.switchingCount = switchingFunctions.size();
+        this.switchingExprs = List.copyOf(switchingFunctions);
+        this.pattern = computePattern(rt);
+    }
+
+    private static List<Expr> localRefs(Block b) {
+        List<Expr> l = new ArrayList<>();
+        for (int i = 0; i < b.localCount(); i++) {
+            l.add(Expr.local(i, b.localName(i)));
+        }
+        return l;
+    }
+
+    private int[][] computePattern(Block rt) {
+        List<Expr> vars = new ArrayList<>();
+        for (int j = 0; j < n; j++) {
+            vars.add(Expr.state(j, form.stateIds().get(j)));
+        }
+        Derivative.Sparse s = Derivative.jacobian(rt.prune(), vars);
+        List<List<Integer>> rows = new ArrayList<>();
+        for (int i = 0; i < n; i++) {
+            rows.add(new ArrayList<>());
+        }
+        for (int k = 0; k < s.rows().length; k++) {
+            rows.get(s.rows()[k]).add(s.cols()[k]);
+        }
+        int[][] pat = new int[n][];
+        for (int i = 0; i < n; i++) {
+            pat[i] = rows.get(i).stream().mapToInt(Integer::intValue).sorted().distinct().toArray();
+        }
+        return pat;
+    }
+
+    /** The ODE form this was compiled from. */
+    public OdeForm form() {
+        return form;
+    }
+
+    @Override
+    public int stateCount() {
+        return n;
+    }
+
+    @Override
+    public int parameterCount() {
+        return m;
+    }
+
+    @Override
+    public void rhs(double t, double[] y, double[] p, double[] dydt) {
+        rhs.eval(t, y, p, dydt);
+    }
+
+    @Override
+    public void jacobianY(double t, double[] y, double[] p, double[] jac) {
+        CompiledBlock j = jacY;
+        if (j == null) {
+            j = compileJacobians()[0];
+        }
+        Arrays.fill(jac, 0, n * n, 0.0);
+        j.eval(t, y, p, jac);
+    }
+
+    @Override
+    public void jacobianP(double t, double[] y, double[] p, double[] jac) {
+        CompiledBlock j = jacP;
+        if (j == null) {
+            j = compileJacobians()[1];
+        }
+        Arrays.fill(jac, 0, n * m, 0.0);
+        j.eval(t, y, p, jac);
+    }
+
+    @Override
+    public int[][] jacobianPattern() {
+        int[][] c = new int[n][];
+        for (int i = 0; i < n; i++) {
+            c[i] = pattern[i].clone();
+        }
+        return c;
+    }
+
+    private synchronized CompiledBlock[] compileJacobians() {
+        if (jacY == null || jacP == null) {
+            Block rt = form.runtime().prune();
+            List<Expr> ys = new ArrayList<>();
+            for (int j = 0; j < n; j++) {
+                ys.add(Expr.state(j, form.stateIds().get(j)));
+            }
+            List<Expr> ps = new ArrayList<>();
+            for (int k = 0; k < m; k++) {
+                ps.add(Expr.param(k, form.parameterIds().get(k)));
+            }
+            Derivative.Sparse dy = Derivative.jacobian(rt, ys);
+            Derivative.Sparse dp = Derivative.jacobian(rt, ps);
+            int[] posY = new int[dy.rows().length];
+            for (int k = 0; k < posY.length; k++) {
+                posY[k] = dy.rows()[k] * n + dy.cols()[k];
+            }
+            int[] posP = new int[dp.rows().length];
+            for (int k = 0; k < posP.length; k++) {
+                posP[k] = dp.rows()[k] * m + dp.cols()[k];
+            }
+            List<CompiledBlock> cb = BlockCompiler.compileAll(List.of(dy.block(), dp.block()),
+                    List.of(posY, posP));
+            jacY = cb.get(0);
+            jacP = cb.get(1);
+        }
+        return new CompiledBlock[] {jacY, jacP};
+    }
+
+    /** Number of runtime locals (assignment rules, concentrations, reaction rates, rates of change). */
+    public int localCount() {
+        return form.runtime().localCount();
+    }
+
+    /** Writes all runtime locals at (t, y, p) into {@code w} (length &gt;= {@link #localCount}). */
+    public void locals(double t, double[] y, double[] p, double[] w) {
+        locals.eval(t, y, p, w);
+    }
+
+    /**
+     * Initial values at time t0 from declared parameters.
+     *
+     * @param pDeclared declared values (length m)
+     * @param y0        receives the initial state (length n)
+     * @param pEff      receives the effective parameters (length m)
+     */
+    public void initialValues(double t0, double[] pDeclared, double[] y0, double[] pEff) {
+        double[] out = new double[n + m];
+        init.eval(t0, y0, pDeclared, out);
+        System.arraycopy(out, 0, y0, 0, n);
+        System.arraycopy(out, n, pEff, 0, m);
+    }
+
+    /** Declared parameter values (copy). */
+    public double[] parameterValues() {
+        return form.parameterValues();
+    }
+
+    /** Parameter names in p order. */
+    public List<String> parameterIds() {
+        return form.parameterIds();
+    }
+
+    /** Index of a parameter name, or -1. */
+    public int parameterIndex(String id) {
+        return form.parameterIndex(id);
+    }
+
+    /** Event switching functions, one per event in model order. */
+    public RootFunctions switchingFunctions() {
+        final CompiledBlock sw = switching;
+        final int c = switchingCount;
+        return new RootFunctions() {
+            @Override
+            public int count() {
+                return c;
+            }
+
+            @Override
+            public void evaluate(double t, double[] y, double[] p, double[] g) {
+                sw.eval(t, y, p, g);
+            }
+        };
+    }
+
+    /** Symbolic switching functions (for messages and tests). */
+    public List<Expr> switchingExpressions() {
+        return switchingExprs;
+    }
+}

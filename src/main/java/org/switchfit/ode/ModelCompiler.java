@@ -1,0 +1,60 @@
+package org.switchfit.ode;
+
+import java.util.ArrayList;
+import java.util.List;
+import org.switchfit.expr.Expr;
+import org.switchfit.expr.Op;
+import org.switchfit.model.BoundEvent;
+import org.switchfit.model.Model;
+import org.switchfit.model.OdeForm;
+
+/**
+ * Compiles a {@link Model} into a {@link CompiledModel}. Event triggers become continuous switching functions whose
+ * sign follows the trigger: {@code a > b}, {@code a >= b} give a - b; {@code a < b}, {@code a <= b} give b - a;
+ * and gives min, or gives max, not gives the negation; any other condition c gives +1 when c holds, else -1 (a
+ * jump that root bracketing still locates).
+ */
+public final class ModelCompiler {
+    private ModelCompiler() {
+    }
+
+    /** Builds the ODE form and compiles it. */
+    public static CompiledModel compile(Model model) {
+        return compile(OdeForm.of(model));
+    }
+
+    /** Compiles an ODE form. */
+    public static CompiledModel compile(OdeForm form) {
+        List<Expr> sw = new ArrayList<>();
+        for (BoundEvent e : form.events()) {
+            sw.add(switching(e.trigger()));
+        }
+        return new CompiledModel(form, sw);
+    }
+
+    /** The switching function of a boolean expression. */
+    public static Expr switching(Expr c) {
+        switch (c.op()) {
+            case GT:
+            case GE:
+                return Expr.sub(c.arg(0), c.arg(1));
+            case LT:
+            case LE:
+                return Expr.sub(c.arg(1), c.arg(0));
+            case AND:
+            case OR: {
+                Expr[] a = new Expr[c.argCount()];
+                for (int i = 0; i < a.length; i++) {
+                    a[i] = switching(c.arg(i));
+                }
+                return a.length == 1 ? a[0] : Expr.call(c.op() == Op.AND ? Op.MIN : Op.MAX, a);
+            }
+            case NOT:
+                return Expr.neg(switching(c.arg(0)));
+            case CONST:
+                return Expr.constant(c.value() != 0.0 ? 1.0 : -1.0);
+            default:
+                return Expr.call(Op.PIECEWISE, Expr.ONE, c, Expr.constant(-1.0));
+        }
+    }
+}

@@ -1,0 +1,255 @@
+package org.switchfit.ode;
+
+import java.util.ArrayList;
+import java.util.List;
+import org.switchfit.expr.Expr;
+import org.switchfit.expr.Interpreter;
+import org.switchfit.model.BoundEvent;
+
+/**
+ * Runs a compiled model with SBML semantics on top of any {@link Integrator}: initial values at the start time,
+ * events (trigger from false to true, initialValue, delay, priority, persistence, useValuesFromTriggerTime,
+ * cascades of simultaneous events; SBML Level 3 Version 2, section 4.12), and outputs at requested times. Events
+ * are located through the switching functions of {@link ModelCompiler}; the integration restarts after every
+ * event execution. Immutable; {@link #simulate} may run concurrently from several threads.
+ *
+ * <p>Order of simultaneous events: highest priority first (priority evaluated when choosing; events without
+ * priority come after those with one), ties in model order. Events without a delay compute their assignment values
+ * when executed; delayed events with useValuesFromTriggerTime compute them when triggered.
+ */
+public final class Simulator {
+    /** Maximum number of event executions at one time point before giving up (cycles of events). */
+    static final int MAX_EVENTS_PER_INSTANT = 10_000;
+
+    private final CompiledModel model;
+    private final Integrator integrator;
+
+    public Simulator(CompiledModel model, Integrator integrator) {
+        this.model = model;
+        this.integrator = integrator;
+    }
+
+    /**
+     * Simulates from t0 = min(0, times[0]) and reports outputs at {@code times} (non-decreasing).
+     *
+     * @param pDeclared declared parameter values (see {@link CompiledModel}); not modified
+     * @throws IntegrationException when integration fails
+     */
+    public Trajectory simulate(double[] times, double[] pDeclared, ModelOutputs outputs) {
+        Run run = new Run(pDeclared, Math.min(0.0, times.length == 0 ? 0.0 : times[0]));
+        double[][] values = new double[times.length][outputs.count()];
+        for (int r = 0; r < times.length; r++) {
+            run.advanceTo(times[r]);
+            outputs.evaluate(run.t, run.y, run.p, values[r]);
+        }
+        return new Trajectory(outputs.names(), times, values);
+    }
+
+    /** A model without states, given one dummy state with zero derivative so integrators can run. */
+    private static final class Padded implements OdeSystem {
+        private final OdeSystem inner;
+
+        Padded(OdeSystem inner) {
+            this.inner = inner;
+        }
+
+        @Override
+        public int stateCount() {
+            return 1;
+        }
+
+        @Override
+        public int parameterCount() {
+            return inner.parameterCount();
+        }
+
+        @Override
+        public void rhs(double t, double[] y, double[] p, double[] dydt) {
+            dydt[0] = 0.0;
+        }
+
+        @Override
+        public void jacobianY(double t, double[] y, double[] p, double[] jac) {
+            jac[0] = 0.0;
+        }
+
+        @Override
+        public void jacobianP(double t, double[] y, double[] p, double[] jac) {
+            java.util.Arrays.fill(jac, 0, inner.parameterCount(), 0.0);
+        }
+    }
+
+    /** Switching functions of a state-free model evaluated with an empty state. */
+    private static final class PaddedRoots implements RootFunctions {
+        private final RootFunctions inner;
+        private final double[] empty;
+
+        PaddedRoots(RootFunctions inner, int n) {
+            this.inner = inner;
+            this.empty = n == 0 ? new double[0] : null;
+        }
+
+        @Override
+        public int count() {
+            return inner.count();
+        }
+
+        @Override
+        public void evaluate(double t, double[] y, double[] p, double[] g) {
+            inner.evaluate(t, empty == null ? y : empty, p, g);
+        }
+    }
+
+    /** One pending event execution. */
+    private static final class Pending {
+        final int event;
+        final double time;
+        final double[] values;
+        final long seq;
+
+        Pending(int event, double time, double[] values, long seq) {
+            this.event = event;
+            this.time = time;
+            this.values = values;
+            this.seq = seq;
+        }
+    }
+
+    /** State of one simulation. */
+    private final class Run {
+        final int n = model.stateCount();
+        final List<BoundEvent> events = model.form().events();
+        final int ne = events.size();
+        final double[] y = new double[n];
+        final double[] p = new double[model.parameterCount()];
+        final double[] w = new double[Math.max(1, model.localCount())];
+        final boolean[] trig = new boolean[ne];
+        final List<Pending> pending = new ArrayList<>();
+        final double[] scratch = new double[1];
+        IntegrationSession session;
+        double t;
+        long seq;
+
+        Run(double[] pDeclared, double t0) {
+            t = t0;
+            model.initialValues(t0, pDeclared, y, p);
+            for (int e = 0; e < ne; e++) {
+                trig[e] = events.get(e).initialValue();
+            }
+            session = integrator.start(n == 0 ? new Padded(model) : model, t0, n == 0 ? new double[1] : y, p,
+                    ne > 0 ? new PaddedRoots(model.switchingFunctions(), n) : null, null, null);
+            if (handleEvents()) {
+                session.reset(n == 0 ? scratch : y, null);
+            }
+        }
+
+        void advanceTo(double tOut) {
+            while (t < tOut) {
+                double target = tOut;
+                for (Pending pe : pending) {
+                    if (pe.time > t && pe.time < target) {
+                        target = pe.time;
+                    }
+                }
+                t = session.advance(target, n == 0 ? scratch : y, null);
+                if (ne > 0 && handleEvents()) {
+                    session.reset(n == 0 ? scratch : y, null);
+                }
+            }
+        }
+
+        private void refreshLocals() {
+            model.locals(t, y, p, w);
+        }
+
+        private boolean truth(Expr e) {
+            return Interpreter.truth(e, t, y, p, w);
+        }
+
+        private double value(Expr e) {
+            return Interpreter.evaluate(e, t, y, p, w);
+        }
+
+        private double[] assignmentValues(BoundEvent ev) {
+            double[] v = new double[ev.targets().size()];
+            for (int i = 0; i < v.length; i++) {
+                v[i] = value(ev.targets().get(i).value());
+            }
+            return v;
+        }
+
+        /** Processes triggers and due executions at the current time; returns true when states changed. */
+        boolean handleEvents() {
+            boolean changed = false;
+            int executed = 0;
+            while (true) {
+                refreshLocals();
+                for (int e = 0; e < ne; e++) {
+                    BoundEvent ev = events.get(e);
+                    boolean now = truth(ev.trigger());
+                    if (now && !trig[e]) {
+                        double delay = ev.delay() == null ? 0.0 : value(ev.delay());
+                        double[] vals = ev.delay() != null && ev.useValuesFromTriggerTime()
+                                ? assignmentValues(ev) : null;
+                        pending.add(new Pending(e, ev.delay() == null ? t : t + delay, vals, seq++));
+                    } else if (!now && trig[e] && !ev.persistent()) {
+                        final int fe = e;
+                        pending.removeIf(pe -> pe.event == fe);
+                    }
+                    trig[e] = now;
+                }
+                Pending next = null;
+                double bestPrio = Double.NEGATIVE_INFINITY;
+                for (Pending pe : pending) {
+                    if (pe.time > t) {
+                        continue;
+                    }
+                    BoundEvent ev = events.get(pe.event);
+                    double prio = ev.priority() == null ? Double.NEGATIVE_INFINITY : value(ev.priority());
+                    if (Double.isNaN(prio)) {
+                        prio = Double.NEGATIVE_INFINITY;
+                    }
+                    if (next == null || prio > bestPrio
+                            || (prio == bestPrio && (pe.event < next.event
+                            || (pe.event == next.event && pe.seq < next.seq)))) {
+                        next = pe;
+                        bestPrio = prio;
+                    }
+                }
+                if (next == null) {
+                    return changed;
+                }
+                pending.remove(next);
+                execute(events.get(next.event), next.values);
+                changed = true;
+                if (++executed > MAX_EVENTS_PER_INSTANT) {
+                    throw new IntegrationException(t, "more than " + MAX_EVENTS_PER_INSTANT + " event executions at "
+                            + "one time point; the events retrigger each other");
+                }
+            }
+        }
+
+        private void execute(BoundEvent ev, double[] precomputed) {
+            double[] v = precomputed != null ? precomputed : assignmentValues(ev);
+            List<BoundEvent.Target> ts = ev.targets();
+            boolean scaled = false;
+            for (int i = 0; i < v.length; i++) {
+                BoundEvent.Target tg = ts.get(i);
+                if (tg.scale() == null) {
+                    y[tg.stateIndex()] = v[i];
+                } else {
+                    scaled = true;
+                }
+            }
+            if (scaled) {
+                refreshLocals();
+                for (int i = 0; i < v.length; i++) {
+                    BoundEvent.Target tg = ts.get(i);
+                    if (tg.scale() != null) {
+                        y[tg.stateIndex()] = v[i] * value(tg.scale());
+                    }
+                }
+            }
+        }
+    }
+}

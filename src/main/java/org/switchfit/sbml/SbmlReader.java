@@ -1,0 +1,343 @@
+package org.switchfit.sbml;
+
+import java.io.File;
+import java.io.IOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.HashMap;
+import java.util.HashSet;
+import java.util.List;
+import java.util.Map;
+import java.util.Set;
+import javax.xml.stream.XMLStreamException;
+import org.apache.logging.log4j.Level;
+import org.apache.logging.log4j.core.config.Configurator;
+import org.sbml.jsbml.ASTNode;
+import org.sbml.jsbml.AlgebraicRule;
+import org.sbml.jsbml.AssignmentRule;
+import org.sbml.jsbml.KineticLaw;
+import org.sbml.jsbml.LocalParameter;
+import org.sbml.jsbml.RateRule;
+import org.sbml.jsbml.SBMLDocument;
+import org.sbml.jsbml.SBMLReader;
+import org.sbml.jsbml.SimpleSpeciesReference;
+import org.sbml.jsbml.ext.comp.CompConstants;
+import org.sbml.jsbml.ext.comp.util.CompFlatteningConverter;
+import org.switchfit.expr.Expr;
+import org.switchfit.expr.Op;
+import org.switchfit.model.Compartment;
+import org.switchfit.model.Event;
+import org.switchfit.model.InitialAssignment;
+import org.switchfit.model.Model;
+import org.switchfit.model.Parameter;
+import org.switchfit.model.Reaction;
+import org.switchfit.model.Rule;
+import org.switchfit.model.Species;
+import org.switchfit.model.SpeciesRef;
+import org.switchfit.util.SourceLocation;
+import org.switchfit.util.UnsupportedConstructException;
+import org.switchfit.util.UserInputException;
+
+/**
+ * Reads SBML (Level 1 Version 2 to Level 3 Version 2 core, plus the comp package, flattened) into a {@link Model}
+ * with JSBML. Function definitions are inlined; local parameters are renamed {@code reactionId.paramId}. JSBML's
+ * own logging is switched off. Thread-safe (each call uses its own reader).
+ */
+public final class SbmlReader {
+    private static volatile boolean loggingConfigured;
+
+    private SbmlReader() {
+    }
+
+    /** Silences JSBML's log4j output (idempotent). */
+    public static void silenceLogging() {
+        if (!loggingConfigured) {
+            synchronized (SbmlReader.class) {
+                if (!loggingConfigured) {
+                    try {
+                        Configurator.setRootLevel(Level.OFF);
+                        Configurator.setLevel("org.sbml", Level.OFF);
+                    } catch (RuntimeException | LinkageError e) {
+                        // logging backend absent: nothing to silence
+                    }
+                    loggingConfigured = true;
+                }
+            }
+        }
+    }
+
+    /**
+     * Reads a model file.
+     *
+     * @throws UserInputException            for unreadable, malformed or non-SBML files and undefined ids
+     * @throws UnsupportedConstructException for constructs switchfit cannot simulate
+     */
+    public static Model read(Path path) {
+        silenceLogging();
+        String file = path.toString();
+        if (!Files.isRegularFile(path)) {
+            throw new UserInputException(SourceLocation.ofFile(file), "file not found; check the path");
+        }
+        SBMLDocument doc;
+        try {
+            doc = new SBMLReader().readSBML(path.toFile());
+        } catch (XMLStreamException e) {
+            int line = e.getLocation() != null ? e.getLocation().getLineNumber() : 0;
+            String msg = firstLine(e.getMessage());
+            throw new UserInputException(SourceLocation.ofLine(file, line), "is not well-formed XML (" + msg
+                    + "); fix or re-export the file", e);
+        } catch (IOException e) {
+            throw new UserInputException(SourceLocation.ofFile(file), "cannot be read (" + e.getMessage()
+                    + "); check permissions", e);
+        } catch (RuntimeException e) {
+            throw new UserInputException(SourceLocation.ofFile(file), "could not be parsed as SBML ("
+                    + firstLine(String.valueOf(e.getMessage())) + "); check that it is an SBML file", e);
+        }
+        if (doc == null || doc.getModel() == null || doc.getLevel() < 1) {
+            throw new UserInputException(SourceLocation.ofFile(file), "contains no SBML model (root element must "
+                    + "be <sbml> with a <model>); pass an SBML file");
+        }
+        if (doc.isPackageEnabled(CompConstants.shortLabel) || doc.getModel().getExtension(CompConstants.shortLabel)
+                != null || doc.getExtension(CompConstants.shortLabel) != null) {
+            doc = flatten(doc, path);
+        }
+        for (String pkg : new String[] {"fbc", "arrays", "distrib", "spatial", "qual", "multi"}) {
+            if (doc.isPackageEnabled(pkg)) {
+                throw new UnsupportedConstructException(SourceLocation.ofFile(file), "the SBML package '" + pkg
+                        + "'", "remove the package constructs");
+            }
+        }
+        return new Builder(doc, file).build();
+    }
+
+    private static SBMLDocument flatten(SBMLDocument doc, Path path) {
+        try {
+            doc.setLocationURI(path.toAbsolutePath().getParent().toUri().toString());
+            SBMLDocument flat = new CompFlatteningConverter().flatten(doc);
+            if (flat == null || flat.getModel() == null) {
+                throw new UnsupportedConstructException(SourceLocation.ofFile(path.toString()),
+                        "hierarchical model composition that could not be flattened", "flatten the model first");
+            }
+            return flat;
+        } catch (UserInputException e) {
+            throw e;
+        } catch (RuntimeException e) {
+            throw new UnsupportedConstructException(SourceLocation.ofFile(path.toString()),
+                    "hierarchical model composition that could not be flattened (" + firstLine(String.valueOf(
+                            e.getMessage())) + ")", "flatten the model first");
+        }
+    }
+
+    static String firstLine(String s) {
+        if (s == null) {
+            return "";
+        }
+        String t = s.strip();
+        int nl = t.indexOf('\n');
+        return nl < 0 ? t : t.substring(0, nl).strip();
+    }
+
+    /** Builds the model from one document. */
+    private static final class Builder {
+        private final SBMLDocument doc;
+        private final org.sbml.jsbml.Model m;
+        private final String file;
+        private final MathConverter conv;
+        private final int level;
+
+        Builder(SBMLDocument doc, String file) {
+            this.doc = doc;
+            this.m = doc.getModel();
+            this.file = file;
+            this.conv = new MathConverter(m, file);
+            this.level = doc.getLevel();
+        }
+
+        Model build() {
+            List<Compartment> comps = new ArrayList<>();
+            for (org.sbml.jsbml.Compartment c : m.getListOfCompartments()) {
+                double size = c.isSetSize() ? c.getSize() : Double.NaN;
+                if (level < 3 && !c.isSetSize() && m.getInitialAssignment(c.getId()) == null
+                        && m.getRule(c.getId()) == null) {
+                    size = 1.0; // L1/L2 default size
+                }
+                double dims = c.isSetSpatialDimensions() ? c.getSpatialDimensions() : level < 3 ? 3 : Double.NaN;
+                comps.add(new Compartment(c.getId(), size, dims, level < 2 || c.getConstant()));
+            }
+            List<Species> species = new ArrayList<>();
+            for (org.sbml.jsbml.Species s : m.getListOfSpecies()) {
+                double amt = s.isSetInitialAmount() ? s.getInitialAmount() : Double.NaN;
+                double conc = s.isSetInitialConcentration() ? s.getInitialConcentration() : Double.NaN;
+                String cf = s.isSetConversionFactor() ? s.getConversionFactor() : null;
+                boolean constant = level >= 2 && s.getConstant();
+                org.sbml.jsbml.Compartment sc = m.getCompartment(s.getCompartment());
+                // a species in a 0-dimensional compartment has no concentration: its symbol is its amount
+                boolean zeroDim = sc != null && sc.isSetSpatialDimensions() && sc.getSpatialDimensions() == 0;
+                species.add(new Species(s.getId(), s.getCompartment(), amt, conc,
+                        s.getHasOnlySubstanceUnits() || zeroDim,
+                        s.getBoundaryCondition(), constant, cf));
+            }
+            List<Parameter> params = new ArrayList<>();
+            for (org.sbml.jsbml.Parameter p : m.getListOfParameters()) {
+                params.add(new Parameter(p.getId(), p.isSetValue() ? p.getValue() : Double.NaN,
+                        level >= 2 && p.getConstant()));
+            }
+            List<Reaction> reactions = new ArrayList<>();
+            for (org.sbml.jsbml.Reaction r : m.getListOfReactions()) {
+                reactions.add(reaction(r));
+            }
+            List<Rule> rules = new ArrayList<>();
+            for (org.sbml.jsbml.Rule r : m.getListOfRules()) {
+                String rid = r.isSetMetaId() ? r.getMetaId() : null;
+                if (r instanceof AlgebraicRule) {
+                    rules.add(new Rule(Rule.Kind.ALGEBRAIC, null, conv.convert(r.getMath(), Map.of(),
+                            rid == null ? "algebraic rule" : rid), rid));
+                } else if (r instanceof AssignmentRule) {
+                    AssignmentRule a = (AssignmentRule) r;
+                    rules.add(new Rule(Rule.Kind.ASSIGNMENT, a.getVariable(), conv.convert(a.getMath(), Map.of(),
+                            a.getVariable()), rid));
+                } else if (r instanceof RateRule) {
+                    RateRule a = (RateRule) r;
+                    rules.add(new Rule(Rule.Kind.RATE, a.getVariable(), conv.convert(a.getMath(), Map.of(),
+                            a.getVariable()), rid));
+                }
+            }
+            List<InitialAssignment> ias = new ArrayList<>();
+            for (org.sbml.jsbml.InitialAssignment ia : m.getListOfInitialAssignments()) {
+                ias.add(new InitialAssignment(ia.getVariable(), conv.convert(ia.getMath(), Map.of(),
+                        ia.getVariable())));
+            }
+            List<Event> events = new ArrayList<>();
+            int en = 0;
+            for (org.sbml.jsbml.Event e : m.getListOfEvents()) {
+                events.add(event(e, en++));
+            }
+            String cf = m.isSetConversionFactor() ? m.getConversionFactor() : null;
+            Model model = new Model(m.getId(), file, comps, species, params, reactions, rules, ias, events, cf);
+            checkSymbols(model);
+            return model;
+        }
+
+        private Reaction reaction(org.sbml.jsbml.Reaction r) {
+            String rid = r.getId();
+            Map<String, String> rename = new HashMap<>();
+            List<Parameter> locals = new ArrayList<>();
+            KineticLaw kl = r.getKineticLaw();
+            if (kl != null) {
+                for (LocalParameter lp : kl.getListOfLocalParameters()) {
+                    String nid = rid + "." + lp.getId();
+                    rename.put(lp.getId(), nid);
+                    locals.add(new Parameter(nid, lp.isSetValue() ? lp.getValue() : Double.NaN, true));
+                }
+            }
+            Expr law = kl == null || kl.getMath() == null ? null : conv.convert(kl.getMath(), rename, rid);
+            List<SpeciesRef> reactants = new ArrayList<>();
+            for (org.sbml.jsbml.SpeciesReference s : r.getListOfReactants()) {
+                reactants.add(ref(s, rid));
+            }
+            List<SpeciesRef> products = new ArrayList<>();
+            for (org.sbml.jsbml.SpeciesReference s : r.getListOfProducts()) {
+                products.add(ref(s, rid));
+            }
+            boolean fast = r.isSetFast() && r.getFast();
+            return new Reaction(rid, reactants, products, law, locals, r.getReversible(), fast);
+        }
+
+        private SpeciesRef ref(org.sbml.jsbml.SpeciesReference s, String rid) {
+            Expr sm = null;
+            if (s.isSetStoichiometryMath() && s.getStoichiometryMath().getMath() != null) {
+                sm = conv.convert(s.getStoichiometryMath().getMath(), Map.of(), rid);
+            }
+            double st = s.isSetStoichiometry() ? s.getStoichiometry() : level < 3 ? 1.0 : Double.NaN;
+            if (level == 1 && s.isSetDenominator()) {
+                st = st / s.getDenominator();
+            }
+            String id = s.isSetId() && !((SimpleSpeciesReference) s).getId().isEmpty() ? s.getId() : null;
+            boolean constant = level < 3 ? sm == null : s.getConstant();
+            return new SpeciesRef(s.getSpecies(), id, st, sm, constant);
+        }
+
+        private Event event(org.sbml.jsbml.Event e, int index) {
+            String eid = e.isSetId() ? e.getId() : "event" + (index + 1);
+            if (e.getTrigger() == null || e.getTrigger().getMath() == null) {
+                throw new UserInputException(SourceLocation.ofElement(file, eid), "event has no trigger; add one");
+            }
+            Expr trig = conv.convert(e.getTrigger().getMath(), Map.of(), eid);
+            boolean init = level < 3 || !e.getTrigger().isSetInitialValue() || e.getTrigger().getInitialValue();
+            boolean persistent = level < 3 || !e.getTrigger().isSetPersistent() || e.getTrigger().getPersistent();
+            Expr delay = e.getDelay() != null && e.getDelay().getMath() != null
+                    ? conv.convert(e.getDelay().getMath(), Map.of(), eid) : null;
+            Expr prio = e.getPriority() != null && e.getPriority().getMath() != null
+                    ? conv.convert(e.getPriority().getMath(), Map.of(), eid) : null;
+            boolean uvftt = !e.isSetUseValuesFromTriggerTime() || e.getUseValuesFromTriggerTime();
+            List<Event.Assignment> as = new ArrayList<>();
+            for (org.sbml.jsbml.EventAssignment a : e.getListOfEventAssignments()) {
+                if (a.getMath() == null) {
+                    continue;
+                }
+                as.add(new Event.Assignment(a.getVariable(), conv.convert(a.getMath(), Map.of(), eid)));
+            }
+            return new Event(eid, trig, init, persistent, delay, prio, uvftt, as);
+        }
+
+        /** Every symbol used in mathematics must name a quantity or reaction. */
+        private void checkSymbols(Model model) {
+            Set<String> known = new HashSet<>();
+            model.compartments().forEach(c -> known.add(c.id()));
+            model.species().forEach(s -> known.add(s.id()));
+            model.parameters().forEach(p -> known.add(p.id()));
+            for (Reaction r : model.reactions()) {
+                known.add(r.id());
+                r.localParameters().forEach(p -> known.add(p.id()));
+                r.reactants().forEach(s -> {
+                    if (s.id() != null) {
+                        known.add(s.id());
+                    }
+                });
+                r.products().forEach(s -> {
+                    if (s.id() != null) {
+                        known.add(s.id());
+                    }
+                });
+            }
+            for (Reaction r : model.reactions()) {
+                if (r.kineticLaw() != null) {
+                    check(r.kineticLaw(), known, "the kinetic law of reaction '" + r.id() + "'", r.id());
+                }
+            }
+            for (Rule r : model.rules()) {
+                String where = r.variable() == null ? "an algebraic rule" : "the rule for '" + r.variable() + "'";
+                check(r.math(), known, where, r.variable() == null ? r.elementId() : r.variable());
+            }
+            for (InitialAssignment ia : model.initialAssignments()) {
+                check(ia.math(), known, "the initial assignment of '" + ia.symbol() + "'", ia.symbol());
+            }
+            for (Event e : model.events()) {
+                check(e.trigger(), known, "the trigger of event '" + e.id() + "'", e.id());
+                for (Event.Assignment a : e.assignments()) {
+                    check(a.math(), known, "event '" + e.id() + "'", e.id());
+                }
+            }
+        }
+
+        private void check(Expr e, Set<String> known, String where, String element) {
+            e.forEach(x -> {
+                if (x.op() == Op.SYMBOL && !known.contains(x.name())) {
+                    throw new UserInputException(SourceLocation.ofElement(file, element), where + " uses '"
+                            + x.name() + "', which is not defined in the model; define it or correct the id");
+                }
+            });
+        }
+    }
+
+    /** Unused: keeps the ASTNode import meaningful for readers of the converter. */
+    static boolean isMath(ASTNode n) {
+        return n != null;
+    }
+
+    /** Name of a file for messages. */
+    static String name(File f) {
+        return f.getName();
+    }
+}
