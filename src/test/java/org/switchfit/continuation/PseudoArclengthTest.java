@@ -206,4 +206,28 @@ class PseudoArclengthTest {
         // Dense and sparse LU solve the same Newton systems; refined folds agree to the refinement tolerance.
         assertEquals(found[0], found[1], 1e-12);
     }
+
+    @Test
+    void invalidArgumentsNameTheValues() {
+        IllegalArgumentException e1 = org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
+                () -> ContinuationSettings.of(1, 0));
+        assertTrue(e1.getMessage().contains("lower bound 1") && e1.getMessage().contains("upper bound 0"),
+                e1.getMessage());
+        PseudoArclength pal = new PseudoArclength(ContinuationSettings.of(-1, 1));
+        IllegalArgumentException e2 = org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
+                () -> pal.trace(TestSystems.CUBIC, new double[] {0}, new double[] {0, 1}, 2, 1));
+        assertTrue(e2.getMessage().contains("control index 2"), e2.getMessage());
+        IllegalArgumentException e3 = org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
+                () -> pal.trace(TestSystems.CUBIC, new double[] {0}, new double[] {5, 1}, 0, 1));
+        assertTrue(e3.getMessage().contains("start value 5"), e3.getMessage());
+    }
+
+    @Test
+    void pointLimitEndsTheBranch() {
+        PseudoArclength pal = new PseudoArclength(ContinuationSettings.of(-1, 1).withMaxPoints(5)
+                .withSteps(1e-3, 1e-9, 1e-3));
+        Branch br = pal.trace(TestSystems.CUBIC, new double[] {-1.3}, new double[] {-1, 1}, 0, +1);
+        assertEquals(5, br.size());
+        assertEquals(Branch.EndReason.MAX_POINTS, br.finishEnd());
+    }
 }
