@@ -97,4 +97,27 @@ class FoldsTest {
             assertEquals(f.parameter(), a.parameter(), 1e-11);
         }
     }
+
+    @Test
+    void enzymeComplexCycleSensitivitiesIncludingTotals() {
+        // Six species, three laws (see PseudoArclengthTest.enzymeComplexCycleContinuesInKinaseTotal); gradient
+        // over the 8 rate parameters and the two other totals (S + Sp + ES + FSp, F + FSp).
+        ConservationLaws laws = ConservationLaws.of(TestSystems.GK_STOICH);
+        ReducedSystem red = laws.reduce(TestSystems.GK_FEEDBACK);
+        int lawE = -1;
+        for (int c = 0; c < laws.lawCount(); c++) {
+            if (laws.dependentSpecies()[c] == 2) {
+                lawE = c;
+            }
+        }
+        int control = red.totalIndex(lawE);
+        double[] y = {1, 0, 0.001, 0.1, 0, 0};
+        double[] q = red.parameters(new double[] {10, 1, 1, 10, 1, 1, 20, 0.2}, y);
+        Branch br = new PseudoArclength(ContinuationSettings.of(0.001, 0.05)).trace(red, red.reducedState(y), q,
+                control, +1);
+        assertEquals(2, br.folds().size());
+        for (Fold f : br.folds()) {
+            checkAgainstDifferences(red, f, q);
+        }
+    }
 }
