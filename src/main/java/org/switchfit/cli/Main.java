@@ -20,6 +20,8 @@ import picocli.CommandLine.Command;
             FitCommand.class,
             BenchPetabCommand.class,
             ReportCommand.class,
+            ProfileCommand.class,
+            DemoCommand.class,
         })
 public final class Main implements Runnable {
 
