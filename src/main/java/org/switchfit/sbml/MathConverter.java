@@ -189,7 +189,7 @@ final class MathConverter {
 
     private Expr inline(ASTNode n, Map<String, String> rename, Map<String, Expr> scope, String el, int depth) {
         String fname = n.getName();
-        FunctionDefinition fd = model.getFunctionDefinition(fname);
+        FunctionDefinition fd = model == null ? null : model.getFunctionDefinition(fname);
         if (fd == null || fd.getMath() == null) {
             throw new UserInputException(SourceLocation.ofElement(file, el), "calls function '" + fname
                     + "', which is not defined; add a functionDefinition or correct the name");

@@ -1,0 +1,330 @@
+package org.switchfit.continuation;
+
+import java.math.BigInteger;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+import java.util.Locale;
+import org.switchfit.ode.OdeSystem;
+
+/**
+ * Conservation laws of a reaction network, found exactly from its stoichiometry matrix N (n species x r
+ * reactions, {@code f(y) = N v(y)}): the left null space {@code {l : l^T N = 0}} computed over the integers.
+ *
+ * <p>Method: fraction-free Gauss-Jordan elimination of N^T with BigInteger arithmetic, every row divided by the
+ * gcd of its entries after each elimination step so numbers stay small (Bareiss 1968, Math. Comp. 22:565-578,
+ * doi:10.1090/S0025-5718-1968-0226829-0, for the fraction-free idea). The reduced row echelon form gives one basis
+ * vector per non-pivot species f: coefficient on f positive, zero on the other non-pivot species, arbitrary on
+ * pivot species; each vector is divided by the gcd of its entries. The non-pivot species are the <em>dependent</em>
+ * ones (eliminated by {@link #reduce}); pivot species are independent. Because l_f has zeros on the other
+ * dependent species, each dependent species is recovered from its own law alone:
+ * {@code y_f = (T_f - Σ_{i indep} l_f[i] y_i) / l_f[f]}.
+ *
+ * <p>Which species end up dependent depends on the column order of the elimination. To obtain laws with
+ * non-negative coefficients where possible (moiety totals such as E + ES), up to 32 species orders are tried
+ * (natural, reversed, seeded shuffles) and the basis with the fewest negative coefficients is kept; every
+ * candidate is an exact basis, so this only affects readability and the choice of reduced states.
+ *
+ * <p>Entries given as doubles must be rationals with denominator at most 10^6 (continued-fraction recovery to
+ * within 2 ulp); scaling a column of N by a non-zero factor leaves the left null space unchanged, so each
+ * reaction column is multiplied by the lcm of its denominators. With compartments of different volumes pass N
+ * with the volume factors already applied. Immutable and thread-safe.
+ */
+public final class ConservationLaws {
+    private static final long MAX_DENOMINATOR = 1_000_000L;
+
+    private final int speciesCount;
+    private final long[][] laws;
+    private final int[] dependent;
+    private final int[] independent;
+
+    private ConservationLaws(int speciesCount, long[][] laws, int[] dependent, int[] independent) {
+        this.speciesCount = speciesCount;
+        this.laws = laws;
+        this.dependent = dependent;
+        this.independent = independent;
+    }
+
+    /**
+     * Laws of an integer stoichiometry matrix {@code stoich[species][reaction]}.
+     *
+     * @throws IllegalArgumentException when rows have different lengths or there are no species
+     */
+    public static ConservationLaws of(int[][] stoich) {
+        int n = stoich.length;
+        if (n == 0) {
+            throw new IllegalArgumentException("stoichiometry matrix has no species rows");
+        }
+        int r = stoich[0].length;
+        BigInteger[][] a = new BigInteger[r][n];
+        for (int i = 0; i < n; i++) {
+            if (stoich[i].length != r) {
+                throw new IllegalArgumentException(String.format(Locale.ROOT,
+                        "stoichiometry row %d has %d entries, row 0 has %d", i, stoich[i].length, r));
+            }
+            for (int j = 0; j < r; j++) {
+                a[j][i] = BigInteger.valueOf(stoich[i][j]);
+            }
+        }
+        return fromTransposed(a, n, r);
+    }
+
+    /**
+     * Laws of a stoichiometry matrix with rational entries given as doubles (e.g. 0.5, 1/3).
+     *
+     * @throws IllegalArgumentException when an entry is not finite or not a rational with denominator at most 10^6
+     */
+    public static ConservationLaws of(double[][] stoich) {
+        int n = stoich.length;
+        if (n == 0) {
+            throw new IllegalArgumentException("stoichiometry matrix has no species rows");
+        }
+        int r = stoich[0].length;
+        BigInteger[][] a = new BigInteger[r][n];
+        for (int j = 0; j < r; j++) {
+            long[] num = new long[n];
+            long[] den = new long[n];
+            BigInteger lcm = BigInteger.ONE;
+            for (int i = 0; i < n; i++) {
+                if (stoich[i].length != r) {
+                    throw new IllegalArgumentException(String.format(Locale.ROOT,
+                            "stoichiometry row %d has %d entries, row 0 has %d", i, stoich[i].length, r));
+                }
+                long[] q = rational(stoich[i][j], i, j);
+                num[i] = q[0];
+                den[i] = q[1];
+                BigInteger d = BigInteger.valueOf(q[1]);
+                lcm = lcm.divide(lcm.gcd(d)).multiply(d);
+            }
+            for (int i = 0; i < n; i++) {
+                a[j][i] = BigInteger.valueOf(num[i]).multiply(lcm.divide(BigInteger.valueOf(den[i])));
+            }
+        }
+        return fromTransposed(a, n, r);
+    }
+
+    /** Continued-fraction recovery of p/q with q <= 10^6 and double(p/q) within 2 ulp of x. */
+    private static long[] rational(double x, int i, int j) {
+        if (!Double.isFinite(x)) {
+            throw new IllegalArgumentException(String.format(Locale.ROOT,
+                    "stoichiometry entry (%d, %d) is %s; entries must be finite rationals", i, j, x));
+        }
+        if (x == Math.rint(x) && Math.abs(x) < 1e15) {
+            return new long[] {(long) x, 1};
+        }
+        long h0 = 0;
+        long h1 = 1;
+        long k0 = 1;
+        long k1 = 0;
+        double rem = Math.abs(x);
+        for (int it = 0; it < 64; it++) {
+            long a = (long) Math.floor(rem);
+            long h2 = a * h1 + h0;
+            long k2 = a * k1 + k0;
+            if (k2 > MAX_DENOMINATOR) {
+                break;
+            }
+            h0 = h1;
+            h1 = h2;
+            k0 = k1;
+            k1 = k2;
+            if (Math.abs(Math.abs(x) - (double) h1 / k1) <= 2 * Math.ulp(x)) {
+                return new long[] {x < 0 ? -h1 : h1, k1};
+            }
+            double frac = rem - a;
+            if (frac == 0) {
+                break;
+            }
+            rem = 1.0 / frac;
+        }
+        throw new IllegalArgumentException(String.format(Locale.ROOT,
+                "stoichiometry entry (%d, %d) = %.17g is not a rational with denominator <= %d",
+                i, j, x, MAX_DENOMINATOR));
+    }
+
+    /**
+     * Tries the species orders natural, reversed and up to 30 seeded shuffles (fixed seed, so the result is
+     * reproducible) and keeps the basis with the fewest negative coefficients, then the smallest largest
+     * |coefficient|, then the earliest tried. Stops at the first basis with no negative coefficient.
+     */
+    private static ConservationLaws fromTransposed(BigInteger[][] a, int n, int r) {
+        ConservationLaws best = null;
+        long[] bestScore = null;
+        java.util.SplittableRandom rng = new java.util.SplittableRandom(20261202L);
+        for (int attempt = 0; attempt < 32; attempt++) {
+            int[] order = new int[n];
+            for (int i = 0; i < n; i++) {
+                order[i] = attempt == 1 ? n - 1 - i : i;
+            }
+            if (attempt >= 2) {
+                for (int i = n - 1; i > 0; i--) {
+                    int j = rng.nextInt(i + 1);
+                    int t = order[i];
+                    order[i] = order[j];
+                    order[j] = t;
+                }
+            }
+            BigInteger[][] copy = new BigInteger[r][];
+            for (int i = 0; i < r; i++) {
+                copy[i] = a[i].clone();
+            }
+            ConservationLaws cand = eliminate(copy, n, r, order);
+            long neg = 0;
+            long max = 0;
+            for (long[] l : cand.laws) {
+                for (long x : l) {
+                    neg += x < 0 ? 1 : 0;
+                    max = Math.max(max, Math.abs(x));
+                }
+            }
+            long[] score = {neg, max};
+            if (best == null || score[0] < bestScore[0] || (score[0] == bestScore[0] && score[1] < bestScore[1])) {
+                best = cand;
+                bestScore = score;
+            }
+            if (neg == 0 || n <= 1) {
+                break;
+            }
+        }
+        return best;
+    }
+
+    /** Gauss-Jordan on the species columns in the given order; laws for the non-pivot species. */
+    private static ConservationLaws eliminate(BigInteger[][] a, int n, int r, int[] order) {
+        int[] pivotCol = new int[Math.min(r, n)];
+        int rank = 0;
+        for (int oc = 0; oc < n && rank < r; oc++) {
+            int c = order[oc];
+            int p = -1;
+            for (int i = rank; i < r; i++) {
+                if (a[i][c].signum() != 0 && (p < 0 || a[i][c].abs().compareTo(a[p][c].abs()) < 0)) {
+                    p = i;
+                }
+            }
+            if (p < 0) {
+                continue;
+            }
+            BigInteger[] t = a[p];
+            a[p] = a[rank];
+            a[rank] = t;
+            BigInteger[] pr = a[rank];
+            for (int i = 0; i < r; i++) {
+                if (i == rank || a[i][c].signum() == 0) {
+                    continue;
+                }
+                BigInteger piv = pr[c];
+                BigInteger f = a[i][c];
+                BigInteger[] row = a[i];
+                for (int k = 0; k < n; k++) {
+                    row[k] = row[k].multiply(piv).subtract(pr[k].multiply(f));
+                }
+                normalize(row);
+            }
+            normalize(pr);
+            pivotCol[rank++] = c;
+        }
+        boolean[] isPivot = new boolean[n];
+        for (int k = 0; k < rank; k++) {
+            isPivot[pivotCol[k]] = true;
+        }
+        List<long[]> lawList = new ArrayList<>();
+        int[] dep = new int[n - rank];
+        int[] ind = new int[rank];
+        int nd = 0;
+        int ni = 0;
+        for (int c = 0; c < n; c++) {
+            if (isPivot[c]) {
+                ind[ni++] = c;
+                continue;
+            }
+            dep[nd++] = c;
+            // x_c = L, x_{pivot k} = -a[k][c] * L / a[k][pivot k], L = lcm of pivots.
+            BigInteger lcm = BigInteger.ONE;
+            for (int k = 0; k < rank; k++) {
+                BigInteger d = a[k][pivotCol[k]].abs();
+                lcm = lcm.divide(lcm.gcd(d)).multiply(d);
+            }
+            BigInteger[] v = new BigInteger[n];
+            Arrays.fill(v, BigInteger.ZERO);
+            v[c] = lcm;
+            for (int k = 0; k < rank; k++) {
+                v[pivotCol[k]] = a[k][c].negate().multiply(lcm).divide(a[k][pivotCol[k]]);
+            }
+            normalize(v);
+            long[] l = new long[n];
+            for (int i = 0; i < n; i++) {
+                l[i] = v[i].longValueExact();
+            }
+            lawList.add(l);
+        }
+        return new ConservationLaws(n, lawList.toArray(new long[0][]), dep, ind);
+    }
+
+    private static void normalize(BigInteger[] row) {
+        BigInteger g = BigInteger.ZERO;
+        for (BigInteger x : row) {
+            g = g.gcd(x);
+        }
+        if (g.signum() != 0 && !g.equals(BigInteger.ONE)) {
+            for (int k = 0; k < row.length; k++) {
+                row[k] = row[k].divide(g);
+            }
+        }
+    }
+
+    /** Number of species (rows of N). */
+    public int speciesCount() {
+        return speciesCount;
+    }
+
+    /** Number of independent conservation laws (n - rank N). */
+    public int lawCount() {
+        return laws.length;
+    }
+
+    /** Integer coefficients of law c: {@code coefficients(c)[i]} multiplies species i. A copy. */
+    public long[] coefficients(int c) {
+        return laws[c].clone();
+    }
+
+    /** Species eliminated by the reduction, one per law, in law order. A copy. */
+    public int[] dependentSpecies() {
+        return dependent.clone();
+    }
+
+    /** Species kept as states of the reduced system, increasing. A copy. */
+    public int[] independentSpecies() {
+        return independent.clone();
+    }
+
+    /** Conserved totals {@code T_c = Σ_i l_c[i] y_i} of a full state. */
+    public double[] totals(double[] y) {
+        double[] t = new double[laws.length];
+        for (int c = 0; c < laws.length; c++) {
+            double s = 0;
+            for (int i = 0; i < speciesCount; i++) {
+                s += laws[c][i] * y[i];
+            }
+            t[c] = s;
+        }
+        return t;
+    }
+
+    /**
+     * The reduced system on the independent species, with the totals appended to the parameters.
+     *
+     * @throws IllegalArgumentException when {@code full.stateCount()} differs from the number of species
+     */
+    public ReducedSystem reduce(OdeSystem full) {
+        if (full.stateCount() != speciesCount) {
+            throw new IllegalArgumentException(String.format(Locale.ROOT,
+                    "system has %d states but the stoichiometry matrix has %d species rows",
+                    full.stateCount(), speciesCount));
+        }
+        return new ReducedSystem(full, this);
+    }
+
+    long coefficient(int c, int i) {
+        return laws[c][i];
+    }
+}

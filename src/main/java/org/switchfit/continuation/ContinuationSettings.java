@@ -1,0 +1,74 @@
+package org.switchfit.continuation;
+
+import java.util.Locale;
+
+/**
+ * Settings of a pseudo-arclength continuation. Immutable; {@code withX} returns changed copies.
+ *
+ * <p>Steps are arclengths in the plain Euclidean norm of (y, λ), in the caller's units. Choose maxStep well
+ * below the smallest feature to be resolved: when states are tiny compared with the λ range (or the reverse),
+ * a step can cross a narrow S-shaped part of the branch without any test function noticing. Rescaling the
+ * model (states and control to order one) is the robust remedy.
+ *
+ * @param lowerBound        smallest λ to reach (the branch end is placed exactly on it)
+ * @param upperBound        largest λ
+ * @param initialStep       first arclength step (Euclidean norm in (y, λ))
+ * @param minStep           smallest step before giving up
+ * @param maxStep           largest step
+ * @param maxPoints         maximum points per direction
+ * @param tolerance         relative Newton step tolerance of the corrector and of fold/Hopf refinement
+ * @param maxCorrectorSteps Newton iterations per corrector
+ * @param eigenvalueLimit   eigenvalues (stability, Hopf detection) computed when the system has at most this many
+ *                          states; above it points carry unstableCount -1 and no Hopf points are detected
+ */
+public record ContinuationSettings(double lowerBound, double upperBound, double initialStep, double minStep,
+                                   double maxStep, int maxPoints, double tolerance, int maxCorrectorSteps,
+                                   int eigenvalueLimit) {
+
+    /** Validates. */
+    public ContinuationSettings {
+        if (!(lowerBound < upperBound)) {
+            throw new IllegalArgumentException(String.format(Locale.ROOT,
+                    "lower bound %.6g must be below upper bound %.6g", lowerBound, upperBound));
+        }
+        if (!(minStep > 0 && minStep <= initialStep && initialStep <= maxStep)) {
+            throw new IllegalArgumentException(String.format(Locale.ROOT,
+                    "steps must satisfy 0 < min %.3g <= initial %.3g <= max %.3g", minStep, initialStep, maxStep));
+        }
+        if (maxPoints < 2 || maxCorrectorSteps < 1 || !(tolerance > 0)) {
+            throw new IllegalArgumentException(String.format(Locale.ROOT,
+                    "need maxPoints >= 2 (got %d), maxCorrectorSteps >= 1 (got %d), tolerance > 0 (got %.3g)",
+                    maxPoints, maxCorrectorSteps, tolerance));
+        }
+    }
+
+    /** Bounds [lo, hi] with steps scaled to the range: initial 1/100, min 1e-9, max 1/20 of (hi - lo + 1). */
+    public static ContinuationSettings of(double lo, double hi) {
+        double scale = hi - lo + 1;
+        return new ContinuationSettings(lo, hi, scale / 100, scale * 1e-9, scale / 20, 2000, 1e-11, 8, 600);
+    }
+
+    /** Copy with other steps. */
+    public ContinuationSettings withSteps(double initial, double min, double max) {
+        return new ContinuationSettings(lowerBound, upperBound, initial, min, max, maxPoints, tolerance,
+                maxCorrectorSteps, eigenvalueLimit);
+    }
+
+    /** Copy with another point limit. */
+    public ContinuationSettings withMaxPoints(int points) {
+        return new ContinuationSettings(lowerBound, upperBound, initialStep, minStep, maxStep, points, tolerance,
+                maxCorrectorSteps, eigenvalueLimit);
+    }
+
+    /** Copy with other bounds. */
+    public ContinuationSettings withBounds(double lo, double hi) {
+        return new ContinuationSettings(lo, hi, initialStep, minStep, maxStep, maxPoints, tolerance,
+                maxCorrectorSteps, eigenvalueLimit);
+    }
+
+    /** Copy with another eigenvalue limit. */
+    public ContinuationSettings withEigenvalueLimit(int limit) {
+        return new ContinuationSettings(lowerBound, upperBound, initialStep, minStep, maxStep, maxPoints, tolerance,
+                maxCorrectorSteps, limit);
+    }
+}

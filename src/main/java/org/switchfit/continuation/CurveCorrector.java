@@ -1,0 +1,113 @@
+package org.switchfit.continuation;
+
+/**
+ * Tangent and Newton corrector of Keller's pseudo-arclength method (Keller 1977, "Numerical solution of
+ * bifurcation and nonlinear eigenvalue problems", in Applications of Bifurcation Theory, Academic Press,
+ * pp. 359-384): the curve H(u) = 0 is parametrised by arclength s, the corrector solves the bordered system
+ * {@code [H(u); t^T (u - u_pred)] = 0} by Newton with matrix {@code [H_u; t^T]}, and the tangent at u solves
+ * {@code [H_u(u); t_prev^T] z = e_{N+1}}, t = z / |z| (so t keeps the orientation of t_prev).
+ * Workspace owned; not thread-safe.
+ */
+final class CurveCorrector {
+    private final CurveProblem problem;
+    private final int n1;
+    private final double[] jac;
+    private final double[] bordered;
+    private final double[] rhs;
+    private final double[] h;
+    private final LinearSolver lu;
+    private final double tolerance;
+    private final int maxIterations;
+
+    CurveCorrector(CurveProblem problem, double tolerance, int maxIterations) {
+        this.problem = problem;
+        int nEq = problem.equationCount();
+        this.n1 = nEq + 1;
+        this.jac = new double[nEq * n1];
+        this.bordered = new double[n1 * n1];
+        this.rhs = new double[n1];
+        this.h = new double[nEq];
+        int[][] rows = problem.pattern();
+        if (rows == null) {
+            this.lu = LinearSolvers.forSize(n1);
+        } else {
+            int[][] bordered = new int[n1][];
+            System.arraycopy(rows, 0, bordered, 0, nEq);
+            bordered[nEq] = LinearSolvers.denseRow(0, n1);
+            this.lu = LinearSolvers.forPattern(n1, bordered);
+        }
+        this.tolerance = tolerance;
+        this.maxIterations = maxIterations;
+    }
+
+    int size() {
+        return n1;
+    }
+
+    CurveProblem problem() {
+        return problem;
+    }
+
+    private boolean factorBordered(double[] u, double[] t) {
+        problem.jacobian(u, jac);
+        int nEq = n1 - 1;
+        System.arraycopy(jac, 0, bordered, 0, nEq * n1);
+        System.arraycopy(t, 0, bordered, nEq * n1, n1);
+        return lu.factor(bordered, n1);
+    }
+
+    /** Unit tangent at u oriented like tRef (|tRef| need not be 1); false when the bordered matrix is singular. */
+    boolean tangent(double[] u, double[] tRef, double[] tOut) {
+        if (!factorBordered(u, tRef)) {
+            return false;
+        }
+        java.util.Arrays.fill(rhs, 0);
+        rhs[n1 - 1] = 1;
+        lu.solve(rhs, tOut);
+        double norm = Math.sqrt(SteadyStateSolver.dot(tOut, n1));
+        if (!(norm > 0) || !Double.isFinite(norm)) {
+            return false;
+        }
+        for (int i = 0; i < n1; i++) {
+            tOut[i] /= norm;
+        }
+        return true;
+    }
+
+    /**
+     * Newton on {@code [H(u); t^T (u - uPred)] = 0} starting at uPred, result in uOut.
+     *
+     * @return number of iterations, or -1 when not converged within the limit
+     */
+    int correct(double[] uPred, double[] t, double[] uOut) {
+        System.arraycopy(uPred, 0, uOut, 0, n1);
+        int nEq = n1 - 1;
+        double prevStep = Double.POSITIVE_INFINITY;
+        for (int it = 1; it <= maxIterations; it++) {
+            problem.evaluate(uOut, h);
+            double s = 0;
+            for (int i = 0; i < n1; i++) {
+                s += t[i] * (uOut[i] - uPred[i]);
+            }
+            System.arraycopy(h, 0, rhs, 0, nEq);
+            rhs[nEq] = s;
+            if (!Double.isFinite(SteadyStateSolver.dot(rhs, n1)) || !factorBordered(uOut, t)) {
+                return -1;
+            }
+            lu.solve(rhs, rhs);
+            double step = SteadyStateSolver.maxAbs(rhs, n1);
+            for (int i = 0; i < n1; i++) {
+                uOut[i] -= rhs[i];
+            }
+            double scale = 1 + SteadyStateSolver.maxAbs(uOut, n1);
+            if (step <= tolerance * scale) {
+                return it;
+            }
+            if (it > 2 && step > 0.5 * prevStep) {
+                return -1; // not contracting: let the caller shorten the step
+            }
+            prevStep = step;
+        }
+        return -1;
+    }
+}

@@ -1,0 +1,89 @@
+package org.switchfit.fit;
+
+/**
+ * Solves the damped linear least-squares problem {@code min |A δ - b|² + λ |D δ|²} by Householder QR of the
+ * augmented (m + w) × w matrix {@code [A; √λ D]} (Golub and Van Loan, "Matrix Computations", 4th ed., §5.2 and
+ * §6.1.4). Package-private kernel; allocates its workspace per call (called once per LM trial step, not on a
+ * hot path).
+ */
+final class DampedLeastSquares {
+
+    private DampedLeastSquares() {
+    }
+
+    /**
+     * @param a      A, row-major m × w (read)
+     * @param b      b, length m (read)
+     * @param diag   D diagonal, length w, entries &gt; 0 (read)
+     * @param lambda λ ≥ 0
+     * @return δ, length w; components along directions with a zero pivot are set to 0
+     */
+    static double[] solve(double[] a, int m, int w, double[] b, double[] diag, double lambda) {
+        int rows = m + w;
+        double[] q = new double[rows * w];
+        System.arraycopy(a, 0, q, 0, m * w);
+        double sl = Math.sqrt(lambda);
+        for (int j = 0; j < w; j++) {
+            q[(m + j) * w + j] = sl * diag[j];
+        }
+        double[] y = new double[rows];
+        System.arraycopy(b, 0, y, 0, m);
+        double[] v = new double[rows];
+        for (int k = 0; k < w; k++) {
+            double nrm = 0;
+            for (int i = k; i < rows; i++) {
+                double e = q[i * w + k];
+                nrm += e * e;
+            }
+            nrm = Math.sqrt(nrm);
+            if (nrm == 0.0) {
+                continue;
+            }
+            double akk = q[k * w + k];
+            double alpha = akk > 0 ? -nrm : nrm;
+            double vn2 = 0;
+            for (int i = k; i < rows; i++) {
+                v[i] = q[i * w + k];
+            }
+            v[k] -= alpha;
+            for (int i = k; i < rows; i++) {
+                vn2 += v[i] * v[i];
+            }
+            if (vn2 == 0.0) {
+                continue;
+            }
+            for (int j = k; j < w; j++) {
+                double s = 0;
+                for (int i = k; i < rows; i++) {
+                    s += v[i] * q[i * w + j];
+                }
+                double f = 2 * s / vn2;
+                for (int i = k; i < rows; i++) {
+                    q[i * w + j] -= f * v[i];
+                }
+            }
+            double s = 0;
+            for (int i = k; i < rows; i++) {
+                s += v[i] * y[i];
+            }
+            double f = 2 * s / vn2;
+            for (int i = k; i < rows; i++) {
+                y[i] -= f * v[i];
+            }
+        }
+        double[] x = new double[w];
+        for (int k = w - 1; k >= 0; k--) {
+            double rkk = q[k * w + k];
+            if (rkk == 0.0) {
+                x[k] = 0;
+                continue;
+            }
+            double s = y[k];
+            for (int j = k + 1; j < w; j++) {
+                s -= q[k * w + j] * x[j];
+            }
+            x[k] = s / rkk;
+        }
+        return x;
+    }
+}

@@ -1,0 +1,476 @@
+package org.switchfit.fit;
+
+import java.util.Locale;
+import org.switchfit.objective.Objective;
+import org.switchfit.objective.ObjectiveException;
+
+/**
+ * Levenberg-Marquardt for box-constrained nonlinear least squares: a projected, active-set variant.
+ *
+ * <p>Each iteration computes the gradient g = Jᵀr of the cost ½|r|², holds every free parameter that sits on a
+ * bound with the gradient pushing outward (the binding set), and solves the damped Gauss-Newton subproblem
+ * {@code min |J_W δ + r|² + λ |D_W δ|²} on the remaining working set W by Householder QR of the augmented matrix
+ * {@code [J_W; √λ D_W]} (no normal equations, so ill-conditioned problems keep their accuracy). The trial point is
+ * the projection {@code P(θ + δ)} onto the box; the step is accepted when the actual reduction is at least 1e-4
+ * of the reduction predicted by the linear model for the projected step. D is the non-decreasing column-norm
+ * scaling of Moré (1978, "The Levenberg-Marquardt algorithm: implementation and theory", Lecture Notes in
+ * Mathematics 630, doi:10.1007/BFb0067700); λ follows Nielsen's update (Nielsen 1999, "Damping parameter in
+ * Marquardt's method", IMM-REP-1999-05, DTU): λ ← λ·max(1/3, 1-(2ρ-1)³) on success, λ ← λ·ν, ν ← 2ν on failure.
+ * As λ grows the step tends to the scaled negative gradient restricted to W, whose projection is a descent
+ * direction, so a non-stationary point always yields an acceptable step for large enough λ.
+ *
+ * <p>Stationarity is measured by the projected gradient {@code θ - P(θ - g)}, which vanishes at a local optimum
+ * on the box even when g itself does not (optimum on a bound).
+ *
+ * <p>Evaluation failures ({@link ObjectiveException} or non-finite residuals or Jacobian) at a trial point count
+ * as a rejected step; at the start point they propagate to the caller. Immutable and thread-safe: one configured
+ * instance can serve every start on every thread.
+ */
+public final class LevenbergMarquardt {
+
+    private static final double ACCEPT_RATIO = 1e-4;
+    private static final double LAMBDA_MAX = 1e20;
+    private static final double LAMBDA_MIN = 1e-20;
+
+    private final int maxIterations;
+    private final int maxEvaluations;
+    private final double gradientTolerance;
+    private final double costTolerance;
+    private final double stepTolerance;
+    private final double initialDamping;
+
+    private LevenbergMarquardt(int maxIterations, int maxEvaluations, double gradientTolerance,
+                               double costTolerance, double stepTolerance, double initialDamping) {
+        this.maxIterations = maxIterations;
+        this.maxEvaluations = maxEvaluations;
+        this.gradientTolerance = gradientTolerance;
+        this.costTolerance = costTolerance;
+        this.stepTolerance = stepTolerance;
+        this.initialDamping = initialDamping;
+    }
+
+    /**
+     * Defaults: 1000 iterations, 5000 evaluations, gradient tolerance 1e-10 (scaled, see
+     * {@link #withGradientTolerance}),
+     * cost tolerance 1e-14 (relative change of ½|r|², about 100 ulp), step tolerance 1e-10 (relative to |θ|),
+     * initial λ 1e-3.
+     */
+    public static LevenbergMarquardt defaults() {
+        return new LevenbergMarquardt(1000, 5000, 1e-10, 1e-14, 1e-10, 1e-3);
+    }
+
+    /** Limit on trial steps (accepted and rejected), n &gt; 0. */
+    public LevenbergMarquardt withMaxIterations(int n) {
+        return new LevenbergMarquardt(positive(n, "maxIterations"), maxEvaluations, gradientTolerance,
+                costTolerance, stepTolerance, initialDamping);
+    }
+
+    /** Limit on objective evaluations, n &gt; 0. */
+    public LevenbergMarquardt withMaxEvaluations(int n) {
+        return new LevenbergMarquardt(maxIterations, positive(n, "maxEvaluations"), gradientTolerance,
+                costTolerance, stepTolerance, initialDamping);
+    }
+
+    /**
+     * Tolerance on the scaled projected gradient {@code max_k |pg_k| / (d_k |r|)}, pg = θ - P(θ - Jᵀr), d_k the
+     * column-norm scaling of parameter k: for interior parameters the cosine of the angle between r and column k
+     * of J, so the test does not depend on the units of θ (the gradient test of More 1978).
+     */
+    public LevenbergMarquardt withGradientTolerance(double tol) {
+        return new LevenbergMarquardt(maxIterations, maxEvaluations, nonNegative(tol, "gradientTolerance"),
+                costTolerance, stepTolerance, initialDamping);
+    }
+
+    /** Relative tolerance on the actual and predicted reduction of ½|r|² in one accepted step. */
+    public LevenbergMarquardt withCostTolerance(double tol) {
+        return new LevenbergMarquardt(maxIterations, maxEvaluations, gradientTolerance,
+                nonNegative(tol, "costTolerance"), stepTolerance, initialDamping);
+    }
+
+    /** Relative tolerance on the length of an accepted step: |s| ≤ tol·(tol + |θ|). */
+    public LevenbergMarquardt withStepTolerance(double tol) {
+        return new LevenbergMarquardt(maxIterations, maxEvaluations, gradientTolerance, costTolerance,
+                nonNegative(tol, "stepTolerance"), initialDamping);
+    }
+
+    /** Initial λ relative to the column scaling D², λ &gt; 0. */
+    public LevenbergMarquardt withInitialDamping(double lambda) {
+        if (!(lambda > 0)) {
+            throw new IllegalArgumentException("initialDamping must be > 0, got " + lambda);
+        }
+        return new LevenbergMarquardt(maxIterations, maxEvaluations, gradientTolerance, costTolerance,
+                stepTolerance, lambda);
+    }
+
+    /** The iteration limit. */
+    public int maxIterations() {
+        return maxIterations;
+    }
+
+    /** The scaled projected-gradient tolerance. */
+    public double gradientTolerance() {
+        return gradientTolerance;
+    }
+
+    /**
+     * Minimises the problem's NLL from {@code start} (clamped into the bounds; fixed parameters keep their start
+     * value).
+     *
+     * @throws ObjectiveException when the objective fails or is non-finite at the (clamped) start point
+     */
+    public LocalFit minimize(FitProblem problem, double[] start) {
+        return new Run(problem, start).solve();
+    }
+
+    /** The state of one run; confined to the calling thread. */
+    private final class Run {
+        final Objective obj;
+        final FitProblem problem;
+        final int n;
+        final int m;
+        final int[] free;
+        final double[] lo;
+        final double[] hi;
+        double[] x;
+        double[] r;
+        double[] jac;
+        double nll;
+        double cost;
+        int evals;
+        int jevals;
+        int iters;
+        boolean lastTrialProjected;
+
+        Run(FitProblem problem, double[] start) {
+            this.problem = problem;
+            this.obj = problem.objective();
+            this.n = obj.parameterCount();
+            this.m = obj.residualCount();
+            if (start.length != n) {
+                throw new IllegalArgumentException("start length " + start.length + " != " + n);
+            }
+            int c = problem.freeCount();
+            free = new int[c];
+            int f = 0;
+            for (int k = 0; k < n; k++) {
+                if (!problem.isFixed(k)) {
+                    free[f++] = k;
+                }
+            }
+            lo = problem.lower();
+            hi = problem.upper();
+            x = problem.clamp(start);
+        }
+
+        LocalFit solve() {
+            r = new double[m];
+            jac = new double[m * n];
+            nll = evalStrict(x, r, jac);
+            cost = halfSquare(r);
+            int w0 = free.length;
+            double[] d = new double[w0];
+            double[] g = new double[n];
+            double lambda = initialDamping;
+            double nu = 2.0;
+            double[] rTrial = new double[m];
+            Termination why = null;
+            while (why == null) {
+                gradient(g);
+                updateScaling(d);
+                if (cost == 0.0) {
+                    why = Termination.ZERO_RESIDUAL;
+                    break;
+                }
+                if (scaledProjectedGradient(g, d) <= gradientTolerance) {
+                    why = Termination.GRADIENT;
+                    break;
+                }
+                int[] work = workingSet(g);
+                boolean accepted = false;
+                while (!accepted) {
+                    if (iters >= maxIterations) {
+                        why = Termination.MAX_ITERATIONS;
+                        break;
+                    }
+                    if (evals >= maxEvaluations) {
+                        why = Termination.MAX_EVALUATIONS;
+                        break;
+                    }
+                    if (lambda > LAMBDA_MAX) {
+                        why = Termination.NO_PROGRESS;
+                        break;
+                    }
+                    iters++;
+                    double[] xt = trialPoint(work, d, lambda);
+                    boolean projected = lastTrialProjected;
+                    double[] s = new double[n];
+                    double sNorm2 = 0;
+                    for (int k = 0; k < n; k++) {
+                        s[k] = xt[k] - x[k];
+                        sNorm2 += s[k] * s[k];
+                    }
+                    double pred = predictedReduction(s);
+                    // The minimiser of the damped linear model gains nothing measurable (More 1978, predicted-
+                    // reduction test; pred may round to <= 0 at the optimum): take that last step if it does not
+                    // raise the cost, then stop.
+                    boolean converging = !projected && pred <= costTolerance * cost;
+                    if (!converging && (!(pred > 0) || sNorm2 == 0.0)) {
+                        lambda *= nu;
+                        nu *= 2;
+                        continue;
+                    }
+                    double costTrial;
+                    double nllTrial = Double.NaN;
+                    try {
+                        evals++;
+                        nllTrial = obj.evaluate(xt, rTrial, null);
+                        costTrial = halfSquare(rTrial);
+                    } catch (ObjectiveException e) {
+                        costTrial = Double.NaN;
+                    }
+                    boolean finite = Double.isFinite(costTrial) && Double.isFinite(nllTrial);
+                    double actual = cost - costTrial;
+                    double rho = actual / pred;
+                    if (converging) {
+                        if (finite && actual >= 0 && sNorm2 > 0) {
+                            accept(xt); // on failure the run ends at the current point, converged all the same
+                        }
+                        why = Termination.COST_CHANGE;
+                        break;
+                    }
+                    double oldCost = cost;
+                    double xNorm = norm(x);
+                    if (finite && rho > ACCEPT_RATIO && accept(xt)) {
+                        accepted = true;
+                        double t = 2 * rho - 1;
+                        lambda = Math.max(LAMBDA_MIN, lambda * Math.max(1.0 / 3.0, 1 - t * t * t));
+                        nu = 2;
+                        if (Math.abs(actual) <= costTolerance * oldCost && pred <= costTolerance * oldCost
+                                && rho <= 2) {
+                            why = Termination.COST_CHANGE;
+                        } else if (rho > 0.25 && Math.sqrt(sNorm2) <= stepTolerance * (stepTolerance + xNorm)) {
+                            why = Termination.STEP_SIZE;
+                        }
+                    } else if (finite && Math.abs(actual) <= costTolerance * cost
+                            && pred <= costTolerance * cost) {
+                        // The linear model promises no relative gain above the tolerance and the trial confirms
+                        // it (More 1978, test on actual and predicted reduction, applied to rejected trials too).
+                        why = Termination.COST_CHANGE;
+                        break;
+                    } else {
+                        lambda *= nu;
+                        nu *= 2;
+                    }
+                }
+            }
+            gradient(g);
+            double pgNorm = projectedGradientNorm(g);
+            if (why != Termination.ZERO_RESIDUAL && scaledProjectedGradient(g, d) <= gradientTolerance) {
+                why = Termination.GRADIENT;
+            }
+            int[] active = new int[n];
+            for (int k = 0; k < n; k++) {
+                active[k] = x[k] <= lo[k] ? -1 : (x[k] >= hi[k] ? 1 : 0);
+            }
+            return new LocalFit(x, nll, why, iters, evals, jevals, pgNorm, active);
+        }
+
+        /**
+         * Evaluates residuals and Jacobian at xt and moves there; returns false (state unchanged) when that
+         * evaluation fails or is non-finite, so the caller can treat the step as rejected.
+         */
+        private boolean accept(double[] xt) {
+            double[] rNew = new double[m];
+            double[] jNew = new double[m * n];
+            double v;
+            evals++;
+            jevals++;
+            try {
+                v = obj.evaluate(xt, rNew, jNew);
+            } catch (ObjectiveException e) {
+                return false;
+            }
+            if (!Double.isFinite(v) || !Double.isFinite(halfSquare(rNew)) || firstNonFinite(jNew) >= 0) {
+                return false;
+            }
+            x = xt;
+            r = rNew;
+            jac = jNew;
+            nll = v;
+            cost = halfSquare(r);
+            return true;
+        }
+
+        private double evalStrict(double[] at, double[] res, double[] jj) {
+            evals++;
+            if (jj != null) {
+                jevals++;
+            }
+            double v = obj.evaluate(at, res, jj);
+            if (!Double.isFinite(v) || !Double.isFinite(halfSquare(res))) {
+                throw new ObjectiveException(String.format(Locale.ROOT,
+                        "non-finite negative log-likelihood %.6g at the start point", v));
+            }
+            checkFinite(at);
+            return v;
+        }
+
+        private void checkFinite(double[] at) {
+            int i = firstNonFinite(jac);
+            if (i >= 0) {
+                throw new ObjectiveException(String.format(Locale.ROOT,
+                        "non-finite Jacobian entry d r[%d] / d %s at the start point", i / n, problem.id(i % n)));
+            }
+        }
+
+        /** g = Jᵀ r over all parameters. */
+        private void gradient(double[] g) {
+            java.util.Arrays.fill(g, 0.0);
+            for (int i = 0; i < m; i++) {
+                double ri = r[i];
+                int base = i * n;
+                for (int k = 0; k < n; k++) {
+                    g[k] += jac[base + k] * ri;
+                }
+            }
+        }
+
+        private void updateScaling(double[] d) {
+            for (int f = 0; f < free.length; f++) {
+                int k = free[f];
+                double s = 0;
+                for (int i = 0; i < m; i++) {
+                    double v = jac[i * n + k];
+                    s += v * v;
+                }
+                s = Math.sqrt(s);
+                d[f] = Math.max(d[f], s);
+            }
+        }
+
+        private double projectedGradientNorm(double[] g) {
+            double mx = 0;
+            for (int k : free) {
+                double p = Math.min(hi[k], Math.max(lo[k], x[k] - g[k]));
+                mx = Math.max(mx, Math.abs(x[k] - p));
+            }
+            return mx;
+        }
+
+        /**
+         * Scale-free stationarity measure: max over free k of |pg_k| / (d_k |r|), the cosine between r and the
+         * k-th Jacobian column for interior parameters (the gradient test of More 1978).
+         */
+        private double scaledProjectedGradient(double[] g, double[] d) {
+            double rn = Math.sqrt(2 * cost);
+            if (rn == 0.0) {
+                return 0.0;
+            }
+            double mx = 0;
+            for (int f = 0; f < free.length; f++) {
+                int k = free[f];
+                double p = Math.abs(x[k] - Math.min(hi[k], Math.max(lo[k], x[k] - g[k])));
+                if (p > 0) {
+                    mx = Math.max(mx, d[f] > 0 ? p / (d[f] * rn) : Double.POSITIVE_INFINITY);
+                }
+            }
+            return mx;
+        }
+
+        /** Positions (into {@code free}) of free parameters not held at a bound by the gradient. */
+        private int[] workingSet(double[] g) {
+            int[] tmp = new int[free.length];
+            int c = 0;
+            for (int f = 0; f < free.length; f++) {
+                int k = free[f];
+                boolean held = (x[k] <= lo[k] && g[k] > 0) || (x[k] >= hi[k] && g[k] < 0);
+                if (!held) {
+                    tmp[c++] = f;
+                }
+            }
+            return java.util.Arrays.copyOf(tmp, c);
+        }
+
+        private double[] trialPoint(int[] work, double[] d, double lambda) {
+            int w = work.length;
+            double[] a = new double[m * w];
+            for (int i = 0; i < m; i++) {
+                for (int j = 0; j < w; j++) {
+                    a[i * w + j] = jac[i * n + free[work[j]]];
+                }
+            }
+            double[] diag = new double[w];
+            for (int j = 0; j < w; j++) {
+                double dj = d[work[j]];
+                diag[j] = dj > 0 ? dj : 1.0;
+            }
+            double[] b = new double[m];
+            for (int i = 0; i < m; i++) {
+                b[i] = -r[i];
+            }
+            double[] delta = DampedLeastSquares.solve(a, m, w, b, diag, lambda);
+            double[] xt = x.clone();
+            lastTrialProjected = false;
+            for (int j = 0; j < w; j++) {
+                int k = free[work[j]];
+                double v = x[k] + delta[j];
+                xt[k] = Math.min(hi[k], Math.max(lo[k], v));
+                lastTrialProjected |= xt[k] != v;
+            }
+            return xt;
+        }
+
+        /** ½|r|² - ½|r + J s|². */
+        private double predictedReduction(double[] s) {
+            double red = 0;
+            for (int i = 0; i < m; i++) {
+                double js = 0;
+                int base = i * n;
+                for (int k = 0; k < n; k++) {
+                    js += jac[base + k] * s[k];
+                }
+                red -= js * (2 * r[i] + js);
+            }
+            return 0.5 * red;
+        }
+    }
+
+    private static int firstNonFinite(double[] a) {
+        for (int i = 0; i < a.length; i++) {
+            if (!Double.isFinite(a[i])) {
+                return i;
+            }
+        }
+        return -1;
+    }
+
+    static double halfSquare(double[] r) {
+        double s = 0;
+        for (double v : r) {
+            s += v * v;
+        }
+        return 0.5 * s;
+    }
+
+    private static double norm(double[] v) {
+        double s = 0;
+        for (double e : v) {
+            s += e * e;
+        }
+        return Math.sqrt(s);
+    }
+
+    private static int positive(int v, String name) {
+        if (v > 0) {
+            return v;
+        }
+        throw new IllegalArgumentException(name + " must be > 0, got " + v);
+    }
+
+    private static double nonNegative(double v, String name) {
+        if (v >= 0) {
+            return v;
+        }
+        throw new IllegalArgumentException(name + " must be >= 0, got " + v);
+    }
+}
