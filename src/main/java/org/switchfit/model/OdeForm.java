@@ -359,6 +359,9 @@ public final class OdeForm {
                 if (cands.isEmpty() || (cands.size() > 1 && !greedy)) {
                     continue;
                 }
+                // prefer quantities the modeller did not mark as externally set (boundary species last)
+                cands.sort(java.util.Comparator.comparing(c -> types.get(c) == QType.SPECIES
+                        && model.species(c).boundaryCondition()));
                 for (String c : cands) {
                     Expr var = Expr.symbol(c);
                     Expr a = Derivative.of(f, var, null);

@@ -1,20 +1,26 @@
 package org.switchfit.ode;
 
-/**
- * Chooses an {@link Integrator} for {@link SolverSettings}. Until the stiff BDF integrator is available, every
- * method maps to {@link DormandPrinceIntegrator}; {@link #isStiffAvailable()} tells callers which is the case.
- */
+import org.switchfit.ode.bdf.BdfIntegrator;
+
+/** Chooses an {@link Integrator} for the method of {@link SolverSettings}. */
 public final class Integrators {
     private Integrators() {
     }
 
-    /** The integrator for the settings' method. */
+    /** BDF gives the stiff BDF integrator, DORMAND_PRINCE the explicit 8(5,3) pair, AUTO {@link AutoIntegrator}. */
     public static Integrator create(SolverSettings settings) {
-        return new DormandPrinceIntegrator(settings);
+        switch (settings.method()) {
+            case BDF:
+                return new BdfIntegrator(settings);
+            case DORMAND_PRINCE:
+                return new DormandPrinceIntegrator(settings);
+            default:
+                return new AutoIntegrator(settings);
+        }
     }
 
-    /** True when BDF/AUTO use a stiff method (false: they fall back to Dormand-Prince). */
+    /** True: BDF and AUTO use a stiff method. */
     public static boolean isStiffAvailable() {
-        return false;
+        return true;
     }
 }
