@@ -39,6 +39,7 @@ class FoldCurvesTest {
         // so p = -2x^3 and q = 3x^2 are below 1e-10.
         assertEquals(0, cusp.p1(), 1e-10);
         assertEquals(0, cusp.p2(), 1e-10);
+        // x enters p and q as x^3 and x^2, so x itself is only determined to ~sqrt(1e-12): 1e-6 absolute.
         assertEquals(0, cusp.state()[0], 1e-6);
 
         BistableRegion region = BistableRegion.of(curve, -1, 1, -0.5, 1.0);
