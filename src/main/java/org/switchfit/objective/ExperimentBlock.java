@@ -38,8 +38,10 @@ import org.switchfit.problem.ValueSource;
  */
 final class ExperimentBlock implements ResidualBlock {
     /**
-     * C in {@code sqrt(2 log σ + C)}: makes the residual real for σ &gt; exp(-C/2) ≈ 2e-22. Smaller σ raise an
-     * {@link ObjectiveException}.
+     * Default C in {@code sqrt(2 log σ + C)}: makes the residual real for σ &gt; exp(-C/2) ≈ 2e-22; smaller σ raise
+     * an {@link ObjectiveException}. When σ is directly an estimated parameter with a positive lower bound L,
+     * {@code C = max(1, 1 - 2 log L)} instead (real on the whole box, and a smaller constant keeps the cost, and so
+     * the optimizer's relative stopping tests, close to the NLL).
      */
     static final double SIGMA_SHIFT = 100.0;
     private static final double LN10 = Math.log(10.0);
@@ -60,6 +62,7 @@ final class ExperimentBlock implements ResidualBlock {
     private final int[] rowOffset;
     private final boolean[] sigmaVariable;
     private final double[] fixedSigma;
+    private final double[] shift;
     private final int size;
     private final double constant;
     private final BdfIntegrator integrator;
@@ -107,6 +110,7 @@ final class ExperimentBlock implements ResidualBlock {
         rowOffset = new int[rows.length];
         sigmaVariable = new boolean[rows.length];
         fixedSigma = new double[rows.length];
+        shift = new double[rows.length];
         int off = 0;
         double c = 0.0;
         for (int i = 0; i < rows.length; i++) {
@@ -119,7 +123,8 @@ final class ExperimentBlock implements ResidualBlock {
             off += sigmaVariable[i] ? 2 : 1;
             c += transformConstant(od.transformation(), me.value());
             if (sigmaVariable[i]) {
-                c += (od.noise() == ObservableDef.Noise.LAPLACE ? Math.log(2.0) : 0.5 * LOG_2PI) - 0.5 * SIGMA_SHIFT;
+                shift[i] = sigmaShift(me, od);
+                c += (od.noise() == ObservableDef.Noise.LAPLACE ? Math.log(2.0) : 0.5 * LOG_2PI) - 0.5 * shift[i];
             } else if (!(s > 0)) {
                 throw new org.switchfit.util.UserInputException(me.location(), String.format(Locale.ROOT,
                         "noise spread of observable '%s' evaluates to %s; it must be positive: correct the noise "
@@ -168,6 +173,23 @@ final class ExperimentBlock implements ResidualBlock {
             default:
                 return 0.0;
         }
+    }
+
+    /** C for a row with variable σ (see {@link #SIGMA_SHIFT}). */
+    private double sigmaShift(Measurement me, ObservableDef od) {
+        if (od.sigma().op() != org.switchfit.expr.Op.PARAM || od.sigma().index() < m) {
+            return SIGMA_SHIFT;
+        }
+        int k = od.sigma().index();
+        int oOff = problem.obsPlaceholderOffset();
+        int nOff = problem.noisePlaceholderOffset();
+        ValueSource src = k < oOff ? problem.globalSources().get(k - m)
+                : k < nOff ? me.obsParameters().get(k - oOff) : me.noiseParameters().get(k - nOff);
+        if (!src.isTheta()) {
+            return SIGMA_SHIFT;
+        }
+        double lower = problem.parameters().get(src.thetaIndex()).lower();
+        return lower > 0 ? Math.max(1.0, 1.0 - 2.0 * Math.log(lower)) : SIGMA_SHIFT;
     }
 
     /** σ when it is a constant for this row, else NaN. */
@@ -448,10 +470,10 @@ final class ExperimentBlock implements ResidualBlock {
         r[ro] = res;
         double rs = 0.0;
         if (sigmaVariable[i]) {
-            double arg = 2.0 * Math.log(sigma) + SIGMA_SHIFT;
+            double arg = 2.0 * Math.log(sigma) + shift[i];
             if (!(arg > 0)) {
                 throw new ObjectiveException(String.format(Locale.ROOT, "experiment '%s', observable '%s': noise "
-                        + "spread %.3g is below exp(-%.0f)", exp.id(), od.id(), sigma, SIGMA_SHIFT / 2));
+                        + "spread %.3g is below exp(-%.1f)", exp.id(), od.id(), sigma, shift[i] / 2));
             }
             rs = Math.sqrt(arg);
             r[ro + 1] = rs;
