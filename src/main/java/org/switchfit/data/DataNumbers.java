@@ -1,6 +1,7 @@
 package org.switchfit.data;
 
 import java.util.Locale;
+import java.util.Set;
 import java.util.regex.Pattern;
 
 /**
@@ -18,7 +19,7 @@ public final class DataNumbers {
     private static final Pattern DECIMAL =
             Pattern.compile("[+-]?(?:\\d+\\.?\\d*|\\.\\d+)(?:[eE][+-]?\\d+)?");
 
-    private static final java.util.Set<String> SPECIAL = java.util.Set.of("nan", "+nan", "-nan", ".nan", "inf",
+    private static final Set<String> SPECIAL = Set.of("nan", "+nan", "-nan", ".nan", "inf",
             "+inf", "infinity", "+infinity", ".inf", "+.inf", "-inf", "-infinity", "-.inf");
 
     private DataNumbers() {

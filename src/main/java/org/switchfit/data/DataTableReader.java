@@ -5,7 +5,6 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Set;
 import org.switchfit.util.SourceLocation;
-import org.switchfit.util.UserInputException;
 
 /**
  * Turns switchfit data tables into data points, checking numbers and that experiments and observables are

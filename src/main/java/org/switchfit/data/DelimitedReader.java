@@ -10,6 +10,7 @@ import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.HashSet;
 import java.util.List;
+import java.util.Locale;
 import java.util.Set;
 import org.switchfit.util.SourceLocation;
 import org.switchfit.util.UserInputException;
@@ -34,7 +35,7 @@ public final class DelimitedReader {
 
     /** Reads a table, choosing tab as delimiter for {@code .tsv}/{@code .tab} files and comma otherwise. */
     public static TextTable read(Path file) {
-        String name = file.getFileName().toString().toLowerCase(java.util.Locale.ROOT);
+        String name = file.getFileName().toString().toLowerCase(Locale.ROOT);
         char delimiter = name.endsWith(".tsv") || name.endsWith(".tab") ? '\t' : ',';
         return read(file, delimiter);
     }

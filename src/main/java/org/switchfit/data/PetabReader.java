@@ -7,10 +7,13 @@ import java.nio.file.NoSuchFileException;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.HashMap;
+import java.util.HashSet;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.Set;
+import java.util.regex.Matcher;
+import java.util.regex.Pattern;
 import org.switchfit.util.SourceLocation;
 import org.switchfit.util.UserInputException;
 
@@ -331,9 +334,9 @@ public final class PetabReader {
 
     private static void checkReferences(List<PetabMeasurement> measurements, List<PetabCondition> conditions,
             List<PetabObservable> observables) {
-        Set<String> conditionIds = new java.util.HashSet<>();
+        Set<String> conditionIds = new HashSet<>();
         conditions.forEach(c -> conditionIds.add(c.id()));
-        Set<String> observableIds = new java.util.HashSet<>();
+        Set<String> observableIds = new HashSet<>();
         observables.forEach(o -> observableIds.add(o.id()));
         Map<String, int[]> placeholders = new HashMap<>();
         for (PetabObservable o : observables) {
@@ -363,7 +366,7 @@ public final class PetabReader {
      * condition table are left to the model side, since they may also name model parameters.
      */
     private static void checkOverrideIds(List<PetabMeasurement> measurements, List<PetabParameter> parameters) {
-        Set<String> ids = new java.util.HashSet<>();
+        Set<String> ids = new HashSet<>();
         parameters.forEach(p -> ids.add(p.id()));
         for (PetabMeasurement m : measurements) {
             for (List<ValueRef> list : List.of(m.observableParameters(), m.noiseParameters())) {
@@ -381,8 +384,8 @@ public final class PetabReader {
 
     /** Highest N among placeholders {@code <kind>N_<observableId>} in the formula (PEtab v1 naming), or 0. */
     static int placeholderCount(String formula, String kind, String observableId) {
-        java.util.regex.Matcher mt = java.util.regex.Pattern.compile("\\b" + kind + "(\\d+)_"
-                + java.util.regex.Pattern.quote(observableId) + "\\b").matcher(formula);
+        Matcher mt = Pattern.compile("\\b" + kind + "(\\d+)_"
+                + Pattern.quote(observableId) + "\\b").matcher(formula);
         int max = 0;
         while (mt.find()) {
             max = Math.max(max, Integer.parseInt(mt.group(1)));
