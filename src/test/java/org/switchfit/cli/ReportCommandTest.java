@@ -12,9 +12,14 @@ import java.util.List;
 import java.util.Map;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
+import org.switchfit.ode.SolverSettings;
+import org.switchfit.problem.EstimationProblem;
+import org.switchfit.problem.ProblemLoader;
+import org.switchfit.report.DecayProblem;
 import org.switchfit.report.FitDirectory;
 import org.switchfit.report.FitFile;
 import org.switchfit.report.FitSummary;
+import org.switchfit.report.FittedTrajectories;
 import org.switchfit.report.SweepFile;
 
 /** {@code switchfit report}: exit codes, default and explicit output file, one-line errors. */
@@ -69,6 +74,32 @@ class ReportCommandTest {
         assertTrue(err.startsWith("error: "), err);
         assertTrue(err.contains("branches.json") && err.contains("'switchfit branches'"), err);
         assertFalse(Files.exists(d.path().resolve("report.html")));
+    }
+
+    /**
+     * End to end with the real fit command: its result.json must read as {@link FitSummary} (the shared schema),
+     * and the report over fit output plus trajectories.json computed at the best theta has the expected figures.
+     */
+    @Test
+    void reportsTheOutputOfTheFitCommand() throws Exception {
+        Path yaml = DecayProblem.write(dir.resolve("problem"));
+        Path fitDir = dir.resolve("fit");
+        String[] f = run("fit", yaml.toString(), "--starts", "3", "--seed", "5", "--out", fitDir.toString(),
+                "--quiet");
+        assertEquals("0", f[0], f[2]);
+        FitDirectory d = FitDirectory.of(fitDir);
+        FitSummary s = d.read(FitFile.RESULT);
+        assertEquals(3, s.starts().size());
+        assertEquals(5L, s.settings().seed());
+        assertEquals(List.of("k", "x0"), List.copyOf(s.parameters().keySet()));
+        EstimationProblem p = ProblemLoader.load(yaml);
+        double[] theta = {s.parametersEstimationScale().get("k"), s.parametersEstimationScale().get("x0")};
+        d.write(FitFile.TRAJECTORIES, FittedTrajectories.compute(p, theta,
+                SolverSettings.defaults().withTolerances(1e-8, 1e-12), FittedTrajectories.DEFAULT_GRID));
+        String[] r = run("report", fitDir.toString());
+        assertEquals("0", r[0], r[2]);
+        String page = Files.readString(fitDir.resolve("report.html"));
+        assertTrue(page.contains("content=\"trajectories waterfall\""), "figure ids in the meta tag");
     }
 
     @Test
