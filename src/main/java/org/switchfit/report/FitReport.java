@@ -83,6 +83,7 @@ public final class FitReport {
         } else {
             missing(r, dir, FitFile.TRAJECTORIES);
         }
+        prof.ifPresent(p -> FitReportTables.predictions(r, p));
 
         r.section(S_MULTI);
         if (fit.isPresent()) {

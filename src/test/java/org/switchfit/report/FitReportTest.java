@@ -69,6 +69,10 @@ class FitReportTest {
         // fixture's se = 0.1 and value 2 (derived by hand from its quadratic profile); shown with %.6g
         double width = 2 * Math.sqrt(2 * SyntheticFitDirectory.HALF_CHI2) * 0.1 / 2;
         assertEquals(String.format(java.util.Locale.ROOT, "%.6g", width), foldRows.get(0).get(5));
+        // prediction-profile table
+        List<List<String>> pred = tableRows(doc, "Predictions with 95 %");
+        assertEquals("gfp(cond1, t=10)", pred.get(0).get(0));
+        assertEquals("pinned", pred.get(0).get(4));
         // multistart table sorted by final value, failed start last
         List<List<String>> starts = tableRows(doc, "Starts sorted by final value");
         assertEquals("7", starts.get(starts.size() - 1).get(1));
