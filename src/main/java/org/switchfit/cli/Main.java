@@ -13,7 +13,8 @@ import picocli.CommandLine.Command;
         description = "Fit ODE models of biochemical switches to timecourses and switching thresholds, "
                 + "trace their steady-state branches and folds, and report which parameters the data pin down.",
         subcommands = {CommandLine.HelpCommand.class, SimulateCommand.class, SuiteCommand.class,
-            CheckCommand.class, FitCommand.class, BenchPetabCommand.class, ProfileCommand.class})
+            CheckCommand.class, FitCommand.class, BenchPetabCommand.class, ProfileCommand.class,
+            BenchProfilesCommand.class})
 public final class Main implements Runnable {
 
     /** Exit code for user errors. */
