@@ -215,7 +215,10 @@ public final class ObservablePrediction implements Prediction {
     @Override
     public double evaluate(double[] theta, double[] gradient) {
         Work w = work.get();
-        boolean sens = gradient != null && np > 0;
+        // Sensitivities are integrated even without a gradient request: they take part in the step-size control,
+        // so skipping them changes the steps and g by up to the integration tolerance; an optimizer comparing
+        // trial values (no gradient) with accepted ones (gradient) would see that as noise.
+        boolean sens = np > 0;
         for (int j = 0; j < np; j++) {
             w.linear[j] = problem.parameters().get(j).toLinear(theta[j]);
             w.dLinear[j] = problem.parameters().get(j).linearDerivative(theta[j]);
