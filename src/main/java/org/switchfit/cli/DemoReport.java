@@ -71,7 +71,7 @@ final class DemoReport {
                 + "high state, measured switching thresholds (squares, with 1 sigma).");
         if (r.region != null) {
             Figure rf = Figure.of("region", "Bistable region").columns(1);
-            rf.add(region(r));
+            rf.add(region(dm, r));
             h.figure(rf, "Region of (stimulus, " + DemoRun.REGION_PARAMETER + ") with two stable steady states.");
         }
         if (r.up != null && r.down != null) {
@@ -187,7 +187,7 @@ final class DemoReport {
         return pl;
     }
 
-    private static Plot region(DemoRun.Results r) {
+    private static Plot region(DemoModel dm, DemoRun.Results r) {
         double[][] poly = r.region.polygon();
         double[] x = new double[poly.length];
         double[] y = new double[poly.length];
@@ -195,8 +195,15 @@ final class DemoReport {
             x[i] = poly[i][0];
             y[i] = poly[i][1];
         }
-        Plot pl = new Plot("Bistable region", Axis.linear("stimulus"), Axis.linear(DemoRun.REGION_PARAMETER));
+        Plot pl = new Plot("Bistable region", Axis.linear("stimulus"), Axis.log10(DemoRun.REGION_PARAMETER));
         pl.add(Series.area("bistable", x, y).color(Palette.BLUE).opacity(0.3));
+        double[] cx = r.region.cusps().stream().mapToDouble(c -> c.p1()).toArray();
+        double[] cy = r.region.cusps().stream().mapToDouble(c -> c.p2()).toArray();
+        if (cx.length > 0) {
+            pl.add(Series.points("cusp", cx, cy).marker(Series.Marker.DIAMOND).color(Palette.VERMILLION).size(9));
+        }
+        pl.add(Series.horizontal(DemoRun.REGION_PARAMETER + " used", r.at.p()[dm.index(DemoRun.REGION_PARAMETER)])
+                .dash(Series.Dash.DOTTED));
         return pl;
     }
 }

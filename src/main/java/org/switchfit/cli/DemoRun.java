@@ -34,9 +34,9 @@ import org.switchfit.util.UserInputException;
  */
 final class DemoRun {
     /** Second parameter of the two-parameter bistable region, and its range (linear). */
-    static final String REGION_PARAMETER = "K_inh";
+    static final String REGION_PARAMETER = "k_rec";
     static final double REGION_LOW = 0.1;
-    static final double REGION_HIGH = 1.0;
+    static final double REGION_HIGH = 10;
     /** Ramp speed of the hysteresis sweep (stimulus units per minute) and its samples. */
     static final double SWEEP_RATE = 0.005;
     static final int SWEEP_SAMPLES = 401;
