@@ -5,6 +5,11 @@ import java.util.Locale;
 /**
  * Settings of a pseudo-arclength continuation. Immutable; {@code withX} returns changed copies.
  *
+ * <p>Steps are arclengths in the plain Euclidean norm of (y, λ), in the caller's units. Choose maxStep well
+ * below the smallest feature to be resolved: when states are tiny compared with the λ range (or the reverse),
+ * a step can cross a narrow S-shaped part of the branch without any test function noticing. Rescaling the
+ * model (states and control to order one) is the robust remedy.
+ *
  * @param lowerBound        smallest λ to reach (the branch end is placed exactly on it)
  * @param upperBound        largest λ
  * @param initialStep       first arclength step (Euclidean norm in (y, λ))

@@ -60,6 +60,10 @@ public final class Thresholds {
 
     private Threshold threshold(OdeSystem sys, double[] yStart, double[] p, int control, double[] readout,
                                 int direction) {
+        if (readout.length != sys.stateCount()) {
+            throw new IllegalArgumentException(String.format(Locale.ROOT,
+                    "readout has %d weights; the system has %d states", readout.length, sys.stateCount()));
+        }
         double[] q = p.clone();
         q[control] = direction > 0 ? settings.lowerBound() : settings.upperBound();
         SteadyStateSolver ss = new SteadyStateSolver(1e-10, 1e-12, 50, 5000, 1e-3, 0);

@@ -21,10 +21,17 @@ import org.switchfit.util.UserInputException;
 final class MathConverter {
     private final org.sbml.jsbml.Model model;
     private final String file;
+    private final String prefix;
 
     MathConverter(org.sbml.jsbml.Model model, String file) {
+        this(model, file, "");
+    }
+
+    /** A converter that prefixes every model symbol (used when flattening submodels). */
+    MathConverter(org.sbml.jsbml.Model model, String file, String prefix) {
         this.model = model;
         this.file = file;
+        this.prefix = prefix;
     }
 
     /**
@@ -80,7 +87,7 @@ final class MathConverter {
                     return bound;
                 }
                 String r = rename.get(nm);
-                return Expr.symbol(r != null ? r : nm);
+                return Expr.symbol(r != null ? r : prefix + nm);
             }
             case PLUS:
             case SUM:
@@ -182,7 +189,7 @@ final class MathConverter {
 
     private Expr inline(ASTNode n, Map<String, String> rename, Map<String, Expr> scope, String el, int depth) {
         String fname = n.getName();
-        FunctionDefinition fd = model.getFunctionDefinition(fname);
+        FunctionDefinition fd = model == null ? null : model.getFunctionDefinition(fname);
         if (fd == null || fd.getMath() == null) {
             throw new UserInputException(SourceLocation.ofElement(file, el), "calls function '" + fname
                     + "', which is not defined; add a functionDefinition or correct the name");

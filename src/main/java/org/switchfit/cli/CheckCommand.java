@@ -1,0 +1,88 @@
+package org.switchfit.cli;
+
+import java.io.PrintWriter;
+import java.nio.file.Path;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.concurrent.Callable;
+import org.switchfit.ode.SolverSettings;
+import org.switchfit.report.Json;
+import org.switchfit.util.AtomicFiles;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Parameters;
+import picocli.CommandLine.Spec;
+
+/**
+ * {@code switchfit check}: validates a problem, evaluates the negative log-likelihood at the nominal parameters and
+ * compares every simulated observable with a reference simulation table. Exit code 0 when everything matches (or no
+ * reference exists), 3 when some simulated value differs from the reference.
+ */
+@Command(name = "check", mixinStandardHelpOptions = true,
+        description = "Validate a problem (PEtab YAML or switchfit problem file), evaluate the negative "
+                + "log-likelihood at the nominal parameter values and compare simulations with the reference "
+                + "simulatedData table when there is one.")
+public final class CheckCommand implements Callable<Integer> {
+    /** Exit code when simulations differ from the reference. */
+    static final int EXIT_MISMATCH = 3;
+
+    @Spec
+    picocli.CommandLine.Model.CommandSpec spec;
+
+    @Parameters(index = "0", paramLabel = "PROBLEM.yaml", description = "problem file")
+    Path problem;
+
+    @Option(names = "--json", paramLabel = "FILE", description = "write the results as JSON")
+    Path json;
+
+    @Option(names = "--simulations", paramLabel = "FILE",
+            description = "write the measurement table with a simulation column (TSV)")
+    Path simulations;
+
+    @Option(names = "--reference", paramLabel = "FILE",
+            description = "reference simulation table (default: simulatedData*.tsv beside the problem file)")
+    Path reference;
+
+    @Option(names = "--rtol", defaultValue = "1e-8", description = "relative tolerance (default: ${DEFAULT-VALUE})")
+    double rtol;
+
+    @Option(names = "--atol", defaultValue = "1e-12", description = "absolute tolerance (default: ${DEFAULT-VALUE})")
+    double atol;
+
+    @Override
+    public Integer call() {
+        SolverSettings settings = SimulateCommand.settings("bdf", rtol, atol);
+        CheckRun run = new CheckRun(problem, reference, settings);
+        PrintWriter out = spec.commandLine().getOut();
+        Map<String, Object> j = run.json;
+        out.printf(Locale.ROOT, "%s: %d measurements, %d estimated parameters%n", problem,
+                run.problem.measurements().size(), run.problem.parameterCount());
+        out.printf(Locale.ROOT, "negative log-likelihood at nominal values: %.10g (priors %.6g)%n",
+                run.evaluation.nll(), run.evaluation.priorPart());
+        if (run.reference != null) {
+            out.printf(Locale.ROOT, "reference %s: %d of %d match; max abs deviation %.3g, max rel deviation %.3g%n",
+                    run.reference.getFileName(), j.get("matched"), run.problem.measurements().size(),
+                    j.get("maxAbsDeviation"), j.get("maxRelDeviation"));
+            @SuppressWarnings("unchecked")
+            List<Map<String, Object>> obs = (List<Map<String, Object>>) j.get("observables");
+            for (Map<String, Object> o : obs) {
+                if (((Integer) o.get("mismatches")) > 0) {
+                    out.printf(Locale.ROOT, "  observable %s: %d of %d differ (max abs %.3g, max rel %.3g)%n",
+                            o.get("id"), o.get("mismatches"), o.get("measurements"), o.get("maxAbsDeviation"),
+                            o.get("maxRelDeviation"));
+                }
+            }
+        } else {
+            out.println("no reference simulation table found");
+        }
+        out.flush();
+        if (json != null) {
+            Json.write(json, j);
+        }
+        if (simulations != null) {
+            AtomicFiles.writeString(simulations, run.simulationsTsv());
+        }
+        return run.allMatch() ? 0 : EXIT_MISMATCH;
+    }
+}

@@ -1,0 +1,244 @@
+package org.switchfit.cli;
+
+import java.io.IOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.ArrayDeque;
+import java.util.Deque;
+import java.util.HashMap;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.stream.Stream;
+import org.switchfit.data.DelimitedReader;
+import org.switchfit.data.PetabMeasurement;
+import org.switchfit.data.PetabReader;
+import org.switchfit.data.TextTable;
+import org.switchfit.objective.LikelihoodObjective;
+import org.switchfit.ode.SolverSettings;
+import org.switchfit.problem.EstimationProblem;
+import org.switchfit.problem.Measurement;
+import org.switchfit.problem.ProblemLoader;
+import org.switchfit.util.SourceLocation;
+import org.switchfit.util.UserInputException;
+
+/**
+ * Shared logic of {@code check} and {@code bench-petab}: load, evaluate at the nominal parameters, compare the
+ * simulated observables with a reference simulation table. Tolerance: a value matches when
+ * {@code |sim - ref| <= REL_TOL |ref| + ABS_TOL_FRACTION * range}, range = max - min of the observable's reference
+ * values (its largest |ref| when the range is 0).
+ */
+final class CheckRun {
+    /** Relative tolerance of the comparison with reference simulations. */
+    static final double REL_TOL = 1e-3;
+    /** Absolute tolerance as a fraction of the observable's range. */
+    static final double ABS_TOL_FRACTION = 1e-3;
+
+    final EstimationProblem problem;
+    final LikelihoodObjective objective;
+    final LikelihoodObjective.Evaluation evaluation;
+    final double seconds;
+    final Path reference;
+    final double[] referenceValues;
+    final boolean[] matches;
+    final Map<String, Object> json = new LinkedHashMap<>();
+
+    CheckRun(Path problemFile, Path referenceFile, SolverSettings settings) {
+        long t0 = System.nanoTime();
+        problem = ProblemLoader.load(problemFile);
+        objective = LikelihoodObjective.of(problem, settings);
+        evaluation = objective.evaluateDetailed(problem.nominalTheta());
+        seconds = (System.nanoTime() - t0) * 1e-9;
+        reference = referenceFile != null ? referenceFile : findReference(problemFile);
+        int nm = problem.measurements().size();
+        json.put("problem", problemFile.toString());
+        json.put("measurements", nm);
+        json.put("parameters", problem.parameterCount());
+        json.put("nllAtNominal", evaluation.nll());
+        json.put("priorPartAtNominal", evaluation.priorPart());
+        json.put("seconds", seconds);
+        if (reference == null) {
+            referenceValues = null;
+            matches = null;
+            json.put("reference", null);
+            return;
+        }
+        json.put("reference", reference.toString());
+        referenceValues = align(PetabReader.readSimulatedData(reference));
+        matches = new boolean[nm];
+        int no = problem.observables().size();
+        double[] lo = new double[no];
+        double[] hi = new double[no];
+        double[] big = new double[no];
+        java.util.Arrays.fill(lo, Double.POSITIVE_INFINITY);
+        java.util.Arrays.fill(hi, Double.NEGATIVE_INFINITY);
+        for (int i = 0; i < nm; i++) {
+            int o = problem.measurements().get(i).observable();
+            double v = referenceValues[i];
+            if (Double.isFinite(v)) {
+                lo[o] = Math.min(lo[o], v);
+                hi[o] = Math.max(hi[o], v);
+                big[o] = Math.max(big[o], Math.abs(v));
+            }
+        }
+        double maxAbs = 0.0;
+        double maxRel = 0.0;
+        int matched = 0;
+        List<Map<String, Object>> perObs = new ArrayList<>();
+        double[] oAbs = new double[no];
+        double[] oRel = new double[no];
+        int[] oCount = new int[no];
+        int[] oBad = new int[no];
+        int firstBad = -1;
+        for (int i = 0; i < nm; i++) {
+            int o = problem.measurements().get(i).observable();
+            double ref = referenceValues[i];
+            double sim = evaluation.simulated()[i];
+            double range = hi[o] - lo[o] > 0 ? hi[o] - lo[o] : big[o];
+            double d = Math.abs(sim - ref);
+            double rel = ref != 0 ? d / Math.abs(ref) : (d == 0 ? 0 : Double.POSITIVE_INFINITY);
+            boolean ok = Double.isFinite(sim) && d <= REL_TOL * Math.abs(ref) + ABS_TOL_FRACTION * range;
+            matches[i] = ok;
+            if (ok) {
+                matched++;
+            } else if (firstBad < 0) {
+                firstBad = i;
+            }
+            if (Double.isFinite(d)) {
+                maxAbs = Math.max(maxAbs, d);
+                oAbs[o] = Math.max(oAbs[o], d);
+            } else {
+                maxAbs = Double.POSITIVE_INFINITY;
+                oAbs[o] = Double.POSITIVE_INFINITY;
+            }
+            maxRel = Math.max(maxRel, Double.isNaN(rel) ? Double.POSITIVE_INFINITY : rel);
+            oRel[o] = Math.max(oRel[o], Double.isNaN(rel) ? Double.POSITIVE_INFINITY : rel);
+            oCount[o]++;
+            oBad[o] += ok ? 0 : 1;
+        }
+        for (int o = 0; o < no; o++) {
+            Map<String, Object> e = new LinkedHashMap<>();
+            e.put("id", problem.observables().get(o).id());
+            e.put("measurements", oCount[o]);
+            e.put("mismatches", oBad[o]);
+            e.put("maxAbsDeviation", oAbs[o]);
+            e.put("maxRelDeviation", oRel[o]);
+            e.put("referenceRange", hi[o] - lo[o]);
+            perObs.add(e);
+        }
+        json.put("maxAbsDeviation", maxAbs);
+        json.put("maxRelDeviation", maxRel);
+        json.put("matched", matched);
+        json.put("allMatch", matched == nm);
+        if (firstBad >= 0) {
+            Measurement me = problem.measurements().get(firstBad);
+            json.put("firstMismatch", String.format(Locale.ROOT, "%s: observable %s t=%s simulated %.9g reference "
+                    + "%.9g", me.location(), problem.observables().get(me.observable()).id(), me.time(),
+                    evaluation.simulated()[firstBad], referenceValues[firstBad]));
+        }
+        json.put("observables", perObs);
+    }
+
+    boolean allMatch() {
+        return matches == null || (Boolean) json.get("allMatch");
+    }
+
+    /** The simulatedData*.tsv beside a PEtab YAML file, or null. */
+    static Path findReference(Path problemFile) {
+        Path dir = problemFile.toAbsolutePath().getParent();
+        try (Stream<Path> s = Files.list(dir)) {
+            return s.filter(p -> p.getFileName().toString().startsWith("simulatedData")
+                    && p.getFileName().toString().endsWith(".tsv")).sorted().findFirst().orElse(null);
+        } catch (IOException e) {
+            return null;
+        }
+    }
+
+    /** Reference values in measurement order: by row when the tables line up, else by matching keys. */
+    private double[] align(List<PetabMeasurement> ref) {
+        List<Measurement> ms = problem.measurements();
+        double[] out = new double[ms.size()];
+        java.util.Arrays.fill(out, Double.NaN);
+        Map<String, Deque<Double>> byKey = new HashMap<>();
+        for (PetabMeasurement r : ref) {
+            byKey.computeIfAbsent(key(r.observableId(), r.simulationConditionId(), r.time()),
+                    k -> new ArrayDeque<>()).add(r.value());
+        }
+        int missing = 0;
+        for (int i = 0; i < ms.size(); i++) {
+            Measurement me = ms.get(i);
+            String sim = problem.conditions().get(problem.experiments().get(me.experiment()).condition()).id();
+            Deque<Double> q = byKey.get(key(problem.observables().get(me.observable()).id(), sim, me.time()));
+            if (q == null || q.isEmpty()) {
+                missing++;
+                continue;
+            }
+            out[i] = q.poll();
+        }
+        if (missing == ms.size()) {
+            throw new UserInputException(SourceLocation.ofFile(reference.toString()), "no row matches a measurement "
+                    + "(observableId, simulationConditionId, time); pass the simulated-data table of this problem");
+        }
+        return out;
+    }
+
+    private static String key(String obs, String sim, double t) {
+        return obs + '\u0000' + sim + '\u0000' + t;
+    }
+
+    /** Measurement table with a simulation column after measurement (PEtab); one row per measurement row. */
+    String simulationsTsv() {
+        Path measFile = null;
+        String f = problem.measurements().isEmpty() ? null : problem.measurements().get(0).location().file();
+        if (f != null) {
+            measFile = Path.of(f);
+        }
+        StringBuilder sb = new StringBuilder();
+        if (measFile != null && Files.isRegularFile(measFile) && f.endsWith(".tsv")) {
+            TextTable t = DelimitedReader.read(measFile, '\t');
+            List<String> cols = t.columns();
+            Map<Integer, Integer> byLine = new HashMap<>();
+            for (int i = 0; i < problem.measurements().size(); i++) {
+                byLine.put(problem.measurements().get(i).location().line(), i);
+            }
+            List<String> header = new ArrayList<>();
+            for (String c : cols) {
+                header.add(c);
+                if (c.equals("measurement")) {
+                    header.add("simulation");
+                }
+            }
+            sb.append(String.join("\t", header)).append('\n');
+            for (TextTable.Row r : t.rows()) {
+                Integer i = byLine.get(r.line());
+                List<String> cells = new ArrayList<>();
+                for (String c : cols) {
+                    cells.add(r.text(c));
+                    if (c.equals("measurement")) {
+                        cells.add(i == null ? "" : fmt(evaluation.simulated()[i]));
+                    }
+                }
+                sb.append(String.join("\t", cells)).append('\n');
+            }
+            return sb.toString();
+        }
+        sb.append("experiment\tobservable\ttime\tmeasurement\tsimulation\n");
+        for (int i = 0; i < problem.measurements().size(); i++) {
+            Measurement me = problem.measurements().get(i);
+            sb.append(problem.experiments().get(me.experiment()).id()).append('\t')
+                    .append(problem.observables().get(me.observable()).id()).append('\t')
+                    .append(fmt(me.time())).append('\t').append(fmt(me.value())).append('\t')
+                    .append(fmt(evaluation.simulated()[i])).append('\n');
+        }
+        return sb.toString();
+    }
+
+    static String fmt(double v) {
+        if (v == Double.POSITIVE_INFINITY) {
+            return "inf";
+        }
+        return Double.toString(v);
+    }
+}

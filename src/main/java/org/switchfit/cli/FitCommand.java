@@ -1,0 +1,265 @@
+package org.switchfit.cli;
+
+import java.io.IOException;
+import java.io.InputStream;
+import java.io.PrintWriter;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.security.MessageDigest;
+import java.security.NoSuchAlgorithmException;
+import java.util.ArrayList;
+import java.util.HexFormat;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.concurrent.Callable;
+import org.switchfit.fit.FitProblem;
+import org.switchfit.fit.FitResult;
+import org.switchfit.fit.LocalTaskExecutor;
+import org.switchfit.fit.Multistart;
+import org.switchfit.fit.ParameterScale;
+import org.switchfit.fit.StartResult;
+import org.switchfit.fit.StartStatus;
+import org.switchfit.objective.LikelihoodObjective;
+import org.switchfit.ode.SolverSettings;
+import org.switchfit.problem.EstimationProblem;
+import org.switchfit.problem.FreeParameter;
+import org.switchfit.problem.Measurement;
+import org.switchfit.problem.ProblemLoader;
+import org.switchfit.report.Csv;
+import org.switchfit.report.Json;
+import org.switchfit.report.ResultStore;
+import org.switchfit.sbml.SbmlWriter;
+import org.switchfit.util.SourceLocation;
+import org.switchfit.util.UserInputException;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Parameters;
+import picocli.CommandLine.Spec;
+
+/**
+ * {@code switchfit fit}: multistart Levenberg-Marquardt on a problem of either format. Each finished start is
+ * written atomically to {@code OUT/starts/} as it finishes, so {@code --resume} continues an interrupted run with
+ * the same result; at the end {@code result.json}, {@code residuals.csv} and {@code model_fitted.xml} are written.
+ */
+@Command(name = "fit", mixinStandardHelpOptions = true,
+        description = "Fit a problem (PEtab YAML or switchfit problem file) by multistart Levenberg-Marquardt.")
+public final class FitCommand implements Callable<Integer> {
+
+    @Spec
+    picocli.CommandLine.Model.CommandSpec spec;
+
+    @Parameters(index = "0", paramLabel = "PROBLEM.yaml", description = "problem file")
+    Path problemFile;
+
+    @Option(names = "--starts", defaultValue = "20", description = "number of starts (default: ${DEFAULT-VALUE})")
+    int starts;
+
+    @Option(names = "--seed", defaultValue = "1", description = "random seed (default: ${DEFAULT-VALUE})")
+    long seed;
+
+    @Option(names = "--threads", defaultValue = "1", description = "worker threads (default: ${DEFAULT-VALUE})")
+    int threads;
+
+    @Option(names = "--out", required = true, paramLabel = "DIR", description = "output folder")
+    Path out;
+
+    @Option(names = "--resume", description = "reuse the starts already finished in the output folder")
+    boolean resume;
+
+    @Option(names = "--quiet", description = "no progress bar")
+    boolean quiet;
+
+    @Option(names = "--nominal-start", description = "use the nominal parameter values as start 0")
+    boolean nominalStart;
+
+    @Option(names = "--rtol", defaultValue = "1e-8", description = "relative tolerance (default: ${DEFAULT-VALUE})")
+    double rtol;
+
+    @Option(names = "--atol", defaultValue = "1e-12", description = "absolute tolerance (default: ${DEFAULT-VALUE})")
+    double atol;
+
+    @Option(names = "--max-iterations", defaultValue = "1000",
+            description = "iterations per start (default: ${DEFAULT-VALUE})")
+    int maxIterations;
+
+    @Override
+    public Integer call() {
+        if (starts < 1 || threads < 1) {
+            throw new UserInputException(null, "--starts and --threads must be at least 1; got " + starts + " and "
+                    + threads);
+        }
+        EstimationProblem problem = ProblemLoader.load(problemFile);
+        LikelihoodObjective objective = LikelihoodObjective.of(problem, SimulateCommand.settings("bdf", rtol, atol));
+        FitProblem fp = fitProblem(problem, objective);
+        ResultStore store = new ResultStore(out.resolve("starts"));
+        List<StartResult> finished = new ArrayList<>();
+        if (!store.keys().isEmpty()) {
+            if (!resume) {
+                throw new UserInputException(SourceLocation.ofFile(out.toString()), "already holds finished starts; "
+                        + "add --resume to continue that run, or choose another --out folder");
+            }
+            finished.addAll(store.readAll(StartResult.class).values());
+        }
+        Multistart ms = Multistart.defaults().withStarts(starts).withSeed(seed)
+                .withOptimizer(org.switchfit.fit.LevenbergMarquardt.defaults().withMaxIterations(maxIterations));
+        double[] guess = nominalStart ? problem.nominalTheta() : null;
+        boolean bar = !quiet && System.console() != null;
+        PrintWriter err = spec.commandLine().getErr();
+        int[] done = {finished.size()};
+        double[] best = {Double.POSITIVE_INFINITY};
+        for (StartResult r : finished) {
+            if (r.status() != StartStatus.FAILED) {
+                best[0] = Math.min(best[0], r.nll());
+            }
+        }
+        long t0 = System.nanoTime();
+        FitResult result = ms.run(fp, guess, LocalTaskExecutor.ofThreads(threads), r -> {
+            store.put(ResultStore.indexKey("start", r.index()), r);
+            done[0]++;
+            if (r.status() != StartStatus.FAILED) {
+                best[0] = Math.min(best[0], r.nll());
+            }
+            if (bar) {
+                int width = 30;
+                int filled = (int) ((long) width * done[0] / starts);
+                err.printf(Locale.ROOT, "\r[%s%s] %d/%d starts, best NLL %.6g ", "#".repeat(filled),
+                        " ".repeat(width - filled), done[0], starts, best[0]);
+                err.flush();
+            }
+        }, finished);
+        if (bar) {
+            err.println();
+        }
+        double wall = (System.nanoTime() - t0) * 1e-9;
+        writeResults(problem, objective, result, wall);
+        PrintWriter o = spec.commandLine().getOut();
+        if (result.bestTheta() == null) {
+            o.printf(Locale.ROOT, "all %d starts failed; see %s%n", starts, out.resolve("result.json"));
+            o.flush();
+            return 1;
+        }
+        o.printf(Locale.ROOT, "best NLL %.10g; %d of %d starts within %.1f of it; results in %s%n", result.bestNll(),
+                result.startsNearBest(), starts, FitResult.NEAR_BEST_TOLERANCE, out);
+        o.flush();
+        return 0;
+    }
+
+    static FitProblem fitProblem(EstimationProblem problem, LikelihoodObjective objective) {
+        int np = problem.parameterCount();
+        String[] ids = new String[np];
+        double[] lo = new double[np];
+        double[] hi = new double[np];
+        ParameterScale[] sc = new ParameterScale[np];
+        for (int j = 0; j < np; j++) {
+            FreeParameter p = problem.parameters().get(j);
+            ids[j] = p.id();
+            lo[j] = p.thetaLower();
+            hi[j] = p.thetaUpper();
+            sc[j] = switch (p.scale()) {
+                case LOG -> ParameterScale.LN;
+                case LOG10 -> ParameterScale.LOG10;
+                default -> ParameterScale.LINEAR;
+            };
+        }
+        return FitProblem.of(objective, ids, lo, hi).withScales(sc);
+    }
+
+    private void writeResults(EstimationProblem problem, LikelihoodObjective objective, FitResult result,
+                              double wall) {
+        Map<String, Object> j = new LinkedHashMap<>();
+        j.put("problem", problemFile.toString());
+        j.put("bestNll", result.bestNll());
+        Map<String, Object> lin = new LinkedHashMap<>();
+        Map<String, Object> est = new LinkedHashMap<>();
+        Map<String, Object> scales = new LinkedHashMap<>();
+        double[] th = result.bestTheta();
+        for (int k = 0; k < problem.parameterCount(); k++) {
+            FreeParameter p = problem.parameters().get(k);
+            lin.put(p.id(), th == null ? null : p.toLinear(th[k]));
+            est.put(p.id(), th == null ? null : th[k]);
+            scales.put(p.id(), p.scale().token());
+        }
+        j.put("parameters", lin);
+        j.put("parametersEstimationScale", est);
+        j.put("scales", scales);
+        j.put("startsNearBest", result.startsNearBest());
+        j.put("nearBestTolerance", FitResult.NEAR_BEST_TOLERANCE);
+        j.put("failedStarts", result.failedCount());
+        List<Map<String, Object>> st = new ArrayList<>();
+        for (StartResult r : result.starts()) {
+            Map<String, Object> e = new LinkedHashMap<>();
+            e.put("index", r.index());
+            e.put("nll", r.nll());
+            e.put("status", r.status().name());
+            e.put("termination", r.termination() == null ? null : r.termination().name());
+            e.put("iterations", r.iterations());
+            e.put("evaluations", r.evaluations());
+            e.put("reason", r.reason());
+            st.add(e);
+        }
+        j.put("starts", st);
+        Map<String, Object> settings = new LinkedHashMap<>();
+        settings.put("starts", starts);
+        settings.put("seed", seed);
+        settings.put("rtol", rtol);
+        settings.put("atol", atol);
+        settings.put("nominalStart", nominalStart);
+        j.put("settings", settings);
+        j.put("wallSeconds", wall);
+        Map<String, Object> versions = new LinkedHashMap<>();
+        versions.put("switchfit", new Main.Version().getVersion()[0]);
+        versions.put("java", System.getProperty("java.version"));
+        j.put("versions", versions);
+        List<Map<String, Object>> inputs = new ArrayList<>();
+        for (Path p : problem.inputFiles()) {
+            Map<String, Object> e = new LinkedHashMap<>();
+            e.put("file", p.toString());
+            e.put("sha256", sha256(p));
+            inputs.add(e);
+        }
+        j.put("inputs", inputs);
+        Json.write(out.resolve("result.json"), j);
+        if (th == null) {
+            return;
+        }
+        LikelihoodObjective.Evaluation ev = objective.evaluateDetailed(th);
+        Csv csv = new Csv("experiment", "observable", "time", "measurement", "simulation", "sigma", "residual");
+        for (int i = 0; i < problem.measurements().size(); i++) {
+            Measurement me = problem.measurements().get(i);
+            double s = ev.simulated()[i];
+            double sig = ev.sigmas()[i];
+            double res = switch (problem.observables().get(me.observable()).transformation()) {
+                case LOG -> (Math.log(me.value()) - Math.log(s)) / sig;
+                case LOG10 -> (Math.log10(me.value()) - Math.log10(s)) / sig;
+                default -> (me.value() - s) / sig;
+            };
+            csv.row(problem.experiments().get(me.experiment()).id(),
+                    problem.observables().get(me.observable()).id(), me.time(), me.value(), s, sig, res);
+        }
+        csv.write(out.resolve("residuals.csv"));
+        Map<String, Double> values = new LinkedHashMap<>();
+        for (int k = 0; k < problem.parameterCount(); k++) {
+            values.put(problem.parameters().get(k).id(), problem.parameters().get(k).toLinear(th[k]));
+        }
+        SbmlWriter.writeWithValues(problem.modelFile(), out.resolve("model_fitted.xml"), values);
+    }
+
+    static String sha256(Path p) {
+        try (InputStream in = Files.newInputStream(p)) {
+            MessageDigest md = MessageDigest.getInstance("SHA-256");
+            byte[] buf = new byte[1 << 16];
+            int k;
+            while ((k = in.read(buf)) > 0) {
+                md.update(buf, 0, k);
+            }
+            return HexFormat.of().formatHex(md.digest());
+        } catch (IOException e) {
+            throw new UserInputException(SourceLocation.ofFile(p.toString()), "cannot be read for its checksum ("
+                    + e.getMessage() + ")", e);
+        } catch (NoSuchAlgorithmException e) {
+            throw new IllegalStateException(e);
+        }
+    }
+}

@@ -1,0 +1,152 @@
+package org.switchfit.objective;
+
+import java.util.ArrayList;
+import java.util.List;
+import org.switchfit.ode.SolverSettings;
+import org.switchfit.problem.EstimationProblem;
+import org.switchfit.util.SourceLocation;
+import org.switchfit.util.UserInputException;
+
+/**
+ * The negative log-likelihood of an {@link EstimationProblem} including normalisation constants and priors, as a
+ * sum of independent {@link ResidualBlock}s: one per simulation experiment (timecourses, steady-state
+ * measurements; exact gradients from forward sensitivities, or central finite differences for models with events,
+ * see {@link ExperimentBlock}), one for the priors, and any blocks added by callers. Immutable and thread-safe
+ * (blocks keep per-thread workspaces).
+ */
+public final class LikelihoodObjective implements Objective {
+    private final EstimationProblem problem;
+    private final List<ResidualBlock> blocks;
+    private final int[] offsets;
+    private final int size;
+    private final double constant;
+    private final int priorBlock;
+
+    private LikelihoodObjective(EstimationProblem problem, List<ResidualBlock> blocks, int priorBlock) {
+        this.problem = problem;
+        this.blocks = List.copyOf(blocks);
+        this.offsets = new int[blocks.size()];
+        int off = 0;
+        double c = 0.0;
+        for (int b = 0; b < blocks.size(); b++) {
+            offsets[b] = off;
+            off += blocks.get(b).size();
+            c += blocks.get(b).constant();
+        }
+        this.size = off;
+        this.constant = c;
+        this.priorBlock = priorBlock;
+    }
+
+    /**
+     * Builds the objective with the given integration settings and the default steady-state criterion.
+     *
+     * @throws UserInputException when the problem has data that needs blocks not given here (dose-response points,
+     *                            switching thresholds)
+     */
+    public static LikelihoodObjective of(EstimationProblem problem, SolverSettings settings) {
+        return of(problem, settings, SteadyState.defaults(), List.of());
+    }
+
+    /**
+     * Builds the objective.
+     *
+     * @param extra additional blocks (e.g. thresholds); when empty, problems with dose-response or threshold data
+     *              are rejected
+     */
+    public static LikelihoodObjective of(EstimationProblem problem, SolverSettings settings, SteadyState steady,
+                                         List<ResidualBlock> extra) {
+        if (extra.isEmpty() && !problem.extraData().isEmpty()) {
+            throw new UserInputException(SourceLocation.ofFile(problem.problemFile().toString()), "has dose-response"
+                    + " or switching-threshold data, which this objective does not handle yet; fit the timecourses "
+                    + "alone (remove those data entries) for now");
+        }
+        List<ResidualBlock> blocks = new ArrayList<>();
+        boolean events = problem.hasEvents();
+        InitialDerivative initD = events ? null : new InitialDerivative(problem.compiled().form());
+        for (int e = 0; e < problem.experiments().size(); e++) {
+            blocks.add(new ExperimentBlock(problem, initD, e, settings, steady));
+        }
+        PriorBlock pb = new PriorBlock(problem);
+        blocks.add(pb);
+        int prior = blocks.size() - 1;
+        blocks.addAll(extra);
+        return new LikelihoodObjective(problem, blocks, prior);
+    }
+
+    /** The problem. */
+    public EstimationProblem problem() {
+        return problem;
+    }
+
+    /** The constant c of {@code nll = 0.5 |r|^2 + c}. */
+    public double constant() {
+        return constant;
+    }
+
+    @Override
+    public int parameterCount() {
+        return problem.parameterCount();
+    }
+
+    @Override
+    public int residualCount() {
+        return size;
+    }
+
+    @Override
+    public double evaluate(double[] theta, double[] residuals, double[] jacobian) {
+        return run(new EvaluationContext(problem, theta, null, null), residuals, jacobian);
+    }
+
+    private double run(EvaluationContext ctx, double[] residuals, double[] jacobian) {
+        if (jacobian != null) {
+            java.util.Arrays.fill(jacobian, 0, size * problem.parameterCount(), 0.0);
+        }
+        for (int b = 0; b < blocks.size(); b++) {
+            blocks.get(b).evaluate(ctx, residuals, offsets[b], jacobian);
+        }
+        double s = 0.0;
+        for (int i = 0; i < size; i++) {
+            s += residuals[i] * residuals[i];
+        }
+        double nll = 0.5 * s + constant;
+        if (!Double.isFinite(nll)) {
+            throw new ObjectiveException("the negative log-likelihood is not finite (" + nll + ")");
+        }
+        return nll;
+    }
+
+    /**
+     * Evaluates at θ and returns the simulated observable values and noise spreads per measurement (problem
+     * order), the NLL and its prior part.
+     */
+    public Evaluation evaluateDetailed(double[] theta) {
+        int nm = problem.measurements().size();
+        double[] sim = new double[nm];
+        double[] sig = new double[nm];
+        java.util.Arrays.fill(sim, Double.NaN);
+        java.util.Arrays.fill(sig, Double.NaN);
+        double[] r = new double[size];
+        double nll = run(new EvaluationContext(problem, theta, sim, sig), r, null);
+        ResidualBlock pb = blocks.get(priorBlock);
+        double prior = pb.constant();
+        for (int i = offsets[priorBlock]; i < offsets[priorBlock] + pb.size(); i++) {
+            prior += 0.5 * r[i] * r[i];
+        }
+        return new Evaluation(nll, prior, r, sim, sig);
+    }
+
+    /**
+     * One detailed evaluation.
+     *
+     * @param nll       negative log-likelihood including priors
+     * @param priorPart the priors' share of nll
+     * @param residuals all residuals
+     * @param simulated simulated observable value per measurement (untransformed)
+     * @param sigmas    noise spread per measurement (on the transformed scale)
+     */
+    public record Evaluation(double nll, double priorPart, double[] residuals, double[] simulated,
+                             double[] sigmas) {
+    }
+}

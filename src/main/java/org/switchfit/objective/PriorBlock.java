@@ -1,0 +1,137 @@
+package org.switchfit.objective;
+
+import java.util.ArrayList;
+import java.util.List;
+import org.switchfit.data.Prior;
+import org.switchfit.problem.EstimationProblem;
+import org.switchfit.problem.FreeParameter;
+
+/**
+ * Objective priors as residuals: the negative log density of each prior (PEtab v1 parameter table, "priors")
+ * written as {@code 0.5 r^2 + const}. Normal: {@code r = (x - μ)/s}, const {@code 0.5 log(2π s²)}. Laplace:
+ * {@code r = sign(x - μ) sqrt(2|x - μ|/b)}, const {@code log 2b}. Log-normal: {@code r = (ln x - μ)/s} plus the
+ * density's {@code ln x} term as {@code sqrt(2 ln x + C)} with {@code C = 1 - 2 ln(lower bound)} (real on the
+ * box). Uniform: const {@code log(u - l)}. The {@code parameterScale*} types use θ for x. Immutable, thread-safe.
+ */
+final class PriorBlock implements ResidualBlock {
+    private static final double LOG_2PI = Math.log(2.0 * Math.PI);
+
+    private final List<Term> terms = new ArrayList<>();
+    private final int size;
+    private final double constant;
+
+    private record Term(int j, Prior.Type type, double a, double b, double shift, int offset) {
+    }
+
+    PriorBlock(EstimationProblem problem) {
+        int off = 0;
+        double c = 0.0;
+        for (int j = 0; j < problem.parameterCount(); j++) {
+            FreeParameter p = problem.parameters().get(j);
+            Prior pr = p.prior();
+            if (pr == null) {
+                continue;
+            }
+            double a = pr.parameters().isEmpty() ? Double.NaN : pr.parameter(0);
+            double b = pr.parameters().isEmpty() ? Double.NaN : pr.parameter(1);
+            double shift = 0.0;
+            switch (pr.type()) {
+                case UNIFORM:
+                    c += pr.parameters().isEmpty() ? Math.log(p.upper() - p.lower()) : Math.log(b - a);
+                    continue;
+                case PARAMETER_SCALE_UNIFORM:
+                    c += pr.parameters().isEmpty() ? Math.log(p.thetaUpper() - p.thetaLower()) : Math.log(b - a);
+                    continue;
+                case NORMAL:
+                case PARAMETER_SCALE_NORMAL:
+                    c += 0.5 * LOG_2PI + Math.log(b);
+                    terms.add(new Term(j, pr.type(), a, b, 0.0, off));
+                    off += 1;
+                    break;
+                case LAPLACE:
+                case PARAMETER_SCALE_LAPLACE:
+                    c += Math.log(2.0 * b);
+                    terms.add(new Term(j, pr.type(), a, b, 0.0, off));
+                    off += 1;
+                    break;
+                case LOG_NORMAL:
+                case LOG_LAPLACE:
+                    shift = 1.0 - 2.0 * Math.log(p.lower());
+                    c += (pr.type() == Prior.Type.LOG_NORMAL ? 0.5 * LOG_2PI + Math.log(b) : Math.log(2.0 * b))
+                            - 0.5 * shift;
+                    terms.add(new Term(j, pr.type(), a, b, shift, off));
+                    off += 2;
+                    break;
+                default:
+                    throw new IllegalStateException("prior type " + pr.type());
+            }
+        }
+        size = off;
+        constant = c;
+    }
+
+    @Override
+    public int size() {
+        return size;
+    }
+
+    @Override
+    public double constant() {
+        return constant;
+    }
+
+    @Override
+    public void evaluate(EvaluationContext ctx, double[] r, int offset, double[] jac) {
+        int np = ctx.parameterCount();
+        for (Term t : terms) {
+            int j = t.j();
+            double x;
+            double dx;
+            switch (t.type()) {
+                case PARAMETER_SCALE_NORMAL:
+                case PARAMETER_SCALE_LAPLACE:
+                    x = ctx.theta(j);
+                    dx = 1.0;
+                    break;
+                case LOG_NORMAL:
+                case LOG_LAPLACE:
+                    x = Math.log(ctx.linear(j));
+                    dx = ctx.linearDerivative(j) / ctx.linear(j);
+                    break;
+                default:
+                    x = ctx.linear(j);
+                    dx = ctx.linearDerivative(j);
+                    break;
+            }
+            int row = offset + t.offset();
+            double d = x - t.a();
+            boolean laplace = t.type() == Prior.Type.LAPLACE || t.type() == Prior.Type.PARAMETER_SCALE_LAPLACE
+                    || t.type() == Prior.Type.LOG_LAPLACE;
+            if (laplace) {
+                double su = Math.sqrt(2.0 * Math.abs(d) / t.b());
+                r[row] = Math.copySign(su, d);
+                if (jac != null) {
+                    jac[row * np + j] = su > 0 ? dx / (t.b() * su) : 0.0;
+                }
+            } else {
+                r[row] = d / t.b();
+                if (jac != null) {
+                    jac[row * np + j] = dx / t.b();
+                }
+            }
+            if (t.type() == Prior.Type.LOG_NORMAL || t.type() == Prior.Type.LOG_LAPLACE) {
+                // x = ln(value): the density's 1/value factor contributes + ln(value) to the NLL
+                double arg = 2.0 * x + t.shift();
+                if (!(arg > 0)) {
+                    throw new ObjectiveException("parameter " + ctx.problem().parameters().get(j).id()
+                            + " is below its lower bound; the log-prior term is undefined");
+                }
+                double rs = Math.sqrt(arg);
+                r[row + 1] = rs;
+                if (jac != null) {
+                    jac[(row + 1) * np + j] = dx / rs;
+                }
+            }
+        }
+    }
+}

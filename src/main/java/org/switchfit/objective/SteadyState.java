@@ -1,0 +1,57 @@
+package org.switchfit.objective;
+
+import java.util.Locale;
+import org.switchfit.ode.CompiledModel;
+import org.switchfit.ode.IntegrationException;
+import org.switchfit.ode.IntegrationSession;
+
+/**
+ * Steady state by simulation: integrates (states and, when given, sensitivities) over growing intervals
+ * (1, 10, 100, ... time units) until the right-hand side is negligible in the weighted max norm
+ * {@code max_i |f_i| / (atol + rtol |y_i|) <= 1}. Robust with conservation laws (no Jacobian inversion); the
+ * sensitivities of the reached state approximate those of the steady state (their own derivative decays on the
+ * same time scales). Immutable.
+ *
+ * @param rtol    relative tolerance on |f| (per unit time)
+ * @param atol    absolute tolerance on |f| (per unit time)
+ * @param maxTime give up after this much simulated time
+ */
+public record SteadyState(double rtol, double atol, double maxTime) {
+
+    /** Defaults: rtol 1e-8, atol 1e-12, max time 1e10. */
+    public static SteadyState defaults() {
+        return new SteadyState(1e-8, 1e-12, 1e10);
+    }
+
+    /**
+     * Runs {@code session} (positioned at its current time with state {@code y}) to a steady state.
+     *
+     * @param p     the effective parameters the session uses
+     * @param y     receives the steady state
+     * @param s     receives the sensitivities (or null)
+     * @param what  names the condition for messages
+     * @throws IntegrationException when no steady state is reached before {@link #maxTime}
+     */
+    void run(IntegrationSession session, CompiledModel model, double[] p, double[] y, double[] s, String what) {
+        int n = model.stateCount();
+        double[] f = new double[n];
+        double t = session.time();
+        double dt = 1.0;
+        while (true) {
+            model.rhs(t, y, p, f);
+            double worst = 0.0;
+            for (int i = 0; i < n; i++) {
+                worst = Math.max(worst, Math.abs(f[i]) / (atol + rtol * Math.abs(y[i])));
+            }
+            if (worst <= 1.0) {
+                return;
+            }
+            if (t >= maxTime) {
+                throw new IntegrationException(t, String.format(Locale.ROOT, "%s: no steady state up to t = %.3g "
+                        + "(right-hand side still %.3g times the tolerance)", what, t, worst));
+            }
+            t = session.advance(t + dt, y, s);
+            dt *= 10.0;
+        }
+    }
+}

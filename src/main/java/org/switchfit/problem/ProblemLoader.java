@@ -1,0 +1,503 @@
+package org.switchfit.problem;
+
+import java.io.IOException;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.HashMap;
+import java.util.LinkedHashMap;
+import java.util.LinkedHashSet;
+import java.util.List;
+import java.util.Map;
+import java.util.Set;
+import java.util.regex.Matcher;
+import java.util.regex.Pattern;
+import org.switchfit.data.ParameterScale;
+import org.switchfit.data.PetabCondition;
+import org.switchfit.data.PetabMeasurement;
+import org.switchfit.data.PetabObservable;
+import org.switchfit.data.PetabParameter;
+import org.switchfit.data.PetabProblem;
+import org.switchfit.data.PetabReader;
+import org.switchfit.data.ProblemFileReader;
+import org.switchfit.data.SwitchfitProblem;
+import org.switchfit.data.ValueRef;
+import org.switchfit.expr.Expr;
+import org.switchfit.expr.Op;
+import org.switchfit.model.InitialAssignment;
+import org.switchfit.model.Model;
+import org.switchfit.model.OdeForm;
+import org.switchfit.model.Parameter;
+import org.switchfit.model.Species;
+import org.switchfit.ode.CompiledModel;
+import org.switchfit.ode.ModelCompiler;
+import org.switchfit.sbml.Formulas;
+import org.switchfit.sbml.SbmlReader;
+import org.switchfit.util.SourceLocation;
+import org.switchfit.util.UserInputException;
+
+/**
+ * Builds an {@link EstimationProblem} from a PEtab v1 problem (Schmiester et al. 2021, PLoS Comput Biol
+ * 17(1):e1008646, doi:10.1371/journal.pcbi.1008646) or from a switchfit problem file.
+ *
+ * <p>PEtab semantics implemented: parameter-table values (θ for estimate = 1, the nominal value otherwise) for
+ * model parameters in every condition; condition-table columns override parameters and compartment sizes
+ * directly, and species initial values through an added parameter {@code petab_init__S} with an initial
+ * assignment {@code S = petab_init__S} (so the value is in the species' own units and replaces any initial
+ * assignment of the model); NaN keeps the model value (after pre-equilibration: the pre-equilibrated state);
+ * observable and noise formulas over model entities, parameter-table ids and the row-wise placeholders
+ * {@code observableParameter{i}_{obs}} / {@code noiseParameter{i}_{obs}}. Stateless.
+ */
+public final class ProblemLoader {
+    /** Prefix of parameters added for condition-table species columns. */
+    public static final String INIT_PREFIX = "petab_init__";
+
+    private static final Pattern PLACEHOLDER = Pattern.compile("(observable|noise)Parameter(\\d+)_([A-Za-z_][A-Za-z0-9_]*)");
+
+    private ProblemLoader() {
+    }
+
+    /**
+     * Loads a problem file of either format: a PEtab YAML file (has {@code format_version}) or a switchfit problem
+     * file (has {@code switchfit_format}).
+     *
+     * @throws UserInputException for every invalid input, naming file, row or element and what to do
+     */
+    public static EstimationProblem load(Path file) {
+        String text;
+        try {
+            text = Files.readString(file, StandardCharsets.UTF_8);
+        } catch (IOException e) {
+            throw new UserInputException(SourceLocation.ofFile(file.toString()), "cannot read the problem file ("
+                    + e.getMessage() + "); check the path", e);
+        }
+        if (text.contains("switchfit_format")) {
+            return fromSwitchfit(ProblemFileReader.read(file));
+        }
+        if (text.contains("format_version")) {
+            return fromPetab(PetabReader.read(file));
+        }
+        throw new UserInputException(SourceLocation.ofFile(file.toString()), "is neither a PEtab problem (no "
+                + "format_version) nor a switchfit problem file (no switchfit_format); pass the problem YAML file");
+    }
+
+    // ------------------------------------------------------------------------------------------------ PEtab
+
+    /** Joins a PEtab problem to its model. */
+    public static EstimationProblem fromPetab(PetabProblem pp) {
+        String yaml = pp.yamlFile().toString();
+        if (pp.sbmlFiles().size() != 1) {
+            throw UserInputException.of(SourceLocation.ofFile(yaml), "lists %d SBML files; give exactly one "
+                    + "sbml_files entry", pp.sbmlFiles().size());
+        }
+        Path sbml = pp.sbmlFiles().get(0);
+        Model original = SbmlReader.read(sbml);
+
+        Map<String, PetabParameter> table = new LinkedHashMap<>();
+        List<FreeParameter> free = new ArrayList<>();
+        Map<String, ValueSource> sources = new HashMap<>();
+        for (PetabParameter p : pp.parameters()) {
+            table.put(p.id(), p);
+            if (p.estimate()) {
+                checkBounds(p.id(), p.scale(), p.lower(), p.upper(), p.location());
+                double nominal = Double.isFinite(p.nominal()) ? p.nominal()
+                        : p.scale().toLinear(0.5 * (p.scale().toScale(p.lower()) + p.scale().toScale(p.upper())));
+                sources.put(p.id(), ValueSource.ofTheta(free.size()));
+                free.add(new FreeParameter(p.id(), p.scale(), p.lower(), p.upper(), nominal, p.objectivePrior(),
+                        p.location()));
+            } else {
+                if (!Double.isFinite(p.nominal())) {
+                    throw UserInputException.of(p.location(), "parameter '%s' is not estimated but has no finite "
+                            + "nominalValue; give its value in column nominalValue", p.id());
+                }
+                sources.put(p.id(), ValueSource.ofConstant(p.nominal()));
+            }
+        }
+
+        // Condition columns: species get an added parameter and initial assignment.
+        Set<String> columns = new LinkedHashSet<>();
+        for (PetabCondition c : pp.conditions()) {
+            columns.addAll(c.values().keySet());
+        }
+        Model model = withSpeciesInitParameters(original, columns);
+        CompiledModel cm = ModelCompiler.compile(model);
+        OdeForm form = cm.form();
+        int m = cm.parameterCount();
+
+        double[] base = cm.parameterValues();
+        Map<Integer, ValueSource> baseSources = new LinkedHashMap<>();
+        for (PetabParameter p : pp.parameters()) {
+            int k = cm.parameterIndex(p.id());
+            if (k >= 0) {
+                baseSources.put(k, sources.get(p.id()));
+            }
+        }
+        Map<String, Integer> condIndex = new HashMap<>();
+        List<Condition> conditions = new ArrayList<>();
+        for (PetabCondition c : pp.conditions()) {
+            if (condIndex.containsKey(c.id())) {
+                throw UserInputException.of(c.location(), "condition '%s' is defined twice; keep one row per "
+                        + "conditionId", c.id());
+            }
+            Map<Integer, ValueSource> src = new LinkedHashMap<>(baseSources);
+            List<Integer> reinit = new ArrayList<>();
+            for (Map.Entry<String, ValueRef> e : c.values().entrySet()) {
+                String col = e.getKey();
+                ValueRef v = e.getValue();
+                boolean species = model.species(col) != null;
+                String target = species ? INIT_PREFIX + col : col;
+                int k = cm.parameterIndex(target);
+                if (k < 0) {
+                    throw UserInputException.of(c.location().withElement(col), "condition table column '%s' is not "
+                            + "a parameter, species or compartment of the model that a condition can set; remove "
+                            + "the column or correct the id", col);
+                }
+                if (v.isNumber() && Double.isNaN(v.number())) {
+                    continue;
+                }
+                src.put(k, resolve(v, sources, cm, c.location().withElement(col), "condition '" + c.id() + "'"));
+                if (species && form.stateIndex(col) >= 0) {
+                    reinit.add(form.stateIndex(col));
+                }
+            }
+            conditions.add(condition(c.id(), base, src, reinit));
+            condIndex.put(c.id(), conditions.size() - 1);
+        }
+
+        // Observables.
+        Map<String, Integer> obsIndex = new HashMap<>();
+        List<ObservableDef> observables = new ArrayList<>();
+        int maxObs = 0;
+        int maxNoise = 0;
+        for (PetabObservable o : pp.observables()) {
+            maxObs = Math.max(maxObs, placeholderCount(o.formula(), "observable", o.id()));
+            maxNoise = Math.max(maxNoise, placeholderCount(o.noiseFormula(), "noise", o.id()));
+        }
+        List<String> globalIds = new ArrayList<>();
+        List<ValueSource> globalSources = new ArrayList<>();
+        SymbolResolver resolver = new SymbolResolver(form, m, globalIds, globalSources, sources, maxObs, maxNoise);
+        for (PetabObservable o : pp.observables()) {
+            if (obsIndex.containsKey(o.id())) {
+                throw UserInputException.of(o.location(), "observable '%s' is defined twice; keep one row per "
+                        + "observableId", o.id());
+            }
+            SourceLocation loc = o.location().withElement(o.id());
+            Expr h = resolver.bind(Formulas.parse(o.formula(), loc), o.id(), loc, "observableFormula");
+            Expr s = resolver.bind(Formulas.parse(o.noiseFormula(), loc), o.id(), loc, "noiseFormula");
+            ObservableDef.Noise noise = o.noiseDistribution() == PetabObservable.NoiseDistribution.LAPLACE
+                    ? ObservableDef.Noise.LAPLACE : ObservableDef.Noise.NORMAL;
+            observables.add(new ObservableDef(o.id(), h, s, o.transformation(), noise,
+                    placeholderCount(o.formula(), "observable", o.id()),
+                    placeholderCount(o.noiseFormula(), "noise", o.id()), o.location()));
+            obsIndex.put(o.id(), observables.size() - 1);
+        }
+        observables = finalSlots(observables, m, globalIds.size(), maxObs);
+
+        // Measurements and experiments.
+        Map<String, Integer> expIndex = new LinkedHashMap<>();
+        List<int[]> expKeys = new ArrayList<>();
+        List<Measurement> meas = new ArrayList<>();
+        for (PetabMeasurement r : pp.measurements()) {
+            Integer o = obsIndex.get(r.observableId());
+            if (o == null) {
+                throw UserInputException.of(r.location(), "observableId '%s' is not in the observable table; add "
+                        + "it there or correct the id", r.observableId());
+            }
+            Integer sc = condIndex.get(r.simulationConditionId());
+            if (sc == null) {
+                throw UserInputException.of(r.location(), "simulationConditionId '%s' is not in the condition "
+                        + "table; add the condition or correct the id", r.simulationConditionId());
+            }
+            int pre = -1;
+            if (r.preequilibrationConditionId() != null) {
+                Integer pc = condIndex.get(r.preequilibrationConditionId());
+                if (pc == null) {
+                    throw UserInputException.of(r.location(), "preequilibrationConditionId '%s' is not in the "
+                            + "condition table; add the condition or correct the id",
+                            r.preequilibrationConditionId());
+                }
+                pre = pc;
+            }
+            String key = (pre >= 0 ? conditions.get(pre).id() + ":" : "") + conditions.get(sc).id();
+            Integer e = expIndex.get(key);
+            if (e == null) {
+                e = expIndex.size();
+                expIndex.put(key, e);
+                expKeys.add(new int[] {sc, pre});
+            }
+            ObservableDef od = observables.get(o);
+            List<ValueSource> op = overrides(r.observableParameters(), od.obsPlaceholders(), sources, cm,
+                    r.location(), "observableParameters", od.id());
+            List<ValueSource> np = overrides(r.noiseParameters(), od.noisePlaceholders(), sources, cm,
+                    r.location(), "noiseParameters", od.id());
+            if (od.transformation() != ParameterScale.LIN && !(r.value() > 0)) {
+                throw UserInputException.of(r.location(), "measurement %s of observable '%s' is not positive but "
+                        + "the observable is %s-transformed; remove the row or use observableTransformation lin",
+                        r.value(), od.id(), od.transformation().token());
+            }
+            if (!Double.isFinite(r.value())) {
+                throw UserInputException.of(r.location(), "measurement '%s' is not a finite number; remove the row "
+                        + "or give a value", r.value());
+            }
+            meas.add(new Measurement(o, e, r.time(), r.value(), op, np, Double.NaN, r.location()));
+        }
+        List<SimulationExperiment> experiments = experiments(expIndex, expKeys, meas);
+        List<Path> inputs = new ArrayList<>();
+        inputs.add(pp.yamlFile());
+        inputs.add(sbml);
+        inputs.addAll(tableFiles(pp));
+        return new EstimationProblem(pp.yamlFile(), inputs, sbml, model, cm, free, conditions, experiments,
+                observables, meas, globalIds, globalSources, maxObs, maxNoise, List.of());
+    }
+
+    private static List<Path> tableFiles(PetabProblem pp) {
+        List<Path> out = new ArrayList<>();
+        try {
+            Path base = pp.yamlFile().toAbsolutePath().getParent();
+            String yaml = Files.readString(pp.yamlFile(), StandardCharsets.UTF_8);
+            Matcher mt = Pattern.compile("([A-Za-z0-9_./-]+\\.(tsv|TSV))").matcher(yaml);
+            Set<String> seen = new LinkedHashSet<>();
+            while (mt.find()) {
+                if (seen.add(mt.group(1))) {
+                    Path p = base.resolve(mt.group(1));
+                    if (Files.isRegularFile(p)) {
+                        out.add(p);
+                    }
+                }
+            }
+        } catch (IOException e) {
+            throw new UserInputException(SourceLocation.ofFile(pp.yamlFile().toString()), "cannot read again ("
+                    + e.getMessage() + ")", e);
+        }
+        return out;
+    }
+
+    static List<SimulationExperiment> experiments(Map<String, Integer> expIndex, List<int[]> keys,
+                                                  List<Measurement> meas) {
+        List<List<Integer>> rows = new ArrayList<>();
+        for (int i = 0; i < keys.size(); i++) {
+            rows.add(new ArrayList<>());
+        }
+        for (int i = 0; i < meas.size(); i++) {
+            rows.get(meas.get(i).experiment()).add(i);
+        }
+        List<SimulationExperiment> out = new ArrayList<>();
+        List<String> names = new ArrayList<>(expIndex.keySet());
+        for (int e = 0; e < keys.size(); e++) {
+            List<Integer> r = rows.get(e);
+            r.sort((a, b) -> Double.compare(meas.get(a).time(), meas.get(b).time()));
+            out.add(new SimulationExperiment(names.get(e), keys.get(e)[0], keys.get(e)[1], Condition.ints(r)));
+        }
+        return out;
+    }
+
+    static void checkBounds(String id, ParameterScale scale, double lo, double hi, SourceLocation loc) {
+        if (!Double.isFinite(lo) || !Double.isFinite(hi) || !(lo < hi)) {
+            throw UserInputException.of(loc, "estimated parameter '%s' needs finite bounds with lowerBound < "
+                    + "upperBound (got %s, %s); correct lowerBound/upperBound", id, lo, hi);
+        }
+        if (scale.needsPositive() && !(lo > 0)) {
+            throw UserInputException.of(loc, "estimated parameter '%s': lower bound %s is impossible on %s scale; "
+                    + "use a positive bound such as 1e-8, or scale lin", id, lo, scale.token());
+        }
+    }
+
+    static Condition condition(String id, double[] base, Map<Integer, ValueSource> src, List<Integer> reinit) {
+        double[] b = base.clone();
+        List<Integer> targets = new ArrayList<>();
+        List<Integer> thetas = new ArrayList<>();
+        for (Map.Entry<Integer, ValueSource> e : src.entrySet()) {
+            if (e.getValue().isTheta()) {
+                targets.add(e.getKey());
+                thetas.add(e.getValue().thetaIndex());
+            } else {
+                b[e.getKey()] = e.getValue().constant();
+            }
+        }
+        return new Condition(id, b, Condition.ints(targets), Condition.ints(thetas), Condition.ints(reinit));
+    }
+
+    private static ValueSource resolve(ValueRef v, Map<String, ValueSource> sources, CompiledModel cm,
+                                       SourceLocation loc, String where) {
+        if (v.isNumber()) {
+            return ValueSource.ofConstant(v.number());
+        }
+        ValueSource s = sources.get(v.parameterId());
+        if (s != null) {
+            return s;
+        }
+        int k = cm.parameterIndex(v.parameterId());
+        if (k >= 0) {
+            return ValueSource.ofConstant(cm.parameterValues()[k]);
+        }
+        throw UserInputException.of(loc, "%s refers to '%s', which is neither in the parameter table nor a "
+                + "model parameter; add it to the parameter table or write a number", where, v.parameterId());
+    }
+
+    private static List<ValueSource> overrides(List<ValueRef> values, int expected, Map<String, ValueSource> sources,
+                                               CompiledModel cm, SourceLocation loc, String column, String obs) {
+        if (values.size() != expected && !(expected == 0 && values.size() == 1 && values.get(0).isNumber()
+                && Double.isNaN(values.get(0).number()))) {
+            throw UserInputException.of(loc, "column '%s' gives %d values but observable '%s' has %d placeholders; "
+                    + "give exactly %d values separated by ';'", column, values.size(), obs, expected, expected);
+        }
+        List<ValueSource> out = new ArrayList<>();
+        for (int i = 0; i < expected; i++) {
+            out.add(resolve(values.get(i), sources, cm, loc, "column '" + column + "'"));
+        }
+        return out;
+    }
+
+    private static int placeholderCount(String formula, String kind, String obsId) {
+        int max = 0;
+        Matcher mt = PLACEHOLDER.matcher(formula == null ? "" : formula);
+        while (mt.find()) {
+            if (mt.group(1).equals(kind) && mt.group(3).equals(obsId)) {
+                max = Math.max(max, Integer.parseInt(mt.group(2)));
+            }
+        }
+        return max;
+    }
+
+    /** Adds {@code petab_init__S} parameters and initial assignments for species columns. */
+    static Model withSpeciesInitParameters(Model m, Set<String> columns) {
+        List<Parameter> params = new ArrayList<>(m.parameters());
+        List<InitialAssignment> ias = new ArrayList<>();
+        Set<String> targets = new LinkedHashSet<>();
+        for (String col : columns) {
+            Species s = m.species(col);
+            if (s == null) {
+                continue;
+            }
+            targets.add(col);
+            double size = Double.NaN;
+            if (m.compartment(s.compartment()) != null) {
+                size = m.compartment(s.compartment()).size();
+            }
+            double v;
+            if (s.hasOnlySubstanceUnits()) {
+                v = !Double.isNaN(s.initialAmount()) ? s.initialAmount() : s.initialConcentration() * size;
+            } else {
+                v = !Double.isNaN(s.initialConcentration()) ? s.initialConcentration() : s.initialAmount() / size;
+            }
+            params.add(new Parameter(INIT_PREFIX + col, v, true));
+            ias.add(new InitialAssignment(col, Expr.symbol(INIT_PREFIX + col)));
+        }
+        if (targets.isEmpty()) {
+            return m;
+        }
+        for (InitialAssignment ia : m.initialAssignments()) {
+            if (!targets.contains(ia.symbol())) {
+                ias.add(ia);
+            }
+        }
+        return new Model(m.id(), m.source(), m.compartments(), m.species(), params, m.reactions(), m.rules(), ias,
+                m.events(), m.conversionFactor());
+    }
+
+    // ------------------------------------------------------------------------------------------------ switchfit
+
+    /** Joins a switchfit problem to its model. */
+    public static EstimationProblem fromSwitchfit(SwitchfitProblem sp) {
+        return SwitchfitJoin.join(sp);
+    }
+
+    /** Binds symbols of observable and noise formulas to runtime leaves. */
+    static final class SymbolResolver {
+        private final OdeForm form;
+        private final int m;
+        private final List<String> globalIds;
+        private final List<ValueSource> globalSources;
+        private final Map<String, ValueSource> sources;
+        private final int maxObs;
+
+        SymbolResolver(OdeForm form, int m, List<String> globalIds, List<ValueSource> globalSources,
+                       Map<String, ValueSource> sources, int maxObs, int maxNoise) {
+            this.form = form;
+            this.m = m;
+            this.globalIds = globalIds;
+            this.globalSources = globalSources;
+            this.sources = sources;
+            this.maxObs = maxObs;
+        }
+
+        Expr bind(Expr e, String obsId, SourceLocation loc, String column) {
+            return e.mapLeaves(x -> {
+                if (x.op() != Op.SYMBOL) {
+                    return x;
+                }
+                String nm = x.name();
+                Matcher mt = PLACEHOLDER.matcher(nm);
+                if (mt.matches()) {
+                    if (!mt.group(3).equals(obsId)) {
+                        throw UserInputException.of(loc, "%s uses '%s', a placeholder of another observable; use "
+                                + "placeholders ending in _%s", column, nm, obsId);
+                    }
+                    int i = Integer.parseInt(mt.group(2)) - 1;
+                    if (i < 0) {
+                        throw UserInputException.of(loc, "%s uses '%s'; placeholders count from 1", column, nm);
+                    }
+                    return Expr.param(mt.group(1).equals("observable") ? PLACEHOLDER_MARK + i
+                            : PLACEHOLDER_MARK + NOISE_MARK + i, nm);
+                }
+                if (form.quantityIds().contains(nm)) {
+                    return form.symbolValue(nm);
+                }
+                ValueSource s = sources.get(nm);
+                if (s != null) {
+                    int g = globalIds.indexOf(nm);
+                    if (g < 0) {
+                        globalIds.add(nm);
+                        globalSources.add(s);
+                        g = globalIds.size() - 1;
+                    }
+                    return Expr.param(GLOBAL_MARK + g, nm);
+                }
+                if (nm.equals("time") || nm.equals("t")) {
+                    return Expr.TIME;
+                }
+                throw UserInputException.of(loc, "%s uses '%s', which is neither a model entity nor a parameter-"
+                        + "table id; add it to the parameter table or correct the formula", column, nm);
+            });
+        }
+
+        int maxObs() {
+            return maxObs;
+        }
+    }
+
+    /** Replaces the temporary slot markers by final q indices (layout in {@link EstimationProblem}). */
+    static List<ObservableDef> finalSlots(List<ObservableDef> defs, int m, int globals, int maxObs) {
+        List<ObservableDef> out = new ArrayList<>();
+        for (ObservableDef d : defs) {
+            out.add(new ObservableDef(d.id(), finalSlots(d.prediction(), m, globals, maxObs),
+                    finalSlots(d.sigma(), m, globals, maxObs), d.transformation(), d.noise(), d.obsPlaceholders(),
+                    d.noisePlaceholders(), d.location()));
+        }
+        return out;
+    }
+
+    private static Expr finalSlots(Expr e, int m, int globals, int maxObs) {
+        return e.mapLeaves(x -> {
+            if (x.op() != Op.PARAM || x.index() < NOISE_MARK) {
+                return x;
+            }
+            int k = x.index();
+            int q;
+            if (k >= PLACEHOLDER_MARK + NOISE_MARK) {
+                q = m + globals + maxObs + (k - PLACEHOLDER_MARK - NOISE_MARK);
+            } else if (k >= PLACEHOLDER_MARK) {
+                q = m + globals + (k - PLACEHOLDER_MARK);
+            } else {
+                q = m + (k - GLOBAL_MARK);
+            }
+            return Expr.param(q, x.name());
+        });
+    }
+
+    /** Temporary markers for q slots whose final index is known only after all formulas are read. */
+    static final int GLOBAL_MARK = 1 << 24;
+    static final int PLACEHOLDER_MARK = 1 << 25;
+    static final int NOISE_MARK = 1 << 23;
+}

@@ -1,0 +1,205 @@
+package org.switchfit.problem;
+
+import java.util.ArrayList;
+import java.util.HashMap;
+import java.util.LinkedHashMap;
+import java.util.LinkedHashSet;
+import java.util.List;
+import java.util.Map;
+import java.util.Set;
+import org.switchfit.data.EstimatedParameter;
+import org.switchfit.data.Experiment;
+import org.switchfit.data.NoiseModel;
+import org.switchfit.data.Observable;
+import org.switchfit.data.ParameterScale;
+import org.switchfit.data.SwitchfitProblem;
+import org.switchfit.data.TimecoursePoint;
+import org.switchfit.data.ValueRef;
+import org.switchfit.expr.Expr;
+import org.switchfit.expr.Op;
+import org.switchfit.model.Model;
+import org.switchfit.model.OdeForm;
+import org.switchfit.ode.CompiledModel;
+import org.switchfit.ode.ModelCompiler;
+import org.switchfit.sbml.Formulas;
+import org.switchfit.sbml.SbmlReader;
+import org.switchfit.util.SourceLocation;
+import org.switchfit.util.UserInputException;
+
+/** Joins a switchfit problem file to its model (see {@link ProblemLoader#fromSwitchfit}). */
+final class SwitchfitJoin {
+    private SwitchfitJoin() {
+    }
+
+    static EstimationProblem join(SwitchfitProblem sp) {
+        Model original = SbmlReader.read(sp.modelFile());
+        List<FreeParameter> free = new ArrayList<>();
+        Map<String, ValueSource> sources = new HashMap<>();
+        for (EstimatedParameter p : sp.parameters()) {
+            ProblemLoader.checkBounds(p.id(), p.scale(), p.lower(), p.upper(), p.location());
+            sources.put(p.id(), ValueSource.ofTheta(free.size()));
+            free.add(new FreeParameter(p.id(), p.scale(), p.lower(), p.upper(), p.start(), p.prior(),
+                    p.location()));
+        }
+        Set<String> speciesInit = new LinkedHashSet<>();
+        for (Experiment e : sp.experiments()) {
+            for (String id : e.initialValues().keySet()) {
+                if (original.species(id) != null) {
+                    speciesInit.add(id);
+                }
+            }
+            if (!e.doses().isEmpty()) {
+                throw UserInputException.of(e.doses().get(0).location(), "experiment '%s': doses are not yet "
+                        + "supported by the fitting objective; model the dose as an SBML event or split the "
+                        + "experiment", e.id());
+            }
+        }
+        Model model = ProblemLoader.withSpeciesInitParameters(original, speciesInit);
+        CompiledModel cm = ModelCompiler.compile(model);
+        OdeForm form = cm.form();
+        int m = cm.parameterCount();
+        String modelFile = sp.modelFile().toString();
+        Map<Integer, ValueSource> baseSources = new LinkedHashMap<>();
+        for (EstimatedParameter p : sp.parameters()) {
+            int k = cm.parameterIndex(p.id());
+            if (k >= 0) {
+                baseSources.put(k, sources.get(p.id()));
+            }
+        }
+        double[] base = cm.parameterValues();
+        Map<String, Integer> condIndex = new HashMap<>();
+        List<Condition> conditions = new ArrayList<>();
+        for (Experiment e : sp.experiments()) {
+            Map<Integer, ValueSource> src = new LinkedHashMap<>(baseSources);
+            List<Integer> reinit = new ArrayList<>();
+            for (Map.Entry<String, ValueRef> v : e.parameterValues().entrySet()) {
+                int k = cm.parameterIndex(v.getKey());
+                if (k < 0 || model.species(v.getKey()) != null) {
+                    throw UserInputException.of(e.location().withElement(v.getKey()), "experiment '%s' sets '%s', "
+                            + "which is not a parameter of model %s; use a parameter id (species go under "
+                            + "'initial')", e.id(), v.getKey(), modelFile);
+                }
+                src.put(k, value(v.getValue(), sources, cm, e.location(), e.id()));
+            }
+            for (Map.Entry<String, ValueRef> v : e.initialValues().entrySet()) {
+                String id = v.getKey();
+                boolean species = model.species(id) != null;
+                int k = cm.parameterIndex(species ? ProblemLoader.INIT_PREFIX + id : id);
+                if (k < 0 || (!species && model.compartment(id) == null)) {
+                    throw UserInputException.of(e.location().withElement(id), "experiment '%s' sets the initial "
+                            + "value of '%s', which is not a species or compartment of model %s; correct the id",
+                            e.id(), id, modelFile);
+                }
+                src.put(k, value(v.getValue(), sources, cm, e.location(), e.id()));
+                if (species && form.stateIndex(id) >= 0) {
+                    reinit.add(form.stateIndex(id));
+                }
+            }
+            conditions.add(ProblemLoader.condition(e.id(), base, src, reinit));
+            condIndex.put(e.id(), conditions.size() - 1);
+        }
+        List<String> globalIds = new ArrayList<>();
+        List<ValueSource> globalSources = new ArrayList<>();
+        ProblemLoader.SymbolResolver resolver = new ProblemLoader.SymbolResolver(form, m, globalIds, globalSources,
+                sources, 0, 0);
+        List<ObservableDef> observables = new ArrayList<>();
+        Map<String, Integer> obsIndex = new HashMap<>();
+        for (Observable o : sp.observables()) {
+            SourceLocation loc = o.location() == null ? SourceLocation.ofElement(sp.problemFile().toString(), o.id())
+                    : o.location().withElement(o.id());
+            Expr h = resolver.bind(Formulas.parse(o.formula(), loc), o.id(), loc, "formula");
+            if (o.scaleParameter() != null) {
+                h = Expr.mul(resolver.bind(Expr.symbol(o.scaleParameter()), o.id(), loc, "scale"), h);
+            }
+            if (o.offsetParameter() != null) {
+                h = Expr.add(h, resolver.bind(Expr.symbol(o.offsetParameter()), o.id(), loc, "offset"));
+            }
+            Expr sigma;
+            ParameterScale tr = ParameterScale.LIN;
+            ObservableDef.Noise noise = ObservableDef.Noise.NORMAL;
+            NoiseModel nm = o.noise();
+            if (nm instanceof NoiseModel.Gaussian g) {
+                sigma = ref(g.sigma(), resolver, o.id(), loc);
+            } else if (nm instanceof NoiseModel.Proportional pr) {
+                sigma = Expr.add(ref(pr.absolute(), resolver, o.id(), loc),
+                        Expr.mul(ref(pr.relative(), resolver, o.id(), loc), Expr.call(Op.ABS, h)));
+            } else if (nm instanceof NoiseModel.Laplace lp) {
+                sigma = ref(lp.scale(), resolver, o.id(), loc);
+                noise = ObservableDef.Noise.LAPLACE;
+            } else {
+                sigma = ref(((NoiseModel.LogNormal) nm).sigma(), resolver, o.id(), loc);
+                tr = ParameterScale.LOG;
+            }
+            observables.add(new ObservableDef(o.id(), h, sigma, tr, noise, 0, 0, loc));
+            obsIndex.put(o.id(), observables.size() - 1);
+        }
+        observables = ProblemLoader.finalSlots(observables, m, globalIds.size(), 0);
+        Map<String, Integer> expIndex = new LinkedHashMap<>();
+        List<int[]> expKeys = new ArrayList<>();
+        List<Measurement> meas = new ArrayList<>();
+        for (TimecoursePoint tp : sp.timecourses()) {
+            Integer o = obsIndex.get(tp.observable());
+            Integer c = condIndex.get(tp.experiment());
+            if (o == null || c == null) {
+                throw UserInputException.of(tp.location(), "refers to %s '%s', which the problem file does not "
+                        + "declare; declare it or correct the id", o == null ? "observable" : "experiment",
+                        o == null ? tp.observable() : tp.experiment());
+            }
+            Experiment ex = sp.experiment(tp.experiment()).orElseThrow();
+            int pre = ex.settleIn() == null ? -1 : condIndex.getOrDefault(ex.settleIn(), -1);
+            if (ex.settleIn() != null && pre < 0) {
+                throw UserInputException.of(ex.location(), "experiment '%s' settles in '%s', which is not declared;"
+                        + " declare that experiment or correct settle_in", ex.id(), ex.settleIn());
+            }
+            String key = tp.experiment();
+            Integer e = expIndex.get(key);
+            if (e == null) {
+                e = expIndex.size();
+                expIndex.put(key, e);
+                expKeys.add(new int[] {c, pre});
+            }
+            if (observables.get(o).transformation() != ParameterScale.LIN && !(tp.value() > 0)) {
+                throw UserInputException.of(tp.location(), "value %s is not positive but observable '%s' has "
+                        + "log-normal noise; remove the point or use gaussian noise", tp.value(), tp.observable());
+            }
+            meas.add(new Measurement(o, e, tp.time(), tp.value(), List.of(), List.of(), tp.sigma(),
+                    tp.location()));
+        }
+        List<Object> extra = new ArrayList<>();
+        extra.addAll(sp.doseResponses());
+        extra.addAll(sp.thresholds());
+        List<java.nio.file.Path> inputs = new ArrayList<>();
+        inputs.add(sp.problemFile());
+        inputs.add(sp.modelFile());
+        for (SwitchfitProblem.DataFile df : sp.dataFiles()) {
+            inputs.add(df.file());
+        }
+        return new EstimationProblem(sp.problemFile(), inputs, sp.modelFile(), model, cm, free, conditions,
+                ProblemLoader.experiments(expIndex, expKeys, meas), observables, meas, globalIds, globalSources,
+                0, 0, extra);
+    }
+
+    private static Expr ref(ValueRef v, ProblemLoader.SymbolResolver r, String obs, SourceLocation loc) {
+        if (v.isNumber()) {
+            return Expr.constant(v.number());
+        }
+        return r.bind(Expr.symbol(v.parameterId()), obs, loc, "noise");
+    }
+
+    private static ValueSource value(ValueRef v, Map<String, ValueSource> sources, CompiledModel cm,
+                                     SourceLocation loc, String exp) {
+        if (v.isNumber()) {
+            return ValueSource.ofConstant(v.number());
+        }
+        ValueSource s = sources.get(v.parameterId());
+        if (s != null) {
+            return s;
+        }
+        int k = cm.parameterIndex(v.parameterId());
+        if (k >= 0) {
+            return ValueSource.ofConstant(cm.parameterValues()[k]);
+        }
+        throw UserInputException.of(loc, "experiment '%s' refers to '%s', which is neither an estimated parameter "
+                + "nor a model parameter; declare it under 'parameters' or write a number", exp, v.parameterId());
+    }
+}
