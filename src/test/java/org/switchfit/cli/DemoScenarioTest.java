@@ -11,6 +11,7 @@ import java.util.List;
 import java.util.SplittableRandom;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
+import org.switchfit.continuation.Branch;
 import org.switchfit.data.DoseResponsePoint;
 import org.switchfit.data.ProblemFileReader;
 import org.switchfit.data.SwitchfitProblem;
@@ -51,6 +52,24 @@ class DemoScenarioTest {
             boolean bistable = lo.dose() > FOLD_OFF && lo.dose() < FOLD_ON;
             assertEquals(bistable, hi.value() - lo.value() > 0.3, "dose " + lo.dose());
         }
+    }
+
+    @Test
+    void branchAtTheTruthHasTheSympyFoldsAndStability() {
+        // The branch the demo's branches stage traces, at the true values: folds as computed independently.
+        DemoModel dm = DemoModel.load(MODEL);
+        double[] p = dm.nominal();
+        Branch br = dm.branch(p, DemoScenario.lowState(dm, p), "stimulus", 0, 4);
+        assertEquals(2, br.folds().size());
+        double a = br.folds().get(0).parameter();
+        double b = br.folds().get(1).parameter();
+        assertEquals(FOLD_ON, Math.max(a, b), REL_TOL_FOLD * FOLD_ON);
+        assertEquals(FOLD_OFF, Math.min(a, b), REL_TOL_FOLD * FOLD_OFF);
+        // Both ends lie on the stimulus bounds and are stable (monostable there, notes table); the middle piece
+        // between the folds is unstable (saddle-node: one eigenvalue crosses zero at each fold).
+        assertTrue(br.point(0).stable() && br.point(br.size() - 1).stable());
+        int mid = (br.folds().get(0).afterPoint() + br.folds().get(1).afterPoint()) / 2;
+        assertEquals(1, br.point(mid).unstableCount());
     }
 
     @Test
