@@ -22,6 +22,7 @@ import picocli.CommandLine.Command;
             ReportCommand.class,
             ProfileCommand.class,
             DemoCommand.class,
+            BranchesCommand.class,
         })
 public final class Main implements Runnable {
 
