@@ -112,7 +112,13 @@ public final class BranchesCommand implements Callable<Integer> {
                     stateMap(ids, s.sm.reduced.fullState(h.state(), q)), BranchesFile.Kind.HOPF));
         }
         List<BranchesFile.Point> pts = new ArrayList<>();
+        BranchPoint prev = null;
         for (BranchPoint bp : b.points()) {
+            if (prev != null && prev.parameter() == bp.parameter()
+                    && java.util.Arrays.equals(prev.state(), bp.state())) {
+                continue; // a one-sided start on a bound repeats the start point
+            }
+            prev = bp;
             q[k] = bp.parameter();
             pts.add(new BranchesFile.Point(s.control.toUser(bp.parameter()), s.sm.reduced.fullState(bp.state(), q),
                     bp.stable(), bp.eigenReal(), bp.eigenImag()));

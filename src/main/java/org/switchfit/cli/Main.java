@@ -23,6 +23,8 @@ import picocli.CommandLine.Command;
             ProfileCommand.class,
             DemoCommand.class,
             BranchesCommand.class,
+            RegionCommand.class,
+            SweepCommand.class,
         })
 public final class Main implements Runnable {
 
