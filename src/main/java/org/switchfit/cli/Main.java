@@ -22,7 +22,12 @@ import picocli.CommandLine.Command;
             ReportCommand.class,
             ProfileCommand.class,
             DemoCommand.class,
+        subcommands = {
             BenchProfilesCommand.class,
+            BranchesCommand.class,
+            RegionCommand.class,
+            SweepCommand.class,
+        })
         })
 public final class Main implements Runnable {
 
