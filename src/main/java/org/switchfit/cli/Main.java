@@ -22,12 +22,10 @@ import picocli.CommandLine.Command;
             ReportCommand.class,
             ProfileCommand.class,
             DemoCommand.class,
-        subcommands = {
             BenchProfilesCommand.class,
             BranchesCommand.class,
             RegionCommand.class,
             SweepCommand.class,
-        })
         })
 public final class Main implements Runnable {
 
