@@ -116,10 +116,17 @@ public record FitSummary(String problem, double bestNll, Map<String, Double> par
      * @param starts       number of starts requested
      * @param seed         random seed
      * @param rtol         relative integration tolerance
-     * @param atol         absolute integration tolerance
-     * @param nominalStart whether start 0 was the nominal parameter vector
+     * @param atol          absolute integration tolerance
+     * @param costTolerance relative cost-change tolerance of the optimizer, or null when not recorded
+     * @param maxIterations iteration limit per start, or null when not recorded
+     * @param nominalStart  whether start 0 was the nominal parameter vector
      */
-    public record Settings(int starts, long seed, double rtol, double atol, boolean nominalStart) {
+    public record Settings(int starts, long seed, double rtol, double atol, Double costTolerance,
+                           Integer maxIterations, boolean nominalStart) {
+        /** Settings without optimizer limits. */
+        public Settings(int starts, long seed, double rtol, double atol, boolean nominalStart) {
+            this(starts, seed, rtol, atol, null, null, nominalStart);
+        }
     }
 
     /**
