@@ -116,16 +116,16 @@ public record FitSummary(String problem, double bestNll, Map<String, Double> par
      * @param starts       number of starts requested
      * @param seed         random seed
      * @param rtol         relative integration tolerance
-     * @param atol          absolute integration tolerance
-     * @param costTolerance relative cost-change tolerance of the optimizer, or null when not recorded
-     * @param maxIterations iteration limit per start, or null when not recorded
-     * @param nominalStart  whether start 0 was the nominal parameter vector
+     * @param atol         absolute integration tolerance
+     * @param costTolerance relative cost-change tolerance of Levenberg-Marquardt (0: its default)
+     * @param maxIterations iteration limit of Levenberg-Marquardt per start (0: its default)
+     * @param nominalStart whether start 0 was the nominal parameter vector
      */
-    public record Settings(int starts, long seed, double rtol, double atol, Double costTolerance,
-                           Integer maxIterations, boolean nominalStart) {
-        /** Settings without optimizer limits. */
+    public record Settings(int starts, long seed, double rtol, double atol, boolean nominalStart,
+            double costTolerance, int maxIterations) {
+        /** Settings without explicit optimizer limits (recorded as 0: the optimizer's defaults). */
         public Settings(int starts, long seed, double rtol, double atol, boolean nominalStart) {
-            this(starts, seed, rtol, atol, null, null, nominalStart);
+            this(starts, seed, rtol, atol, nominalStart, 0.0, 0);
         }
     }
 
