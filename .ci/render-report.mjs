@@ -22,6 +22,10 @@ const args = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '
   `--user-data-dir=${profile}`, '--remote-debugging-pipe', 'about:blank'];
 const child = spawn(chromium, args, { stdio: ['ignore', 'ignore', 'pipe', 'pipe', 'pipe'] });
 let browserLog = '';
+child.on('error', (e) => {
+  console.error(`render-report: could not start ${chromium}: ${e.message}`);
+  process.exit(2);
+});
 child.stderr.on('data', (d) => { browserLog += d; });
 
 const toBrowser = child.stdio[3];
@@ -106,7 +110,7 @@ async function main() {
   await send('Log.enable', {}, sessionId);
   await send('Emulation.setDeviceMetricsOverride',
     { width: 1200, height: 900, deviceScaleFactor: 1, mobile: false }, sessionId);
-  const loaded = waitFor('Page.loadEventFired', 30000);
+  const loaded = waitFor('Page.loadEventFired', 60000);
   const nav = await send('Page.navigate', { url: pathToFileURL(resolve(report)).href }, sessionId);
   if (nav.errorText) throw new Error(`navigation failed: ${nav.errorText}`);
   await loaded;
@@ -131,10 +135,10 @@ async function main() {
 
 let code = 0;
 const guard = setTimeout(() => {
-  console.error('render-report: timed out after 90 s');
+  console.error('render-report: timed out after 150 s');
   child.kill('SIGKILL');
   process.exit(2);
-}, 90000);
+}, 150000);
 try {
   const n = await main();
   if (problems.length) {
@@ -150,6 +154,12 @@ try {
 } finally {
   clearTimeout(guard);
   try { await send('Browser.close'); } catch (e) { /* already gone */ }
-  setTimeout(() => child.kill('SIGKILL'), 2000).unref();
-  child.on('exit', () => { rmSync(profile, { recursive: true, force: true }); process.exit(code); });
+  process.exitCode = code;
+  const done = () => { rmSync(profile, { recursive: true, force: true }); process.exit(code); };
+  if (child.exitCode !== null || child.signalCode !== null) {
+    done();
+  } else {
+    setTimeout(() => child.kill('SIGKILL'), 2000).unref();
+    child.on('exit', done);
+  }
 }

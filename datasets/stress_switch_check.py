@@ -3,7 +3,8 @@
 
 Reads the SBML file itself (xml.etree + a small MathML-to-sympy converter for the operators the model uses), builds
 the ODEs, verifies the two conservation laws symbolically, locates the saddle-node folds in the control parameter
-'stimulus' with sympy.nsolve (F = 0 and det(dF/dx) = 0 on the reduced system, 30 significant digits), and confirms
+'stimulus' with sympy.nsolve (F = 0 and det(dF/dx) = 0 on the reduced system, 30 significant digits; cross-checked as the
+turning points d stimulus / d ZarnA = 0 of the steady-state curve, agreement to 30 digits), and confirms
 hysteresis by integrating the full 4-species system with scipy's BDF from the low and the high state.
 
 Usage: python3 datasets/stress_switch_check.py [path/to/stress_switch.xml]
@@ -12,6 +13,7 @@ Tested with Python 3, numpy 2.4.6, sympy 1.14.0, scipy 1.17.1.
 import sys
 import xml.etree.ElementTree as ET
 
+import mpmath
 import numpy as np
 import sympy as sp
 from scipy.integrate import solve_ivp
@@ -27,7 +29,7 @@ def mathml(node, syms):
     if tag == "ci":
         return syms[node.text.strip()]
     if tag == "cn":
-        return sp.Float(node.text.strip())
+        return sp.Rational(node.text.strip())
     if tag == "apply":
         op, *args = list(node)
         op = op.tag.replace(MML, "")
@@ -50,17 +52,17 @@ def load(path):
     syms, values = {}, {}
     for c in model.iter(SBML + "compartment"):
         syms[c.get("id")] = sp.Symbol(c.get("id"))
-        values[c.get("id")] = float(c.get("size"))
+        values[c.get("id")] = sp.Rational(c.get("size"))   # exact decimal value as written
     species = []
     init = {}
     for s in model.iter(SBML + "species"):
         sid = s.get("id")
         syms[sid] = sp.Symbol(sid)
         species.append(sid)
-        init[sid] = float(s.get("initialConcentration"))
+        init[sid] = sp.Rational(s.get("initialConcentration"))
     for p in model.iter(SBML + "parameter"):
         syms[p.get("id")] = sp.Symbol(p.get("id"))
-        values[p.get("id")] = float(p.get("value"))
+        values[p.get("id")] = sp.Rational(p.get("value"))
     rhs = {s: sp.Integer(0) for s in species}
     stoich = []
     for r in model.iter(SBML + "reaction"):
@@ -71,18 +73,19 @@ def load(path):
             if node is None:
                 continue
             for ref in node.iter(SBML + "speciesReference"):
-                col[ref.get("species")] += sign * float(ref.get("stoichiometry"))
+                col[ref.get("species")] += sign * sp.Rational(ref.get("stoichiometry"))
         stoich.append([col[s] for s in species])
         for s in species:
             rhs[s] += col[s] * rate / syms["cell"]   # concentration rate = amount rate / volume
-    return species, syms, values, init, rhs, np.array(stoich).T
+    return species, syms, values, init, rhs, np.array(stoich, dtype=object).T
 
 
 def main(path):
+    mpmath.mp.dps = 30
     species, syms, values, init, rhs, N = load(path)
     print("species:", species)
     # Conservation laws: left null space of the stoichiometry matrix, then checked on the ODEs symbolically.
-    left = sp.Matrix(N.astype(int)).T.nullspace()
+    left = sp.Matrix(N.tolist()).T.nullspace()
     print("conservation vectors (left null space of N):", [list(v) for v in left])
     for v in left:
         total = sp.simplify(sum(v[i] * rhs[s] for i, s in enumerate(species)))
@@ -98,8 +101,10 @@ def main(path):
     system = list(F) + [J.det()]
     # Coarse scan of steady states along x to seed the fold search: solve F2 = 0 for y, then F1 = 0 for S.
     y_of_x = sp.solve(F[1], y)[0]
-    s_of_x = sp.lambdify(x, sp.solve(F[0].subs(y, y_of_x), S)[0], "numpy")
-    xs = np.linspace(1e-4, zt - 1e-4, 200001)
+    s_expr = sp.solve(F[0].subs(y, y_of_x), S)[0]
+    s_of_x = sp.lambdify(x, s_expr, "numpy")
+    ds_dx = sp.diff(s_expr, x)
+    xs = np.linspace(1e-4, float(zt) - 1e-4, 200001)
     ss = s_of_x(xs)
     turn = np.where(np.diff(np.sign(np.diff(ss))) != 0)[0] + 1
     folds = []
@@ -107,8 +112,13 @@ def main(path):
         guess = (xs[i], float(y_of_x.subs(x, xs[i])), ss[i])
         sol = sp.nsolve(system, [x, y, S], guess, prec=30)
         folds.append(sol)
-        print("fold: stimulus = %s, ZarnA = %s, QuelA = %s" % (sp.N(sol[2], 15), sp.N(sol[0], 15),
-                                                                  sp.N(sol[1], 15)))
+        # Second route: turning point of the steady-state curve stimulus(ZarnA), d stimulus / d ZarnA = 0.
+        x_turn, s_turn = sp.nsolve([ds_dx, S - s_expr], [x, S], (xs[i], ss[i]), prec=30)
+        print("  turning point of stimulus(ZarnA): |dx| = %.1e, |dstimulus| = %.1e"
+              % (abs(x_turn - sol[0]), abs(s_turn - sol[2])))
+        assert abs(x_turn - sol[0]) < 1e-20 and abs(s_turn - sol[2]) < 1e-20
+        print("fold: stimulus = %s, ZarnA = %s, QuelA = %s" % (sp.N(sol[2], 20), sp.N(sol[0], 20),
+                                                                  sp.N(sol[1], 20)))
     assert len(folds) == 2, "expected two folds"
     s_on, s_off = max(float(f[2]) for f in folds), min(float(f[2]) for f in folds)
     # Hysteresis: integrate the full system (4 species) to steady state from the low and the high state.
@@ -119,6 +129,7 @@ def main(path):
         sol = solve_ivp(lambda t, u: f_full(stim, *u), (0, 2000), y0, method="BDF", rtol=1e-10, atol=1e-12)
         return sol.y[:, -1]
 
+    zt, qt = float(zt), float(qt)
     low0 = [zt, 0.0, qt, 0.0]
     high0 = [0.0, zt, 0.0, qt]
     for stim in (0.0, 0.5 * s_off, 0.5 * (s_on + s_off), s_on * 1.2, 4.0):

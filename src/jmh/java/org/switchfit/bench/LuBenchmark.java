@@ -18,8 +18,8 @@ import org.switchfit.linalg.LuSolver;
 import org.switchfit.linalg.SparseLu;
 
 /**
- * Factor I - c J and solve one right-hand side, dense vs sparse LU, for a seeded random sparse J with about 4
- * off-diagonal entries per row (the typical shape of a reaction network Jacobian). Sizes 30 and 300.
+ * Factor I - c J and solve one right-hand side, dense vs sparse LU, for a seeded sparse J of two structures
+ * (see {@link #structure}). Sizes 30 and 300.
  */
 @State(Scope.Thread)
 @BenchmarkMode(Mode.AverageTime)
@@ -35,6 +35,11 @@ public class LuBenchmark {
     @Param({"dense", "sparse"})
     public String kind;
 
+    /** "random": ~4 random off-diagonal entries per row (worst case for fill); "banded": tridiagonal plus one
+     * random long-range entry per row, closer to a reaction cascade with feedback. */
+    @Param({"random", "banded"})
+    public String structure;
+
     private LuSolver lu;
     private double[] jac;
     private double[] b;
@@ -48,7 +53,13 @@ public class LuBenchmark {
         for (int i = 0; i < n; i++) {
             java.util.TreeSet<Integer> cols = new java.util.TreeSet<>();
             cols.add(i);
-            for (int k = 0; k < 4; k++) {
+            if (structure.equals("random")) {
+                for (int k = 0; k < 4; k++) {
+                    cols.add(rnd.nextInt(n));
+                }
+            } else {
+                cols.add(Math.max(0, i - 1));
+                cols.add(Math.min(n - 1, i + 1));
                 cols.add(rnd.nextInt(n));
             }
             pattern[i] = cols.stream().mapToInt(Integer::intValue).toArray();

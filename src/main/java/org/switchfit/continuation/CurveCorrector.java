@@ -27,7 +27,15 @@ final class CurveCorrector {
         this.bordered = new double[n1 * n1];
         this.rhs = new double[n1];
         this.h = new double[nEq];
-        this.lu = LinearSolvers.forSize(n1);
+        int[][] rows = problem.pattern();
+        if (rows == null) {
+            this.lu = LinearSolvers.forSize(n1);
+        } else {
+            int[][] bordered = new int[n1][];
+            System.arraycopy(rows, 0, bordered, 0, nEq);
+            bordered[nEq] = LinearSolvers.denseRow(0, n1);
+            this.lu = LinearSolvers.forPattern(n1, bordered);
+        }
         this.tolerance = tolerance;
         this.maxIterations = maxIterations;
     }

@@ -14,4 +14,11 @@ interface CurveProblem {
 
     /** Writes the N x (N + 1) Jacobian row-major: {@code jac[i * (N + 1) + j] = ∂H_i/∂u_j}. */
     void jacobian(double[] u, double[] jac);
+
+    /**
+     * Structural pattern of the N x (N + 1) Jacobian: {@code pattern[i]} lists the increasing columns of row i
+     * that may be non-zero; or null when the Jacobian of the underlying system is dense (then a dense solver is
+     * used).
+     */
+    int[][] pattern();
 }

@@ -10,7 +10,6 @@ final class DenseLuSolver implements LinearSolver {
     private int[] perm = new int[0];
     private double[] work = new double[0];
     private int n;
-    private double ratio;
 
     @Override
     public boolean factor(double[] a, int size) {
@@ -28,8 +27,6 @@ final class DenseLuSolver implements LinearSolver {
         for (int i = 0; i < size; i++) {
             perm[i] = i;
         }
-        double maxPiv = 0;
-        double minPiv = Double.POSITIVE_INFINITY;
         for (int k = 0; k < size; k++) {
             int p = k;
             double best = Math.abs(m[k * size + k]);
@@ -41,11 +38,8 @@ final class DenseLuSolver implements LinearSolver {
                 }
             }
             if (!(best > 0) || !Double.isFinite(best)) {
-                ratio = 0;
                 return false;
             }
-            maxPiv = Math.max(maxPiv, best);
-            minPiv = Math.min(minPiv, best);
             if (p != k) {
                 int rk = k * size;
                 int rp = p * size;
@@ -72,7 +66,6 @@ final class DenseLuSolver implements LinearSolver {
                 }
             }
         }
-        ratio = minPiv / maxPiv;
         return true;
     }
 
@@ -127,10 +120,5 @@ final class DenseLuSolver implements LinearSolver {
         for (int i = 0; i < size; i++) {
             x[perm[i]] = w[i];
         }
-    }
-
-    @Override
-    public double pivotRatio() {
-        return ratio;
     }
 }

@@ -53,6 +53,19 @@ final class EquilibriumProblem implements CurveProblem {
         }
     }
 
+    @Override
+    public int[][] pattern() {
+        int[][] jp = sys.jacobianPattern();
+        if (!LinearSolvers.isSparse(n, jp)) {
+            return null;
+        }
+        int[][] out = new int[n][];
+        for (int i = 0; i < n; i++) {
+            out[i] = LinearSolvers.union(jp[i], 0, null, 0, n);
+        }
+        return out;
+    }
+
     /** Parameters with λ from u (a copy). */
     double[] parametersAt(double[] u) {
         double[] q = p.clone();

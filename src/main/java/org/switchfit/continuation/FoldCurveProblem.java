@@ -107,6 +107,22 @@ final class FoldCurveProblem implements CurveProblem {
         }
     }
 
+    @Override
+    public int[][] pattern() {
+        int[][] jp = sys.jacobianPattern();
+        if (!LinearSolvers.isSparse(n, jp)) {
+            return null;
+        }
+        int[][] out = new int[2 * n + 1][];
+        for (int i = 0; i < n; i++) {
+            out[i] = LinearSolvers.union(jp[i], 0, null, 0, 2 * n, 2 * n + 1);
+            // D_v J has the structure of J (derivatives of structural zeros vanish).
+            out[n + i] = LinearSolvers.union(jp[i], 0, jp[i], n, 2 * n, 2 * n + 1);
+        }
+        out[2 * n] = LinearSolvers.denseRow(n, 2 * n);
+        return out;
+    }
+
     /** Parameters at u (a copy). */
     double[] parametersAt(double[] u) {
         double[] q = p.clone();

@@ -17,6 +17,7 @@ import org.switchfit.ode.OdeSystem;
  */
 public final class FoldCurves {
     private static final double MIN_COS_TURN = 0.9;
+    private static final double MAX_CORRECTION = 0.3;
 
     private final ContinuationSettings settings;
     private final double lower2;
@@ -107,6 +108,10 @@ public final class FoldCurves {
                     cos += t[i] * tNew[i];
                 }
                 ok = cos >= MIN_COS_TURN || h <= 2 * settings.minStep();
+                // A corrector that lands far from the predictor has likely jumped to another part of the curve
+                // (e.g. across a small S between two close folds); with the turn limit above, a regular
+                // correction moves about κh²/2 <= 0.23 h.
+                ok = ok && (distance(uPred, uNew, len) <= MAX_CORRECTION * h || h <= 2 * settings.minStep());
             }
             if (!ok) {
                 h *= 0.5;
@@ -251,5 +256,14 @@ public final class FoldCurves {
             }
         }
         return new FoldCurve.Cusp(uh[2 * n], uh[2 * n + 1], java.util.Arrays.copyOf(uh, n), indexA);
+    }
+
+    private static double distance(double[] a, double[] b, int len) {
+        double s = 0;
+        for (int i = 0; i < len; i++) {
+            double d = a[i] - b[i];
+            s += d * d;
+        }
+        return Math.sqrt(s);
     }
 }

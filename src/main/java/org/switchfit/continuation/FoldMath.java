@@ -82,7 +82,7 @@ final class FoldMath {
             b[i * n1 + n] = v[i];
             b[n * n1 + i] = v[i];
         }
-        LinearSolver lu = LinearSolvers.forSize(n1);
+        LinearSolver lu = LinearSolvers.dense(n1);
         double[] w = new double[n];
         boolean ok = lu.factor(b, n1);
         if (ok) {

@@ -19,8 +19,9 @@ import org.switchfit.ode.OdeSystem;
  * bound), after maxPoints points, or when the step falls below minStep.
  *
  * <p>Test functions (Kuznetsov 2004, Elements of Applied Bifurcation Theory, 3rd ed., sec. 10.2): a fold is
- * signalled by a sign change of the λ component of the tangent and located by Newton on the extended system
- * (see {@link FoldRefiner}); a Hopf point by a complex pair of eigenvalues crossing the imaginary axis (the
+ * signalled by a sign change of the λ component of the tangent and located by Newton on an augmented system
+ * (see {@link FoldRefiner}: minimally augmented bordered system, standard extended system (f, J v, c^T v - 1)
+ * as fallback); a Hopf point by a complex pair of eigenvalues crossing the imaginary axis (the
  * unstable count changes by two and so does the count of unstable non-real eigenvalues), located by the secant
  * method on the real part of the critical pair along the branch.
  *
@@ -29,6 +30,7 @@ import org.switchfit.ode.OdeSystem;
  */
 public final class PseudoArclength {
     private static final double MIN_COS_TURN = 0.9;
+    private static final double MAX_CORRECTION = 0.3;
 
     private final ContinuationSettings settings;
 
@@ -143,6 +145,10 @@ public final class PseudoArclength {
                     cos += t[i] * tNew[i];
                 }
                 ok = cos >= MIN_COS_TURN || h <= 2 * settings.minStep();
+                // A corrector that lands far from the predictor has likely jumped to another part of the curve
+                // (e.g. across a small S between two close folds); with the turn limit above, a regular
+                // correction moves about κh²/2 <= 0.23 h.
+                ok = ok && (distance(uPred, uNew, n1) <= MAX_CORRECTION * h || h <= 2 * settings.minStep());
             }
             if (!ok) {
                 h *= 0.5;
@@ -152,6 +158,22 @@ public final class PseudoArclength {
                 }
                 continue;
             }
+            Fold fold = null;
+            if (t[n] * tNew[n] < 0) {
+                fold = locateFold(prob, u, t, uNew, tNew);
+                if (fold == null) {
+                    if (h > 2 * settings.minStep()) {
+                        h *= 0.5; // refinement found no fold consistent with this step: resolve it better
+                        continue;
+                    }
+                    fold = estimateFold(prob, u, t, uNew, tNew);
+                }
+                if (fold.parameter() < settings.lowerBound() || fold.parameter() > settings.upperBound()) {
+                    fold = null;
+                } else {
+                    folds.add(fold.withAfterPoint(pts.size() - 1));
+                }
+            }
             double lamNew = uNew[n];
             boolean outside = lamNew < settings.lowerBound() || lamNew > settings.upperBound();
             if (outside) {
@@ -160,7 +182,7 @@ public final class PseudoArclength {
                     cc.tangent(uNew, t, tNew);
                     s += distance(u, uNew, n1);
                     BranchPoint bp = makePoint(prob, uNew, tNew, s);
-                    detectEvents(prob, cc, prev, bp, u, t, uNew, tNew, pts.size() - 1, folds, hopfs);
+                    detectHopf(prob, cc, prev, bp, u, t, uNew, pts.size() - 1, hopfs);
                     pts.add(bp);
                 }
                 end = Branch.EndReason.BOUNDARY;
@@ -168,7 +190,7 @@ public final class PseudoArclength {
             }
             s += distance(u, uNew, n1);
             BranchPoint bp = makePoint(prob, uNew, tNew, s);
-            detectEvents(prob, cc, prev, bp, u, t, uNew, tNew, pts.size() - 1, folds, hopfs);
+            detectHopf(prob, cc, prev, bp, u, t, uNew, pts.size() - 1, hopfs);
             pts.add(bp);
             prev = bp;
             System.arraycopy(uNew, 0, u, 0, n1);
@@ -231,26 +253,53 @@ public final class PseudoArclength {
         prob.sys.jacobianY(0, y, prob.p, jac);
     }
 
-    private void detectEvents(EquilibriumProblem prob, CurveCorrector cc, BranchPoint a, BranchPoint b,
-                              double[] ua, double[] ta, double[] ub, double[] tb, int indexA, List<Fold> folds,
-                              List<Hopf> hopfs) {
+    /**
+     * Refines the fold between (ua, ta) and (ub, tb), where the λ component of the tangent changes sign. Returns
+     * null unless the refined fold is consistent with the step: kind matching the sign change and (y, λ) within
+     * the segment's bounding box enlarged by its length (otherwise Newton found another, nearby fold).
+     */
+    private Fold locateFold(EquilibriumProblem prob, double[] ua, double[] ta, double[] ub, double[] tb) {
         int n = prob.n;
-        if (ta[n] * tb[n] < 0) {
-            double theta = ta[n] / (ta[n] - tb[n]);
-            double[] y = new double[n];
-            double[] v = new double[n];
-            for (int i = 0; i < n; i++) {
-                y[i] = ua[i] + theta * (ub[i] - ua[i]);
-                v[i] = ta[i] + theta * (tb[i] - ta[i]);
-            }
-            double[] q = prob.p.clone();
-            q[prob.control] = ua[n] + theta * (ub[n] - ua[n]);
-            Fold f = FoldRefiner.refine(prob.sys, y, q, prob.control, v, settings.tolerance(), 30);
-            if (f == null) {
-                f = FoldMath.foldAt(prob.sys, y, q, prob.control, v, false);
-            }
-            folds.add(f.withAfterPoint(indexA));
+        Fold est = estimateFold(prob, ua, ta, ub, tb);
+        double[] q = prob.p.clone();
+        q[prob.control] = est.parameter();
+        Fold f = FoldRefiner.refine(prob.sys, est.state(), q, prob.control, est.rightNull(), settings.tolerance(),
+                30);
+        if (f == null) {
+            return null;
         }
+        Fold.Kind expected = ta[n] > 0 ? Fold.Kind.MAXIMUM : Fold.Kind.MINIMUM;
+        if (f.kind() != expected) {
+            return null;
+        }
+        double len = distance(ua, ub, n + 1);
+        double[] y = f.state();
+        for (int i = 0; i <= n; i++) {
+            double v = i < n ? y[i] : f.parameter();
+            if (v < Math.min(ua[i], ub[i]) - len || v > Math.max(ua[i], ub[i]) + len) {
+                return null;
+            }
+        }
+        return f;
+    }
+
+    /** Unrefined fold estimate by linear interpolation to the zero of the tangent's λ component. */
+    private static Fold estimateFold(EquilibriumProblem prob, double[] ua, double[] ta, double[] ub, double[] tb) {
+        int n = prob.n;
+        double theta = ta[n] / (ta[n] - tb[n]);
+        double[] y = new double[n];
+        double[] v = new double[n];
+        for (int i = 0; i < n; i++) {
+            y[i] = ua[i] + theta * (ub[i] - ua[i]);
+            v[i] = ta[i] + theta * (tb[i] - ta[i]);
+        }
+        double[] q = prob.p.clone();
+        q[prob.control] = ua[n] + theta * (ub[n] - ua[n]);
+        return FoldMath.foldAt(prob.sys, y, q, prob.control, v, false);
+    }
+
+    private void detectHopf(EquilibriumProblem prob, CurveCorrector cc, BranchPoint a, BranchPoint b,
+                            double[] ua, double[] ta, double[] ub, int indexA, List<Hopf> hopfs) {
         if (a.unstableCount() >= 0 && b.unstableCount() >= 0
                 && Math.abs(a.unstableCount() - b.unstableCount()) == 2
                 && Math.abs(complexUnstable(a) - complexUnstable(b)) == 2) {

@@ -97,6 +97,17 @@ public final class ReducedSystem implements OdeSystem {
         return q;
     }
 
+    /** Reduced parameters (p, T) with explicitly given totals (length {@link ConservationLaws#lawCount()}). */
+    public double[] parametersWithTotals(double[] p, double[] totals) {
+        if (totals.length != nl || p.length != m) {
+            throw new IllegalArgumentException(String.format(java.util.Locale.ROOT,
+                    "expected %d parameters and %d totals, got %d and %d", m, nl, p.length, totals.length));
+        }
+        double[] q = Arrays.copyOf(p, m + nl);
+        System.arraycopy(totals, 0, q, m, nl);
+        return q;
+    }
+
     /** Independent-species part x of a full state y. */
     public double[] reducedState(double[] y) {
         double[] x = new double[nr];

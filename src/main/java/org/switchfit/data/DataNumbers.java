@@ -1,6 +1,7 @@
 package org.switchfit.data;
 
 import java.util.Locale;
+import java.util.Set;
 import java.util.regex.Pattern;
 
 /**
@@ -17,6 +18,9 @@ public final class DataNumbers {
 
     private static final Pattern DECIMAL =
             Pattern.compile("[+-]?(?:\\d+\\.?\\d*|\\.\\d+)(?:[eE][+-]?\\d+)?");
+
+    private static final Set<String> SPECIAL = Set.of("nan", "+nan", "-nan", ".nan", "inf",
+            "+inf", "infinity", "+infinity", ".inf", "+.inf", "-inf", "-infinity", "-.inf");
 
     private DataNumbers() {
     }
@@ -56,14 +60,17 @@ public final class DataNumbers {
         }
     }
 
-    /** Whether {@link #parse(String)} would accept the text. */
+    /** Whether {@link #parse(String)} would accept the text (no exception thrown, so cheap for ids). */
     public static boolean isNumber(String text) {
-        try {
-            parse(text);
-            return true;
-        } catch (NumberFormatException e) {
+        String t = text.strip();
+        if (t.isEmpty()) {
             return false;
         }
+        char c = t.charAt(t.length() - 1);
+        if ((c >= '0' && c <= '9') || c == '.') {
+            return DECIMAL.matcher(t).matches();
+        }
+        return SPECIAL.contains(t.toLowerCase(Locale.ROOT));
     }
 
     /**

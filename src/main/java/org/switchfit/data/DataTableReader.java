@@ -5,7 +5,6 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Set;
 import org.switchfit.util.SourceLocation;
-import org.switchfit.util.UserInputException;
 
 /**
  * Turns switchfit data tables into data points, checking numbers and that experiments and observables are
@@ -34,7 +33,7 @@ final class DataTableReader {
             String obs = observable(r);
             double time = r.number("time");
             if (!Double.isFinite(time)) {
-                throw UserInputException.of(r.location("time"), "time %s is not finite; timecourse times must be"
+                throw Messages.error(r.location("time"), "time %s is not finite; timecourse times must be"
                         + " finite (put steady-state data in a dose-response table)", r.text("time"));
             }
             double value = value(r);
@@ -53,7 +52,7 @@ final class DataTableReader {
             String obs = observable(r);
             double dose = r.number("dose");
             if (!Double.isFinite(dose)) {
-                throw UserInputException.of(r.location("dose"), "dose %s of '%s' is not finite; give a finite value",
+                throw Messages.error(r.location("dose"), "dose %s of '%s' is not finite; give a finite value",
                         r.text("dose"), control);
             }
             double value = value(r);
@@ -65,7 +64,7 @@ final class DataTableReader {
             } else if ("high".equals(h)) {
                 history = DoseResponsePoint.History.HIGH;
             } else {
-                throw UserInputException.of(r.location("history"), "column 'history': '%s' is unknown; use low"
+                throw Messages.error(r.location("history"), "column 'history': '%s' is unknown; use low"
                         + " (steady state approached from the off state) or high (from the on state)",
                         r.text("history"));
             }
@@ -82,12 +81,12 @@ final class DataTableReader {
             String exp = experiment(r);
             String control = r.requireText("control");
             if (!ValueRef.isId(control)) {
-                throw UserInputException.of(r.location("control"), "column 'control': '%s' is not a valid parameter"
+                throw Messages.error(r.location("control"), "column 'control': '%s' is not a valid parameter"
                         + " id; use letters, digits and underscores", control);
             }
             SwitchingThreshold.Direction dir = direction(r.requireText("direction"));
             if (dir == null) {
-                throw UserInputException.of(r.location("direction"), "column 'direction': '%s' is unknown; use up"
+                throw Messages.error(r.location("direction"), "column 'direction': '%s' is unknown; use up"
                         + " (switch-on while raising the control) or down (switch-off while lowering it)",
                         r.text("direction"));
             }
@@ -112,11 +111,11 @@ final class DataTableReader {
 
     static void checkThreshold(double value, double sigma, SourceLocation loc) {
         if (!Double.isFinite(value)) {
-            throw UserInputException.of(loc, "threshold value %s is not finite; give the measured control value",
+            throw Messages.error(loc, "threshold value %s is not finite; give the measured control value",
                     DataNumbers.format(value));
         }
         if (!(sigma > 0) || Double.isInfinite(sigma)) {
-            throw UserInputException.of(loc, "threshold sigma %s must be a positive finite number; give the"
+            throw Messages.error(loc, "threshold sigma %s must be a positive finite number; give the"
                     + " standard deviation of the measured threshold", DataNumbers.format(sigma));
         }
     }
@@ -124,7 +123,7 @@ final class DataTableReader {
     private static void checkColumns(TextTable t, List<String> known) {
         for (String c : t.columns()) {
             if (!known.contains(c)) {
-                throw UserInputException.of(t.headerLocation(), "unknown column '%s'%s; allowed columns: %s", c,
+                throw Messages.error(t.headerLocation(), "unknown column '%s'%s; allowed columns: %s", c,
                         Spelling.didYouMean(c, known), String.join(", ", known));
             }
         }
@@ -133,7 +132,7 @@ final class DataTableReader {
     private String experiment(TextTable.Row r) {
         String exp = r.requireText("experiment");
         if (!experiments.contains(exp)) {
-            throw UserInputException.of(r.location("experiment"), "experiment '%s' is not declared in the problem"
+            throw Messages.error(r.location("experiment"), "experiment '%s' is not declared in the problem"
                     + " file%s; declare it under experiments or correct the name", exp,
                     Spelling.didYouMean(exp, experiments));
         }
@@ -143,7 +142,7 @@ final class DataTableReader {
     private String observable(TextTable.Row r) {
         String obs = r.requireText("observable");
         if (!observables.contains(obs)) {
-            throw UserInputException.of(r.location("observable"), "observable '%s' is not declared in the problem"
+            throw Messages.error(r.location("observable"), "observable '%s' is not declared in the problem"
                     + " file%s; declare it under observables or correct the name", obs,
                     Spelling.didYouMean(obs, observables));
         }
@@ -153,7 +152,7 @@ final class DataTableReader {
     private static double value(TextTable.Row r) {
         double v = r.number("value");
         if (!Double.isFinite(v)) {
-            throw UserInputException.of(r.location("value"), "column 'value': %s is not a finite measurement;"
+            throw Messages.error(r.location("value"), "column 'value': %s is not a finite measurement;"
                     + " remove the row if the value is missing", r.text("value"));
         }
         return v;
@@ -162,7 +161,7 @@ final class DataTableReader {
     private static double sigma(TextTable.Row r) {
         double s = r.number("sigma", Double.NaN);
         if (!Double.isNaN(s) && !(s > 0 && Double.isFinite(s))) {
-            throw UserInputException.of(r.location("sigma"), "column 'sigma': %s must be a positive finite number;"
+            throw Messages.error(r.location("sigma"), "column 'sigma': %s must be a positive finite number;"
                     + " correct it or leave the field empty (or nan) to use the observable's noise model", r.text("sigma"));
         }
         return s;

@@ -10,6 +10,7 @@ import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.HashSet;
 import java.util.List;
+import java.util.Locale;
 import java.util.Set;
 import org.switchfit.util.SourceLocation;
 import org.switchfit.util.UserInputException;
@@ -34,7 +35,7 @@ public final class DelimitedReader {
 
     /** Reads a table, choosing tab as delimiter for {@code .tsv}/{@code .tab} files and comma otherwise. */
     public static TextTable read(Path file) {
-        String name = file.getFileName().toString().toLowerCase(java.util.Locale.ROOT);
+        String name = file.getFileName().toString().toLowerCase(Locale.ROOT);
         char delimiter = name.endsWith(".tsv") || name.endsWith(".tab") ? '\t' : ',';
         return read(file, delimiter);
     }
@@ -75,7 +76,7 @@ public final class DelimitedReader {
         List<Integer> lines = new ArrayList<>();
         splitRecords(text, source, delimiter, records, lines);
         if (records.isEmpty()) {
-            throw UserInputException.of(SourceLocation.ofFile(source),
+            throw Messages.error(SourceLocation.ofFile(source),
                     "the table is empty; the first line must name the columns");
         }
         String[] header = records.get(0);
@@ -88,7 +89,7 @@ public final class DelimitedReader {
                 continue;
             }
             if (!seen.add(name)) {
-                throw UserInputException.of(SourceLocation.ofLine(source, lines.get(0)),
+                throw Messages.error(SourceLocation.ofLine(source, lines.get(0)),
                         "column '%s' appears twice in the header; rename or remove one of them", name);
             }
             kept.add(i);
@@ -100,7 +101,7 @@ public final class DelimitedReader {
             String[] rec = records.get(r);
             for (int i = header.length; i < rec.length; i++) {
                 if (!rec[i].isBlank()) {
-                    throw UserInputException.of(SourceLocation.ofLine(source, lines.get(r)),
+                    throw Messages.error(SourceLocation.ofLine(source, lines.get(r)),
                             "the row has %d fields but the header names %d columns; remove the extra fields or"
                                     + " quote fields that contain the delimiter", rec.length, header.length);
                 }
@@ -137,7 +138,7 @@ public final class DelimitedReader {
             while (true) {
                 if (pos >= n) {
                     if (quoted) {
-                        throw UserInputException.of(SourceLocation.ofLine(source, recordLine),
+                        throw Messages.error(SourceLocation.ofLine(source, recordLine),
                                 "a quoted field is not closed before the end of the file; add the closing \"");
                     }
                     break;
@@ -175,7 +176,7 @@ public final class DelimitedReader {
                     wasQuoted = true;
                     pos++;
                 } else if (wasQuoted && !Character.isWhitespace(c)) {
-                    throw UserInputException.of(SourceLocation.ofLine(source, line),
+                    throw Messages.error(SourceLocation.ofLine(source, line),
                             "text after the closing quote of field %d; quote the whole field and write inner"
                                     + " quotes as \"\"", fields.size() + 1);
                 } else {

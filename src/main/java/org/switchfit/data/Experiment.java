@@ -1,5 +1,7 @@
 package org.switchfit.data;
 
+import java.util.Collections;
+import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import org.switchfit.util.SourceLocation;
@@ -21,8 +23,8 @@ public record Experiment(String id, Map<String, ValueRef> parameterValues, Map<S
 
     /** Copies the collections (keeping order). */
     public Experiment {
-        parameterValues = java.util.Collections.unmodifiableMap(new java.util.LinkedHashMap<>(parameterValues));
-        initialValues = java.util.Collections.unmodifiableMap(new java.util.LinkedHashMap<>(initialValues));
+        parameterValues = Collections.unmodifiableMap(new LinkedHashMap<>(parameterValues));
+        initialValues = Collections.unmodifiableMap(new LinkedHashMap<>(initialValues));
         doses = List.copyOf(doses);
     }
 }

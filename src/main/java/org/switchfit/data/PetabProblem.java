@@ -2,6 +2,7 @@ package org.switchfit.data;
 
 import java.nio.file.Path;
 import java.util.List;
+import java.util.Optional;
 
 /**
  * A PEtab v1 problem as read from its YAML file and tables (Schmiester et al. 2021, PLoS Comput Biol
@@ -31,6 +32,21 @@ public record PetabProblem(Path yamlFile, int formatVersion, List<PetabParameter
         observables = List.copyOf(observables);
         visualizationFiles = List.copyOf(visualizationFiles);
         notes = List.copyOf(notes);
+    }
+
+    /** The condition with that id, if any. */
+    public Optional<PetabCondition> condition(String id) {
+        return conditions.stream().filter(c -> c.id().equals(id)).findFirst();
+    }
+
+    /** The observable with that id, if any. */
+    public Optional<PetabObservable> observable(String id) {
+        return observables.stream().filter(o -> o.id().equals(id)).findFirst();
+    }
+
+    /** The parameter-table row with that id, if any. */
+    public Optional<PetabParameter> parameter(String id) {
+        return parameters.stream().filter(p -> p.id().equals(id)).findFirst();
     }
 
     /** Parameters with estimate = 1, in table order. */

@@ -7,10 +7,13 @@ import java.nio.file.NoSuchFileException;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.HashMap;
+import java.util.HashSet;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.Set;
+import java.util.regex.Matcher;
+import java.util.regex.Pattern;
 import org.switchfit.util.SourceLocation;
 import org.switchfit.util.UserInputException;
 
@@ -52,7 +55,7 @@ public final class PetabReader {
         YamlNode version = root.require("format_version", "1");
         String v = version.scalar("1").strip();
         if (!(v.equals("1") || v.startsWith("1.") || v.equals("1.0"))) {
-            throw UserInputException.of(version.location(), "format_version '%s' is not supported; this reader"
+            throw Messages.error(version.location(), "format_version '%s' is not supported; this reader"
                     + " reads PEtab format_version 1", v);
         }
         Path base = yamlFile.toAbsolutePath().getParent();
@@ -88,6 +91,7 @@ public final class PetabReader {
         checkUniqueIds(conditions, PetabCondition::id, PetabCondition::location, "condition");
         checkUniqueIds(observables, PetabObservable::id, PetabObservable::location, "observable");
         checkReferences(measurements, conditions, observables);
+        checkOverrideIds(measurements, parameters);
         return new PetabProblem(yamlFile, 1, parameters, sbml, conditions, measurements, observables, visualization,
                 notes);
     }
@@ -112,7 +116,7 @@ public final class PetabReader {
             String name = item.scalar("file.tsv");
             Path p = base.resolve(name).normalize();
             if (mustExist && !Files.isRegularFile(p)) {
-                throw UserInputException.of(item.location(), "%s entry '%s' does not exist (looked for %s); correct"
+                throw Messages.error(item.location(), "%s entry '%s' does not exist (looked for %s); correct"
                         + " the path, which is relative to the YAML file's folder", key, name, p);
             }
             out.add(p);
@@ -131,14 +135,14 @@ public final class PetabReader {
             String scaleText = r.requireText("parameterScale");
             ParameterScale scale = ParameterScale.fromToken(scaleText);
             if (scale == null) {
-                throw UserInputException.of(r.location("parameterScale"), "parameter '%s': parameterScale '%s' is"
+                throw Messages.error(r.location("parameterScale"), "parameter '%s': parameterScale '%s' is"
                         + " unknown; use lin, log or log10", id, scaleText);
             }
             String est = r.requireText("estimate");
             // numeric comparison: tables written by dataframe tools contain 1.0 and 0.0
             double estValue = DataNumbers.isNumber(est) ? DataNumbers.parse(est) : Double.NaN;
             if (estValue != 0 && estValue != 1) {
-                throw UserInputException.of(r.location("estimate"), "parameter '%s': estimate '%s' must be 0 (fixed)"
+                throw Messages.error(r.location("estimate"), "parameter '%s': estimate '%s' must be 0 (fixed)"
                         + " or 1 (estimated)", id, est);
             }
             boolean estimate = estValue == 1;
@@ -147,17 +151,17 @@ public final class PetabReader {
             double nominal = r.number("nominalValue", Double.NaN);
             if (estimate) {
                 if (Double.isNaN(lower) || Double.isNaN(upper) || !(lower <= upper)) {
-                    throw UserInputException.of(r.location(), "parameter '%s' is estimated but its bounds [%s, %s]"
+                    throw Messages.error(r.location(), "parameter '%s' is estimated but its bounds [%s, %s]"
                             + " do not form an interval; give lowerBound <= upperBound", id,
                             r.text("lowerBound"), r.text("upperBound"));
                 }
                 if (scale.needsPositive() && !(lower > 0 || (lower == 0 && scale != ParameterScale.LIN))) {
-                    throw UserInputException.of(r.location("lowerBound"), "parameter '%s': lowerBound %s is"
+                    throw Messages.error(r.location("lowerBound"), "parameter '%s': lowerBound %s is"
                             + " negative, impossible on %s scale; use a positive bound or scale lin", id,
                             r.text("lowerBound"), scale.token());
                 }
             } else if (Double.isNaN(nominal)) {
-                throw UserInputException.of(r.location("nominalValue"), "parameter '%s' is not estimated but has no"
+                throw Messages.error(r.location("nominalValue"), "parameter '%s' is not estimated but has no"
                         + " nominalValue; give the fixed value", id);
             }
             Prior init = prior(r, "initializationPriorType", "initializationPriorParameters", id);
@@ -179,7 +183,7 @@ public final class PetabReader {
             for (Prior.Type ty : Prior.Type.values()) {
                 names.add(ty.petabName());
             }
-            throw UserInputException.of(r.location(typeColumn), "parameter '%s': prior type '%s' is unknown%s; use"
+            throw Messages.error(r.location(typeColumn), "parameter '%s': prior type '%s' is unknown%s; use"
                     + " one of %s", id, typeText, Spelling.didYouMean(typeText, names), String.join(", ", names));
         }
         String p = r.text(paramsColumn);
@@ -189,14 +193,13 @@ public final class PetabReader {
                 try {
                     values.add(DataNumbers.parse(part));
                 } catch (NumberFormatException e) {
-                    throw new UserInputException(r.location(paramsColumn), String.format(java.util.Locale.ROOT,
-                            "parameter '%s': prior parameter '%s' is not a number; write numbers separated by ';',"
-                                    + " e.g. 0;1", id, part), e);
+                    throw Messages.error(r.location(paramsColumn), e, "parameter '%s': prior parameter '%s' is not"
+                            + " a number; write numbers separated by ';', e.g. 0;1", id, part);
                 }
             }
         }
         if (values.size() != type.arity() && !(values.isEmpty() && type.parametersOptional())) {
-            throw UserInputException.of(r.location(paramsColumn), "parameter '%s': prior %s needs %d parameters"
+            throw Messages.error(r.location(paramsColumn), "parameter '%s': prior %s needs %d parameters"
                     + " separated by ';', got '%s'", id, type.petabName(), type.arity(), p);
         }
         return new Prior(type, values);
@@ -217,7 +220,7 @@ public final class PetabReader {
                 String text = r.text(c);
                 ValueRef v = text.isEmpty() ? ValueRef.ofNumber(Double.NaN) : ValueRef.parse(text);
                 if (v == null) {
-                    throw UserInputException.of(r.location(c), "condition '%s', column '%s': '%s' is neither a"
+                    throw Messages.error(r.location(c), "condition '%s', column '%s': '%s' is neither a"
                             + " number nor a parameter id; correct the value", id, c, text);
                 }
                 values.put(c, v);
@@ -258,7 +261,7 @@ public final class PetabReader {
             double value = r.number(valueColumn);
             double time = r.number("time");
             if (Double.isNaN(time) || time == Double.NEGATIVE_INFINITY) {
-                throw UserInputException.of(r.location("time"), "time '%s' is not allowed; give a finite time or inf"
+                throw Messages.error(r.location("time"), "time '%s' is not allowed; give a finite time or inf"
                         + " for a steady-state measurement", r.text("time"));
             }
             out.add(new PetabMeasurement(obs, sim, pre.isEmpty() ? null : pre, value, time,
@@ -277,7 +280,7 @@ public final class PetabReader {
         for (String part : text.split(";", -1)) {
             ValueRef v = ValueRef.parse(part);
             if (v == null) {
-                throw UserInputException.of(r.location(column), "column '%s': '%s' is neither a number nor a"
+                throw Messages.error(r.location(column), "column '%s': '%s' is neither a number nor a"
                         + " parameter id; write values separated by ';', e.g. 1.5;scale_a", column, part.strip());
             }
             out.add(v);
@@ -297,7 +300,7 @@ public final class PetabReader {
             String tr = r.text("observableTransformation");
             ParameterScale transformation = tr.isEmpty() ? ParameterScale.LIN : ParameterScale.fromToken(tr);
             if (transformation == null) {
-                throw UserInputException.of(r.location("observableTransformation"), "observable '%s':"
+                throw Messages.error(r.location("observableTransformation"), "observable '%s':"
                         + " observableTransformation '%s' is unknown; use lin, log or log10", id, tr);
             }
             String nd = r.text("noiseDistribution");
@@ -307,7 +310,7 @@ public final class PetabReader {
             } else if (nd.equals("laplace")) {
                 dist = PetabObservable.NoiseDistribution.LAPLACE;
             } else {
-                throw UserInputException.of(r.location("noiseDistribution"), "observable '%s': noiseDistribution"
+                throw Messages.error(r.location("noiseDistribution"), "observable '%s': noiseDistribution"
                         + " '%s' is unknown%s; use normal or laplace", id, nd,
                         Spelling.didYouMean(nd, List.of("normal", "laplace")));
             }
@@ -323,7 +326,7 @@ public final class PetabReader {
         for (T row : rows) {
             SourceLocation first = seen.putIfAbsent(id.apply(row), loc.apply(row));
             if (first != null) {
-                throw UserInputException.of(loc.apply(row), "%s id '%s' is defined twice (first at %s); remove or"
+                throw Messages.error(loc.apply(row), "%s id '%s' is defined twice (first at %s); remove or"
                         + " rename one row", what, id.apply(row), first);
             }
         }
@@ -331,9 +334,9 @@ public final class PetabReader {
 
     private static void checkReferences(List<PetabMeasurement> measurements, List<PetabCondition> conditions,
             List<PetabObservable> observables) {
-        Set<String> conditionIds = new java.util.HashSet<>();
+        Set<String> conditionIds = new HashSet<>();
         conditions.forEach(c -> conditionIds.add(c.id()));
-        Set<String> observableIds = new java.util.HashSet<>();
+        Set<String> observableIds = new HashSet<>();
         observables.forEach(o -> observableIds.add(o.id()));
         Map<String, int[]> placeholders = new HashMap<>();
         for (PetabObservable o : observables) {
@@ -342,7 +345,7 @@ public final class PetabReader {
         }
         for (PetabMeasurement m : measurements) {
             if (!observableIds.contains(m.observableId())) {
-                throw UserInputException.of(m.location(), "observableId '%s' is not in the observable table%s;"
+                throw Messages.error(m.location(), "observableId '%s' is not in the observable table%s;"
                         + " add it there or correct the name", m.observableId(),
                         Spelling.didYouMean(m.observableId(), observableIds));
             }
@@ -357,10 +360,32 @@ public final class PetabReader {
         }
     }
 
+    /**
+     * Ids in observableParameters / noiseParameters must be rows of the parameter table (PEtab v1 specification,
+     * measurement table; from memory of the specification, and true of all 22 benchmark problems). Ids in the
+     * condition table are left to the model side, since they may also name model parameters.
+     */
+    private static void checkOverrideIds(List<PetabMeasurement> measurements, List<PetabParameter> parameters) {
+        Set<String> ids = new HashSet<>();
+        parameters.forEach(p -> ids.add(p.id()));
+        for (PetabMeasurement m : measurements) {
+            for (List<ValueRef> list : List.of(m.observableParameters(), m.noiseParameters())) {
+                for (ValueRef v : list) {
+                    if (!v.isNumber() && !ids.contains(v.parameterId())) {
+                        String column = list == m.observableParameters() ? "observableParameters" : "noiseParameters";
+                        throw Messages.error(m.location(), "column '%s': parameter '%s' is not in the parameter"
+                                + " table%s; add a row for it there or correct the name", column, v.parameterId(),
+                                Spelling.didYouMean(v.parameterId(), ids));
+                    }
+                }
+            }
+        }
+    }
+
     /** Highest N among placeholders {@code <kind>N_<observableId>} in the formula (PEtab v1 naming), or 0. */
     static int placeholderCount(String formula, String kind, String observableId) {
-        java.util.regex.Matcher mt = java.util.regex.Pattern.compile("\\b" + kind + "(\\d+)_"
-                + java.util.regex.Pattern.quote(observableId) + "\\b").matcher(formula);
+        Matcher mt = Pattern.compile("\\b" + kind + "(\\d+)_"
+                + Pattern.quote(observableId) + "\\b").matcher(formula);
         int max = 0;
         while (mt.find()) {
             max = Math.max(max, Integer.parseInt(mt.group(1)));
@@ -370,7 +395,7 @@ public final class PetabReader {
 
     private static void checkOverrideCount(PetabMeasurement m, String column, String kind, int given, int expected) {
         if (given != expected) {
-            throw UserInputException.of(m.location(), "column '%s' gives %d value(s) but observable '%s' has %d"
+            throw Messages.error(m.location(), "column '%s' gives %d value(s) but observable '%s' has %d"
                     + " placeholder(s) %s1_%s..; give exactly one value per placeholder, separated by ';'", column,
                     given, m.observableId(), expected, kind, m.observableId());
         }
@@ -378,7 +403,7 @@ public final class PetabReader {
 
     private static void checkCondition(String id, String column, PetabMeasurement m, Set<String> conditionIds) {
         if (!conditionIds.contains(id)) {
-            throw UserInputException.of(m.location(), "%s '%s' is not in the condition table%s; add the condition"
+            throw Messages.error(m.location(), "%s '%s' is not in the condition table%s; add the condition"
                     + " or correct the name", column, id, Spelling.didYouMean(id, conditionIds));
         }
     }

@@ -64,7 +64,7 @@ public final class ProblemFileReader {
         String src = yamlFile.toString();
         YamlNode root = YamlNode.parse(content, src);
         if (root.kind() == YamlNode.Kind.NULL) {
-            throw UserInputException.of(SourceLocation.ofFile(src),
+            throw Messages.error(SourceLocation.ofFile(src),
                     "the problem file is empty; start it with 'switchfit_format: 1' and 'model: <file.xml>'");
         }
         root.requireMap("switchfit_format: 1");
@@ -72,7 +72,7 @@ public final class ProblemFileReader {
         YamlNode versionNode = root.require("switchfit_format", "1");
         double version = versionNode.number("1");
         if (version != FORMAT_VERSION) {
-            throw UserInputException.of(versionNode.location(),
+            throw Messages.error(versionNode.location(),
                     "switchfit_format %s is not supported; this version reads format %d", versionNode.scalar("1"),
                     FORMAT_VERSION);
         }
@@ -135,7 +135,7 @@ public final class ProblemFileReader {
         String name = node.scalar("path/to/file");
         Path p = base.resolve(name).normalize();
         if (!Files.isRegularFile(p)) {
-            throw UserInputException.of(node.location(), "%s '%s' does not exist (looked for %s); correct the path,"
+            throw Messages.error(node.location(), "%s '%s' does not exist (looked for %s); correct the path,"
                     + " which is relative to the problem file's folder", what, name, p);
         }
         return p;
@@ -153,7 +153,7 @@ public final class ProblemFileReader {
                 String s = n.get("scale").scalar("log10");
                 scale = ParameterScale.fromToken(s);
                 if (scale == null) {
-                    throw UserInputException.of(n.get("scale").location(),
+                    throw Messages.error(n.get("scale").location(),
                             "parameter '%s': unknown scale '%s'%s; use lin, log or log10", id, s,
                             Spelling.didYouMean(s, List.of("lin", "log", "log10")));
                 }
@@ -172,20 +172,20 @@ public final class ProblemFileReader {
     static void checkBounds(String id, double lower, double upper, double start, ParameterScale scale,
             SourceLocation loc) {
         if (!(Double.isFinite(lower) && Double.isFinite(upper) && Double.isFinite(start))) {
-            throw UserInputException.of(loc, "parameter '%s': bounds and start must be finite numbers"
+            throw Messages.error(loc, "parameter '%s': bounds and start must be finite numbers"
                     + " (lower %s, upper %s, start %s); give finite values", id, DataNumbers.format(lower),
                     DataNumbers.format(upper), DataNumbers.format(start));
         }
         if (!(lower < upper)) {
-            throw UserInputException.of(loc, "parameter '%s': lower bound %s is not below upper bound %s;"
+            throw Messages.error(loc, "parameter '%s': lower bound %s is not below upper bound %s;"
                     + " swap them or widen the range", id, fmt(lower), fmt(upper));
         }
         if (scale.needsPositive() && !(lower > 0)) {
-            throw UserInputException.of(loc, "parameter '%s': lower bound %s is impossible on %s scale; use a"
+            throw Messages.error(loc, "parameter '%s': lower bound %s is impossible on %s scale; use a"
                     + " positive bound such as 1e-8, or scale lin", id, fmt(lower), scale.token());
         }
         if (!(start >= lower && start <= upper)) {
-            throw UserInputException.of(loc, "parameter '%s': start %s lies outside the bounds [%s, %s]; move the"
+            throw Messages.error(loc, "parameter '%s': start %s lies outside the bounds [%s, %s]; move the"
                     + " start inside or widen the bounds", id, fmt(start), fmt(lower), fmt(upper));
         }
     }
@@ -211,12 +211,12 @@ public final class ProblemFileReader {
                 b = n.number("sigma", "1.0");
                 break;
             default:
-                throw UserInputException.of(n.get("type").location(), "parameter '%s': unknown prior type '%s'%s;"
+                throw Messages.error(n.get("type").location(), "parameter '%s': unknown prior type '%s'%s;"
                         + " use normal (mean, sd) or lognormal (mu, sigma)", id, type,
                         Spelling.didYouMean(type, List.of("normal", "lognormal")));
         }
         if (!Double.isFinite(a) || !(b > 0) || Double.isInfinite(b)) {
-            throw UserInputException.of(n.location(), "parameter '%s': prior %s needs a finite centre and a positive"
+            throw Messages.error(n.location(), "parameter '%s': prior %s needs a finite centre and a positive"
                     + " finite spread (got %s, %s); correct the values", id, type, fmt(a), fmt(b));
         }
         return "normal".equals(type) ? Prior.normal(a, b) : Prior.logNormal(a, b);
@@ -244,14 +244,14 @@ public final class ProblemFileReader {
                 YamlNode at = d.require("at", "10");
                 double t = at.number("10");
                 if (!(t >= 0) || Double.isInfinite(t) || t < lastTime) {
-                    throw UserInputException.of(at.location(), "experiment '%s': dose time %s must be finite, at or"
+                    throw Messages.error(at.location(), "experiment '%s': dose time %s must be finite, at or"
                             + " after 0 and not before the previous dose; list doses in time order", id, fmt(t));
                 }
                 lastTime = t;
                 String target = d.id("target", "stimulus");
                 boolean set = d.has("set");
                 if (set == d.has("add")) {
-                    throw UserInputException.of(d.location(), "experiment '%s': a dose needs exactly one of 'set'"
+                    throw Messages.error(d.location(), "experiment '%s': a dose needs exactly one of 'set'"
                             + " (new value) or 'add' (increment); write e.g. {at: 10, target: %s, set: 5}", id,
                             target);
                 }
@@ -263,11 +263,11 @@ public final class ProblemFileReader {
         for (Map.Entry<String, YamlNode> e : settleNodes.entrySet()) {
             String target = e.getValue().scalar("rest");
             if (target.equals(e.getKey())) {
-                throw UserInputException.of(e.getValue().location(), "experiment '%s' settles in itself; name"
+                throw Messages.error(e.getValue().location(), "experiment '%s' settles in itself; name"
                         + " another experiment whose settings hold before time 0, or remove settle_in", target);
             }
             if (!seen.containsKey(target)) {
-                throw UserInputException.of(e.getValue().location(), "experiment '%s': settle_in names undeclared"
+                throw Messages.error(e.getValue().location(), "experiment '%s': settle_in names undeclared"
                         + " experiment '%s'%s; declare it under experiments", e.getKey(), target,
                         Spelling.didYouMean(target, seen.keySet()));
             }
@@ -283,7 +283,7 @@ public final class ProblemFileReader {
         YamlNode m = n.get(key).requireMap(example);
         for (Map.Entry<String, YamlNode> e : m.entries().entrySet()) {
             if (!ValueRef.isId(e.getKey())) {
-                throw UserInputException.of(e.getValue().location(), "'%s' is not a valid model id; use letters,"
+                throw Messages.error(e.getValue().location(), "'%s' is not a valid model id; use letters,"
                         + " digits and underscores, starting with a letter or underscore", e.getKey());
             }
             out.put(e.getKey(), e.getValue().valueRef("2.5 or k_est"));
@@ -301,7 +301,7 @@ public final class ProblemFileReader {
             checkUnique(seen, id, n, "observable");
             String formula = n.string("formula", "KinP / (Kin + KinP)").strip();
             if (formula.isEmpty()) {
-                throw UserInputException.of(n.get("formula").location(), "observable '%s' has an empty formula;"
+                throw Messages.error(n.get("formula").location(), "observable '%s' has an empty formula;"
                         + " write an expression in model ids such as KinP / (Kin + KinP)", id);
             }
             String scale = n.has("scale") ? n.id("scale", "s_act") : null;
@@ -329,7 +329,7 @@ public final class ProblemFileReader {
                 n.checkKeys(List.of("type", "sigma"));
                 return new NoiseModel.LogNormal(spread(n, "sigma", id));
             default:
-                throw UserInputException.of(n.get("type").location(), "observable '%s': unknown noise type '%s'%s;"
+                throw Messages.error(n.get("type").location(), "observable '%s': unknown noise type '%s'%s;"
                         + " use gaussian, proportional, laplace or lognormal", id, type,
                         Spelling.didYouMean(type, List.of("gaussian", "proportional", "laplace", "lognormal")));
         }
@@ -339,7 +339,7 @@ public final class ProblemFileReader {
         YamlNode v = n.require(key, "0.1 or sigma_" + id);
         ValueRef r = v.valueRef("0.1 or sigma_" + id);
         if (r.isNumber() && !(r.number() >= 0 && Double.isFinite(r.number()))) {
-            throw UserInputException.of(v.location(), "observable '%s': noise %s %s must be a finite number >= 0"
+            throw Messages.error(v.location(), "observable '%s': noise %s %s must be a finite number >= 0"
                     + " or an estimated parameter id; correct it", id, key, v.scalar("0.1"));
         }
         return r;
@@ -348,14 +348,14 @@ public final class ProblemFileReader {
     private static SwitchingThreshold inlineThreshold(YamlNode n, Set<String> experiments) {
         String exp = n.id("experiment", "rise");
         if (!experiments.contains(exp)) {
-            throw UserInputException.of(n.get("experiment").location(), "threshold refers to undeclared experiment"
+            throw Messages.error(n.get("experiment").location(), "threshold refers to undeclared experiment"
                     + " '%s'%s; declare it under experiments", exp, Spelling.didYouMean(exp, experiments));
         }
         String control = n.id("control", "stimulus");
         YamlNode dirNode = n.require("direction", "up");
         SwitchingThreshold.Direction dir = DataTableReader.direction(dirNode.scalar("up"));
         if (dir == null) {
-            throw UserInputException.of(dirNode.location(), "threshold direction '%s' is unknown; use up (switch-on"
+            throw Messages.error(dirNode.location(), "threshold direction '%s' is unknown; use up (switch-on"
                     + " while raising %s) or down (switch-off while lowering it)", dirNode.scalar("up"), control);
         }
         double value = n.number("value", "1.5");
@@ -367,7 +367,7 @@ public final class ProblemFileReader {
     private static void checkUnique(Map<String, Integer> seen, String id, YamlNode n, String what) {
         Integer first = seen.putIfAbsent(id, n.line());
         if (first != null) {
-            throw UserInputException.of(n.location(), "%s id '%s' is declared twice (first on line %d); rename one"
+            throw Messages.error(n.location(), "%s id '%s' is declared twice (first on line %d); rename one"
                     + " of them", what, id, first);
         }
     }

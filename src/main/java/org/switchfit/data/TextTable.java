@@ -65,7 +65,7 @@ public final class TextTable {
     public void requireColumns(String what, String... names) {
         for (String name : names) {
             if (!hasColumn(name)) {
-                throw UserInputException.of(SourceLocation.ofLine(source, 1),
+                throw Messages.error(SourceLocation.ofLine(source, 1),
                         "the %s has no column '%s'%s (columns: %s); add the column to the header line",
                         what, name, Spelling.didYouMean(name, columns), String.join(", ", columns));
             }
@@ -113,7 +113,7 @@ public final class TextTable {
         public String requireText(String column) {
             String t = text(column);
             if (t.isEmpty()) {
-                throw UserInputException.of(location(column), "column '%s' is empty; give a value", column);
+                throw Messages.error(location(column), "column '%s' is empty; give a value", column);
             }
             return t;
         }
@@ -133,9 +133,8 @@ public final class TextTable {
             try {
                 return DataNumbers.parse(t);
             } catch (NumberFormatException e) {
-                throw new UserInputException(location(column), String.format(java.util.Locale.ROOT,
-                        "column '%s': '%s' is not a number; write a decimal number such as 0.25 or 1e-3"
-                                + " (nan and inf are accepted)", column, t), e);
+                throw Messages.error(location(column), e, "column '%s': '%s' is not a number; write a decimal"
+                        + " number such as 0.25 or 1e-3 (nan and inf are accepted)", column, t);
             }
         }
     }

@@ -69,8 +69,8 @@ final class YamlNode {
             JsonLocation loc = e.getLocation();
             int line = loc == null ? 0 : loc.getLineNr();
             String detail = e.getOriginalMessage().split("\\R", 2)[0];
-            throw new UserInputException(SourceLocation.ofLine(source, line),
-                    "not valid YAML (" + detail + "); check indentation and quoting near this line", e);
+            throw Messages.error(SourceLocation.ofLine(source, line), e,
+                    "not valid YAML (%s); check indentation and quoting near this line", detail);
         } catch (IOException e) {
             throw new UserInputException(SourceLocation.ofFile(source), "cannot read YAML: " + e.getMessage(), e);
         }
@@ -88,7 +88,7 @@ final class YamlNode {
                 p.nextToken();
                 YamlNode child = read(p, source, path.isEmpty() ? key : path + "." + key);
                 if (m.containsKey(key)) {
-                    throw UserInputException.of(SourceLocation.ofLine(source, keyLoc.getLineNr()),
+                    throw Messages.error(SourceLocation.ofLine(source, keyLoc.getLineNr()),
                             "key '%s' appears twice%s; keep only one", key, path.isEmpty() ? "" : " in '" + path + "'");
                 }
                 m.put(key, child);
@@ -140,7 +140,7 @@ final class YamlNode {
     /** Fails unless this is a map; {@code example} shows the expected shape. */
     YamlNode requireMap(String example) {
         if (kind != Kind.MAP) {
-            throw UserInputException.of(location(), "%s must be a map of keys to values, such as %s", name(), example);
+            throw Messages.error(location(), "%s must be a map of keys to values, such as %s", name(), example);
         }
         return this;
     }
@@ -148,7 +148,7 @@ final class YamlNode {
     /** Fails unless this is a list. */
     List<YamlNode> requireList(String example) {
         if (kind != Kind.LIST) {
-            throw UserInputException.of(location(), "%s must be a list (lines starting with '- '), such as %s",
+            throw Messages.error(location(), "%s must be a list (lines starting with '- '), such as %s",
                     name(), example);
         }
         return list;
@@ -173,7 +173,7 @@ final class YamlNode {
     void checkKeys(Collection<String> allowed) {
         for (Map.Entry<String, YamlNode> e : entries().entrySet()) {
             if (!allowed.contains(e.getKey())) {
-                throw UserInputException.of(SourceLocation.ofLine(source, keyLines.get(e.getKey())),
+                throw Messages.error(SourceLocation.ofLine(source, keyLines.get(e.getKey())),
                         "unknown key '%s' in %s%s; allowed keys: %s", e.getKey(), name(),
                         Spelling.didYouMean(e.getKey(), allowed), String.join(", ", allowed));
             }
@@ -184,7 +184,7 @@ final class YamlNode {
     YamlNode require(String key, String example) {
         YamlNode n = get(key);
         if (n == null || n.kind == Kind.NULL) {
-            throw UserInputException.of(location(), "%s has no '%s'; add it, e.g. %s: %s", name(), key, key,
+            throw Messages.error(location(), "%s has no '%s'; add it, e.g. %s: %s", name(), key, key,
                     example);
         }
         return n;
@@ -193,7 +193,7 @@ final class YamlNode {
     /** The scalar text of this node. */
     String scalar(String example) {
         if (kind != Kind.SCALAR) {
-            throw UserInputException.of(location(), "%s must be a single value such as %s, not a %s", name(),
+            throw Messages.error(location(), "%s must be a single value such as %s, not a %s", name(),
                     example, kind.name().toLowerCase(Locale.ROOT));
         }
         return text;
@@ -215,8 +215,8 @@ final class YamlNode {
         try {
             return DataNumbers.parse(t);
         } catch (NumberFormatException e) {
-            throw new UserInputException(location(), String.format(Locale.ROOT,
-                    "%s: '%s' is not a number; write a number such as %s", name(), t, example), e);
+            throw Messages.error(location(), e, "%s: '%s' is not a number; write a number such as %s", name(), t,
+                    example);
         }
     }
 
@@ -230,7 +230,7 @@ final class YamlNode {
         YamlNode n = require(key, example);
         String t = n.scalar(example);
         if (!ValueRef.isId(t)) {
-            throw UserInputException.of(n.location(), "%s: '%s' is not a valid id; use letters, digits and"
+            throw Messages.error(n.location(), "%s: '%s' is not a valid id; use letters, digits and"
                     + " underscores, starting with a letter or underscore, e.g. %s", n.name(), t, example);
         }
         return t;
@@ -241,7 +241,7 @@ final class YamlNode {
         String t = scalar(example);
         ValueRef v = ValueRef.parse(t);
         if (v == null) {
-            throw UserInputException.of(location(), "%s: '%s' is neither a number nor a parameter id; write e.g. %s",
+            throw Messages.error(location(), "%s: '%s' is neither a number nor a parameter id; write e.g. %s",
                     name(), t, example);
         }
         return v;

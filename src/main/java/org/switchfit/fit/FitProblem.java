@@ -77,6 +77,7 @@ public final class FitProblem {
         return new FitProblem(other, ids, lower, upper, fixed, scales);
     }
 
+    /** The objective (shared, thread-safe). */
     public Objective objective() {
         return objective;
     }
@@ -95,38 +96,47 @@ public final class FitProblem {
         return c;
     }
 
+    /** Id of parameter {@code index}. */
     public String id(int index) {
         return ids[index];
     }
 
+    /** All parameter ids in θ order (copy). */
     public String[] ids() {
         return ids.clone();
     }
 
+    /** Lower bound of parameter {@code index} on the estimation scale (may be -∞). */
     public double lower(int index) {
         return lower[index];
     }
 
+    /** Upper bound of parameter {@code index} on the estimation scale (may be +∞). */
     public double upper(int index) {
         return upper[index];
     }
 
+    /** All lower bounds (copy). */
     public double[] lower() {
         return lower.clone();
     }
 
+    /** All upper bounds (copy). */
     public double[] upper() {
         return upper.clone();
     }
 
+    /** True when parameter {@code index} is held at its start value. */
     public boolean isFixed(int index) {
         return fixed[index];
     }
 
+    /** Estimation scale of parameter {@code index}. */
     public ParameterScale scale(int index) {
         return scales[index];
     }
 
+    /** All estimation scales (copy). */
     public ParameterScale[] scales() {
         return scales.clone();
     }

@@ -13,8 +13,8 @@ import java.util.List;
  * @param startsNearBest   number of non-failed starts with NLL within {@link #NEAR_BEST_TOLERANCE} of the best
  * @param wallTimeMillis   wall-clock time of this run (excludes starts resumed from storage; not reproducible)
  */
-public record FitResult(String[] parameterIds, ParameterScale[] scales, double[] bestTheta, double bestNll, List<StartResult> starts,
-                        int startsNearBest, long wallTimeMillis) {
+public record FitResult(String[] parameterIds, ParameterScale[] scales, double[] bestTheta, double bestNll,
+                        List<StartResult> starts, int startsNearBest, long wallTimeMillis) {
 
     /** NLL distance to the best that counts as "found the optimum again", 0.1 NLL units (common practice). */
     public static final double NEAR_BEST_TOLERANCE = 0.1;

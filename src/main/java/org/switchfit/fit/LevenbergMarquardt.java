@@ -22,9 +22,9 @@ import org.switchfit.objective.ObjectiveException;
  * <p>Stationarity is measured by the projected gradient {@code θ - P(θ - g)}, which vanishes at a local optimum
  * on the box even when g itself does not (optimum on a bound).
  *
- * <p>Evaluation failures ({@link ObjectiveException} or non-finite residuals) at a trial point count as a rejected
- * step; at the start point they propagate to the caller. Immutable and thread-safe: one configured instance can
- * serve every start on every thread.
+ * <p>Evaluation failures ({@link ObjectiveException} or non-finite residuals or Jacobian) at a trial point count
+ * as a rejected step; at the start point they propagate to the caller. Immutable and thread-safe: one configured
+ * instance can serve every start on every thread.
  */
 public final class LevenbergMarquardt {
 
@@ -52,17 +52,20 @@ public final class LevenbergMarquardt {
     /**
      * Defaults: 1000 iterations, 5000 evaluations, gradient tolerance 1e-10 (scaled, see
      * {@link #withGradientTolerance}),
-     * cost tolerance 1e-14 (relative change of ½|r|², about 100 ulp), step tolerance 1e-10 (relative to |θ|), initial λ 1e-3.
+     * cost tolerance 1e-14 (relative change of ½|r|², about 100 ulp), step tolerance 1e-10 (relative to |θ|),
+     * initial λ 1e-3.
      */
     public static LevenbergMarquardt defaults() {
         return new LevenbergMarquardt(1000, 5000, 1e-10, 1e-14, 1e-10, 1e-3);
     }
 
+    /** Limit on trial steps (accepted and rejected), n &gt; 0. */
     public LevenbergMarquardt withMaxIterations(int n) {
         return new LevenbergMarquardt(positive(n, "maxIterations"), maxEvaluations, gradientTolerance,
                 costTolerance, stepTolerance, initialDamping);
     }
 
+    /** Limit on objective evaluations, n &gt; 0. */
     public LevenbergMarquardt withMaxEvaluations(int n) {
         return new LevenbergMarquardt(maxIterations, positive(n, "maxEvaluations"), gradientTolerance,
                 costTolerance, stepTolerance, initialDamping);
@@ -90,6 +93,7 @@ public final class LevenbergMarquardt {
                 nonNegative(tol, "stepTolerance"), initialDamping);
     }
 
+    /** Initial λ relative to the column scaling D², λ &gt; 0. */
     public LevenbergMarquardt withInitialDamping(double lambda) {
         if (!(lambda > 0)) {
             throw new IllegalArgumentException("initialDamping must be > 0, got " + lambda);
@@ -98,10 +102,12 @@ public final class LevenbergMarquardt {
                 stepTolerance, lambda);
     }
 
+    /** The iteration limit. */
     public int maxIterations() {
         return maxIterations;
     }
 
+    /** The scaled projected-gradient tolerance. */
     public double gradientTolerance() {
         return gradientTolerance;
     }
@@ -171,12 +177,12 @@ public final class LevenbergMarquardt {
             while (why == null) {
                 gradient(g);
                 updateScaling(d);
-                if (scaledProjectedGradient(g, d) <= gradientTolerance) {
-                    why = Termination.GRADIENT;
-                    break;
-                }
                 if (cost == 0.0) {
                     why = Termination.ZERO_RESIDUAL;
+                    break;
+                }
+                if (scaledProjectedGradient(g, d) <= gradientTolerance) {
+                    why = Termination.GRADIENT;
                     break;
                 }
                 int[] work = workingSet(g);
@@ -227,19 +233,18 @@ public final class LevenbergMarquardt {
                     double rho = actual / pred;
                     if (converging) {
                         if (finite && actual >= 0 && sNorm2 > 0) {
-                            accept(xt);
+                            accept(xt); // on failure the run ends at the current point, converged all the same
                         }
                         why = Termination.COST_CHANGE;
                         break;
                     }
-                    if (finite && rho > ACCEPT_RATIO) {
+                    double oldCost = cost;
+                    double xNorm = norm(x);
+                    if (finite && rho > ACCEPT_RATIO && accept(xt)) {
                         accepted = true;
                         double t = 2 * rho - 1;
                         lambda = Math.max(LAMBDA_MIN, lambda * Math.max(1.0 / 3.0, 1 - t * t * t));
                         nu = 2;
-                        double oldCost = cost;
-                        double xNorm = norm(x);
-                        accept(xt);
                         if (Math.abs(actual) <= costTolerance * oldCost && pred <= costTolerance * oldCost
                                 && rho <= 2) {
                             why = Termination.COST_CHANGE;
@@ -270,21 +275,30 @@ public final class LevenbergMarquardt {
             return new LocalFit(x, nll, why, iters, evals, jevals, pgNorm, active);
         }
 
-        /** Moves to xt and evaluates residuals and Jacobian there. */
-        private void accept(double[] xt) {
-            x = xt;
+        /**
+         * Evaluates residuals and Jacobian at xt and moves there; returns false (state unchanged) when that
+         * evaluation fails or is non-finite, so the caller can treat the step as rejected.
+         */
+        private boolean accept(double[] xt) {
             double[] rNew = new double[m];
+            double[] jNew = new double[m * n];
+            double v;
+            evals++;
+            jevals++;
             try {
-                evals++;
-                jevals++;
-                nll = obj.evaluate(x, rNew, jac);
+                v = obj.evaluate(xt, rNew, jNew);
             } catch (ObjectiveException e) {
-                throw new ObjectiveException("Jacobian failed at an accepted point where the residuals"
-                        + " were finite: " + e.getMessage(), e);
+                return false;
             }
+            if (!Double.isFinite(v) || !Double.isFinite(halfSquare(rNew)) || firstNonFinite(jNew) >= 0) {
+                return false;
+            }
+            x = xt;
             r = rNew;
+            jac = jNew;
+            nll = v;
             cost = halfSquare(r);
-            checkFinite(x);
+            return true;
         }
 
         private double evalStrict(double[] at, double[] res, double[] jj) {
@@ -302,12 +316,10 @@ public final class LevenbergMarquardt {
         }
 
         private void checkFinite(double[] at) {
-            for (int i = 0; i < jac.length; i++) {
-                if (!Double.isFinite(jac[i])) {
-                    int row = i / n;
-                    throw new ObjectiveException(String.format(Locale.ROOT,
-                            "non-finite Jacobian entry d r[%d] / d %s", row, problem.id(i % n)));
-                }
+            int i = firstNonFinite(jac);
+            if (i >= 0) {
+                throw new ObjectiveException(String.format(Locale.ROOT,
+                        "non-finite Jacobian entry d r[%d] / d %s at the start point", i / n, problem.id(i % n)));
             }
         }
 
@@ -421,6 +433,15 @@ public final class LevenbergMarquardt {
             }
             return 0.5 * red;
         }
+    }
+
+    private static int firstNonFinite(double[] a) {
+        for (int i = 0; i < a.length; i++) {
+            if (!Double.isFinite(a[i])) {
+                return i;
+            }
+        }
+        return -1;
     }
 
     static double halfSquare(double[] r) {

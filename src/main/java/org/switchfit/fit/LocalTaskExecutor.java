@@ -37,6 +37,7 @@ public final class LocalTaskExecutor implements TaskExecutor {
         return new LocalTaskExecutor(1);
     }
 
+    /** Number of worker threads. */
     public int threads() {
         return threads;
     }

@@ -36,10 +36,12 @@ public final class Multistart {
         return new Multistart(LevenbergMarquardt.defaults(), 20, 1L, StartSampling.LATIN_HYPERCUBE);
     }
 
+    /** The local optimizer used for every start. */
     public Multistart withOptimizer(LevenbergMarquardt lm) {
         return new Multistart(lm, starts, seed, sampling);
     }
 
+    /** Number of starts, n ≥ 1 (start 0 is the initial guess when one is given). */
     public Multistart withStarts(int n) {
         if (n < 1) {
             throw new IllegalArgumentException("starts must be >= 1, got " + n);
@@ -47,22 +49,27 @@ public final class Multistart {
         return new Multistart(optimizer, n, seed, sampling);
     }
 
+    /** Seed of the start design and of the per-start streams. */
     public Multistart withSeed(long s) {
         return new Multistart(optimizer, starts, s, sampling);
     }
 
+    /** Start design. */
     public Multistart withSampling(StartSampling s) {
         return new Multistart(optimizer, starts, seed, s);
     }
 
+    /** The local optimizer. */
     public LevenbergMarquardt optimizer() {
         return optimizer;
     }
 
+    /** Number of starts. */
     public int starts() {
         return starts;
     }
 
+    /** The seed. */
     public long seed() {
         return seed;
     }

@@ -10,11 +10,12 @@ import org.switchfit.objective.ObjectiveException;
  * parameters from a predicted warm start, until the likelihood ratio exceeds the largest threshold or a limit is
  * reached. Package-private; confined to one thread.
  *
- * <p>Step control: the first step is {@code σ_z √target} from the local curvature (σ_z the delta-method standard
- * error, so the first step raises Δχ² by about {@code target}); a step raising Δχ² by more than {@code target} is
- * halved and retried, one raising it by less than a quarter of it is doubled for the next step, capped at
- * {@code maxStep}. The warm start is the linear extrapolation of θ(z) through the last two points (for the first
- * step: the curvature predictor dθ/dz = H⁺e / (eᵀH⁺e)).
+ * <p>Step control works on the root {@code ρ = √max(Δχ², 0)}, which is linear in z for a quadratic profile: the
+ * first step is {@code σ_z · target} from the local curvature (σ_z the delta-method standard error, so ρ rises by
+ * about {@code target}); a step raising ρ by more than twice {@code target} is halved and retried, one raising it
+ * by less than half of it is doubled for the next step, capped at {@code maxStep}. The warm start is the linear
+ * extrapolation of θ(z) through the last two points (for the first step: the curvature predictor
+ * dθ/dz = H⁺e / (eᵀH⁺e)).
  *
  * <p>Crossings of a threshold t between two traced points are refined by the Illinois variant of regula falsi
  * (Dowell and Jarratt 1971, BIT 11:168-174, doi:10.1007/BF01934364) on {@code √Δχ²(z) - √t}, which is linear in z
@@ -43,6 +44,7 @@ final class ProfileTracer {
 
     private static final double CROSSING_TOL = 1e-9;
     private static final int MAX_REFINE = 60;
+    private static final int MAX_INFEASIBLE_HALVINGS = 8;
 
     private final Slice slice;
     private final double nllStar;
@@ -71,12 +73,13 @@ final class ProfileTracer {
     Side trace(ProfilePoint p0, int dir, double step0, double maxStep, double[] slope0) {
         Side side = new Side();
         double limit = dir > 0 ? slice.upperLimit() : slice.lowerLimit();
-        double minStep = Math.max(1e-9 * maxStep, 1e-13 * (1 + Math.abs(p0.value())));
+        double minStep = Math.max(Math.min(1e-9 * maxStep, 1e-6 * step0), 1e-13 * (1 + Math.abs(p0.value())));
         double step = Math.min(step0, maxStep);
         ProfilePoint last = p0;
         double[] slope = slope0.clone();
         int accepted = 0;
         int attempts = 0;
+        int infeasible = 0;
         if (dir * (limit - p0.value()) <= 0) {
             side.status = SideStatus.OPEN_AT_BOUND;
             return side;
@@ -96,7 +99,18 @@ final class ProfileTracer {
             double[] warm = predict(last, slope, z);
             ProfilePoint p;
             try {
-                p = slice.solve(z, warm);
+                p = solveWithFallback(z, warm, last.theta());
+            } catch (InfeasibleValueException e) {
+                // The value is out of reach inside the parameter bounds: the reachable range ends between
+                // the last point and z. Approach it by at most MAX_INFEASIBLE_HALVINGS halvings in total, then
+                // report the side as bounded.
+                if (++infeasible <= MAX_INFEASIBLE_HALVINGS && step > minStep) {
+                    step = Math.max(minStep, step / 2);
+                    continue;
+                }
+                side.status = SideStatus.OPEN_AT_BOUND;
+                side.message = e.getMessage();
+                return side;
             } catch (ObjectiveException e) {
                 if (step > minStep) {
                     step = Math.max(minStep, step / 4);
@@ -110,8 +124,8 @@ final class ProfileTracer {
                 throw new BetterOptimumFound(p);
             }
             double d = p.deltaChi2(nllStar);
-            double inc = d - last.deltaChi2(nllStar);
-            if (inc > target && step > minStep && !(atLimit && step <= minStep)) {
+            double inc = root(p) - root(last);
+            if (inc > 2 * target && step > minStep) {
                 step = Math.max(minStep, step / 2);
                 continue;
             }
@@ -132,7 +146,7 @@ final class ProfileTracer {
                 side.status = SideStatus.OPEN_AT_BOUND;
                 return side;
             }
-            if (inc < 0.25 * target) {
+            if (inc < 0.5 * target) {
                 step = Math.min(maxStep, 2 * step);
             }
         }
@@ -183,6 +197,9 @@ final class ProfileTracer {
                 break;
             }
             extra.add(p);
+            // The slice may return a point at a value slightly off the request (prediction constraint met to
+            // its noise floor); its own value is the exact abscissa of its NLL.
+            z = p.value();
             double d = p.deltaChi2(nllStar);
             if (Math.abs(d - t) <= CROSSING_TOL) {
                 return z;
@@ -200,6 +217,17 @@ final class ProfileTracer {
             pb = p;
         }
         return Math.abs(fa) < Math.abs(fb) ? za : zb;
+    }
+
+    /** Solves from the predicted warm start; when that start cannot be evaluated, retries from the last point. */
+    private ProfilePoint solveWithFallback(double z, double[] warm, double[] lastTheta) {
+        try {
+            return slice.solve(z, warm);
+        } catch (InfeasibleValueException e) {
+            throw e;
+        } catch (ObjectiveException e) {
+            return slice.solve(z, lastTheta);
+        }
     }
 
     private double root(ProfilePoint p) {

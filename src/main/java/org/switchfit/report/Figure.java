@@ -1,8 +1,10 @@
 package org.switchfit.report;
 
+import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.Collections;
 import java.util.List;
+import org.switchfit.util.AtomicFiles;
 
 /**
  * A figure: one or more {@link Plot} panels in a grid, rendered to a self-contained SVG string. Fluent and mutable
@@ -10,7 +12,7 @@ import java.util.List;
  *
  * <p>The SVG has a viewBox, an accessible {@code <title>} and {@code <desc>} (referenced by {@code aria-labelledby}),
  * a {@code data-figure} attribute carrying the id (the headless-browser check looks for it), generic font families
- * only, and no scripts, styles sheets or external references. Element ids inside the SVG are prefixed with the
+ * only, and no scripts, style sheets or external references. Element ids inside the SVG are prefixed with the
  * figure id, so several figures can be inlined in one HTML page as long as their ids differ.
  */
 public final class Figure {
@@ -117,6 +119,14 @@ public final class Figure {
                     .append(p.y().scale() == Axis.Scale.LOG10 ? ", log scale" : "").append(')');
         }
         return sb.toString();
+    }
+
+    /**
+     * Writes the figure as a standalone SVG file (XML prolog plus {@link #toSvg()}, UTF-8) atomically, creating
+     * parent directories.
+     */
+    public void writeSvg(Path file) {
+        AtomicFiles.writeString(file, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n" + toSvg());
     }
 
     /** Renders the figure as a standalone SVG document fragment (an {@code <svg>} element, no XML prolog). */

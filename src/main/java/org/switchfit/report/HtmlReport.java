@@ -17,7 +17,8 @@ import org.switchfit.util.AtomicFiles;
  *
  * <p>The page carries {@code <meta name="switchfit-figures" content="id1 id2 ...">} listing every figure id, so a
  * headless-browser check ({@code .ci/render-report.sh}) can verify that each {@code <svg data-figure="id">} is
- * present and drawn.
+ * present and drawn. The page is also well-formed XML (void elements self-closed, only XML entities), which the
+ * tests use to check escaping.
  */
 public final class HtmlReport {
     /** Kind of a note box. */
@@ -89,7 +90,8 @@ public final class HtmlReport {
     }
 
     /**
-     * Adds a figure with a caption (the figure title when caption is null); returns this.
+     * Adds a figure with a caption (the figure title when caption is null); returns this. The figure is rendered
+     * now, so later changes to it do not show.
      *
      * @throws IllegalArgumentException if a figure with the same id is already in the report
      */

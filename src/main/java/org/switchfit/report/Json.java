@@ -4,6 +4,7 @@ import com.fasterxml.jackson.core.JsonGenerator;
 import com.fasterxml.jackson.core.JsonParser;
 import com.fasterxml.jackson.core.JsonProcessingException;
 import com.fasterxml.jackson.core.JsonToken;
+import com.fasterxml.jackson.core.json.JsonReadFeature;
 import com.fasterxml.jackson.core.util.DefaultIndenter;
 import com.fasterxml.jackson.core.util.DefaultPrettyPrinter;
 import com.fasterxml.jackson.databind.DeserializationContext;
@@ -36,7 +37,8 @@ import org.switchfit.util.AtomicFiles;
  *       {@code float}, {@code Double}, {@code Float} and {@code double[]} values are written as {@code null}.
  *       Reading {@code null} into a {@code double} or a {@code double[]} element gives NaN (the sign of an infinity
  *       is not kept); into a boxed {@code Double} it gives null, as Jackson does. A reader in another language
- *       should treat null in a numeric field as "not a finite number".</li>
+ *       should treat null in a numeric field as "not a finite number". For files written by other tools, the
+ *       non-standard tokens {@code NaN}, {@code Infinity} and {@code -Infinity} are accepted when reading.</li>
  *   <li>Unknown properties fail the read, so a result file from an incompatible version is not half-read.</li>
  * </ul>
  *
@@ -70,6 +72,7 @@ public final class Json {
                 .enable(SerializationFeature.ORDER_MAP_ENTRIES_BY_KEYS)
                 .enable(MapperFeature.SORT_PROPERTIES_ALPHABETICALLY)
                 .enable(DeserializationFeature.FAIL_ON_UNKNOWN_PROPERTIES)
+                .enable(JsonReadFeature.ALLOW_NON_NUMERIC_NUMBERS)
                 .defaultPrettyPrinter(pp)
                 .addModule(m)
                 .build();

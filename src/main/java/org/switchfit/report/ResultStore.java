@@ -6,11 +6,13 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.Collections;
+import java.util.HashSet;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 import java.util.Optional;
+import java.util.Set;
 import java.util.regex.Pattern;
 import java.util.stream.Stream;
 import org.switchfit.util.SourceLocation;
@@ -119,6 +121,21 @@ public final class ResultStore {
         }
         Collections.sort(keys);
         return keys;
+    }
+
+    /**
+     * The keys among {@code wanted} that have no stored result yet, in the order given: the tasks a resumed run
+     * still has to do.
+     */
+    public List<String> missing(List<String> wanted) {
+        Set<String> have = new HashSet<>(keys());
+        List<String> out = new ArrayList<>();
+        for (String k : wanted) {
+            if (!have.contains(checkKey(k))) {
+                out.add(k);
+            }
+        }
+        return out;
     }
 
     /** All stored results read as {@code type}, keyed and ordered by key. */

@@ -68,7 +68,8 @@ final class SvgRenderer {
     static TickLabel tickLabel(double v, Ticks t) {
         if (t.log10()) {
             int e = Ticks.floorLog10(v);
-            if (e >= -2 && e <= 3) {
+            // One style per axis: plain decimals only when every tick of the axis is within 0.01..1000.
+            if (Ticks.floorLog10(t.lo()) >= -2 && Ticks.floorLog10(t.hi()) <= 3) {
                 return new TickLabel(e < 0 ? String.format(Locale.ROOT, "%." + (-e) + "f", v)
                         : String.format(Locale.ROOT, "%.0f", v), "");
             }

@@ -13,6 +13,15 @@ public final class AtomicFiles {
     private AtomicFiles() {
     }
 
+    /** Temp files are created owner-only (0600); results are meant to be shared, so widen to 0644 where POSIX. */
+    private static void setReadable(Path tmp) throws IOException {
+        try {
+            Files.setPosixFilePermissions(tmp, java.nio.file.attribute.PosixFilePermissions.fromString("rw-r--r--"));
+        } catch (UnsupportedOperationException e) {
+            // not a POSIX file system: keep the platform default
+        }
+    }
+
     /** Writes {@code content} (UTF-8) to {@code target} atomically, creating parent directories. */
     public static void writeString(Path target, String content) {
         writeBytes(target, content.getBytes(StandardCharsets.UTF_8));
@@ -27,6 +36,7 @@ public final class AtomicFiles {
             Path tmp = Files.createTempFile(dir, "." + abs.getFileName(), ".tmp");
             try {
                 Files.write(tmp, bytes);
+                setReadable(tmp);
                 try {
                     Files.move(tmp, abs, StandardCopyOption.ATOMIC_MOVE, StandardCopyOption.REPLACE_EXISTING);
                 } catch (AtomicMoveNotSupportedException e) {

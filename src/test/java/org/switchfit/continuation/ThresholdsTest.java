@@ -55,6 +55,7 @@ class ThresholdsTest {
         assertNull(on.fold());
         assertEquals(aStar, on.value(), REL_TOL_STEEPEST * aStar);
         assertEquals(aStar, off.value(), REL_TOL_STEEPEST * aStar);
+        // State at the steepest point follows λ* (1e-9 relative) through dx/dλ ~ 20: 1e-7 absolute.
         assertEquals(k / Math.sqrt(3), on.state()[0], 1e-7);
         double[] g = on.gradient();
         assertEquals(0.0, g[0], 0.0);
@@ -68,15 +69,17 @@ class ThresholdsTest {
         // Cubic -x^3 + q x + p, readout x (closed form): for q < 0 the branch p(x) = x^3 - q x is steepest in
         // x at x = 0, so the threshold is p = 0; for q > 0 switch-on is the fold at 2 (q/3)^{3/2}, which tends to
         // 0 as q -> 0+.
-        // Small steps: for q = 0.01 the S-shaped part spans only 0.12 in x, and larger predictor steps can jump it.
-        Thresholds th = new Thresholds(ContinuationSettings.of(-1, 1).withSteps(1e-3, 1e-9, 1e-2));
+        // Default steps (max 0.1): for q = 0.01 the S-shaped part spans only 0.12 in x, so this also checks that
+        // the corrector-distance limit stops the predictor from jumping across it.
+        Thresholds th = new Thresholds(ContinuationSettings.of(-1, 1));
         for (double q : new double[] {-0.1, -0.01}) {
             Threshold t = th.switchOn(TestSystems.CUBIC, new double[] {-1}, new double[] {0, q}, 0,
                     new double[] {1});
             assertEquals(Threshold.Kind.STEEPEST_RESPONSE, t.kind());
+            // By symmetry g(0) = 0 exactly; the secant stops within 1e-13 relative of the bracket: 1e-10 absolute.
             assertEquals(0.0, t.value(), 1e-10);
         }
-        for (double q : new double[] {0.01, 0.1}) {
+        for (double q : new double[] {0.0001, 0.01, 0.1}) {
             Threshold t = th.switchOn(TestSystems.CUBIC, new double[] {-1}, new double[] {0, q}, 0,
                     new double[] {1});
             assertEquals(Threshold.Kind.FOLD, t.kind());

@@ -26,7 +26,7 @@ class PetabBenchmarkCollectionTest {
     private static final Path ROOT = locate();
 
     private static Path locate() {
-        for (Path p : List.of(Path.of("../shared/benchmarks/problems"), Path.of("/work/shared/benchmarks/problems"),
+        for (Path p : List.of(Path.of("../shared/benchmarks/problems"),
                 Path.of("../../shared/benchmarks/problems"))) {
             if (Files.isDirectory(p)) {
                 return p;

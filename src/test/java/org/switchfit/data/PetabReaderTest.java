@@ -68,6 +68,9 @@ class PetabReaderTest {
         assertTrue(p.measurements().get(3).observableParameters().isEmpty());
 
         assertEquals(6, p.parameters().size());
+        assertEquals("fed", p.condition("fed").orElseThrow().id());
+        assertEquals(ParameterScale.LOG10, p.observable("p_log").orElseThrow().transformation());
+        assertTrue(p.parameter("sd_p").isPresent() && p.parameter("nope").isEmpty());
         assertEquals(4, p.estimatedParameters().size());
         PetabParameter k = p.parameters().get(0);
         assertEquals(ParameterScale.LOG10, k.scale());
@@ -132,6 +135,9 @@ class PetabReaderTest {
         fails(f, "line 3", "'noiseParameters' gives 0 value(s) but observable 'q_obs' has 1");
         replaceLine(f.resolve("measurements.tsv"), 3, "p_log\t\tfed\t1\t2.5\t\t0.3\t\t");
         fails(f, "line 3", "'noiseParameters' gives 1 value(s) but observable 'p_log' has 0");
+        replaceLine(f.resolve("measurements.tsv"), 3, "q_obs\t\tfed\t1\t2.5\tscale_q;1\tsd_qq\t\t");
+        fails(f, "measurements.tsv, line 3", "column 'noiseParameters': parameter 'sd_qq' is not in the parameter"
+                + " table (did you mean 'sd_q'?)", "add a row for it");
     }
 
     @Test

@@ -120,6 +120,42 @@ class BoundedLevenbergMarquardtTest {
     }
 
     @Test
+    void jacobianFailureAtATrialPointIsARejectedStep() {
+        CurveObjective base = line();
+        int[] thrown = new int[1];
+        org.switchfit.objective.Objective jacobianFails = new org.switchfit.objective.Objective() {
+            @Override
+            public int parameterCount() {
+                return 2;
+            }
+
+            @Override
+            public int residualCount() {
+                return base.residualCount();
+            }
+
+            @Override
+            public double evaluate(double[] theta, double[] residuals, double[] jacobian) {
+                // Residuals evaluate everywhere; the Jacobian fails in a band the damped path must cross.
+                if (jacobian != null && theta[1] > -2 && theta[1] < -1.5) {
+                    thrown[0]++;
+                    throw new ObjectiveException("sensitivities failed for -2 < b < -1.5");
+                }
+                return base.evaluate(theta, residuals, jacobian);
+            }
+        };
+        FitProblem p = FitProblem.of(jacobianFails, new String[] {"a", "b"}, new double[] {-10, -10},
+                new double[] {10, 10});
+        // Heavy initial damping makes short gradient-like steps from b = -9 upwards, so an accepted trial lands
+        // in the band: it must become a rejected step, not an abort. Tolerance 1e-9 as above.
+        LocalFit f = LevenbergMarquardt.defaults().withInitialDamping(100).minimize(p, new double[] {8, -9});
+        assertTrue(thrown[0] >= 1, "the failure path was exercised");
+        assertTrue(f.termination().converged(), f.termination().toString());
+        assertEquals(1.0, f.theta()[0], 1e-9);
+        assertEquals(2.0, f.theta()[1], 1e-9);
+    }
+
+    @Test
     void reportedEvaluationCountsAreExact() {
         CurveObjective base = line();
         int[] calls = new int[2];

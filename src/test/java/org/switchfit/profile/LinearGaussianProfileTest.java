@@ -135,6 +135,20 @@ class LinearGaussianProfileTest {
     }
 
     @Test
+    void pointwiseOnlyModeGivesTheSamePointwiseIntervalWithFewerSolves() {
+        FitProblem p = problem();
+        LocalFit fit = LevenbergMarquardt.defaults().minimize(p, new double[] {0, 0});
+        Profile both = ProfileLikelihood.defaults().profileParameter(p, fit.theta(), 1);
+        Profile only = ProfileLikelihood.defaults().withSimultaneousIntervals(false).profileParameter(p,
+                fit.theta(), 1);
+        // Same crossing, refined independently: 1e-9 absolute (both within ~1e-12 of the exact end here).
+        assertEquals(both.pointwise().lower(), only.pointwise().lower(), 1e-9);
+        assertEquals(both.pointwise().upper(), only.pointwise().upper(), 1e-9);
+        assertTrue(Double.isNaN(only.simultaneous().lower()) && !only.simultaneous().closed());
+        assertTrue(only.solves() < both.solves(), only.solves() + " vs " + both.solves());
+    }
+
+    @Test
     void linearScaleEndsUseTheScaleDescriptor() {
         FitProblem p = problem().withScales(ParameterScale.LOG10, ParameterScale.LN);
         LocalFit fit = LevenbergMarquardt.defaults().minimize(p, new double[] {0, 0});

@@ -17,6 +17,7 @@ import org.switchfit.fit.LocalTaskExecutor;
 import org.switchfit.fit.ParameterScale;
 import org.switchfit.objective.Objective;
 import org.switchfit.objective.ObjectiveException;
+import org.switchfit.objective.Prediction;
 
 /** Profiles as parallel tasks, resume, failures, and a practically non-identifiable profile. */
 class ProfileRunTest {
@@ -74,11 +75,12 @@ class ProfileRunTest {
         }
     }
 
-    @Test
-    void saturatedRateIsPracticallyNonIdentifiable() {
-        // y = A (1 - exp(-k t)) observed only at t >= 2 with k = 5: exp(-10) ~ 5e-5 << σ / A = 0.02, so every
-        // k above about 2 fits equally well (open upper side), while small k is ruled out (closed lower side).
-        // Raue et al. 2009, Fig. 1, practically non-identifiable case.
+    /**
+     * y = A (1 - exp(-k t)) observed only at t >= 2 with k = 5, θ = (A, log10 k): exp(-10) ~ 5e-5 << σ / A = 0.02,
+     * so every k above about 2 fits equally well (open upper side), while small k is ruled out (closed lower
+     * side). Raue et al. 2009, Fig. 1, practically non-identifiable case.
+     */
+    static FitProblem saturated() {
         SplittableRandom rnd = new SplittableRandom(5);
         double[] t = {2, 2.5, 3, 3.5, 4, 4.5, 5, 5.5, 6};
         double[] y = new double[t.length];
@@ -93,8 +95,13 @@ class ProfileRunTest {
             g[1] = b[0] * x * e * k * ln10;
             return b[0] * (1 - e);
         });
-        FitProblem p = FitProblem.of(obj, new String[] {"A", "k"}, new double[] {0.1, -2}, new double[] {10, 2})
+        return FitProblem.of(obj, new String[] {"A", "k"}, new double[] {0.1, -2}, new double[] {10, 2})
                 .withScales(ParameterScale.LINEAR, ParameterScale.LOG10);
+    }
+
+    @Test
+    void saturatedRateIsPracticallyNonIdentifiable() {
+        FitProblem p = saturated();
         LocalFit fit = LevenbergMarquardt.defaults().minimize(p, new double[] {1, 0.5});
         Profile pk = ProfileLikelihood.defaults().profileParameter(p, fit.theta(), 1);
         assertEquals(Identifiability.PRACTICALLY_NONIDENTIFIABLE, pk.identifiability());
@@ -105,6 +112,66 @@ class ProfileRunTest {
         assertEquals(Math.pow(10, pk.pointwise().lower()), pk.pointwise().lowerLinear(), 0.0);
         Profile pa = ProfileLikelihood.defaults().profileParameter(p, fit.theta(), 0);
         assertEquals(Identifiability.IDENTIFIABLE, pa.identifiability());
+    }
+
+    @Test
+    void predictionOutOfReachInsideBoundsEndsTheSideAtTheBound() {
+        // g = log10 k in the saturated model: values above the parameter's upper bound 2 cannot be attained, so
+        // the prediction profile's upper side must end open at the bound, while its lower end equals the
+        // parameter profile's (same quantity; 1e-6 absolute as in the other prediction tests).
+        FitProblem p = saturated();
+        LocalFit fit = LevenbergMarquardt.defaults().minimize(p, new double[] {1, 0.5});
+        Prediction logK = new Prediction() {
+            @Override
+            public int parameterCount() {
+                return 2;
+            }
+
+            @Override
+            public double evaluate(double[] theta, double[] gradient) {
+                if (gradient != null) {
+                    gradient[0] = 0;
+                    gradient[1] = 1;
+                }
+                return theta[1];
+            }
+        };
+        ProfileLikelihood pl = ProfileLikelihood.defaults();
+        Profile pg = pl.profilePrediction(p, fit.theta(), logK, "log10 k", Double.NEGATIVE_INFINITY,
+                Double.POSITIVE_INFINITY);
+        Profile pk = pl.profileParameter(p, fit.theta(), 1);
+        assertEquals(SideStatus.OPEN_AT_BOUND, pg.upperSide(), pg.message());
+        assertTrue(pg.message().contains("not reached inside the parameter bounds"), pg.message());
+        assertEquals(Identifiability.PRACTICALLY_NONIDENTIFIABLE, pg.identifiability());
+        assertEquals(pk.pointwise().lower(), pg.pointwise().lower(), 1e-6);
+        assertEquals(Double.POSITIVE_INFINITY, pg.pointwise().upper());
+    }
+
+    @Test
+    void optimumOnABoundGivesASideOpenAtThatBound() {
+        // Straight line through exact data y = 1 + 2x with b <= 1.5: the optimum sits on b's upper bound
+        // (see BoundedLevenbergMarquardtTest), so b's profile is open there and closes below, and a's profile,
+        // re-optimising b under its bound, stays identifiable.
+        CurveObjective line = new CurveObjective(new double[] {0, 1, 2, 3, 4}, new double[] {1, 3, 5, 7, 9}, 0.5,
+                2, (x, b, g) -> {
+                    g[0] = 1;
+                    g[1] = x;
+                    return b[0] + b[1] * x;
+                });
+        FitProblem p = FitProblem.of(line, new String[] {"a", "b"}, new double[] {-10, -10},
+                new double[] {10, 1.5});
+        LocalFit fit = LevenbergMarquardt.defaults().minimize(p, new double[] {0, 0});
+        Profile pb = ProfileLikelihood.defaults().profileParameter(p, fit.theta(), 1);
+        assertEquals(SideStatus.OPEN_AT_BOUND, pb.upperSide());
+        assertEquals(SideStatus.CLOSED, pb.lowerSide());
+        assertEquals(Double.POSITIVE_INFINITY, pb.pointwise().upper());
+        assertEquals(Identifiability.PRACTICALLY_NONIDENTIFIABLE, pb.identifiability());
+        assertTrue(pb.pointwise().lower() < 1.5);
+        Profile pa = ProfileLikelihood.defaults().profileParameter(p, fit.theta(), 0);
+        assertEquals(Identifiability.IDENTIFIABLE, pa.identifiability());
+        for (ProfilePoint pt : pa.points()) {
+            assertTrue(pt.theta()[1] <= 1.5, "b respects its bound along a's profile");
+        }
     }
 
     static void assertSameProfile(Profile a, Profile b) {

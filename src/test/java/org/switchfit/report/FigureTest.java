@@ -6,11 +6,16 @@ import static org.junit.jupiter.api.Assertions.assertNotNull;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import java.nio.file.Files;
+import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.HashSet;
 import java.util.List;
 import java.util.Set;
+import java.util.stream.Stream;
+import javax.xml.parsers.DocumentBuilderFactory;
 import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
 import org.w3c.dom.Document;
 import org.w3c.dom.Element;
 import org.w3c.dom.Node;
@@ -203,6 +208,19 @@ class FigureTest {
     }
 
     @Test
+    void writesStandaloneSvgFile(@TempDir Path dir) throws Exception {
+        Path f = dir.resolve("figs/a.svg");
+        Figure.of("a", "A \u00B5").add(new Plot("", Axis.linear("x"), Axis.linear("y"))).writeSvg(f);
+        DocumentBuilderFactory dbf = DocumentBuilderFactory.newInstance();
+        dbf.setNamespaceAware(true);
+        Document d = dbf.newDocumentBuilder().parse(f.toFile());
+        assertEquals("A \u00B5", all(d.getDocumentElement(), "title").get(0).getTextContent());
+        try (Stream<Path> s = Files.list(f.getParent())) {
+            assertEquals(1, s.count(), "no temporary files left");
+        }
+    }
+
+    @Test
     void emptyPlotStillRenders() throws Exception {
         Document d = svg(Figure.of("empty", "").add(new Plot("", Axis.log10(""), Axis.linear(""))));
         assertEquals("svg", d.getDocumentElement().getLocalName());
@@ -234,5 +252,10 @@ class FigureTest {
         Ticks lg = Ticks.log10(0.01, 100, 6);
         assertEquals("0.01", SvgRenderer.tickLabel(0.01, lg).base());
         assertEquals("100", SvgRenderer.tickLabel(100, lg).base());
+        // An axis reaching beyond 0.01..1000 writes every tick as a power, including 0.01 and 1.
+        Ticks wide = Ticks.log10(1e-4, 0.1, 6);
+        assertEquals("10", SvgRenderer.tickLabel(0.01, wide).base());
+        assertEquals("\u22122", SvgRenderer.tickLabel(0.01, wide).sup());
+        assertEquals("\u22121", SvgRenderer.tickLabel(0.1, wide).sup());
     }
 }

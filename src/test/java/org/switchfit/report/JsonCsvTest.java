@@ -58,6 +58,16 @@ class JsonCsvTest {
     }
 
     @Test
+    void acceptsNonStandardNonFiniteTokensFromOtherTools() throws Exception {
+        // Python's json module writes NaN, Infinity and -Infinity as bare tokens (common practice, not RFC 8259).
+        double[] v = Json.mapper().readValue("[NaN, Infinity, -Infinity, 1]", double[].class);
+        assertTrue(Double.isNaN(v[0]));
+        assertEquals(Double.POSITIVE_INFINITY, v[1]);
+        assertEquals(Double.NEGATIVE_INFINITY, v[2]);
+        assertEquals(1, v[3]);
+    }
+
+    @Test
     void finiteDoublesRoundTripBitForBit() throws Exception {
         SplittableRandom rnd = new SplittableRandom(31);
         double[] v = new double[2000];

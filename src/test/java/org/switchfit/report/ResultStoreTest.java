@@ -49,6 +49,14 @@ class ResultStoreTest {
         assertTrue(Double.isNaN(all.get("start-000011").nll()));
         assertEquals("step size < 1e-12", all.get("start-000011").message());
         assertTrue(store.get("start-000099", StartResult.class).isEmpty());
+        List<String> wanted = new ArrayList<>();
+        for (int i = 0; i < 12; i++) {
+            wanted.add(ResultStore.indexKey("start", i));
+        }
+        List<String> todo = store.missing(wanted);
+        assertEquals(10, todo.size());
+        assertFalse(todo.contains("start-000003") || todo.contains("start-000011"));
+        assertEquals("start-000000", todo.get(0));
     }
 
     @Test

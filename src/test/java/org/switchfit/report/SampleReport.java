@@ -110,15 +110,7 @@ final class SampleReport {
                     : -95 + 40 * rnd.nextDouble();
         }
         nll[7] = Double.NaN; // a failed start: not drawn
-        Arrays.sort(nll); // NaN sorts last
-        double[] idx = new double[n];
-        for (int i = 0; i < n; i++) {
-            idx[i] = i + 1;
-        }
-        Plot p = new Plot("Multistart waterfall (50 starts, 1 failed)", Axis.linear("start (sorted by final NLL)"),
-                Axis.linear("final NLL"));
-        p.add(Series.line("final NLL", idx, nll).marker(Series.Marker.CIRCLE).width(1.2));
-        p.add(Series.horizontal("best + 1.92 (95 %, 1 df)", -123.456 + 1.92));
+        Plot p = Charts.waterfall(nll, 1.92);
         return Figure.of("waterfall", "Multistart waterfall").add(p).panelSize(720, 340);
     }
 
@@ -149,29 +141,26 @@ final class SampleReport {
         return f;
     }
 
-    /** Cusp normal form: steady states of dx/dt = p + x - x^3/3 ... parametrised by x: p(x) = x^3 - 3x. */
+    /**
+     * Cusp normal form: steady states of dx/dt = p + 3x - x^3, i.e. p(x) = x^3 - 3x, stable where
+     * d(dx/dt)/dx = 3 - 3x^2 &lt; 0 (|x| &gt; 1); folds at x = -+1, p = +-2 (derived by hand).
+     */
     static Figure bifurcation() {
         double[] xs = grid(-2.4, 2.4, 241);
-        double[][] part = new double[3][];
-        double[][] pp = new double[3][];
-        double[] lo = Arrays.stream(xs).filter(v -> v <= -1).toArray();
-        double[] mid = Arrays.stream(xs).filter(v -> v >= -1 && v <= 1).toArray();
-        double[] up = Arrays.stream(xs).filter(v -> v >= 1).toArray();
-        part[0] = lo;
-        part[1] = mid;
-        part[2] = up;
-        for (int k = 0; k < 3; k++) {
-            pp[k] = Arrays.stream(part[k]).map(v -> v * v * v - 3 * v).toArray();
+        double[] ps = new double[xs.length];
+        boolean[] stable = new boolean[xs.length];
+        for (int i = 0; i < xs.length; i++) {
+            ps[i] = xs[i] * xs[i] * xs[i] - 3 * xs[i];
+            stable[i] = Math.abs(xs[i]) > 1;
         }
         Plot p = new Plot("Steady states", Axis.linear("inducer p"), Axis.linear("steady-state x"));
-        p.add(Series.line("stable", pp[0], part[0]).color(Palette.BLUE));
-        p.add(Series.line("unstable", pp[1], part[1]).color(Palette.BLUE).dashed());
-        p.add(Series.line(null, pp[2], part[2]).color(Palette.BLUE));
-        p.add(Series.points("fold (95 % interval)", new double[] {2, -2}, new double[] {-1, 1})
-                .xErrors(new double[] {1.7, -2.4}, new double[] {2.25, -1.75}).color(Palette.VERMILLION)
-                .marker(Series.Marker.DIAMOND).size(10));
-        p.add(Series.points("measured threshold (1 sigma)", new double[] {1.9, -2.1}, new double[] {-1.6, 1.6})
-                .xSigma(new double[] {0.15, 0.2}).color(Palette.GREEN).marker(Series.Marker.SQUARE));
+        for (Series s : Charts.branch("branch", ps, xs, stable, Palette.BLUE)) {
+            p.add(s);
+        }
+        p.add(Charts.folds("fold (95 % interval)", new double[] {2, -2}, new double[] {-1, 1},
+                new double[] {1.7, -2.4}, new double[] {2.25, -1.75}));
+        p.add(Charts.thresholds("measured threshold (1 sigma)", new double[] {1.9, -2.1}, new double[] {-1.6, 1.6},
+                new double[] {0.15, 0.2}));
         p.add(Series.note("fold LP1", 2.1, -0.8));
         return Figure.of("bifurcation", "Bifurcation diagram").add(p).panelSize(640, 380);
     }
@@ -205,9 +194,7 @@ final class SampleReport {
             xu[i] = pu[i] < 2 ? lowerBranch(pu[i]) : upperBranch(pu[i]);
             xd[i] = pd[i] > -2 ? upperBranch(pd[i]) : lowerBranch(pd[i]);
         }
-        Plot p = new Plot("Hysteresis sweep", Axis.linear("inducer p"), Axis.linear("x at end of step"));
-        p.add(Series.line("up sweep", pu, xu).marker(Series.Marker.TRIANGLE).width(1.2));
-        p.add(Series.line("down sweep", pd, xd).marker(Series.Marker.CIRCLE).width(1.2).dashed());
+        Plot p = Charts.hysteresis(pu, xu, pd, xd, "inducer p", "x at end of step");
         p.add(Series.vertical("jump up", 2));
         p.add(Series.vertical("jump down", -2));
         return Figure.of("hysteresis", "Hysteresis sweep").add(p).panelSize(520, 340);

@@ -1,0 +1,82 @@
+package org.switchfit.cli;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.PrintWriter;
+import java.io.StringWriter;
+import java.net.URISyntaxException;
+import java.nio.file.Path;
+import org.junit.jupiter.api.Test;
+
+/** The simulate command end to end, including user errors (one line, exit code 2). */
+class SimulateCommandTest {
+
+    private static String res(String name) {
+        try {
+            return Path.of(SimulateCommandTest.class.getResource("/sbml/" + name).toURI()).toString();
+        } catch (URISyntaxException e) {
+            throw new IllegalStateException(e);
+        }
+    }
+
+    private record Result(int code, String out, String err) {
+    }
+
+    private static Result run(String... args) {
+        StringWriter out = new StringWriter();
+        StringWriter err = new StringWriter();
+        int code = Main.execute(args, new PrintWriter(out, true), new PrintWriter(err, true));
+        return new Result(code, out.toString(), err.toString());
+    }
+
+    @Test
+    void writesCsvWithTimeAndSpeciesColumns() {
+        Result r = run("simulate", res("decay.xml"), "--times", "0:0.5:1", "--set", "k=0.1", "--method", "dp");
+        assertEquals(0, r.code(), r.err());
+        String[] lines = r.out().strip().split("\n");
+        assertEquals("time,A", lines[0]);
+        assertEquals(4, lines.length);
+        // closed form with the override k = 0.1: [A](1) = 5 exp(-0.1)
+        double a1 = Double.parseDouble(lines[3].split(",")[1]);
+        assertEquals(5 * Math.exp(-0.1), a1, 1e-6); // default rtol 1e-8 on values ~5
+    }
+
+    private static void assertUserError(Result r, String... fragments) {
+        assertEquals(2, r.code(), "stderr: " + r.err());
+        String err = r.err().strip();
+        assertEquals(1, err.lines().count(), "one line expected, got: " + err);
+        assertTrue(err.startsWith("error: "), err);
+        for (String f : fragments) {
+            assertTrue(err.contains(f), "expected '" + f + "' in: " + err);
+        }
+    }
+
+    @Test
+    void truncatedXmlIsOneLineUserError() {
+        assertUserError(run("simulate", res("truncated.xml"), "--times", "0:1:2"), "truncated.xml", "XML");
+    }
+
+    @Test
+    void nonSbmlXmlIsOneLineUserError() {
+        assertUserError(run("simulate", res("not-sbml.xml"), "--times", "0:1:2"), "not-sbml.xml", "SBML");
+    }
+
+    @Test
+    void undefinedIdInKineticLawIsOneLineUserError() {
+        assertUserError(run("simulate", res("undefined-id.xml"), "--times", "0:1:2"), "undefined-id.xml",
+                "'kk'", "deg", "define it");
+    }
+
+    @Test
+    void unsupportedConstructIsOneLineUserError() {
+        assertUserError(run("simulate", res("fast-reaction.xml"), "--times", "0:1:2"), "fast-reaction.xml",
+                "fast reaction", "deg");
+    }
+
+    @Test
+    void unknownOverrideIsOneLineUserError() {
+        assertUserError(run("simulate", res("decay.xml"), "--times", "0:1:2", "--set", "nope=1"), "nope",
+                "settable");
+    }
+}
