@@ -82,7 +82,17 @@ public final class SbmlReader {
         }
         SBMLDocument doc;
         try {
-            doc = new SBMLReader().readSBML(path.toFile());
+            String xml = Files.readString(path, java.nio.charset.StandardCharsets.UTF_8);
+            if (MathMlRepair.needed(xml)) {
+                try {
+                    xml = MathMlRepair.repair(xml);
+                } catch (Exception e) {
+                    // leave the text as it is; JSBML reports what is wrong with it
+                }
+                doc = new SBMLReader().readSBMLFromString(xml);
+            } else {
+                doc = new SBMLReader().readSBML(path.toFile());
+            }
         } catch (XMLStreamException e) {
             int line = e.getLocation() != null ? e.getLocation().getLineNumber() : 0;
             String msg = firstLine(e.getMessage());
