@@ -360,7 +360,10 @@ public final class ProblemLoader {
         return max;
     }
 
-    /** Adds {@code petab_init__S} parameters and initial assignments for species columns. */
+    /**
+     * Adds {@code petab_init__S} parameters and initial assignments for species columns, and drops the model's
+     * initial assignments of the other columns (the condition's value replaces them).
+     */
     static Model withSpeciesInitParameters(Model m, Set<String> columns) {
         List<Parameter> params = new ArrayList<>(m.parameters());
         List<InitialAssignment> ias = new ArrayList<>();
@@ -384,13 +387,17 @@ public final class ProblemLoader {
             params.add(new Parameter(INIT_PREFIX + col, v, true));
             ias.add(new InitialAssignment(col, Expr.symbol(INIT_PREFIX + col)));
         }
-        if (targets.isEmpty()) {
-            return m;
-        }
+        // A value set by a condition replaces the model's initial assignment of a parameter or compartment too.
+        boolean removed = false;
         for (InitialAssignment ia : m.initialAssignments()) {
-            if (!targets.contains(ia.symbol())) {
+            if (!targets.contains(ia.symbol()) && !columns.contains(ia.symbol())) {
                 ias.add(ia);
+            } else if (!targets.contains(ia.symbol())) {
+                removed = true;
             }
+        }
+        if (targets.isEmpty() && !removed) {
+            return m;
         }
         return new Model(m.id(), m.source(), m.compartments(), m.species(), params, m.reactions(), m.rules(), ias,
                 m.events(), m.conversionFactor());

@@ -82,7 +82,17 @@ public final class SbmlReader {
         }
         SBMLDocument doc;
         try {
-            doc = new SBMLReader().readSBML(path.toFile());
+            String xml = Files.readString(path, java.nio.charset.StandardCharsets.UTF_8);
+            if (MathMlRepair.needed(xml)) {
+                try {
+                    xml = MathMlRepair.repair(xml);
+                } catch (Exception e) {
+                    // leave the text as it is; JSBML reports what is wrong with it
+                }
+                doc = new SBMLReader().readSBMLFromString(xml);
+            } else {
+                doc = new SBMLReader().readSBML(path.toFile());
+            }
         } catch (XMLStreamException e) {
             int line = e.getLocation() != null ? e.getLocation().getLineNumber() : 0;
             String msg = firstLine(e.getMessage());
@@ -100,8 +110,19 @@ public final class SbmlReader {
                     + "be <sbml> with a <model>); pass an SBML file");
         }
         Model flattened = null;
-        if (doc.isPackageEnabled(CompConstants.shortLabel) || doc.getModel().getExtension(CompConstants.shortLabel)
-                != null || doc.getExtension(CompConstants.shortLabel) != null) {
+        boolean compContent = true;
+        try {
+            // a document may declare the comp namespace (even comp:required) without using any comp element;
+            // there is nothing to flatten then
+            String text = Files.readString(path, java.nio.charset.StandardCharsets.UTF_8);
+            compContent = text.contains(":listOf") || text.contains("listOfSubmodels")
+                    || text.contains("listOfModelDefinitions") || text.contains("listOfExternalModelDefinitions");
+        } catch (IOException e) {
+            // keep the conservative choice
+        }
+        if (compContent && (doc.isPackageEnabled(CompConstants.shortLabel)
+                || doc.getModel().getExtension(CompConstants.shortLabel) != null
+                || doc.getExtension(CompConstants.shortLabel) != null)) {
             flattened = CompFlattener.tryFlatten(doc, path, file);
             if (flattened == null) {
                 doc = flatten(doc, path);
