@@ -19,7 +19,8 @@ import org.switchfit.ode.bdf.BdfIntegrator;
 
 /**
  * Whole integrations with the BDF session: Robertson to t = 40 (with and without the 3 parameter sensitivities)
- * and HIRES to t = 321.8122, at rtol 1e-8. Returns the final state so the work cannot be eliminated.
+ * HIRES to t = 321.8122 (rtol 1e-8), and the 500-state Brusselator (N = 250, sparse LU path) to t = 10 at
+ * rtol 1e-6 (with and without the sensitivity to B). Returns the final state so the work cannot be eliminated.
  */
 @State(Scope.Thread)
 @BenchmarkMode(Mode.AverageTime)
@@ -29,7 +30,7 @@ import org.switchfit.ode.bdf.BdfIntegrator;
 @Fork(2)
 public class BdfBenchmark {
 
-    @Param({"robertson", "robertson-sens", "hires"})
+    @Param({"robertson", "robertson-sens", "hires", "bruss500", "bruss500-sens"})
     public String problem;
 
     private BdfIntegrator bdf;
@@ -50,6 +51,15 @@ public class BdfBenchmark {
                 y0 = new double[] {1, 0, 0, 0, 0, 0, 0, 0.0057};
                 p = new double[0];
                 tEnd = 321.8122;
+                break;
+            case "bruss500":
+            case "bruss500-sens":
+                bdf = new BdfIntegrator(SolverSettings.defaults().withTolerances(1e-6, 1e-8));
+                sys = StiffProblems.brusselator(250);
+                y0 = StiffProblems.brusselatorStart(250);
+                p = new double[] {1.0, 3.0, 1.0 / 50};
+                tEnd = 10.0;
+                sensParams = problem.endsWith("sens") ? new int[] {1} : null;
                 break;
             default:
                 sys = StiffProblems.ROBERTSON;

@@ -12,9 +12,18 @@ import picocli.CommandLine.Command;
 @Command(name = "switchfit", mixinStandardHelpOptions = true, versionProvider = Main.Version.class,
         description = "Fit ODE models of biochemical switches to timecourses and switching thresholds, "
                 + "trace their steady-state branches and folds, and report which parameters the data pin down.",
-        subcommands = {CommandLine.HelpCommand.class, SimulateCommand.class, SuiteCommand.class,
-            CheckCommand.class, FitCommand.class, BenchPetabCommand.class, ProfileCommand.class,
-            BenchProfilesCommand.class})
+        subcommands = {
+            CommandLine.HelpCommand.class,
+            SimulateCommand.class,
+            SuiteCommand.class,
+            CheckCommand.class,
+            FitCommand.class,
+            BenchPetabCommand.class,
+            ReportCommand.class,
+            ProfileCommand.class,
+            BenchProfilesCommand.class,
+            DemoCommand.class,
+        })
 public final class Main implements Runnable {
 
     /** Exit code for user errors. */

@@ -20,6 +20,11 @@ import org.switchfit.ode.OdeSystem;
  * dependent species, each dependent species is recovered from its own law alone:
  * {@code y_f = (T_f - Σ_{i indep} l_f[i] y_i) / l_f[f]}.
  *
+ * <p>Which species end up dependent depends on the column order of the elimination. To obtain laws with
+ * non-negative coefficients where possible (moiety totals such as E + ES), up to 32 species orders are tried
+ * (natural, reversed, seeded shuffles) and the basis with the fewest negative coefficients is kept; every
+ * candidate is an exact basis, so this only affects readability and the choice of reduced states.
+ *
  * <p>Entries given as doubles must be rationals with denominator at most 10^6 (continued-fraction recovery to
  * within 2 ulp); scaling a column of N by a non-zero factor leaves the left null space unchanged, so each
  * reaction column is multiplied by the lcm of its denominators. With compartments of different volumes pass N
@@ -137,10 +142,59 @@ public final class ConservationLaws {
                 i, j, x, MAX_DENOMINATOR));
     }
 
+    /**
+     * Tries the species orders natural, reversed and up to 30 seeded shuffles (fixed seed, so the result is
+     * reproducible) and keeps the basis with the fewest negative coefficients, then the smallest largest
+     * |coefficient|, then the earliest tried. Stops at the first basis with no negative coefficient.
+     */
     private static ConservationLaws fromTransposed(BigInteger[][] a, int n, int r) {
+        ConservationLaws best = null;
+        long[] bestScore = null;
+        java.util.SplittableRandom rng = new java.util.SplittableRandom(20261202L);
+        for (int attempt = 0; attempt < 32; attempt++) {
+            int[] order = new int[n];
+            for (int i = 0; i < n; i++) {
+                order[i] = attempt == 1 ? n - 1 - i : i;
+            }
+            if (attempt >= 2) {
+                for (int i = n - 1; i > 0; i--) {
+                    int j = rng.nextInt(i + 1);
+                    int t = order[i];
+                    order[i] = order[j];
+                    order[j] = t;
+                }
+            }
+            BigInteger[][] copy = new BigInteger[r][];
+            for (int i = 0; i < r; i++) {
+                copy[i] = a[i].clone();
+            }
+            ConservationLaws cand = eliminate(copy, n, r, order);
+            long neg = 0;
+            long max = 0;
+            for (long[] l : cand.laws) {
+                for (long x : l) {
+                    neg += x < 0 ? 1 : 0;
+                    max = Math.max(max, Math.abs(x));
+                }
+            }
+            long[] score = {neg, max};
+            if (best == null || score[0] < bestScore[0] || (score[0] == bestScore[0] && score[1] < bestScore[1])) {
+                best = cand;
+                bestScore = score;
+            }
+            if (neg == 0 || n <= 1) {
+                break;
+            }
+        }
+        return best;
+    }
+
+    /** Gauss-Jordan on the species columns in the given order; laws for the non-pivot species. */
+    private static ConservationLaws eliminate(BigInteger[][] a, int n, int r, int[] order) {
         int[] pivotCol = new int[Math.min(r, n)];
         int rank = 0;
-        for (int c = 0; c < n && rank < r; c++) {
+        for (int oc = 0; oc < n && rank < r; oc++) {
+            int c = order[oc];
             int p = -1;
             for (int i = rank; i < r; i++) {
                 if (a[i][c].signum() != 0 && (p < 0 || a[i][c].abs().compareTo(a[p][c].abs()) < 0)) {

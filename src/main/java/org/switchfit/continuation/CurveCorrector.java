@@ -28,10 +28,14 @@ final class CurveCorrector {
         this.rhs = new double[n1];
         this.h = new double[nEq];
         int[][] rows = problem.pattern();
-        int[][] bordered = new int[n1][];
-        System.arraycopy(rows, 0, bordered, 0, nEq);
-        bordered[nEq] = LinearSolvers.denseRow(0, n1);
-        this.lu = LinearSolvers.forPattern(n1, bordered);
+        if (rows == null) {
+            this.lu = LinearSolvers.forSize(n1);
+        } else {
+            int[][] bordered = new int[n1][];
+            System.arraycopy(rows, 0, bordered, 0, nEq);
+            bordered[nEq] = LinearSolvers.denseRow(0, n1);
+            this.lu = LinearSolvers.forPattern(n1, bordered);
+        }
         this.tolerance = tolerance;
         this.maxIterations = maxIterations;
     }

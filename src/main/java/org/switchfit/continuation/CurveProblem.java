@@ -17,7 +17,8 @@ interface CurveProblem {
 
     /**
      * Structural pattern of the N x (N + 1) Jacobian: {@code pattern[i]} lists the increasing columns of row i
-     * that may be non-zero.
+     * that may be non-zero; or null when the Jacobian of the underlying system is dense (then a dense solver is
+     * used).
      */
     int[][] pattern();
 }

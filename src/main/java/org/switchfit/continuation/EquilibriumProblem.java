@@ -56,6 +56,9 @@ final class EquilibriumProblem implements CurveProblem {
     @Override
     public int[][] pattern() {
         int[][] jp = sys.jacobianPattern();
+        if (!LinearSolvers.isSparse(n, jp)) {
+            return null;
+        }
         int[][] out = new int[n][];
         for (int i = 0; i < n; i++) {
             out[i] = LinearSolvers.union(jp[i], 0, null, 0, n);

@@ -13,7 +13,7 @@ package org.switchfit.continuation;
  * @param quadratic        a = w^T D²f(v, v)
  * @param paramDerivative  w^T ∂f/∂λ
  * @param kind             whether λ is a local maximum or minimum along the branch
- * @param refined          true when Newton on the extended system converged; false means the values are the
+ * @param refined          true when Newton on an augmented fold system converged; false means the values are the
  *                         interpolated estimate between two branch points (with w, a from that estimate)
  * @param afterPoint       index of the branch point just before the fold in the branch's point order
  */

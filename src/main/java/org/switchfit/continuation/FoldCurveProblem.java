@@ -110,6 +110,9 @@ final class FoldCurveProblem implements CurveProblem {
     @Override
     public int[][] pattern() {
         int[][] jp = sys.jacobianPattern();
+        if (!LinearSolvers.isSparse(n, jp)) {
+            return null;
+        }
         int[][] out = new int[2 * n + 1][];
         for (int i = 0; i < n; i++) {
             out[i] = LinearSolvers.union(jp[i], 0, null, 0, 2 * n, 2 * n + 1);

@@ -40,6 +40,10 @@ public final class HysteresisSweep {
     public SweepResult run(OdeSystem sys, double[] y0, double[] p, int control, double from, double to,
                            double rate, double[] readout) {
         int n = sys.stateCount();
+        if (readout.length != n || y0.length != n) {
+            throw new IllegalArgumentException(String.format(Locale.ROOT,
+                    "readout has %d and y0 %d entries; the system has %d states", readout.length, y0.length, n));
+        }
         double r = Math.abs(rate) * Math.signum(to - from);
         if (r == 0 || !Double.isFinite(r)) {
             throw new IllegalArgumentException(String.format(Locale.ROOT,

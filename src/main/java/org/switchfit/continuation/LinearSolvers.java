@@ -33,6 +33,14 @@ final class LinearSolvers {
         return new Sparse(LuSolvers.create(n, pattern));
     }
 
+    /**
+     * Whether a Jacobian with this row pattern is sparse enough for the sparse LU (bordering adds a row and a
+     * column, which does not change the decision materially). Callers skip building bordered patterns otherwise.
+     */
+    static boolean isSparse(int n, int[][] jacobianPattern) {
+        return jacobianPattern != null && LuSolvers.useSparse(n, jacobianPattern);
+    }
+
     /** Adapter over a linalg LU; no transposed solve. */
     private static final class Sparse implements LinearSolver {
         private final LuSolver lu;

@@ -19,8 +19,9 @@ import org.switchfit.ode.OdeSystem;
  * bound), after maxPoints points, or when the step falls below minStep.
  *
  * <p>Test functions (Kuznetsov 2004, Elements of Applied Bifurcation Theory, 3rd ed., sec. 10.2): a fold is
- * signalled by a sign change of the λ component of the tangent and located by Newton on the extended system
- * (see {@link FoldRefiner}); a Hopf point by a complex pair of eigenvalues crossing the imaginary axis (the
+ * signalled by a sign change of the λ component of the tangent and located by Newton on an augmented system
+ * (see {@link FoldRefiner}: minimally augmented bordered system, standard extended system (f, J v, c^T v - 1)
+ * as fallback); a Hopf point by a complex pair of eigenvalues crossing the imaginary axis (the
  * unstable count changes by two and so does the count of unstable non-real eigenvalues), located by the secant
  * method on the real part of the critical pair along the branch.
  *

@@ -27,9 +27,23 @@ import org.switchfit.ode.OdeSystem;
 public record SteadyStateSolver(double residualTolerance, double stepTolerance, int maxNewtonSteps,
                                 int maxTransientSteps, double initialDt, int eigenvalueLimit) {
 
-    /** Defaults: |f| 1e-10, step 1e-12, 50 Newton steps, 2000 pseudo-transient steps, dt0 1e-3, eigen up to 600. */
+    /** Validates. */
+    public SteadyStateSolver {
+        if (!(residualTolerance > 0) || !(stepTolerance > 0) || maxNewtonSteps < 1 || maxTransientSteps < 0
+                || !(initialDt > 0)) {
+            throw new IllegalArgumentException(String.format(Locale.ROOT,
+                    "need tolerances > 0 (got %.3g, %.3g), maxNewtonSteps >= 1 (got %d), maxTransientSteps >= 0 "
+                            + "(got %d), initialDt > 0 (got %.3g)", residualTolerance, stepTolerance,
+                    maxNewtonSteps, maxTransientSteps, initialDt));
+        }
+    }
+
+    /**
+     * Defaults: |f| 1e-10, step 1e-12, 50 Newton steps, 2000 pseudo-transient steps, dt0 1e-3, eigenvalues up to
+     * 100 states (see {@link ContinuationSettings#of} for their cost).
+     */
     public static SteadyStateSolver defaults() {
-        return new SteadyStateSolver(1e-10, 1e-12, 50, 2000, 1e-3, 600);
+        return new SteadyStateSolver(1e-10, 1e-12, 50, 2000, 1e-3, 100);
     }
 
     /** Copy with other tolerances. */

@@ -45,7 +45,7 @@ public final class Block {
                 throw new IllegalArgumentException("local " + x.name() + " (#" + x.index()
                         + ") used before its definition (#" + maxLocal + ")");
             }
-            if (x.op() == Op.SYMBOL || x.op() == Op.DELAY || x.op() == Op.RATEOF) {
+            if (x.op() == Op.SYMBOL || x.op() == Op.RATEOF || x.op() == Op.DELAY && !x.arg(0).isConst()) {
                 throw new IllegalArgumentException("unresolved model-level node in block: " + x);
             }
         });

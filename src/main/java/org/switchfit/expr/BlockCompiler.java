@@ -208,8 +208,17 @@ public final class BlockCompiler {
                     sb.append(')');
                     return;
                 }
-                case SYMBOL:
                 case DELAY:
+                    if (e.arg(0).isConst()) {
+                        sb.append("org.switchfit.expr.MathRuntime.delayed(");
+                        constant(sb, e.arg(0).value());
+                        sb.append(", t - ");
+                        expr(sb, e.arg(1));
+                        sb.append(')');
+                        return;
+                    }
+                    throw new IllegalStateException("unresolved model-level node " + e);
+                case SYMBOL:
                 case RATEOF:
                     throw new IllegalStateException("unresolved model-level node " + e);
                 default:

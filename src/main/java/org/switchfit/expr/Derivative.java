@@ -181,6 +181,7 @@ public final class Derivative {
             case CEIL:
             case FACTORIAL:
             case QUOTIENT:
+            case DELAY: // dependence on past states is not part of the instantaneous Jacobian
                 return Expr.ZERO;
             default:
                 if (e.op().isBoolean()) {

@@ -25,8 +25,12 @@ public final class Interpreter {
                 return p[e.index()];
             case LOCAL:
                 return w[e.index()];
-            case SYMBOL:
             case DELAY:
+                if (e.arg(0).isConst()) {
+                    return MathRuntime.delayed(e.arg(0).value(), t - evaluate(e.arg(1), t, y, p, w));
+                }
+                throw new IllegalStateException("unresolved model-level node " + e);
+            case SYMBOL:
             case RATEOF:
                 throw new IllegalStateException("unresolved model-level node " + e);
             case ADD: {

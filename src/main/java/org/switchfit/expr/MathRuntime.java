@@ -7,7 +7,24 @@ package org.switchfit.expr;
 public final class MathRuntime {
     private static final ThreadLocal<double[][]> WORKSPACE = ThreadLocal.withInitial(() -> new double[1][0]);
 
+    private static final ThreadLocal<DelayHistory> DELAYS = new ThreadLocal<>();
+
     private MathRuntime() {
+    }
+
+    /** Sets (or clears, with null) the delay history used by this thread's evaluations. */
+    public static void setDelayHistory(DelayHistory h) {
+        if (h == null) {
+            DELAYS.remove();
+        } else {
+            DELAYS.set(h);
+        }
+    }
+
+    /** Value of delayed expression {@code slot} at {@code time}; NaN when no history is installed. */
+    public static double delayed(double slot, double time) {
+        DelayHistory h = DELAYS.get();
+        return h == null ? Double.NaN : h.value((int) slot, time);
     }
 
     /** Per-thread scratch array of at least {@code n} entries (used by split generated code; not re-entrant). */

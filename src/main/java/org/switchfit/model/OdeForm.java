@@ -73,6 +73,9 @@ public final class OdeForm {
     private Block init;
     private final List<BoundEvent> events = new ArrayList<>();
     private final Map<String, Expr> derivSymbolic = new HashMap<>();
+    private final List<Event> resolvedEvents = new ArrayList<>();
+    private final List<Expr> delaySlots = new ArrayList<>();
+    private final List<Expr> delayLags = new ArrayList<>();
 
     private OdeForm(Model model) {
         this.model = model;
@@ -146,6 +149,16 @@ public final class OdeForm {
     /** Initial block: reads declared p (y unused), outputs y0 (n entries) then effective p (m entries). */
     public Block initial() {
         return init;
+    }
+
+    /** Bound expressions x of the delay nodes, by slot (the runtime uses {@code DELAY(slot, lag)} nodes). */
+    public List<Expr> delaySlots() {
+        return List.copyOf(delaySlots);
+    }
+
+    /** Bound lag expressions of the delay nodes, by slot. */
+    public List<Expr> delayLags() {
+        return List.copyOf(delayLags);
     }
 
     public List<BoundEvent> events() {
@@ -223,7 +236,6 @@ public final class OdeForm {
                 }
             }
         }
-        checkNoDelay();
         solveAlgebraicRules();
         classify();
         buildRuntime();
@@ -312,44 +324,6 @@ public final class OdeForm {
         }
     }
 
-    private void checkNoDelay() {
-        List<Expr> all = new ArrayList<>();
-        List<String> where = new ArrayList<>();
-        for (Rule r : model.rules()) {
-            all.add(r.math());
-            where.add(r.elementId() != null ? r.elementId() : r.variable() != null ? r.variable() : "rule");
-        }
-        for (Reaction r : model.reactions()) {
-            if (r.kineticLaw() != null) {
-                all.add(r.kineticLaw());
-                where.add(r.id());
-            }
-        }
-        for (Event e : model.events()) {
-            all.add(e.trigger());
-            where.add(e.id());
-            for (Event.Assignment a : e.assignments()) {
-                all.add(a.math());
-                where.add(e.id());
-            }
-            if (e.delay() != null) {
-                all.add(e.delay());
-                where.add(e.id());
-            }
-        }
-        for (InitialAssignment ia : model.initialAssignments()) {
-            all.add(ia.math());
-            where.add(ia.symbol());
-        }
-        for (int i = 0; i < all.size(); i++) {
-            if (all.get(i).contains(x -> x.op() == Op.DELAY)) {
-                throw new UnsupportedConstructException(SourceLocation.ofElement(file, where.get(i)),
-                        "the delay function (a delay differential equation)",
-                        "replace the delay by a chain of intermediate species");
-            }
-        }
-    }
-
     /** Inlines assignment rules recursively (used to analyse algebraic rules). */
     private Expr inlineAssignments(Expr e, int depth) {
         if (depth > 50) {
@@ -385,6 +359,9 @@ public final class OdeForm {
                 if (cands.isEmpty() || (cands.size() > 1 && !greedy)) {
                     continue;
                 }
+                // prefer quantities the modeller did not mark as externally set (boundary species last)
+                cands.sort(java.util.Comparator.comparing(c -> types.get(c) == QType.SPECIES
+                        && model.species(c).boundaryCondition()));
                 for (String c : cands) {
                     Expr var = Expr.symbol(c);
                     Expr a = Derivative.of(f, var, null);
@@ -565,6 +542,15 @@ public final class OdeForm {
         for (String id : stateIds) {
             derivs.add(resolveRateOf(derivSymbolic.get(id)));
         }
+        for (Event e : model.events()) {
+            List<Event.Assignment> as = new ArrayList<>();
+            for (Event.Assignment a : e.assignments()) {
+                as.add(new Event.Assignment(a.variable(), resolveRateOf(a.math())));
+            }
+            resolvedEvents.add(new Event(e.id(), resolveRateOf(e.trigger()), e.initialValue(), e.persistent(),
+                    e.delay() == null ? null : resolveRateOf(e.delay()),
+                    e.priority() == null ? null : resolveRateOf(e.priority()), e.useValuesFromTriggerTime(), as));
+        }
         // order definitions
         List<String> order = topoSort(defs, "assignment rules and reaction rates");
         List<String> names = new ArrayList<>();
@@ -696,7 +682,21 @@ public final class OdeForm {
     }
 
     /** Replaces symbols by runtime leaves: locals first, then states, then parameters. */
-    private Expr bind(Expr e, String context) {
+    private Expr bind(Expr e0, String context) {
+        Expr e = e0;
+        if (e.contains(x -> x.op() == Op.DELAY && !x.arg(0).isConst())) {
+            e = e.rewrite(x -> {
+                if (x.op() != Op.DELAY) {
+                    return null;
+                }
+                Expr xb = bind(x.arg(0), context);
+                Expr lag = bind(x.arg(1), context);
+                int slot = delaySlots.size();
+                delaySlots.add(xb);
+                delayLags.add(lag);
+                return Expr.call(Op.DELAY, Expr.constant(slot), lag);
+            });
+        }
         return e.mapLeaves(x -> {
             if (x.op() != Op.SYMBOL) {
                 return x;
@@ -728,11 +728,7 @@ public final class OdeForm {
         Map<String, Expr> idefs = new LinkedHashMap<>();
         Map<String, Expr> ias = new HashMap<>();
         for (InitialAssignment ia : model.initialAssignments()) {
-            if (ia.math().contains(x -> x.op() == Op.RATEOF)) {
-                throw new UnsupportedConstructException(SourceLocation.ofElement(file, ia.symbol()),
-                        "rateOf in an initial assignment", "compute the initial value another way");
-            }
-            ias.put(ia.symbol(), ia.math());
+            ias.put(ia.symbol(), resolveRateOf(ia.math()));
         }
         for (Map.Entry<String, QType> en : types.entrySet()) {
             String id = en.getKey();
@@ -741,7 +737,7 @@ public final class OdeForm {
             if (ias.containsKey(id)) {
                 d = ias.get(id);
             } else if (assignRules.containsKey(id)) {
-                d = assignRules.get(id);
+                d = defs.get(id);
             } else if (t == QType.REACTION) {
                 d = defs.get(id);
             } else if (t == QType.SPECIES) {
@@ -759,11 +755,12 @@ public final class OdeForm {
             } else {
                 d = Expr.symbol("#declared:" + id);
             }
-            if (d.contains(x -> x.op() == Op.RATEOF)) {
-                throw new UnsupportedConstructException(SourceLocation.ofElement(file, id),
-                        "rateOf needed at the initial time", "compute the initial value another way");
+            idefs.put(id, withoutDelays(d));
+        }
+        for (Map.Entry<String, Expr> en : defs.entrySet()) {
+            if (en.getKey().startsWith("rateOf:")) {
+                idefs.put(en.getKey(), withoutDelays(stateLeavesToSymbols(en.getValue())));
             }
-            idefs.put(id, d);
         }
         List<String> order = topoSort(idefs, "initial assignments and assignment rules");
         Map<String, Integer> il = new HashMap<>();
@@ -810,14 +807,36 @@ public final class OdeForm {
         init = new Block(names, bound, outs);
     }
 
+    /** At the initial time a delayed value is the initial value (no history exists before the start). */
+    private static Expr withoutDelays(Expr e) {
+        if (!e.contains(x -> x.op() == Op.DELAY)) {
+            return e;
+        }
+        return e.rewrite(x -> x.op() == Op.DELAY ? withoutDelays(x.arg(0)) : null);
+    }
+
+    /** Replaces state leaves by the symbol form of the state value (amount = value * size where needed). */
+    private Expr stateLeavesToSymbols(Expr e) {
+        return e.mapLeaves(x -> {
+            if (x.op() != Op.STATE) {
+                return x;
+            }
+            String id = stateIds.get(x.index());
+            if (isAmountStateWithConcSymbol(id)) {
+                return Expr.mul(Expr.symbol(id), Expr.symbol(model.species(id).compartment()));
+            }
+            return Expr.symbol(id);
+        });
+    }
+
     // ------------------------------------------------------------------ events
 
     private void bindEvents() {
-        for (Event e : model.events()) {
+        for (Event e : resolvedEvents) {
             String ctx = "event '" + e.id() + "'";
             List<BoundEvent.Target> targets = new ArrayList<>();
             for (Event.Assignment a : e.assignments()) {
-                Expr v = bind(resolveRateOfOrFail(a.math(), e.id()), ctx);
+                Expr v = bind(a.math(), ctx);
                 int si = stateIndex.get(a.variable());
                 Expr scale = null;
                 if (isAmountStateWithConcSymbol(a.variable())) {
@@ -825,25 +844,12 @@ public final class OdeForm {
                 }
                 targets.add(new BoundEvent.Target(a.variable(), si, v, scale));
             }
-            Expr trig = bind(resolveRateOfOrFail(e.trigger(), e.id()), ctx);
-            Expr delay = e.delay() == null ? null : bind(resolveRateOfOrFail(e.delay(), e.id()), ctx);
-            Expr prio = e.priority() == null ? null : bind(resolveRateOfOrFail(e.priority(), e.id()), ctx);
+            Expr trig = bind(e.trigger(), ctx);
+            Expr delay = e.delay() == null ? null : bind(e.delay(), ctx);
+            Expr prio = e.priority() == null ? null : bind(e.priority(), ctx);
             events.add(new BoundEvent(e.id(), trig, e.initialValue(), e.persistent(), delay, prio,
                     e.useValuesFromTriggerTime(), targets));
         }
     }
 
-    private Expr resolveRateOfOrFail(Expr e, String id) {
-        if (e.contains(x -> x.op() == Op.RATEOF)) {
-            // rateOf definitions added now would not be part of the runtime block
-            Expr r = resolveRateOf(e);
-            if (r.contains(x -> x.op() == Op.SYMBOL && !localIndex.containsKey(x.name())
-                    && !stateIndex.containsKey(x.name()) && !paramIndex.containsKey(x.name()))) {
-                throw new UnsupportedConstructException(SourceLocation.ofElement(file, id),
-                        "rateOf inside an event", "move the rate into an assignment rule");
-            }
-            return r;
-        }
-        return e;
-    }
 }

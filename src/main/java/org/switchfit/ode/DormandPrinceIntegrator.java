@@ -143,6 +143,13 @@ public final class DormandPrinceIntegrator implements Integrator {
             }
             double span = Math.abs(tOut - t);
             double scale = Math.max(Math.abs(tOut), 1.0);
+            if (span <= 2000 * Math.ulp(scale)) {
+                // below what the Runge-Kutta driver accepts: one Euler step (error ~ span^2, negligible)
+                eulerStep(tOut - t);
+                t = tOut;
+                copyOut(yOut, sOut);
+                return t;
+            }
             double maxStep = Math.min(settings.maxStepSize(), span);
             DormandPrince853Integrator integ = new DormandPrince853Integrator(0.0, maxStep, settings.atol(),
                     settings.rtol());
@@ -190,6 +197,15 @@ public final class DormandPrinceIntegrator implements Integrator {
             if (tr < tOut) {
                 atRoot = true;
                 roots.evaluate(t, z, p, g1);
+                // the bracketing may end exactly on the root; step on until the new sign holds (contract)
+                double tolT = 4 * Math.ulp(scale) + 1e-12 * scale;
+                double delta = tolT;
+                for (int tries = 0; tries < 20 && t + delta < tOut && !newSignHolds(hit); tries++) {
+                    eulerStep(delta);
+                    t += delta;
+                    roots.evaluate(t, z, p, g1);
+                    delta *= 2;
+                }
                 int c = 0;
                 int[] tmp = new int[nr];
                 for (int k = 0; k < nr; k++) {
@@ -203,6 +219,23 @@ public final class DormandPrinceIntegrator implements Integrator {
             }
             copyOut(yOut, sOut);
             return t;
+        }
+
+        private boolean newSignHolds(boolean[] hit) {
+            for (int k = 0; k < hit.length; k++) {
+                if (hit[k] && (g1[k] == 0.0 || Math.signum(g1[k]) == Math.signum(g0[k]))) {
+                    return false;
+                }
+            }
+            return true;
+        }
+
+        /** Explicit Euler step of the augmented system (used only for steps of a few ulps). */
+        private void eulerStep(double h) {
+            double[] d = ode.computeDerivatives(t, z);
+            for (int i = 0; i < z.length; i++) {
+                z[i] += h * d[i];
+            }
         }
 
         private void copyOut(double[] yOut, double[] sOut) {

@@ -14,8 +14,8 @@ import org.switchfit.model.BoundEvent;
  * event execution. Immutable; {@link #simulate} may run concurrently from several threads.
  *
  * <p>Order of simultaneous events: highest priority first (priority evaluated when choosing; events without
- * priority come after those with one), ties in model order. Events without a delay compute their assignment values
- * when executed; delayed events with useValuesFromTriggerTime compute them when triggered.
+ * priority come after those with one), ties in model order. Events with useValuesFromTriggerTime compute their
+ * assignment values when triggered, the others when executed.
  */
 public final class Simulator {
     /** Maximum number of event executions at one time point before giving up (cycles of events). */
@@ -36,11 +36,22 @@ public final class Simulator {
      * @throws IntegrationException when integration fails
      */
     public Trajectory simulate(double[] times, double[] pDeclared, ModelOutputs outputs) {
-        Run run = new Run(pDeclared, Math.min(0.0, times.length == 0 ? 0.0 : times[0]));
+        boolean delays = !model.form().delaySlots().isEmpty();
         double[][] values = new double[times.length][outputs.count()];
-        for (int r = 0; r < times.length; r++) {
-            run.advanceTo(times[r]);
-            outputs.evaluate(run.t, run.y, run.p, values[r]);
+        DelayRecord hist = delays ? new DelayRecord() : null;
+        try {
+            if (delays) {
+                org.switchfit.expr.MathRuntime.setDelayHistory(hist);
+            }
+            Run run = new Run(pDeclared, Math.min(0.0, times.length == 0 ? 0.0 : times[0]), hist);
+            for (int r = 0; r < times.length; r++) {
+                run.advanceTo(times[r]);
+                outputs.evaluate(run.t, run.y, run.p, values[r]);
+            }
+        } finally {
+            if (delays) {
+                org.switchfit.expr.MathRuntime.setDelayHistory(null);
+            }
         }
         return new Trajectory(outputs.names(), times, values);
     }
@@ -100,6 +111,117 @@ public final class Simulator {
         }
     }
 
+    /**
+     * Dense record of past states for delay nodes: (t, y, f) at every stop, cubic Hermite interpolation between
+     * records; before the start time the initial state holds (SBML L3V2 section 3.4.7). The simulation advances in
+     * chunks of a quarter of the smallest lag, so the lagged times always fall into recorded history.
+     */
+    private final class DelayRecord implements org.switchfit.expr.DelayHistory {
+        private Run run;
+        private int n;
+        private double[] ts = new double[64];
+        private double[] ys;
+        private double[] fs;
+        private int count;
+        private List<Expr> slots;
+        private List<Expr> slotsBefore;
+
+        void init(Run r) {
+            this.run = r;
+            this.n = r.n;
+            this.ys = new double[64 * Math.max(n, 1)];
+            this.fs = new double[64 * Math.max(n, 1)];
+            org.switchfit.expr.Block rt = model.form().runtime();
+            Expr[] inlined = new Expr[rt.localCount()];
+            for (int l = 0; l < inlined.length; l++) {
+                inlined[l] = inlineLocals(rt.local(l), inlined);
+            }
+            Expr[] before = new Expr[rt.localCount()];
+            for (int l = 0; l < before.length; l++) {
+                before[l] = rt.localName(l).startsWith("rateOf:") ? Expr.ZERO : inlineLocals(rt.local(l), before);
+            }
+            List<Expr> sl = new ArrayList<>();
+            List<Expr> sb = new ArrayList<>();
+            for (Expr x : model.form().delaySlots()) {
+                sl.add(inlineLocals(x, inlined));
+                sb.add(inlineLocals(x, before));
+            }
+            this.slots = sl;
+            this.slotsBefore = sb;
+        }
+
+        private Expr inlineLocals(Expr e, Expr[] inlined) {
+            return e.mapLeaves(x -> x.op() == org.switchfit.expr.Op.LOCAL && x.index() < inlined.length
+                    && inlined[x.index()] != null ? inlined[x.index()] : x);
+        }
+
+        void record(double t, double[] y) {
+            if (count == ts.length) {
+                ts = java.util.Arrays.copyOf(ts, 2 * count);
+                ys = java.util.Arrays.copyOf(ys, 2 * count * Math.max(n, 1));
+                fs = java.util.Arrays.copyOf(fs, 2 * count * Math.max(n, 1));
+            }
+            double[] f = new double[n];
+            model.rhs(t, y, run.p, f);
+            ts[count] = t;
+            System.arraycopy(y, 0, ys, count * n, n);
+            System.arraycopy(f, 0, fs, count * n, n);
+            count++;
+        }
+
+        @Override
+        public double value(int slot, double time) {
+            double[] yi = new double[n];
+            double tt = time;
+            if (count == 0 || time < ts[0]) {
+                // before the start, quantities follow their initial definitions evaluated at the past time and
+                // nothing changes (rates of change are 0), as the SBML Test Suite expects
+                double[] pp = new double[run.p.length];
+                model.initialValues(time, run.pDeclared, yi, pp);
+                return Interpreter.evaluate(slotsBefore.get(slot), tt, yi, pp, null);
+            } else if (time >= ts[count - 1]) {
+                int o = (count - 1) * n;
+                double h = time - ts[count - 1];
+                for (int i = 0; i < n; i++) {
+                    yi[i] = ys[o + i] + h * fs[o + i];
+                }
+            } else {
+                int lo = 0;
+                int hi = count - 1;
+                while (hi - lo > 1) {
+                    int mid = (lo + hi) >>> 1;
+                    if (ts[mid] <= time) {
+                        lo = mid;
+                    } else {
+                        hi = mid;
+                    }
+                }
+                double h = ts[hi] - ts[lo];
+                int a = lo * n;
+                int b = hi * n;
+                if (h <= 0) {
+                    System.arraycopy(ys, b, yi, 0, n);
+                } else {
+                    double s = (time - ts[lo]) / h;
+                    double s2 = s * s;
+                    double s3 = s2 * s;
+                    double h00 = 2 * s3 - 3 * s2 + 1;
+                    double h10 = s3 - 2 * s2 + s;
+                    double h01 = -2 * s3 + 3 * s2;
+                    double h11 = s3 - s2;
+                    for (int i = 0; i < n; i++) {
+                        yi[i] = h00 * ys[a + i] + h10 * h * fs[a + i] + h01 * ys[b + i] + h11 * h * fs[b + i];
+                    }
+                }
+            }
+            Expr x = slots.get(slot);
+            if (x.op() == org.switchfit.expr.Op.STATE) {
+                return yi[x.index()];
+            }
+            return Interpreter.evaluate(x, tt, yi, run.p, null);
+        }
+    }
+
     /** One pending event execution. */
     private static final class Pending {
         final int event;
@@ -130,9 +252,27 @@ public final class Simulator {
         double t;
         long seq;
 
-        Run(double[] pDeclared, double t0) {
+        final DelayRecord hist;
+        double chunk = Double.POSITIVE_INFINITY;
+
+        final double[] pDeclared;
+
+        Run(double[] pDeclared, double t0, DelayRecord hist) {
             t = t0;
+            this.pDeclared = pDeclared.clone();
+            this.hist = hist;
             model.initialValues(t0, pDeclared, y, p);
+            if (hist != null) {
+                hist.init(this);
+                refreshLocals();
+                for (Expr lag : model.form().delayLags()) {
+                    double l = value(lag);
+                    if (l > 0 && l / 4 < chunk) {
+                        chunk = l / 4;
+                    }
+                }
+                hist.record(t, y);
+            }
             for (int e = 0; e < ne; e++) {
                 trig[e] = events.get(e).initialValue();
             }
@@ -151,9 +291,18 @@ public final class Simulator {
                         target = pe.time;
                     }
                 }
+                if (hist != null && target > t + chunk) {
+                    target = t + chunk;
+                }
                 t = session.advance(target, n == 0 ? scratch : y, null);
+                if (hist != null) {
+                    hist.record(t, y);
+                }
                 if (ne > 0 && handleEvents()) {
                     session.reset(n == 0 ? scratch : y, null);
+                    if (hist != null) {
+                        hist.record(t, y);
+                    }
                 }
             }
         }
@@ -189,8 +338,7 @@ public final class Simulator {
                     boolean now = truth(ev.trigger());
                     if (now && !trig[e]) {
                         double delay = ev.delay() == null ? 0.0 : value(ev.delay());
-                        double[] vals = ev.delay() != null && ev.useValuesFromTriggerTime()
-                                ? assignmentValues(ev) : null;
+                        double[] vals = ev.useValuesFromTriggerTime() ? assignmentValues(ev) : null;
                         pending.add(new Pending(e, ev.delay() == null ? t : t + delay, vals, seq++));
                     } else if (!now && trig[e] && !ev.persistent()) {
                         final int fe = e;

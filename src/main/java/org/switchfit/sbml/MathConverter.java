@@ -21,10 +21,17 @@ import org.switchfit.util.UserInputException;
 final class MathConverter {
     private final org.sbml.jsbml.Model model;
     private final String file;
+    private final String prefix;
 
     MathConverter(org.sbml.jsbml.Model model, String file) {
+        this(model, file, "");
+    }
+
+    /** A converter that prefixes every model symbol (used when flattening submodels). */
+    MathConverter(org.sbml.jsbml.Model model, String file, String prefix) {
         this.model = model;
         this.file = file;
+        this.prefix = prefix;
     }
 
     /**
@@ -80,7 +87,7 @@ final class MathConverter {
                     return bound;
                 }
                 String r = rename.get(nm);
-                return Expr.symbol(r != null ? r : nm);
+                return Expr.symbol(r != null ? r : prefix + nm);
             }
             case PLUS:
             case SUM:

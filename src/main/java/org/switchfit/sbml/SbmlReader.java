@@ -1,6 +1,5 @@
 package org.switchfit.sbml;
 
-import java.io.File;
 import java.io.IOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -13,7 +12,6 @@ import java.util.Set;
 import javax.xml.stream.XMLStreamException;
 import org.apache.logging.log4j.Level;
 import org.apache.logging.log4j.core.config.Configurator;
-import org.sbml.jsbml.ASTNode;
 import org.sbml.jsbml.AlgebraicRule;
 import org.sbml.jsbml.AssignmentRule;
 import org.sbml.jsbml.KineticLaw;
@@ -46,6 +44,8 @@ import org.switchfit.util.UserInputException;
  */
 public final class SbmlReader {
     private static volatile boolean loggingConfigured;
+    /** Strong reference: java.util.logging keeps loggers weakly, and a collected logger forgets its level. */
+    private static final java.util.logging.Logger JUL_SBML = java.util.logging.Logger.getLogger("org.sbml");
 
     private SbmlReader() {
     }
@@ -61,6 +61,7 @@ public final class SbmlReader {
                     } catch (RuntimeException | LinkageError e) {
                         // logging backend absent: nothing to silence
                     }
+                    JUL_SBML.setLevel(java.util.logging.Level.OFF);
                     loggingConfigured = true;
                 }
             }
@@ -98,9 +99,13 @@ public final class SbmlReader {
             throw new UserInputException(SourceLocation.ofFile(file), "contains no SBML model (root element must "
                     + "be <sbml> with a <model>); pass an SBML file");
         }
+        Model flattened = null;
         if (doc.isPackageEnabled(CompConstants.shortLabel) || doc.getModel().getExtension(CompConstants.shortLabel)
                 != null || doc.getExtension(CompConstants.shortLabel) != null) {
-            doc = flatten(doc, path);
+            flattened = CompFlattener.tryFlatten(doc, path, file);
+            if (flattened == null) {
+                doc = flatten(doc, path);
+            }
         }
         for (String pkg : new String[] {"fbc", "arrays", "distrib", "spatial", "qual", "multi"}) {
             if (doc.isPackageEnabled(pkg)) {
@@ -108,12 +113,16 @@ public final class SbmlReader {
                         + "'", "remove the package constructs");
             }
         }
-        return new Builder(doc, file).build();
+        if (flattened != null) {
+            return flattened;
+        }
+        return new Builder(doc.getModel(), file, "", doc.getLevel()).build(true);
     }
 
     private static SBMLDocument flatten(SBMLDocument doc, Path path) {
         try {
-            doc.setLocationURI(path.toAbsolutePath().getParent().toUri().toString());
+            doc.setLocationURI(path.toAbsolutePath().toUri().toString());
+            absolutiseExternalSources(doc, path.toAbsolutePath().getParent());
             SBMLDocument flat = new CompFlatteningConverter().flatten(doc);
             if (flat == null || flat.getModel() == null) {
                 throw new UnsupportedConstructException(SourceLocation.ofFile(path.toString()),
@@ -129,6 +138,22 @@ public final class SbmlReader {
         }
     }
 
+    /** Rewrites relative external model sources to absolute file URIs (JSBML resolves them against the CWD). */
+    private static void absolutiseExternalSources(SBMLDocument doc, Path dir) {
+        org.sbml.jsbml.ext.comp.CompSBMLDocumentPlugin plug = (org.sbml.jsbml.ext.comp.CompSBMLDocumentPlugin)
+                doc.getPlugin(CompConstants.shortLabel);
+        if (plug == null) {
+            return;
+        }
+        for (org.sbml.jsbml.ext.comp.ExternalModelDefinition emd : plug.getListOfExternalModelDefinitions()) {
+            String src = emd.getSource();
+            if (src != null && !src.contains(":")) {
+                Path f = dir.resolve(src);
+                emd.setSource(f.toString());
+            }
+        }
+    }
+
     static String firstLine(String s) {
         if (s == null) {
             return "";
@@ -138,49 +163,49 @@ public final class SbmlReader {
         return nl < 0 ? t : t.substring(0, nl).strip();
     }
 
-    /** Builds the model from one document. */
-    private static final class Builder {
-        private final SBMLDocument doc;
+    /** Builds our model from one JSBML model (or model definition), prefixing every id with {@code prefix}. */
+    static final class Builder {
         private final org.sbml.jsbml.Model m;
         private final String file;
         private final MathConverter conv;
         private final int level;
+        private final String px;
 
-        Builder(SBMLDocument doc, String file) {
-            this.doc = doc;
-            this.m = doc.getModel();
+        Builder(org.sbml.jsbml.Model m, String file, String prefix, int level) {
+            this.m = m;
             this.file = file;
-            this.conv = new MathConverter(m, file);
-            this.level = doc.getLevel();
+            this.conv = new MathConverter(m, file, prefix);
+            this.level = level;
+            this.px = prefix;
         }
 
-        Model build() {
+        Model build(boolean check) {
             List<Compartment> comps = new ArrayList<>();
             for (org.sbml.jsbml.Compartment c : m.getListOfCompartments()) {
                 double size = c.isSetSize() ? c.getSize() : Double.NaN;
-                if (level < 3 && !c.isSetSize() && m.getInitialAssignment(c.getId()) == null
-                        && m.getRule(c.getId()) == null) {
+                if ((level < 3 || c.isSetSpatialDimensions() && c.getSpatialDimensions() == 0) && !c.isSetSize()
+                        && m.getInitialAssignment(c.getId()) == null && m.getRule(c.getId()) == null) {
                     size = 1.0; // L1/L2 default size
                 }
                 double dims = c.isSetSpatialDimensions() ? c.getSpatialDimensions() : level < 3 ? 3 : Double.NaN;
-                comps.add(new Compartment(c.getId(), size, dims, level < 2 || c.getConstant()));
+                comps.add(new Compartment(px + c.getId(), size, dims, level < 2 || c.getConstant()));
             }
             List<Species> species = new ArrayList<>();
             for (org.sbml.jsbml.Species s : m.getListOfSpecies()) {
                 double amt = s.isSetInitialAmount() ? s.getInitialAmount() : Double.NaN;
                 double conc = s.isSetInitialConcentration() ? s.getInitialConcentration() : Double.NaN;
-                String cf = s.isSetConversionFactor() ? s.getConversionFactor() : null;
+                String cf = s.isSetConversionFactor() ? px + s.getConversionFactor() : null;
                 boolean constant = level >= 2 && s.getConstant();
                 org.sbml.jsbml.Compartment sc = m.getCompartment(s.getCompartment());
                 // a species in a 0-dimensional compartment has no concentration: its symbol is its amount
                 boolean zeroDim = sc != null && sc.isSetSpatialDimensions() && sc.getSpatialDimensions() == 0;
-                species.add(new Species(s.getId(), s.getCompartment(), amt, conc,
+                species.add(new Species(px + s.getId(), px + s.getCompartment(), amt, conc,
                         s.getHasOnlySubstanceUnits() || zeroDim,
                         s.getBoundaryCondition(), constant, cf));
             }
             List<Parameter> params = new ArrayList<>();
             for (org.sbml.jsbml.Parameter p : m.getListOfParameters()) {
-                params.add(new Parameter(p.getId(), p.isSetValue() ? p.getValue() : Double.NaN,
+                params.add(new Parameter(px + p.getId(), p.isSetValue() ? p.getValue() : Double.NaN,
                         level >= 2 && p.getConstant()));
             }
             List<Reaction> reactions = new ArrayList<>();
@@ -189,38 +214,50 @@ public final class SbmlReader {
             }
             List<Rule> rules = new ArrayList<>();
             for (org.sbml.jsbml.Rule r : m.getListOfRules()) {
-                String rid = r.isSetMetaId() ? r.getMetaId() : null;
+                if (r.getMath() == null) {
+                    continue; // SBML L3V2 allows math to be absent: the rule then has no effect
+                }
+                String rid = r.isSetMetaId() ? px + r.getMetaId() : null;
                 if (r instanceof AlgebraicRule) {
                     rules.add(new Rule(Rule.Kind.ALGEBRAIC, null, conv.convert(r.getMath(), Map.of(),
                             rid == null ? "algebraic rule" : rid), rid));
                 } else if (r instanceof AssignmentRule) {
                     AssignmentRule a = (AssignmentRule) r;
-                    rules.add(new Rule(Rule.Kind.ASSIGNMENT, a.getVariable(), conv.convert(a.getMath(), Map.of(),
+                    rules.add(new Rule(Rule.Kind.ASSIGNMENT, px + a.getVariable(), conv.convert(a.getMath(), Map.of(),
                             a.getVariable()), rid));
                 } else if (r instanceof RateRule) {
                     RateRule a = (RateRule) r;
-                    rules.add(new Rule(Rule.Kind.RATE, a.getVariable(), conv.convert(a.getMath(), Map.of(),
+                    rules.add(new Rule(Rule.Kind.RATE, px + a.getVariable(), conv.convert(a.getMath(), Map.of(),
                             a.getVariable()), rid));
                 }
             }
             List<InitialAssignment> ias = new ArrayList<>();
             for (org.sbml.jsbml.InitialAssignment ia : m.getListOfInitialAssignments()) {
-                ias.add(new InitialAssignment(ia.getVariable(), conv.convert(ia.getMath(), Map.of(),
+                if (ia.getMath() == null) {
+                    continue;
+                }
+                ias.add(new InitialAssignment(px + ia.getVariable(), conv.convert(ia.getMath(), Map.of(),
                         ia.getVariable())));
             }
             List<Event> events = new ArrayList<>();
             int en = 0;
             for (org.sbml.jsbml.Event e : m.getListOfEvents()) {
+                if (e.getTrigger() == null || e.getTrigger().getMath() == null) {
+                    en++;
+                    continue; // SBML L3V2: an event without trigger math never fires
+                }
                 events.add(event(e, en++));
             }
-            String cf = m.isSetConversionFactor() ? m.getConversionFactor() : null;
+            String cf = m.isSetConversionFactor() ? px + m.getConversionFactor() : null;
             Model model = new Model(m.getId(), file, comps, species, params, reactions, rules, ias, events, cf);
-            checkSymbols(model);
+            if (check) {
+                checkSymbols(model);
+            }
             return model;
         }
 
         private Reaction reaction(org.sbml.jsbml.Reaction r) {
-            String rid = r.getId();
+            String rid = px + r.getId();
             Map<String, String> rename = new HashMap<>();
             List<Parameter> locals = new ArrayList<>();
             KineticLaw kl = r.getKineticLaw();
@@ -255,11 +292,11 @@ public final class SbmlReader {
             }
             String id = s.isSetId() && !((SimpleSpeciesReference) s).getId().isEmpty() ? s.getId() : null;
             boolean constant = level < 3 ? sm == null : s.getConstant();
-            return new SpeciesRef(s.getSpecies(), id, st, sm, constant);
+            return new SpeciesRef(px + s.getSpecies(), id == null ? null : px + id, st, sm, constant);
         }
 
         private Event event(org.sbml.jsbml.Event e, int index) {
-            String eid = e.isSetId() ? e.getId() : "event" + (index + 1);
+            String eid = px + (e.isSetId() ? e.getId() : "event" + (index + 1));
             if (e.getTrigger() == null || e.getTrigger().getMath() == null) {
                 throw new UserInputException(SourceLocation.ofElement(file, eid), "event has no trigger; add one");
             }
@@ -276,13 +313,17 @@ public final class SbmlReader {
                 if (a.getMath() == null) {
                     continue;
                 }
-                as.add(new Event.Assignment(a.getVariable(), conv.convert(a.getMath(), Map.of(), eid)));
+                as.add(new Event.Assignment(px + a.getVariable(), conv.convert(a.getMath(), Map.of(), eid)));
             }
             return new Event(eid, trig, init, persistent, delay, prio, uvftt, as);
         }
 
         /** Every symbol used in mathematics must name a quantity or reaction. */
-        private void checkSymbols(Model model) {
+        static void checkSymbols(Model model) {
+            new Builder(null, model.source(), "", 3).check(model);
+        }
+
+        private void check(Model model) {
             Set<String> known = new HashSet<>();
             model.compartments().forEach(c -> known.add(c.id()));
             model.species().forEach(s -> known.add(s.id()));
@@ -331,13 +372,4 @@ public final class SbmlReader {
         }
     }
 
-    /** Unused: keeps the ASTNode import meaningful for readers of the converter. */
-    static boolean isMath(ASTNode n) {
-        return n != null;
-    }
-
-    /** Name of a file for messages. */
-    static String name(File f) {
-        return f.getName();
-    }
 }

@@ -29,7 +29,7 @@ class LayeringTest {
             Map.entry("ode", Set.of("model", "expr", "linalg", "util")),
             Map.entry("continuation", Set.of("ode", "linalg", "model", "expr", "util")),
             Map.entry("data", Set.of("util")),
-            Map.entry("problem", Set.of("data", "model", "expr", "sbml", "util")),
+            Map.entry("problem", Set.of("data", "model", "expr", "sbml", "ode", "linalg", "util")),
             Map.entry("objective", Set.of("problem", "ode", "continuation", "data", "model", "expr", "linalg",
                     "util")),
             Map.entry("fit", Set.of("objective", "problem", "util")),

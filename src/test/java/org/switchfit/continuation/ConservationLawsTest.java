@@ -45,7 +45,7 @@ class ConservationLawsTest {
                 assertEquals(0, s, "law " + c + " times reaction " + j);
             }
             for (int i = 0; i < 6; i++) {
-                assertTrue(Math.abs(l[i]) <= 1, "small coefficients");
+                assertTrue(l[i] == 0 || l[i] == 1, "small non-negative coefficients: " + java.util.Arrays.toString(l));
                 stacked[c][i] = l[i];
             }
             stacked[c + 3] = GK_EXPECTED[c];
@@ -107,5 +107,21 @@ class ConservationLawsTest {
     void wrongStateCountIsRejected() {
         ConservationLaws laws = ConservationLaws.of(GK);
         assertThrows(IllegalArgumentException.class, () -> laws.reduce(TestSystems.CUBIC));
+    }
+
+    @Test
+    void enzymeComplexReductionHasExactJacobians() {
+        ReducedSystem red = ConservationLaws.of(TestSystems.GK_STOICH).reduce(TestSystems.GK_FEEDBACK);
+        double[] y = {0.6, 0.3, 0.02, 0.07, 0.01, 0.03};
+        double[] q = red.parameters(new double[] {10, 1, 1, 10, 1, 1, 20, 0.2}, y);
+        double[] x = red.reducedState(y);
+        assertArrayEquals(y, red.fullState(x, q), 1e-15);
+        // Property test (common practice): central differences, 1e-7 relative for h = 1e-6.
+        assertTrue(TestSystems.jacobianYError(TestSystems.GK_FEEDBACK, y, new double[] {10, 1, 1, 10, 1, 1, 20,
+            0.2}) < 1e-7, "full model Jacobian");
+        assertTrue(TestSystems.jacobianPError(TestSystems.GK_FEEDBACK, y, new double[] {10, 1, 1, 10, 1, 1, 20,
+            0.2}) < 1e-7, "full model parameter Jacobian");
+        assertTrue(TestSystems.jacobianYError(red, x, q) < 1e-7);
+        assertTrue(TestSystems.jacobianPError(red, x, q) < 1e-7);
     }
 }

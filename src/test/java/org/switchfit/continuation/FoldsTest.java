@@ -72,6 +72,53 @@ class FoldsTest {
                 new double[] {-1.5}, new double[] {-2, q}, 0, +1);
         Fold max = br.folds().get(0);
         double[] g = Folds.parameterGradient(TestSystems.CUBIC, max, new double[] {0, q});
+        // The formula is exact (null vectors of a 1x1 J); 1e-12 absolute covers rounding of the refined fold.
         assertEquals(Math.sqrt(q / 3), g[1], 1e-12);
+    }
+
+    @Test
+    void borderedAndExtendedSystemsLocateTheSameFold() {
+        // Two independent Newton formulations (minimally augmented n + 1 vs. standard extended 2n + 1) from the
+        // same rough guess must agree to their tolerance (1e-13 relative step): 1e-11 absolute on O(1) values.
+        ReducedSystem red = ConservationLaws.of(TestSystems.PHOSPHO_STOICH).reduce(TestSystems.PHOSPHO_FEEDBACK);
+        double[] q = red.parameters(new double[] {0.0, 1.0, 0.5, 2.0}, new double[] {2.3, 0});
+        Branch br = new PseudoArclength(ContinuationSettings.of(0, 0.2)).trace(red,
+                red.reducedState(new double[] {2.3, 0}), q, 0, +1);
+        for (Fold f : br.folds()) {
+            double[] guess = f.state();
+            guess[0] *= 1.01;
+            double[] qg = q.clone();
+            qg[0] = f.parameter() * 1.01;
+            Fold a = FoldRefiner.refineBordered(red, guess, qg, 0, f.rightNull(), 1e-13, 40);
+            Fold b = FoldRefiner.refineExtended(red, guess, qg, 0, f.rightNull(), 1e-13, 40);
+            assertNotNull(a);
+            assertNotNull(b);
+            assertEquals(a.parameter(), b.parameter(), 1e-11);
+            assertEquals(a.state()[0], b.state()[0], 1e-11);
+            assertEquals(f.parameter(), a.parameter(), 1e-11);
+        }
+    }
+
+    @Test
+    void enzymeComplexCycleSensitivitiesIncludingTotals() {
+        // Six species, three laws (see PseudoArclengthTest.enzymeComplexCycleContinuesInKinaseTotal); gradient
+        // over the 8 rate parameters and the two other totals (S + Sp + ES + FSp, F + FSp).
+        ConservationLaws laws = ConservationLaws.of(TestSystems.GK_STOICH);
+        ReducedSystem red = laws.reduce(TestSystems.GK_FEEDBACK);
+        int lawE = -1;
+        for (int c = 0; c < laws.lawCount(); c++) {
+            if (laws.dependentSpecies()[c] == 2) {
+                lawE = c;
+            }
+        }
+        int control = red.totalIndex(lawE);
+        double[] y = {1, 0, 0.001, 0.1, 0, 0};
+        double[] q = red.parameters(new double[] {10, 1, 1, 10, 1, 1, 20, 0.2}, y);
+        Branch br = new PseudoArclength(ContinuationSettings.of(0.001, 0.05)).trace(red, red.reducedState(y), q,
+                control, +1);
+        assertEquals(2, br.folds().size());
+        for (Fold f : br.folds()) {
+            checkAgainstDifferences(red, f, q);
+        }
     }
 }

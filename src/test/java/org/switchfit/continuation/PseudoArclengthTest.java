@@ -28,11 +28,13 @@ class PseudoArclengthTest {
         Fold down = folds.get(1);
         assertTrue(up.refined() && down.refined());
         assertEquals(pStar, up.parameter(), REL_TOL_FOLD * pStar);
+        // The state at a fold is determined to ~sqrt(eps * scale) only in the null direction; 1e-8 absolute.
         assertEquals(-1 / Math.sqrt(3), up.state()[0], 1e-8);
         assertEquals(Fold.Kind.MAXIMUM, up.kind());
         assertEquals(-pStar, down.parameter(), REL_TOL_FOLD * pStar);
         assertEquals(Fold.Kind.MINIMUM, down.kind());
         // Normal-form coefficient a = f_xx = -6 x* (closed form, w = v = ±1 with w v = 1).
+        // a uses a central difference of J (step 1e-5, error O(step^2) relative): 1e-6 absolute.
         assertEquals(6 / Math.sqrt(3), up.quadratic(), 1e-6);
         // Stability: outer branches stable (f_x = 1 - 3x^2 < 0), middle unstable (closed form).
         for (BranchPoint bp : br.points()) {
@@ -115,9 +117,11 @@ class PseudoArclengthTest {
                 double[] yf = red.fullState(f.state(), qf);
                 double[] fFull = new double[2];
                 TestSystems.PHOSPHO_FEEDBACK.rhs(0, yf, java.util.Arrays.copyOf(qf, 4), fFull);
+                // Newton residual at convergence, rounding level for O(1) rates: 1e-12 absolute.
                 assertEquals(0, fFull[1], 1e-12, "full residual at the fold");
                 double[] jr = new double[1];
                 red.jacobianY(0, f.state(), qf, jr);
+                // J_r is O(1) away from the fold and vanishes linearly with the fold error (~1e-12): 1e-9.
                 assertEquals(0, jr[0], 1e-9, "reduced Jacobian singular at the fold");
             }
         }
@@ -131,6 +135,7 @@ class PseudoArclengthTest {
         Branch br = pal.trace(TestSystems.BRUSSELATOR, new double[] {a, 1 / a}, new double[] {a, 1}, 1, +1);
         assertEquals(1, br.hopfs().size());
         Hopf h = br.hopfs().get(0);
+        // Secant on Re(λ) stops at |Re| <= 1e-13 or a bracket of 1e-11 relative: 1e-10 relative has margin.
         assertEquals(1 + a * a, h.parameter(), 1e-10 * (1 + a * a));
         assertEquals(a, h.frequency(), 1e-10);
         assertEquals(0, br.folds().size());
@@ -205,5 +210,78 @@ class PseudoArclengthTest {
         }
         // Dense and sparse LU solve the same Newton systems; refined folds agree to the refinement tolerance.
         assertEquals(found[0], found[1], 1e-12);
+    }
+
+    @Test
+    void invalidArgumentsNameTheValues() {
+        IllegalArgumentException e1 = org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
+                () -> ContinuationSettings.of(1, 0));
+        assertTrue(e1.getMessage().contains("lower bound 1") && e1.getMessage().contains("upper bound 0"),
+                e1.getMessage());
+        PseudoArclength pal = new PseudoArclength(ContinuationSettings.of(-1, 1));
+        IllegalArgumentException e2 = org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
+                () -> pal.trace(TestSystems.CUBIC, new double[] {0}, new double[] {0, 1}, 2, 1));
+        assertTrue(e2.getMessage().contains("control index 2"), e2.getMessage());
+        IllegalArgumentException e3 = org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
+                () -> pal.trace(TestSystems.CUBIC, new double[] {0}, new double[] {5, 1}, 0, 1));
+        assertTrue(e3.getMessage().contains("start value 5"), e3.getMessage());
+    }
+
+    @Test
+    void pointLimitEndsTheBranch() {
+        PseudoArclength pal = new PseudoArclength(ContinuationSettings.of(-1, 1).withMaxPoints(5)
+                .withSteps(1e-3, 1e-9, 1e-3));
+        Branch br = pal.trace(TestSystems.CUBIC, new double[] {-1.3}, new double[] {-1, 1}, 0, +1);
+        assertEquals(5, br.size());
+        assertEquals(Branch.EndReason.MAX_POINTS, br.finishEnd());
+    }
+
+    /**
+     * Six-species Goldbeter-Koshland cycle with explicit complexes and feedback (TestSystems.GK_FEEDBACK), three
+     * conservation laws; continued in the kinase total E + ES. The full Jacobian is singular everywhere (rank 3),
+     * so this only works on the reduced system. Checked: both folds found and refined, both ends on the bounds,
+     * the totals of every reconstructed point exact, f = 0 of the full system at the folds.
+     */
+    @Test
+    void enzymeComplexCycleContinuesInKinaseTotal() {
+        ConservationLaws laws = ConservationLaws.of(TestSystems.GK_STOICH);
+        ReducedSystem red = laws.reduce(TestSystems.GK_FEEDBACK);
+        int lawE = -1;
+        for (int c = 0; c < laws.lawCount(); c++) {
+            if (laws.dependentSpecies()[c] == 2) {
+                lawE = c;
+            }
+        }
+        int control = red.totalIndex(lawE);
+        double[] p = {10, 1, 1, 10, 1, 1, 20, 0.2};
+        double[] y = {1, 0, 0.001, 0.1, 0, 0};
+        double[] q = red.parameters(p, y);
+        Branch br = new PseudoArclength(ContinuationSettings.of(0.001, 0.05)).trace(red, red.reducedState(y), q,
+                control);
+        assertEquals(Branch.EndReason.BOUNDARY, br.startEnd());
+        assertEquals(Branch.EndReason.BOUNDARY, br.finishEnd());
+        assertEquals(2, br.folds().size());
+        double[] totals0 = laws.totals(y);
+        for (BranchPoint bp : br.points()) {
+            double[] qb = q.clone();
+            qb[control] = bp.parameter();
+            double[] t = laws.totals(red.fullState(bp.state(), qb));
+            for (int c = 0; c < t.length; c++) {
+                // Totals are reconstructed by construction: rounding only (1e-15 relative on O(1) values).
+                assertEquals(c == lawE ? bp.parameter() : totals0[c], t[c], 1e-14);
+            }
+        }
+        for (Fold f : br.folds()) {
+            assertTrue(f.refined());
+            double[] qf = q.clone();
+            qf[control] = f.parameter();
+            double[] fFull = new double[6];
+            TestSystems.GK_FEEDBACK.rhs(0, red.fullState(f.state(), qf), p, fFull);
+            assertTrue(SteadyStateSolver.maxAbs(fFull, 6) < 1e-12, "full residual at the fold");
+        }
+        // Stability alternates stable - unstable - stable across the two folds (one real eigenvalue crosses).
+        assertEquals(0, br.point(0).unstableCount());
+        assertEquals(0, br.point(br.size() - 1).unstableCount());
+        assertEquals(1, br.point(br.folds().get(0).afterPoint() + 1).unstableCount());
     }
 }

@@ -172,6 +172,116 @@ final class TestSystems {
 
     static final int[][] PHOSPHO_STOICH = {{-1, 1}, {1, -1}};
 
+    /**
+     * Goldbeter-Koshland cycle with explicit complexes and positive feedback of Sp on the kinase's catalytic step;
+     * species (S, Sp, E, F, ES, FSp), reactions S+E->ES (k1 S E), ES->S+E (d1 ES), ES->Sp+E
+     * (c1 (1 + alpha Sp^2/(K^2+Sp^2)) ES), Sp+F->FSp (k2 Sp F), FSp->Sp+F (d2 FSp), FSp->S+F (c2 FSp).
+     * Parameters (k1, d1, c1, k2, d2, c2, alpha, K).
+     */
+    static final int[][] GK_STOICH = {
+        {-1, 1, 0, 0, 0, 1},
+        {0, 0, 1, -1, 1, 0},
+        {-1, 1, 1, 0, 0, 0},
+        {0, 0, 0, -1, 1, 1},
+        {1, -1, -1, 0, 0, 0},
+        {0, 0, 0, 1, -1, -1}};
+
+    static final OdeSystem GK_FEEDBACK = new OdeSystem() {
+        @Override
+        public int stateCount() {
+            return 6;
+        }
+
+        @Override
+        public int parameterCount() {
+            return 8;
+        }
+
+        private void rates(double[] y, double[] p, double[] v) {
+            double sp = y[1];
+            double h = sp * sp / (p[7] * p[7] + sp * sp);
+            v[0] = p[0] * y[0] * y[2];
+            v[1] = p[1] * y[4];
+            v[2] = p[2] * (1 + p[6] * h) * y[4];
+            v[3] = p[3] * y[1] * y[3];
+            v[4] = p[4] * y[5];
+            v[5] = p[5] * y[5];
+        }
+
+        @Override
+        public void rhs(double t, double[] y, double[] p, double[] d) {
+            double[] v = new double[6];
+            rates(y, p, v);
+            for (int i = 0; i < 6; i++) {
+                double s = 0;
+                for (int j = 0; j < 6; j++) {
+                    s += GK_STOICH[i][j] * v[j];
+                }
+                d[i] = s;
+            }
+        }
+
+        /** dv_j/dy_k, flat [j * 6 + k]. */
+        private void rateJac(double[] y, double[] p, double[] dv) {
+            java.util.Arrays.fill(dv, 0);
+            double sp = y[1];
+            double k2 = p[7] * p[7];
+            double den = k2 + sp * sp;
+            double h = sp * sp / den;
+            double dh = 2 * sp * k2 / (den * den);
+            dv[0] = p[0] * y[2];
+            dv[2] = p[0] * y[0];
+            dv[6 + 4] = p[1];
+            dv[12 + 1] = p[2] * p[6] * dh * y[4];
+            dv[12 + 4] = p[2] * (1 + p[6] * h);
+            dv[18 + 1] = p[3] * y[3];
+            dv[18 + 3] = p[3] * y[1];
+            dv[24 + 5] = p[4];
+            dv[30 + 5] = p[5];
+        }
+
+        @Override
+        public void jacobianY(double t, double[] y, double[] p, double[] jac) {
+            double[] dv = new double[36];
+            rateJac(y, p, dv);
+            for (int i = 0; i < 6; i++) {
+                for (int k = 0; k < 6; k++) {
+                    double s = 0;
+                    for (int j = 0; j < 6; j++) {
+                        s += GK_STOICH[i][j] * dv[j * 6 + k];
+                    }
+                    jac[i * 6 + k] = s;
+                }
+            }
+        }
+
+        @Override
+        public void jacobianP(double t, double[] y, double[] p, double[] jac) {
+            double sp = y[1];
+            double k2 = p[7] * p[7];
+            double den = k2 + sp * sp;
+            double h = sp * sp / den;
+            double[] dv = new double[6 * 8];
+            dv[0] = y[0] * y[2];
+            dv[8 + 1] = y[4];
+            dv[16 + 2] = (1 + p[6] * h) * y[4];
+            dv[16 + 6] = p[2] * h * y[4];
+            dv[16 + 7] = p[2] * p[6] * (-2 * p[7] * sp * sp / (den * den)) * y[4];
+            dv[24 + 3] = y[1] * y[3];
+            dv[32 + 4] = y[5];
+            dv[40 + 5] = y[5];
+            for (int i = 0; i < 6; i++) {
+                for (int k = 0; k < 8; k++) {
+                    double s = 0;
+                    for (int j = 0; j < 6; j++) {
+                        s += GK_STOICH[i][j] * dv[j * 8 + k];
+                    }
+                    jac[i * 8 + k] = s;
+                }
+            }
+        }
+    };
+
     /** Central finite-difference check helper: max relative deviation of jacobianY from differences of rhs. */
     static double jacobianYError(OdeSystem sys, double[] y, double[] p) {
         int n = sys.stateCount();

@@ -1,6 +1,7 @@
 package org.switchfit.linalg;
 
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
+import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertInstanceOf;
 import static org.junit.jupiter.api.Assertions.assertTrue;
@@ -171,5 +172,45 @@ class SparseLuTest {
         // Same structure, same arithmetic: bitwise identical results (reproducibility, common practice).
         assertArrayEquals(x, y, 0.0);
         assertFalse(LuPlan.of(30, pattern.length == 30 ? pattern : randomPattern(rnd, 30, 2)).isSparse());
+    }
+
+    @Test
+    void refactorizationReusesPivotsAndFallsBackWhenAPivotCollapses() {
+        int n = 150;
+        Random rnd = new Random(SEED + 6);
+        int[][] pattern = randomPattern(rnd, n, 3);
+        SparseLu sparse = new SparseLu(n, pattern);
+        for (int rep = 0; rep < 4; rep++) {
+            double[] a = fill(rnd, n, pattern, 4.0);
+            assertTrue(sparse.factor(a));
+            checkAgainstOracle(sparse, a, rnd);
+        }
+        // Diagonally weighted matrices keep the first pivot order acceptable: one pivoting factorisation only.
+        assertEquals(1, sparse.pivotingFactorizations());
+        assertEquals(3, sparse.refactorizations());
+        // Now zero every diagonal entry: the stored pivots (mostly diagonal) collapse, so the refactorisation must
+        // refuse and a new pivoting factorisation must still solve correctly (if the matrix is regular).
+        double[] b = fill(rnd, n, pattern, 0.0);
+        for (int i = 0; i < n; i++) {
+            b[i * n + i] = 0.0;
+        }
+        if (new DenseLu(n).factor(b)) {
+            assertTrue(sparse.factor(b));
+            assertEquals(2, sparse.pivotingFactorizations());
+            checkAgainstOracle(sparse, b, rnd);
+        }
+    }
+
+    private static void checkAgainstOracle(SparseLu lu, double[] a, Random rnd) {
+        int n = lu.size();
+        LUDecomposition oracle = new LUDecomposition(new Array2DRowRealMatrix(DenseLuTest.toRows(a, n)));
+        double[] rhs = new double[n];
+        for (int i = 0; i < n; i++) {
+            rhs[i] = rnd.nextGaussian();
+        }
+        double[] expected = oracle.getSolver().solve(new ArrayRealVector(rhs)).toArray();
+        lu.solve(rhs);
+        // Commons Math 3.6.1 oracle; 1e-8 relative to max|x| (cond up to ~1e7, see above).
+        assertArrayEquals(expected, rhs, 1e-8 * Math.max(1, DenseLuTest.maxAbs(expected)));
     }
 }

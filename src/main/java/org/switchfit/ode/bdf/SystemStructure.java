@@ -1,5 +1,6 @@
 package org.switchfit.ode.bdf;
 
+import java.lang.ref.WeakReference;
 import java.util.Collections;
 import java.util.Map;
 import java.util.WeakHashMap;
@@ -17,12 +18,15 @@ final class SystemStructure {
 
     private static final Map<OdeSystem, SystemStructure> CACHE = Collections.synchronizedMap(new WeakHashMap<>());
 
+    /** Identity check: the cache must not share structures between merely equal() systems. */
+    private final WeakReference<OdeSystem> owner;
     final LuPlan plan;
     /** Row i of the pattern occupies colIndex[rowStart[i] .. rowStart[i+1]). */
     final int[] rowStart;
     final int[] colIndex;
 
-    private SystemStructure(LuPlan plan, int[] rowStart, int[] colIndex) {
+    private SystemStructure(OdeSystem owner, LuPlan plan, int[] rowStart, int[] colIndex) {
+        this.owner = new WeakReference<>(owner);
         this.plan = plan;
         this.rowStart = rowStart;
         this.colIndex = colIndex;
@@ -30,7 +34,7 @@ final class SystemStructure {
 
     static SystemStructure of(OdeSystem sys) {
         SystemStructure s = CACHE.get(sys);
-        if (s == null) {
+        if (s == null || s.owner.get() != sys) {
             s = analyze(sys);
             CACHE.put(sys, s);
         }
@@ -51,6 +55,6 @@ final class SystemStructure {
             }
         }
         rowStart[n] = pos;
-        return new SystemStructure(LuPlan.of(n, pattern), rowStart, java.util.Arrays.copyOf(colIndex, pos));
+        return new SystemStructure(sys, LuPlan.of(n, pattern), rowStart, java.util.Arrays.copyOf(colIndex, pos));
     }
 }

@@ -294,4 +294,134 @@ final class TestSystems {
             }
         };
     }
+
+    /**
+     * One-dimensional Brusselator with diffusion (Hairer &amp; Wanner, "Solving ODEs II", 2nd ed., Sec. IV.10, problem
+     * BRUSS), N interior points, states interleaved y[2i] = u_i, y[2i+1] = v_i (banded pattern, bandwidth 2):
+     * u_i' = A + u_i^2 v_i - (B + 1) u_i + c (u_{i-1} - 2 u_i + u_{i+1}), v_i' = B u_i - u_i^2 v_i + c (v_{i-1} - 2 v_i
+     * + v_{i+1}), c = alpha (N + 1)^2, boundary u = 1, v = 3. Parameters p = {A, B, alpha}.
+     */
+    static OdeSystem brusselator(int nPoints) {
+        int n = 2 * nPoints;
+        int[][] pattern = new int[n][];
+        for (int r = 0; r < n; r++) {
+            int i = r / 2;
+            java.util.TreeSet<Integer> cols = new java.util.TreeSet<>();
+            cols.add(2 * i);
+            cols.add(2 * i + 1);
+            if (i > 0) {
+                cols.add(r - 2);
+            }
+            if (i < nPoints - 1) {
+                cols.add(r + 2);
+            }
+            pattern[r] = cols.stream().mapToInt(Integer::intValue).toArray();
+        }
+        return new OdeSystem() {
+            public int stateCount() {
+                return n;
+            }
+
+            public int parameterCount() {
+                return 3;
+            }
+
+            public void rhs(double t, double[] y, double[] p, double[] d) {
+                double c = p[2] * (nPoints + 1) * (nPoints + 1);
+                for (int i = 0; i < nPoints; i++) {
+                    double u = y[2 * i];
+                    double v = y[2 * i + 1];
+                    double ul = i > 0 ? y[2 * i - 2] : 1.0;
+                    double ur = i < nPoints - 1 ? y[2 * i + 2] : 1.0;
+                    double vl = i > 0 ? y[2 * i - 1] : 3.0;
+                    double vr = i < nPoints - 1 ? y[2 * i + 3] : 3.0;
+                    d[2 * i] = p[0] + u * u * v - (p[1] + 1) * u + c * (ul - 2 * u + ur);
+                    d[2 * i + 1] = p[1] * u - u * u * v + c * (vl - 2 * v + vr);
+                }
+            }
+
+            public void jacobianY(double t, double[] y, double[] p, double[] j) {
+                java.util.Arrays.fill(j, 0.0);
+                double c = p[2] * (nPoints + 1) * (nPoints + 1);
+                for (int i = 0; i < nPoints; i++) {
+                    double u = y[2 * i];
+                    double v = y[2 * i + 1];
+                    int ru = 2 * i * n;
+                    int rv = (2 * i + 1) * n;
+                    j[ru + 2 * i] = 2 * u * v - (p[1] + 1) - 2 * c;
+                    j[ru + 2 * i + 1] = u * u;
+                    j[rv + 2 * i] = p[1] - 2 * u * v;
+                    j[rv + 2 * i + 1] = -u * u - 2 * c;
+                    if (i > 0) {
+                        j[ru + 2 * i - 2] = c;
+                        j[rv + 2 * i - 1] = c;
+                    }
+                    if (i < nPoints - 1) {
+                        j[ru + 2 * i + 2] = c;
+                        j[rv + 2 * i + 3] = c;
+                    }
+                }
+            }
+
+            public void jacobianP(double t, double[] y, double[] p, double[] j) {
+                double c2 = (nPoints + 1) * (nPoints + 1);
+                for (int i = 0; i < nPoints; i++) {
+                    double u = y[2 * i];
+                    double v = y[2 * i + 1];
+                    double ul = i > 0 ? y[2 * i - 2] : 1.0;
+                    double ur = i < nPoints - 1 ? y[2 * i + 2] : 1.0;
+                    double vl = i > 0 ? y[2 * i - 1] : 3.0;
+                    double vr = i < nPoints - 1 ? y[2 * i + 3] : 3.0;
+                    int ru = 2 * i * 3;
+                    int rv = (2 * i + 1) * 3;
+                    j[ru] = 1.0;
+                    j[ru + 1] = -u;
+                    j[ru + 2] = c2 * (ul - 2 * u + ur);
+                    j[rv] = 0.0;
+                    j[rv + 1] = u;
+                    j[rv + 2] = c2 * (vl - 2 * v + vr);
+                }
+            }
+
+            @Override
+            public int[][] jacobianPattern() {
+                return pattern;
+            }
+        };
+    }
+
+    /** Initial state of {@link #brusselator}: u = 1 + sin(2 pi x_i), v = 3, x_i = i / (N + 1). */
+    static double[] brusselatorStart(int nPoints) {
+        double[] y = new double[2 * nPoints];
+        for (int i = 0; i < nPoints; i++) {
+            y[2 * i] = 1 + Math.sin(2 * Math.PI * (i + 1) / (nPoints + 1));
+            y[2 * i + 1] = 3.0;
+        }
+        return y;
+    }
+
+    /** The same system with the default (dense) pattern, forcing the dense LU path. */
+    static OdeSystem densePattern(OdeSystem s) {
+        return new OdeSystem() {
+            public int stateCount() {
+                return s.stateCount();
+            }
+
+            public int parameterCount() {
+                return s.parameterCount();
+            }
+
+            public void rhs(double t, double[] y, double[] p, double[] d) {
+                s.rhs(t, y, p, d);
+            }
+
+            public void jacobianY(double t, double[] y, double[] p, double[] j) {
+                s.jacobianY(t, y, p, j);
+            }
+
+            public void jacobianP(double t, double[] y, double[] p, double[] j) {
+                s.jacobianP(t, y, p, j);
+            }
+        };
+    }
 }

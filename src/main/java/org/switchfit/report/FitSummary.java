@@ -1,0 +1,101 @@
+package org.switchfit.report;
+
+import com.fasterxml.jackson.annotation.JsonInclude;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+
+/**
+ * Content of {@code result.json}, written by {@code switchfit fit}: the best parameter vector, the outcome of every
+ * start of the multistart run, the run settings and the checksums of the inputs. Immutable (collections are copied;
+ * maps keep their order).
+ *
+ * @param problem                   problem file as given on the command line
+ * @param bestNll                   lowest negative log-likelihood over all starts (NaN when all failed)
+ * @param parameters                best value of each estimated parameter on the linear scale (null entries when all
+ *                                  starts failed), in θ order
+ * @param parametersEstimationScale the same values on the estimation scale
+ * @param scales                    estimation scale token of each parameter ({@code lin}, {@code log}, {@code log10})
+ * @param bounds                    lower and upper bound of each parameter, linear scale; may be null for files
+ *                                  written before bounds were recorded
+ * @param startsNearBest            number of starts whose final value is within {@code nearBestTolerance} of the best
+ * @param nearBestTolerance         that tolerance, in NLL units (0.1)
+ * @param failedStarts              number of starts that failed
+ * @param starts                    every start, in index order
+ * @param settings                  run settings (number of starts, seed, tolerances)
+ * @param wallSeconds               wall-clock duration of the run, s
+ * @param versions                  program and runtime versions
+ * @param inputs                    every input file with its SHA-256
+ */
+@JsonInclude(JsonInclude.Include.NON_NULL)
+public record FitSummary(String problem, double bestNll, Map<String, Double> parameters,
+                         Map<String, Double> parametersEstimationScale, Map<String, String> scales,
+                         Map<String, Bounds> bounds, int startsNearBest, double nearBestTolerance, int failedStarts,
+                         List<Start> starts, Settings settings, double wallSeconds, Map<String, String> versions,
+                         List<InputFile> inputs) {
+
+    /** Copies the collections (null becomes empty, except {@code bounds}, which stays null when absent). */
+    public FitSummary {
+        parameters = copy(parameters);
+        parametersEstimationScale = copy(parametersEstimationScale);
+        scales = copy(scales);
+        bounds = bounds == null ? null : copy(bounds);
+        starts = starts == null ? List.of() : List.copyOf(starts);
+        versions = copy(versions);
+        inputs = inputs == null ? List.of() : List.copyOf(inputs);
+    }
+
+    private static <V> Map<String, V> copy(Map<String, V> m) {
+        return m == null ? Map.of() : java.util.Collections.unmodifiableMap(new LinkedHashMap<>(m));
+    }
+
+    /**
+     * One start of the multistart run.
+     *
+     * @param index       start index (0-based; the random stream is derived from seed and index)
+     * @param nll         final negative log-likelihood (NaN when failed)
+     * @param status      outcome name, e.g. {@code CONVERGED}, {@code MAX_ITERATIONS}, {@code FAILED}
+     * @param termination optimizer termination criterion name, or null
+     * @param iterations  optimizer iterations
+     * @param evaluations objective evaluations
+     * @param reason      failure reason or null
+     */
+    @JsonInclude(JsonInclude.Include.ALWAYS)
+    public record Start(int index, double nll, String status, String termination, int iterations, int evaluations,
+                        String reason) {
+        /** Whether the start failed (status {@code FAILED} or a non-finite value). */
+        public boolean failed() {
+            return "FAILED".equals(status) || !Double.isFinite(nll);
+        }
+    }
+
+    /**
+     * Run settings.
+     *
+     * @param starts       number of starts requested
+     * @param seed         random seed
+     * @param rtol         relative integration tolerance
+     * @param atol         absolute integration tolerance
+     * @param nominalStart whether start 0 was the nominal parameter vector
+     */
+    public record Settings(int starts, long seed, double rtol, double atol, boolean nominalStart) {
+    }
+
+    /**
+     * Bounds of one parameter on the linear scale.
+     *
+     * @param lower lower bound
+     * @param upper upper bound
+     */
+    public record Bounds(double lower, double upper) {
+    }
+
+    /**
+     * An input file and its checksum.
+     *
+     * @param file   path as read
+     * @param sha256 lower-case hexadecimal SHA-256 of its bytes
+     */
+    public record InputFile(String file, String sha256) {
+    }
+}

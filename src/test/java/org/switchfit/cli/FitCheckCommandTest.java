@@ -1,0 +1,109 @@
+package org.switchfit.cli;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.ObjectMapper;
+import java.io.IOException;
+import java.io.PrintWriter;
+import java.io.StringWriter;
+import java.net.URISyntaxException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.List;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+
+/** The check and fit commands on the tiny PEtab problem of the data package's test resources. */
+class FitCheckCommandTest {
+    @TempDir
+    Path dir;
+
+    private static Path tiny() throws URISyntaxException {
+        return Path.of(FitCheckCommandTest.class.getResource("/org/switchfit/data/petab-tiny/problem.yaml").toURI());
+    }
+
+    private static int run(StringWriter out, StringWriter err, String... args) {
+        return Main.execute(args, new PrintWriter(out, true), new PrintWriter(err, true));
+    }
+
+    @Test
+    void checkWritesJsonAndSimulationTable() throws Exception {
+        Path json = dir.resolve("check.json");
+        Path sims = dir.resolve("sims.tsv");
+        StringWriter out = new StringWriter();
+        StringWriter err = new StringWriter();
+        int code = run(out, err, "check", tiny().toString(), "--json", json.toString(), "--simulations",
+                sims.toString());
+        assertEquals(0, code, err.toString());
+        JsonNode j = new ObjectMapper().readTree(json.toFile());
+        assertTrue(j.get("nllAtNominal").isNumber());
+        assertEquals(4, j.get("measurements").asInt());
+        List<String> lines = Files.readAllLines(sims);
+        assertEquals(5, lines.size(), "header + one row per measurement row");
+        List<String> header = List.of(lines.get(0).split("\t"));
+        assertEquals(header.indexOf("measurement") + 1, header.indexOf("simulation"));
+        // row order kept: the last measurement row is p_log at t = 1; its simulation is exp(-0.5) (closed form:
+        // P' = -0.5 P, P(0) = 1)
+        String[] last = lines.get(4).split("\t", -1);
+        assertEquals("p_log", last[0]);
+        assertEquals(Math.exp(-0.5), Double.parseDouble(last[header.indexOf("simulation")]), 1e-6);
+    }
+
+    @Test
+    void checkReportsMismatchAgainstReference() throws Exception {
+        Path ref = dir.resolve("sim.tsv");
+        Files.writeString(ref, "observableId\tsimulationConditionId\tsimulation\ttime\n"
+                + "p_log\tstarved\t0.5\t1\n");
+        StringWriter out = new StringWriter();
+        StringWriter err = new StringWriter();
+        int code = run(out, err, "check", tiny().toString(), "--reference", ref.toString());
+        assertEquals(CheckCommand.EXIT_MISMATCH, code, out.toString());
+    }
+
+    @Test
+    void badProblemGivesOneLineAndExitCode2() throws Exception {
+        Path bad = dir.resolve("p.yaml");
+        Files.writeString(bad, "hello: 1\n");
+        StringWriter out = new StringWriter();
+        StringWriter err = new StringWriter();
+        assertEquals(Main.EXIT_USER_ERROR, run(out, err, "check", bad.toString()));
+        assertEquals(1, err.toString().strip().lines().count(), err.toString());
+        assertTrue(err.toString().startsWith("error: "), err.toString());
+    }
+
+    @Test
+    void resumedFitEqualsUninterruptedFit() throws Exception {
+        Path full = dir.resolve("full");
+        StringWriter out = new StringWriter();
+        StringWriter err = new StringWriter();
+        String p = tiny().toString();
+        assertEquals(0, run(out, err, "fit", p, "--starts", "4", "--seed", "7", "--threads", "2", "--quiet",
+                "--out", full.toString()), err.toString());
+        // An interrupted run: only starts 1 and 3 finished before the stop.
+        Path part = dir.resolve("part");
+        Files.createDirectories(part.resolve("starts"));
+        for (String k : new String[] {"start-000001.json", "start-000003.json"}) {
+            Files.copy(full.resolve("starts").resolve(k), part.resolve("starts").resolve(k));
+        }
+        assertEquals(Main.EXIT_USER_ERROR, run(out, err, "fit", p, "--starts", "4", "--seed", "7", "--quiet",
+                "--out", part.toString()), "existing starts without --resume");
+        assertEquals(0, run(out, err, "fit", p, "--starts", "4", "--seed", "7", "--threads", "1", "--quiet",
+                "--resume", "--out", part.toString()), err.toString());
+        JsonNode a = read(full.resolve("result.json"));
+        JsonNode b = read(part.resolve("result.json"));
+        assertEquals(a.get("bestNll").asDouble(), b.get("bestNll").asDouble(), 0.0);
+        assertEquals(a.get("parameters"), b.get("parameters"));
+        assertEquals(a.get("starts"), b.get("starts"));
+        assertEquals(a.get("inputs"), b.get("inputs"));
+        assertTrue(Files.isRegularFile(part.resolve("residuals.csv")));
+        String sbml = Files.readString(part.resolve("model_fitted.xml"));
+        assertTrue(sbml.contains("k_conv"), "fitted model written as SBML");
+        assertEquals(64, a.get("inputs").get(0).get("sha256").asText().length());
+    }
+
+    private static JsonNode read(Path p) throws IOException {
+        return new ObjectMapper().readTree(p.toFile());
+    }
+}

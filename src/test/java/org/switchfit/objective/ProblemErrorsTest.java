@@ -1,0 +1,78 @@
+package org.switchfit.objective;
+
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertThrows;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.nio.file.Path;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import org.switchfit.ode.SolverSettings;
+import org.switchfit.problem.ProblemLoader;
+import org.switchfit.util.UserInputException;
+
+/** Bad problem files give one line naming what, where and what to do. */
+class ProblemErrorsTest {
+    private static final String PARAMS = "parameterId | parameterScale | lowerBound | upperBound | nominalValue | "
+            + "estimate\nk | log10 | 1e-3 | 10 | 0.3 | 1";
+    private static final String CONDS = "conditionId\nc0";
+    private static final String OBS = "observableId | observableFormula | noiseFormula\nobs | X | 0.1";
+    private static final String MEAS = "observableId | simulationConditionId | measurement | time\nobs | c0 | 1.0 | 1";
+
+    @TempDir
+    Path dir;
+
+    private String failure(String params, String conds, String obs, String meas, String... expected) {
+        Path yaml = PetabFiles.write(dir, PetabFiles.DECAY_MODEL, params, conds, obs, meas);
+        UserInputException e = assertThrows(UserInputException.class, () -> LikelihoodObjective.of(
+                ProblemLoader.load(yaml), SolverSettings.defaults()));
+        String msg = e.getMessage();
+        assertFalse(msg.contains("\n"), "one line: " + msg);
+        for (String s : expected) {
+            assertTrue(msg.contains(s), "'" + s + "' missing in: " + msg);
+        }
+        return msg;
+    }
+
+    @Test
+    void unknownObservableInMeasurements() {
+        failure(PARAMS, CONDS, OBS, "observableId | simulationConditionId | measurement | time\nobz | c0 | 1 | 1",
+                "measurements.tsv", "line 2", "'obz'", "observable table");
+    }
+
+    @Test
+    void unknownConditionInMeasurements() {
+        failure(PARAMS, CONDS, OBS, "observableId | simulationConditionId | measurement | time\nobs | c9 | 1 | 1",
+                "measurements.tsv", "line 2", "'c9'", "condition table");
+    }
+
+    @Test
+    void unknownSymbolInObservableFormula() {
+        failure(PARAMS, CONDS, "observableId | observableFormula | noiseFormula\nobs | X * scale | 0.1", MEAS,
+                "observables.tsv", "'scale'", "parameter table");
+    }
+
+    @Test
+    void conditionColumnThatIsNotAModelEntity() {
+        failure(PARAMS, "conditionId | kk\nc0 | 1", OBS, MEAS, "conditions.tsv", "'kk'", "remove the column");
+    }
+
+    @Test
+    void logScaleWithZeroLowerBound() {
+        failure("parameterId | parameterScale | lowerBound | upperBound | nominalValue | estimate\n"
+                + "k | log10 | 0 | 10 | 0.3 | 1", CONDS, OBS, MEAS, "parameters.tsv", "'k'", "positive bound");
+    }
+
+    @Test
+    void nonPositiveDataOnLogScale() {
+        failure(PARAMS, CONDS, "observableId | observableFormula | noiseFormula | observableTransformation\n"
+                + "obs | X | 0.1 | log", "observableId | simulationConditionId | measurement | time\nobs | c0 | 0 | 1",
+                "measurements.tsv", "line 2", "not positive", "observableTransformation lin");
+    }
+
+    @Test
+    void unparsableFormula() {
+        failure(PARAMS, CONDS, "observableId | observableFormula | noiseFormula\nobs | X * (1 + | 0.1", MEAS,
+                "observables.tsv", "cannot parse formula");
+    }
+}
