@@ -23,6 +23,10 @@ import picocli.CommandLine.Command;
             ProfileCommand.class,
             BenchProfilesCommand.class,
             DemoCommand.class,
+            BenchProfilesCommand.class,
+            BranchesCommand.class,
+            RegionCommand.class,
+            SweepCommand.class,
         })
 public final class Main implements Runnable {
 
