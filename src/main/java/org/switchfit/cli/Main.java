@@ -21,7 +21,6 @@ import picocli.CommandLine.Command;
             BenchPetabCommand.class,
             ReportCommand.class,
             ProfileCommand.class,
-            BenchProfilesCommand.class,
             DemoCommand.class,
             BenchProfilesCommand.class,
             BranchesCommand.class,
