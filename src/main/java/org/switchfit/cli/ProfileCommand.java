@@ -17,7 +17,6 @@ import org.switchfit.profile.JacobianRankCheck;
 import org.switchfit.profile.ProfileLikelihood;
 import org.switchfit.profile.RankReport;
 import org.switchfit.report.Json;
-import org.switchfit.report.ProfileDiagnostics;
 import org.switchfit.report.ResultStore;
 import org.switchfit.util.SourceLocation;
 import org.switchfit.util.UserInputException;
@@ -157,32 +156,31 @@ public final class ProfileCommand implements Callable<Integer> {
     static ProfilesJson assemble(FitDirectoryInput in, FitProblem fp, ProfileLikelihood pl,
                                  List<ProfilesJson.Stored> results, String foldStatus, long seed) {
         int dof = Math.max(1, fp.freeCount());
+        ProfilesJson.Thresholds th = new ProfilesJson.Thresholds(pl.threshold(1), pl.threshold(dof), dof);
         double best = in.nllAtOptimum();
         double found = best;
         boolean better = false;
         List<ProfilesJson.Entry> entries = new ArrayList<>();
         for (ProfilesJson.Stored s : results) {
             entries.add(s.entry());
-            better |= s.entry().details().betterOptimumFound();
+            better |= s.entry().betterOptimumFound();
             for (ProfilesJson.Point p : s.entry().points()) {
                 if (p.nll() < found) {
                     found = p.nll();
                 }
             }
         }
-        ProfileDiagnostics diag = new ProfileDiagnostics(pl.threshold(1), pl.threshold(dof), dof, better, found,
-                foldStatus, rankCheck(fp, in.optimum(), seed));
-        return new ProfilesJson(pl.level(), best, entries, diag);
+        return new ProfilesJson(pl.level(), best, th, better, found, foldStatus, rankCheck(fp, in.optimum(), seed),
+                entries);
     }
 
-    static ProfileDiagnostics.RankCheck rankCheck(FitProblem fp, double[] optimum, long seed) {
+    static ProfilesJson.RankCheck rankCheck(FitProblem fp, double[] optimum, long seed) {
         JacobianRankCheck rc = JacobianRankCheck.defaults();
         RankReport at;
         try {
             at = rc.atPoint(fp, optimum);
         } catch (RuntimeException e) {
-            return new ProfileDiagnostics.RankCheck(null, List.of(), "rank check at the optimum failed: "
-                    + e.getMessage());
+            return new ProfilesJson.RankCheck(null, List.of(), "rank check at the optimum failed: " + e.getMessage());
         }
         List<RankReport> random = new ArrayList<>();
         String msg = "";
@@ -191,7 +189,7 @@ public final class ProfileCommand implements Callable<Integer> {
         } catch (RuntimeException e) {
             msg = "rank check at random points failed: " + e.getMessage();
         }
-        return new ProfileDiagnostics.RankCheck(at, random, msg);
+        return new ProfilesJson.RankCheck(at, random, msg);
     }
 
     private void printSummary(PrintWriter out, PrintWriter err, ProfilesJson f, double seconds) {
@@ -201,17 +199,17 @@ public final class ProfileCommand implements Callable<Integer> {
             out.printf(Locale.ROOT, "%-12s %-28s %14.6g %14s %14s  %s%s%n", e.kind(), e.id(), e.estimate(),
                     e.lower() == null ? "open" : String.format(Locale.ROOT, "%.6g", e.lower()),
                     e.upper() == null ? "open" : String.format(Locale.ROOT, "%.6g", e.upper()), e.classification(),
-                    e.details().bounds() == null ? "" : " (" + e.details().bounds() + ")");
+                    e.bounds() == null ? "" : " (" + e.bounds() + ")");
         }
-        ProfileDiagnostics.RankCheck rc = f.diagnostics().rankCheck();
+        ProfilesJson.RankCheck rc = f.rankCheck();
         if (rc.atOptimum() != null) {
             out.printf(Locale.ROOT, "Jacobian rank at the optimum: %d of %d%n", rc.atOptimum().rank(),
                     rc.atOptimum().freeCount());
             rc.atOptimum().nullSpace().forEach(d -> out.println("  null direction: " + d.description()));
         }
-        if (f.diagnostics().betterOptimumFound()) {
+        if (f.betterOptimumFound()) {
             err.println("WARNING: A BETTER OPTIMUM WAS FOUND while profiling: NLL " + String.format(Locale.ROOT,
-                    "%.10g < %.10g", f.diagnostics().bestNllFound(), f.bestNll()) + ". The fit did not reach the optimum; the "
+                    "%.10g < %.10g", f.bestNllFound(), f.bestNll()) + ". The fit did not reach the optimum; the "
                     + "affected profiles restarted from the better point. Re-run the fit (more starts) and profile "
                     + "again.");
         }

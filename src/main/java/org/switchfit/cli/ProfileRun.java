@@ -19,7 +19,6 @@ import org.switchfit.profile.Profile;
 import org.switchfit.profile.ProfileLikelihood;
 import org.switchfit.profile.ProfilePoint;
 import org.switchfit.report.Csv;
-import org.switchfit.report.ProfileDiagnostics;
 import org.switchfit.report.ResultStore;
 import org.switchfit.util.SourceLocation;
 import org.switchfit.util.UserInputException;
@@ -131,10 +130,10 @@ final class ProfileRun {
         ConfidenceInterval ci = p.pointwise();
         ConfidenceInterval cs = p.simultaneous();
         List<String> comp = new ArrayList<>();
-        List<ProfileDiagnostics.Compensation> comps = new ArrayList<>();
+        List<ProfilesJson.Compensation> comps = new ArrayList<>();
         for (Compensation c : p.compensations()) {
             comp.add(c.parameterId());
-            comps.add(new ProfileDiagnostics.Compensation(c.parameterId(), c.slope(), c.min(), c.max()));
+            comps.add(new ProfilesJson.Compensation(c.parameterId(), c.slope(), c.min(), c.max()));
         }
         Double lo = end(param, k, ci.lower());
         Double hi = end(param, k, ci.upper());
@@ -149,11 +148,10 @@ final class ProfileRun {
             case "ln" -> "log";
             default -> scale;
         };
-        ProfileDiagnostics.Entry d = new ProfileDiagnostics.Entry(end(param, k, cs.lower()), end(param, k, cs.upper()),
-                bounds, comps, p.optimumNll(), p.betterOptimumFound(), p.lowerSide().name(), p.upperSide().name(),
-                p.solves(), p.message());
-        ProfilesJson.Entry e = new ProfilesJson.Entry(t.id(), t.kind(), scale, linear(param, k, p.optimumValue()),
-                lo, hi, p.optimumNll() + q1 / 2, className(p.identifiability()), comp, pts, d);
+        ProfilesJson.Entry e = new ProfilesJson.Entry(t.id(), t.kind(), scale,
+                linear(param, k, p.optimumValue()), lo, hi, end(param, k, cs.lower()), end(param, k, cs.upper()),
+                p.optimumNll() + q1 / 2, className(p.identifiability()), bounds, comp, comps, p.optimumNll(),
+                p.betterOptimumFound(), p.lowerSide().name(), p.upperSide().name(), p.solves(), p.message(), pts);
         return new ProfilesJson.Stored(likelihood.level(), e, List.of(problem.ids()), thetas);
     }
 
@@ -183,7 +181,7 @@ final class ProfileRun {
             Object[] row = new Object[3 + s.parameterIds().size()];
             row[0] = pts.get(i).value();
             row[1] = pts.get(i).nll();
-            row[2] = 2 * (pts.get(i).nll() - s.entry().details().optimumNll());
+            row[2] = 2 * (pts.get(i).nll() - s.entry().optimumNll());
             double[] th = s.pointParameters().get(i);
             for (int j = 0; j < th.length; j++) {
                 row[3 + j] = th[j];

@@ -12,18 +12,12 @@ import java.util.List;
  * @param level    confidence level of the intervals, e.g. 0.95
  * @param bestNll  negative log-likelihood at the best fit the profiles start from
  * @param profiles one entry per profiled quantity
- * @param diagnostics thresholds, better-optimum flag and structural rank check of the run; null when absent
  */
-public record ProfilesFile(double level, double bestNll, List<Entry> profiles, ProfileDiagnostics diagnostics) {
+public record ProfilesFile(double level, double bestNll, List<Entry> profiles) {
 
     /** Copies the list (null becomes empty). */
     public ProfilesFile {
         profiles = profiles == null ? List.of() : List.copyOf(profiles);
-    }
-
-    /** A file without run diagnostics. */
-    public ProfilesFile(double level, double bestNll, List<Entry> profiles) {
-        this(level, bestNll, profiles, null);
     }
 
     /** What was profiled. */
@@ -62,23 +56,15 @@ public record ProfilesFile(double level, double bestNll, List<Entry> profiles, P
      * @param compensating   ids of the parameters that change most along the profile (compensating the profiled
      *                       one), strongest first
      * @param points         profile points in ascending order of value
-     * @param details        simultaneous interval, side statuses and other diagnostics; null when absent
      */
     public record Entry(String id, Kind kind, String scale, double estimate, Double lower, Double upper,
                         double thresholdNll, @JsonProperty("class") Identifiability classification,
-                        List<String> compensating, List<Point> points, ProfileDiagnostics.Entry details) {
+                        List<String> compensating, List<Point> points) {
 
         /** Copies the lists (null becomes empty). */
         public Entry {
             compensating = compensating == null ? List.of() : List.copyOf(compensating);
             points = points == null ? List.of() : List.copyOf(points);
-        }
-
-        /** An entry without diagnostics. */
-        public Entry(String id, Kind kind, String scale, double estimate, Double lower, Double upper,
-                     double thresholdNll, Identifiability classification, List<String> compensating,
-                     List<Point> points) {
-            this(id, kind, scale, estimate, lower, upper, thresholdNll, classification, compensating, points, null);
         }
 
         /** Whether the quantity is shown on a logarithmic axis. */

@@ -125,8 +125,8 @@ class ProfileCommandTest {
         double q2 = new ChiSquaredDistribution(2).inverseCumulativeProbability(0.95);
         JsonNode root = profiles();
         assertEquals(0.95, root.get("level").asDouble());
-        assertEquals(q1, root.get("diagnostics").get("pointwiseThreshold").asDouble(), 1e-12);
-        assertEquals(q2, root.get("diagnostics").get("simultaneousThreshold").asDouble(), 1e-12);
+        assertEquals(q1, root.get("thresholds").get("pointwise").asDouble(), 1e-12);
+        assertEquals(q2, root.get("thresholds").get("simultaneous").asDouble(), 1e-12);
         JsonNode k = entry(root, "k");
         double hk = SIGMA * Math.sqrt(q1 / g.stt);
         double hk2 = SIGMA * Math.sqrt(q2 / g.stt);
@@ -134,8 +134,8 @@ class ProfileCommandTest {
         assertRel(g.k, k.get("estimate"), "k estimate");
         assertRel(g.k - hk, k.get("lower"), "k lower");
         assertRel(g.k + hk, k.get("upper"), "k upper");
-        assertRel(g.k - hk2, k.get("details").get("lowerSimultaneous"), "k lower simultaneous");
-        assertRel(g.k + hk2, k.get("details").get("upperSimultaneous"), "k upper simultaneous");
+        assertRel(g.k - hk2, k.get("lowerSimultaneous"), "k lower simultaneous");
+        assertRel(g.k + hk2, k.get("upperSimultaneous"), "k upper simultaneous");
         assertEquals("identifiable", k.get("class").asText());
         JsonNode x0 = entry(root, "x0");
         double ha = SIGMA * Math.sqrt(q1 * (1.0 / g.n + g.tb * g.tb / g.stt));
@@ -145,8 +145,8 @@ class ProfileCommandTest {
         assertEquals("log10", x0.get("scale").asText());
         // the profile of k moves x0 along: a(k) = ȳ + k t̄, so x0 compensates
         assertEquals("x0", k.get("compensating").get(0).asText());
-        assertFalse(root.get("diagnostics").get("betterOptimumFound").asBoolean());
-        assertEquals(2, root.get("diagnostics").get("rankCheck").get("atOptimum").get("rank").asInt());
+        assertFalse(root.get("betterOptimumFound").asBoolean());
+        assertEquals(2, root.get("rankCheck").get("atOptimum").get("rank").asInt());
         for (JsonNode p : k.get("points")) {
             assertTrue(p.has("value") && p.has("nll"));
         }
@@ -158,8 +158,9 @@ class ProfileCommandTest {
         assertEquals(3, f.profiles().size());
         assertEquals(ProfilesFile.Kind.PREDICTION, f.profiles().get(2).kind());
         assertEquals(ProfilesFile.Identifiability.IDENTIFIABLE, f.profiles().get(0).classification());
-        assertNotNull(f.diagnostics().rankCheck().atOptimum());
-        assertEquals(ProfileCommand.RANK_POINTS, f.diagnostics().rankCheck().random().size());
+        assertNotNull(f.rankCheck().atOptimum());
+        assertEquals(ProfileCommand.RANK_POINTS, f.rankCheck().random().size());
+        assertEquals("pinned", f.profiles().get(2).bounds());
     }
 
     @Test
@@ -173,7 +174,7 @@ class ProfileCommandTest {
         assertRel(Math.exp(c), e.get("estimate"), "y(t*)");
         assertRel(Math.exp(c - h), e.get("lower"), "y(t*) lower");
         assertRel(Math.exp(c + h), e.get("upper"), "y(t*) upper");
-        assertEquals("pinned", e.get("details").get("bounds").asText());
+        assertEquals("pinned", e.get("bounds").asText());
     }
 
     @Test
@@ -217,7 +218,7 @@ class ProfileCommandTest {
         Result r = run("profile", fitDir.toString(), "--resume", "--folds", "--predict", "obs@" + T_STAR);
         assertEquals(0, r.code(), r.err());
         assertTrue(r.err().contains("fold predictions not available in this build"), r.err());
-        assertEquals("fold predictions not available in this build", profiles().get("diagnostics").get("folds").asText());
+        assertEquals("fold predictions not available in this build", profiles().get("folds").asText());
     }
 
     /** A copy of the fit directory holding only result.json, optionally with θ_k shifted. */
@@ -244,7 +245,7 @@ class ProfileCommandTest {
         JsonNode a = profiles();
         JsonNode b = Json.mapper().readTree(d.resolve("profiles.json").toFile());
         assertEquals(entry(a, "k"), entry(b, "k"));
-        assertEquals(a.get("diagnostics").get("rankCheck"), b.get("diagnostics").get("rankCheck"));
+        assertEquals(a.get("rankCheck"), b.get("rankCheck"));
         assertEquals(a.get("bestNll"), b.get("bestNll"));
     }
 
@@ -257,10 +258,10 @@ class ProfileCommandTest {
         assertEquals(0, r.code(), r.err());
         assertTrue(r.err().contains("A BETTER OPTIMUM WAS FOUND"), r.err());
         JsonNode root = Json.mapper().readTree(d.resolve("profiles.json").toFile());
-        assertTrue(root.get("diagnostics").get("betterOptimumFound").asBoolean());
-        assertTrue(root.get("diagnostics").get("bestNllFound").asDouble() < root.get("bestNll").asDouble() - 1.0);
+        assertTrue(root.get("betterOptimumFound").asBoolean());
+        assertTrue(root.get("bestNllFound").asDouble() < root.get("bestNll").asDouble() - 1.0);
         JsonNode x0 = entry(root, "x0");
-        assertTrue(x0.get("details").get("betterOptimumFound").asBoolean());
+        assertTrue(x0.get("betterOptimumFound").asBoolean());
         // after the restart the interval is the closed-form one again
         Regression g = new Regression();
         double q1 = new ChiSquaredDistribution(1).inverseCumulativeProbability(0.95);
