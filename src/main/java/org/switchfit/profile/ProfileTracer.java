@@ -194,7 +194,9 @@ final class ProfileTracer {
             try {
                 p = slice.solve(z, warm);
             } catch (ObjectiveException e) {
-                break;
+                // No point at the secant estimate: return the estimate itself (second-order accurate where the
+                // signed root is smooth), not a bracket end, which can be a whole step away.
+                return z;
             }
             extra.add(p);
             // The slice may return a point at a value slightly off the request (prediction constraint met to

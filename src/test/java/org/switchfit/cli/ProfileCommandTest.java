@@ -17,7 +17,10 @@ import org.hipparchus.distribution.continuous.ChiSquaredDistribution;
 import org.junit.jupiter.api.BeforeAll;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
+import org.switchfit.report.FitDirectory;
+import org.switchfit.report.FitFile;
 import org.switchfit.report.Json;
+import org.switchfit.report.ProfilesFile;
 
 /**
  * The profile command end to end on a problem whose profiles are known in closed form.
@@ -35,8 +38,8 @@ import org.switchfit.report.Json;
  * <p>Tolerance {@link #TOL} = 1e-6 relative: the objective is integrated at rtol 1e-10 / atol 1e-14, so ln X
  * carries errors of about 1e-9 (global error can exceed the local tolerance by one to two orders, common practice),
  * which moves residuals by 1e-8 (÷ σ) and the interval ends by the same relative order; the LM optimum and the
- * crossing refinement (secant to 1e-12) add less. Measured at commit time: largest relative error 7.3e-9 (the
- * prediction estimate), interval ends ≤ 4.6e-10, so 1e-6 leaves a margin above 100.
+ * crossing refinement (secant to 1e-12) add less. Measured: largest relative error 7.3e-9 (the prediction
+ * estimate), interval ends ≤ 4.6e-10, so 1e-6 leaves a margin above 100.
  */
 class ProfileCommandTest {
     private static final double[] T = {0, 1, 2, 3, 4, 6};
@@ -147,6 +150,17 @@ class ProfileCommandTest {
         for (JsonNode p : k.get("points")) {
             assertTrue(p.has("value") && p.has("nll"));
         }
+    }
+
+    @Test
+    void reportSchemaReadsTheFile() {
+        ProfilesFile f = FitDirectory.of(fitDir).read(FitFile.PROFILES);
+        assertEquals(3, f.profiles().size());
+        assertEquals(ProfilesFile.Kind.PREDICTION, f.profiles().get(2).kind());
+        assertEquals(ProfilesFile.Identifiability.IDENTIFIABLE, f.profiles().get(0).classification());
+        assertNotNull(f.rankCheck().atOptimum());
+        assertEquals(ProfileCommand.RANK_POINTS, f.rankCheck().random().size());
+        assertEquals("pinned", f.profiles().get(2).bounds());
     }
 
     @Test
