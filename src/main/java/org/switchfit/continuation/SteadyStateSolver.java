@@ -38,9 +38,12 @@ public record SteadyStateSolver(double residualTolerance, double stepTolerance, 
         }
     }
 
-    /** Defaults: |f| 1e-10, step 1e-12, 50 Newton steps, 2000 pseudo-transient steps, dt0 1e-3, eigen up to 600. */
+    /**
+     * Defaults: |f| 1e-10, step 1e-12, 50 Newton steps, 2000 pseudo-transient steps, dt0 1e-3, eigenvalues up to
+     * 100 states (see {@link ContinuationSettings#of} for their cost).
+     */
     public static SteadyStateSolver defaults() {
-        return new SteadyStateSolver(1e-10, 1e-12, 50, 2000, 1e-3, 600);
+        return new SteadyStateSolver(1e-10, 1e-12, 50, 2000, 1e-3, 100);
     }
 
     /** Copy with other tolerances. */

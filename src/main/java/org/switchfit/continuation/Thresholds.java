@@ -194,13 +194,38 @@ public final class Thresholds {
     }
 
     private static int argmaxResponse(OdeSystem sys, Branch br, double[] p, int control, double[] c) {
+        int n = sys.stateCount();
+        int m = sys.parameterCount();
+        LinearSolver lu = LinearSolvers.forPattern(n, sys.jacobianPattern());
+        double[] q = p.clone();
+        double[] jac = new double[n * n];
+        double[] jp = new double[n * m];
+        double[] z = new double[n];
         int best = -1;
         double bestR = -1;
-        for (int i = 0; i < br.size(); i++) {
-            double r = Math.abs(response(sys, br.point(i).state(), p, control, br.point(i).parameter(), c));
+        for (int k = 0; k < br.size(); k++) {
+            BranchPoint bp = br.point(k);
+            double[] y = bp.state();
+            q[control] = bp.parameter();
+            sys.jacobianY(0, y, q, jac);
+            sys.jacobianP(0, y, q, jp);
+            double r;
+            if (!lu.factor(jac, n)) {
+                r = Double.POSITIVE_INFINITY;
+            } else {
+                for (int i = 0; i < n; i++) {
+                    z[i] = -jp[i * m + control];
+                }
+                lu.solve(z, z);
+                r = 0;
+                for (int i = 0; i < n; i++) {
+                    r += c[i] * z[i];
+                }
+                r = Math.abs(r);
+            }
             if (r > bestR) {
                 bestR = r;
-                best = i;
+                best = k;
             }
         }
         return best;
@@ -214,31 +239,6 @@ public final class Thresholds {
         return Math.sqrt(s);
     }
 
-    private static double response(OdeSystem sys, double[] y, double[] p, int control, double lam, double[] c) {
-        int n = sys.stateCount();
-        int m = sys.parameterCount();
-        double[] q = p.clone();
-        q[control] = lam;
-        double[] jac = new double[n * n];
-        double[] jp = new double[n * m];
-        sys.jacobianY(0, y, q, jac);
-        sys.jacobianP(0, y, q, jp);
-        LinearSolver lu = LinearSolvers.forSize(n);
-        if (!lu.factor(jac, n)) {
-            return Double.POSITIVE_INFINITY;
-        }
-        double[] z = new double[n];
-        for (int i = 0; i < n; i++) {
-            z[i] = -jp[i * m + control];
-        }
-        lu.solve(z, z);
-        double r = 0;
-        for (int i = 0; i < n; i++) {
-            r += c[i] * z[i];
-        }
-        return r;
-    }
-
     /** g(λ) = c^T z' on the equilibrium branch; keeps its last equilibrium in y. One thread. */
     private static final class Evaluator {
         final OdeSystem sys;
@@ -248,6 +248,23 @@ public final class Thresholds {
         final int n;
         final int m;
         double[] y;
+        private final LinearSolver lu;
+        private final SteadyStateSolver tight = new SteadyStateSolver(1e-13, 1e-14, 60, 0, 1e-3, 0);
+        private final SteadyStateSolver loose = new SteadyStateSolver(1e-11, 1e-13, 60, 0, 1e-3, 0);
+        private final double[] jac;
+        private final double[] jp;
+        private final double[] jpp;
+        private final double[] jpm;
+        private final double[] dz;
+        private final double[] djl;
+        private final double[] scratchNn;
+        private final double[] scratchN;
+        private final double[] scratchM;
+        private final double[] f;
+        private final double[] z;
+        private final double[] bz;
+        private final double[] jlz;
+        private final double[] rhs;
 
         Evaluator(OdeSystem sys, double[] p, int control, double[] c) {
             this.sys = sys;
@@ -256,22 +273,32 @@ public final class Thresholds {
             this.c = c;
             this.n = sys.stateCount();
             this.m = sys.parameterCount();
+            this.lu = LinearSolvers.forPattern(n, sys.jacobianPattern());
+            jac = new double[n * n];
+            jp = new double[n * m];
+            jpp = new double[n * m];
+            jpm = new double[n * m];
+            dz = new double[n * n];
+            djl = new double[n * n];
+            scratchNn = new double[n * n];
+            scratchN = new double[n];
+            scratchM = new double[m];
+            f = new double[n];
+            z = new double[n];
+            bz = new double[n];
+            jlz = new double[n];
+            rhs = new double[n];
         }
 
         double g(double lam, double[] guess) {
             p[control] = lam;
-            SteadyStateSolver ss = new SteadyStateSolver(1e-13, 1e-14, 60, 0, 1e-3, 0);
             try {
-                y = ss.solve(sys, guess, p).state();
+                y = tight.solve(sys, guess, p).state();
             } catch (ContinuationException e) {
-                y = new SteadyStateSolver(1e-11, 1e-13, 60, 0, 1e-3, 0).solve(sys, guess, p).state();
+                y = loose.solve(sys, guess, p).state();
             }
-            double[] jac = new double[n * n];
-            double[] jp = new double[n * m];
-            LinearSolver lu = LinearSolvers.forSize(n);
             // Two plain Newton steps past convergence: near a steep response g amplifies state errors by
             // |dy/dλ|^2 or more, so the equilibrium is taken to the rounding floor.
-            double[] f = new double[n];
             for (int it = 0; it < 2; it++) {
                 sys.rhs(0, y, p, f);
                 sys.jacobianY(0, y, p, jac);
@@ -288,28 +315,20 @@ public final class Thresholds {
                 throw new ContinuationException(String.format(Locale.ROOT,
                         "singular Jacobian at λ = %.6g while locating the steepest response", lam));
             }
-            double[] z = new double[n];
             for (int i = 0; i < n; i++) {
                 z[i] = -jp[i * m + control];
             }
             lu.solve(z, z);
-            double[] dz = new double[n * n];
-            FoldMath.directionalJacobian(sys, y, p, z, dz, new double[n], new double[n * n]);
-            double[] djl = new double[n * n];
-            FoldMath.parameterJacobianDerivative(sys, y, p, control, djl, new double[m], new double[n * n]);
+            FoldMath.directionalJacobian(sys, y, p, z, dz, scratchN, scratchNn);
+            FoldMath.parameterJacobianDerivative(sys, y, p, control, djl, scratchM, scratchNn);
             double eps = 1e-5 * (1 + Math.abs(lam));
-            double[] jpp = new double[n * m];
-            double[] jpm = new double[n * m];
             p[control] = lam + eps;
             sys.jacobianP(0, y, p, jpp);
             p[control] = lam - eps;
             sys.jacobianP(0, y, p, jpm);
             p[control] = lam;
-            double[] bz = new double[n];
-            double[] jlz = new double[n];
             FoldMath.multiply(dz, z, bz, n);
             FoldMath.multiply(djl, z, jlz, n);
-            double[] rhs = new double[n];
             for (int i = 0; i < n; i++) {
                 double fll = (jpp[i * m + control] - jpm[i * m + control]) / (2 * eps);
                 rhs[i] = -(bz[i] + 2 * jlz[i] + fll);

@@ -39,6 +39,7 @@ class FoldCurvesTest {
         // so p = -2x^3 and q = 3x^2 are below 1e-10.
         assertEquals(0, cusp.p1(), 1e-10);
         assertEquals(0, cusp.p2(), 1e-10);
+        // x enters p and q as x^3 and x^2, so x itself is only determined to ~sqrt(1e-12): 1e-6 absolute.
         assertEquals(0, cusp.state()[0], 1e-6);
 
         BistableRegion region = BistableRegion.of(curve, -1, 1, -0.5, 1.0);
@@ -51,5 +52,25 @@ class FoldCurvesTest {
         assertTrue(region.contains(0.1, 0.5)); // 27*0.01 = 0.27 < 4*0.125 = 0.5
         assertFalse(region.contains(0.2, 0.5)); // 27*0.04 = 1.08 > 0.5
         assertFalse(region.contains(0, -0.2));
+    }
+
+    @Test
+    void regionClosedAlongTheBoxCorners() {
+        // Same cubic in the box p in [-0.2, 0.2], q in [-0.5, 1]: the fold curve leaves through the side edges
+        // at q = (27 * 0.04 / 4)^{1/3} = 0.646, so the region is closed over the two top corners. Closed form:
+        // area = 0.4 - 2 ∫_0^0.2 (27/4)^{1/3} p^{2/3} dp = 0.4 - 2 (27/4)^{1/3} (3/5) 0.2^{5/3}.
+        double[] p = {-0.2, 0.5}; // folds at ±2 (1/6)^{3/2} = ±0.136, inside the box
+        Branch br = new PseudoArclength(ContinuationSettings.of(-0.2, 0.2)).trace(TestSystems.CUBIC,
+                new double[] {-1.2}, p, 0, +1);
+        Fold start = br.folds().get(0);
+        FoldCurves fc = new FoldCurves(ContinuationSettings.of(-0.2, 0.2).withSteps(0.01, 1e-9, 0.02), -0.5, 1.0);
+        FoldCurve curve = fc.trace(TestSystems.CUBIC, start, p, 1);
+        BistableRegion region = BistableRegion.of(curve, -0.2, 0.2, -0.5, 1.0);
+        assertFalse(region.closedByChord());
+        double exact = 0.4 - 2 * Math.cbrt(27.0 / 4) * 0.6 * Math.pow(0.2, 5.0 / 3);
+        // Chord error as in the test above: 1e-3 relative.
+        assertEquals(exact, region.area(), 1e-3 * exact);
+        assertTrue(region.contains(0.15, 0.9));
+        assertFalse(region.contains(0.15, 0.5));
     }
 }

@@ -72,6 +72,7 @@ class FoldsTest {
                 new double[] {-1.5}, new double[] {-2, q}, 0, +1);
         Fold max = br.folds().get(0);
         double[] g = Folds.parameterGradient(TestSystems.CUBIC, max, new double[] {0, q});
+        // The formula is exact (null vectors of a 1x1 J); 1e-12 absolute covers rounding of the refined fold.
         assertEquals(Math.sqrt(q / 3), g[1], 1e-12);
     }
 

@@ -30,6 +30,7 @@ class HysteresisSweepTest {
         }
         for (int k = 0; k < 3; k++) {
             assertTrue(upErr[k] > 0 && downErr[k] > 0, "jumps are delayed past the folds");
+            // Exact symmetry of the problem; 2e-4 absolute = two sample spacings in λ (2/20000) after interpolation.
             assertEquals(upErr[k], downErr[k], 1e-3 * upErr[k] + 2e-4, "symmetry p -> -p, x -> -x");
         }
         for (int k = 0; k < 2; k++) {

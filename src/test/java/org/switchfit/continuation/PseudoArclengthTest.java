@@ -28,11 +28,13 @@ class PseudoArclengthTest {
         Fold down = folds.get(1);
         assertTrue(up.refined() && down.refined());
         assertEquals(pStar, up.parameter(), REL_TOL_FOLD * pStar);
+        // The state at a fold is determined to ~sqrt(eps * scale) only in the null direction; 1e-8 absolute.
         assertEquals(-1 / Math.sqrt(3), up.state()[0], 1e-8);
         assertEquals(Fold.Kind.MAXIMUM, up.kind());
         assertEquals(-pStar, down.parameter(), REL_TOL_FOLD * pStar);
         assertEquals(Fold.Kind.MINIMUM, down.kind());
         // Normal-form coefficient a = f_xx = -6 x* (closed form, w = v = ±1 with w v = 1).
+        // a uses a central difference of J (step 1e-5, error O(step^2) relative): 1e-6 absolute.
         assertEquals(6 / Math.sqrt(3), up.quadratic(), 1e-6);
         // Stability: outer branches stable (f_x = 1 - 3x^2 < 0), middle unstable (closed form).
         for (BranchPoint bp : br.points()) {
@@ -115,9 +117,11 @@ class PseudoArclengthTest {
                 double[] yf = red.fullState(f.state(), qf);
                 double[] fFull = new double[2];
                 TestSystems.PHOSPHO_FEEDBACK.rhs(0, yf, java.util.Arrays.copyOf(qf, 4), fFull);
+                // Newton residual at convergence, rounding level for O(1) rates: 1e-12 absolute.
                 assertEquals(0, fFull[1], 1e-12, "full residual at the fold");
                 double[] jr = new double[1];
                 red.jacobianY(0, f.state(), qf, jr);
+                // J_r is O(1) away from the fold and vanishes linearly with the fold error (~1e-12): 1e-9.
                 assertEquals(0, jr[0], 1e-9, "reduced Jacobian singular at the fold");
             }
         }
@@ -131,6 +135,7 @@ class PseudoArclengthTest {
         Branch br = pal.trace(TestSystems.BRUSSELATOR, new double[] {a, 1 / a}, new double[] {a, 1}, 1, +1);
         assertEquals(1, br.hopfs().size());
         Hopf h = br.hopfs().get(0);
+        // Secant on Re(λ) stops at |Re| <= 1e-13 or a bracket of 1e-11 relative: 1e-10 relative has margin.
         assertEquals(1 + a * a, h.parameter(), 1e-10 * (1 + a * a));
         assertEquals(a, h.frequency(), 1e-10);
         assertEquals(0, br.folds().size());

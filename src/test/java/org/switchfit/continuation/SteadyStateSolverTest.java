@@ -17,6 +17,7 @@ class SteadyStateSolverTest {
         SteadyState s = SteadyStateSolver.defaults().solve(TestSystems.CUBIC, new double[] {1.3}, new double[] {0, 1});
         assertEquals(1.0, s.state()[0], ABS_TOL);
         assertEquals(0, s.unstableCount());
+        // Eigenvalue of a 1x1 Jacobian at a state accurate to 1e-12: 1e-10 absolute.
         assertEquals(-2.0, s.eigenReal()[0], 1e-10);
     }
 
@@ -42,6 +43,7 @@ class SteadyStateSolverTest {
         assertEquals(b / a, s.state()[1], ABS_TOL);
         double tr = b - 1 - a * a;
         double disc = a * a - tr * tr / 4;
+        // Dense QR eigenvalues of a 2x2 matrix: a few ulp of O(1) entries; 1e-12 absolute.
         assertEquals(tr / 2, s.eigenReal()[0], 1e-12);
         assertEquals(Math.sqrt(disc), Math.abs(s.eigenImag()[0]), 1e-12);
         assertTrue(s.stable());
@@ -57,7 +59,9 @@ class SteadyStateSolverTest {
         double[] y = red.fullState(s.state(), q);
         double[] f = new double[2];
         TestSystems.PHOSPHO_FEEDBACK.rhs(0, y, p, f);
+        // Solver tolerance max|f| <= 1e-10 (absolute).
         assertEquals(0, f[1], 1e-10);
+        // The total is a parameter of the reduced system: reconstruction is exact up to rounding.
         assertEquals(2.0, y[0] + y[1], 1e-14);
         assertEquals(0, s.unstableCount());
     }
