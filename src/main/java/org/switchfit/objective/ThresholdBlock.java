@@ -2,7 +2,9 @@ package org.switchfit.objective;
 
 import java.util.List;
 import java.util.Locale;
+import org.switchfit.continuation.Branch;
 import org.switchfit.continuation.ContinuationException;
+import org.switchfit.continuation.PseudoArclength;
 import org.switchfit.continuation.ContinuationSettings;
 import org.switchfit.continuation.Threshold;
 import org.switchfit.continuation.Thresholds;
@@ -21,7 +23,9 @@ import org.switchfit.data.SwitchingThreshold;
  * branch (continuation of the threshold through the cusp, see {@link Thresholds}), so the residual stays defined and
  * continuous and a fit started in the monostable region can move into the bistable one. The readout weights of the
  * steepest response are fixed at construction (state gradient of the chosen observable at the nominal initial
- * state), so they do not depend on θ.
+ * state), so they do not depend on θ. When even the steepest response lies at an end of the control range, λ* is
+ * that end (the steepest point over the range, clamped; gradient 0), so starts far in the monostable region still
+ * evaluate and the other data move them.
  *
  * <p><b>Gradient.</b> Folds: exact, from the left/right null vectors (implicit function theorem,
  * {@link org.switchfit.continuation.Folds#parameterGradient}) with respect to the reduced parameters
@@ -140,7 +144,79 @@ final class ThresholdBlock implements ResidualBlock {
             }
             return t.value();
         } catch (ContinuationException e) {
-            throw new ObjectiveException(label + ": " + e.getMessage(), e);
+            double bound = clampedBound(s, grad);
+            if (Double.isNaN(bound)) {
+                throw new ObjectiveException(label + ": " + e.getMessage(), e);
+            }
+            return bound;
         }
+    }
+
+    /**
+     * When the model is monostable and its response is steepest at an end of the control range, the steepest point
+     * over the range is that end: returns it (gradient 0, written into grad) so the residual stays defined and
+     * continuous as the interior steepest point leaves the range. NaN when this is not the situation.
+     */
+    private double clampedBound(SwitchingModel.Start s, double[] grad) {
+        try {
+            double end = up ? lower : upper;
+            double[] q = s.q.clone();
+            q[control] = end;
+            double[] x = sm.attractor(sm.reduced.reducedState(s.y0), q, label);
+            Branch br = new PseudoArclength(ContinuationSettings.of(lower, upper).withEigenvalueLimit(0))
+                    .trace(sm.reduced, x, q, control, up ? +1 : -1);
+            if (!br.folds().isEmpty() || br.size() < 3) {
+                return Double.NaN;
+            }
+            int best = -1;
+            double bestR = -1;
+            for (int i = 0; i < br.size(); i++) {
+                double r = Math.abs(response(br.point(i).state(), q, br.point(i).parameter()));
+                if (r > bestR) {
+                    bestR = r;
+                    best = i;
+                }
+            }
+            if (best != 0 && best != br.size() - 1) {
+                return Double.NaN;
+            }
+            if (grad != null) {
+                java.util.Arrays.fill(grad, 0.0);
+            }
+            double lam = br.point(best).parameter();
+            return Math.abs(lam - lower) < Math.abs(lam - upper) ? lower : upper;
+        } catch (ContinuationException | ObjectiveException e) {
+            return Double.NaN;
+        }
+    }
+
+    /** c^T dy/dλ on the reduced system at (x, λ). */
+    private double response(double[] x, double[] q0, double lam) {
+        int nr = sm.nr;
+        int mq = q0.length;
+        double[] q = q0.clone();
+        q[control] = lam;
+        double[] jac = new double[nr * nr];
+        double[] jp = new double[nr * mq];
+        sm.reduced.jacobianY(0, x, q, jac);
+        sm.reduced.jacobianP(0, x, q, jp);
+        org.switchfit.linalg.DenseLu lu = new org.switchfit.linalg.DenseLu(nr);
+        if (!lu.factor(jac) || lu.isSingular()) {
+            return Double.POSITIVE_INFINITY;
+        }
+        double[] z = new double[nr];
+        for (int a = 0; a < nr; a++) {
+            z[a] = -jp[a * mq + control];
+        }
+        lu.solve(z);
+        double r = 0;
+        for (int a = 0; a < nr; a++) {
+            double ca = 0;
+            for (int i = 0; i < sm.n; i++) {
+                ca += readout[i] * sm.dyDx[i * nr + a];
+            }
+            r += ca * z[a];
+        }
+        return r;
     }
 }
