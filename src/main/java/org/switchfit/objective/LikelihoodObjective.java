@@ -41,8 +41,7 @@ public final class LikelihoodObjective implements Objective {
     /**
      * Builds the objective with the given integration settings and the default steady-state criterion.
      *
-     * @throws UserInputException when the problem has data that needs blocks not given here (dose-response points,
-     *                            switching thresholds)
+     * @throws UserInputException when the problem's dose-response or threshold data cannot be posed
      */
     public static LikelihoodObjective of(EstimationProblem problem, SolverSettings settings) {
         return of(problem, settings, SteadyState.defaults(), List.of());
@@ -51,15 +50,13 @@ public final class LikelihoodObjective implements Objective {
     /**
      * Builds the objective.
      *
-     * @param extra additional blocks (e.g. thresholds); when empty, problems with dose-response or threshold data
-     *              are rejected
+     * @param extra additional blocks; when empty, the problem's dose-response and threshold data get the blocks of
+     *              {@link SwitchingBlocks}
      */
     public static LikelihoodObjective of(EstimationProblem problem, SolverSettings settings, SteadyState steady,
                                          List<ResidualBlock> extra) {
         if (extra.isEmpty() && !problem.extraData().isEmpty()) {
-            throw new UserInputException(SourceLocation.ofFile(problem.problemFile().toString()), "has dose-response"
-                    + " or switching-threshold data, which this objective does not handle yet; fit the timecourses "
-                    + "alone (remove those data entries) for now");
+            extra = SwitchingBlocks.of(problem);
         }
         List<ResidualBlock> blocks = new ArrayList<>();
         boolean events = problem.hasEvents();

@@ -1,0 +1,283 @@
+package org.switchfit.objective;
+
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.Comparator;
+import java.util.List;
+import java.util.Locale;
+import org.switchfit.data.DoseResponsePoint;
+import org.switchfit.data.ParameterScale;
+import org.switchfit.problem.ObservableDef;
+import org.switchfit.problem.ValueSource;
+import org.switchfit.util.UserInputException;
+
+/**
+ * Residuals of steady-state dose-response points of one (experiment, control, history): the control is held at
+ * each dose d and the observable is read at the stable steady state reached from the low or the high state.
+ *
+ * <p><b>Which steady state.</b> History LOW: the attractor reached from the condition's initial state at the lower
+ * end of the control range, followed by a quasi-static sweep up through the doses in steps of 1/200 of the range;
+ * history HIGH: the same from the upper end, sweeping down. Each step is a Newton correction from the previous
+ * state, accepted when it converges to a linearly stable state with no negative species (beyond -1e-9 of the largest) within 10% (relative) of the previous one (a Newton step past a fold can land on a stable but non-physical root with negative concentrations); otherwise
+ * the state relaxes by backward-Euler pseudo-time from the previous state ({@link SwitchingModel#attractor}), which
+ * is the jump of a real sweep past a fold. Conservation totals are those of the initial state.
+ *
+ * <p><b>Gradient.</b> Exact by the implicit function theorem on the conservation-reduced system,
+ * {@code dx/dθ = -J_r^{-1} (∂F/∂(p_eff, T)) d(p_eff, T)/dθ} (see {@link SwitchingModel#stateSensitivity}), chained
+ * through the observable and noise formulas.
+ *
+ * <p><b>Noise.</b> As in {@link ExperimentBlock}: normal {@code r = (m' - h') / σ} or Laplace, on the
+ * observable's scale (lin/log/log10); σ from the point when given, else the observable's noise formula; a
+ * θ-dependent σ adds the residual {@code sqrt(2 log σ + C)}. Failures raise {@link ObjectiveException}. Immutable
+ * and thread-safe (per-evaluation arrays only).
+ */
+final class DoseResponseBlock implements ResidualBlock {
+    private static final double LN10 = Math.log(10.0);
+    private static final double LOG_2PI = Math.log(2.0 * Math.PI);
+    private static final int STEPS_PER_RANGE = 200;
+
+    private final SwitchingModel sm;
+    private final int cond;
+    private final int control;
+    private final boolean low;
+    private final double lower;
+    private final double upper;
+    private final double[] doses;
+    private final double[] values;
+    private final int[] obs;
+    private final double[] fixedSigma;
+    private final boolean[] variable;
+    private final int[] rowOffset;
+    private final int size;
+    private final double constant;
+    private final String label;
+
+    DoseResponseBlock(SwitchingModel sm, List<DoseResponsePoint> points, double lower, double upper) {
+        this.sm = sm;
+        List<DoseResponsePoint> sorted = new ArrayList<>(points);
+        DoseResponsePoint first = sorted.get(0);
+        this.low = first.history() == DoseResponsePoint.History.LOW;
+        sorted.sort(Comparator.comparingDouble(p -> low ? p.dose() : -p.dose()));
+        this.cond = sm.condition(first.experiment(), first.location());
+        this.control = sm.control(first.control(), first.location());
+        this.lower = lower;
+        this.upper = upper;
+        int k = sorted.size();
+        doses = new double[k];
+        values = new double[k];
+        obs = new int[k];
+        fixedSigma = new double[k];
+        variable = new boolean[k];
+        rowOffset = new int[k];
+        int off = 0;
+        double c = 0;
+        List<ObservableDef> defs = sm.problem.observables();
+        for (int i = 0; i < k; i++) {
+            DoseResponsePoint p = sorted.get(i);
+            int o = -1;
+            for (int j = 0; j < defs.size(); j++) {
+                if (defs.get(j).id().equals(p.observable())) {
+                    o = j;
+                }
+            }
+            if (o < 0) {
+                throw UserInputException.of(p.location(), "refers to observable '%s', which the problem file does "
+                        + "not declare; declare it or correct the id", p.observable());
+            }
+            if (!(p.dose() >= lower && p.dose() <= upper) || !Double.isFinite(p.value())) {
+                throw UserInputException.of(p.location(), "dose %s or value %s is not usable; give finite numbers",
+                        p.dose(), p.value());
+            }
+            ObservableDef od = defs.get(o);
+            if (od.transformation() != ParameterScale.LIN && !(p.value() > 0)) {
+                throw UserInputException.of(p.location(), "value %s is not positive but observable '%s' has "
+                        + "log-normal noise; remove the point or use gaussian noise", p.value(), p.observable());
+            }
+            doses[i] = p.dose();
+            values[i] = p.value();
+            obs[i] = o;
+            fixedSigma[i] = Double.isFinite(p.sigma()) ? p.sigma() : Double.NaN;
+            variable[i] = Double.isNaN(fixedSigma[i]);
+            rowOffset[i] = off;
+            off += variable[i] ? 2 : 1;
+            c += ExperimentBlock.transformConstant(od.transformation(), p.value());
+            if (variable[i]) {
+                c += (od.noise() == ObservableDef.Noise.LAPLACE ? Math.log(2.0) : 0.5 * LOG_2PI)
+                        - 0.5 * ExperimentBlock.SIGMA_SHIFT;
+            } else if (!(fixedSigma[i] > 0)) {
+                throw UserInputException.of(p.location(), "sigma %s is not positive; give a positive sigma",
+                        p.sigma());
+            } else {
+                c += od.noise() == ObservableDef.Noise.LAPLACE ? Math.log(2.0 * fixedSigma[i])
+                        : 0.5 * LOG_2PI + Math.log(fixedSigma[i]);
+            }
+        }
+        size = off;
+        constant = c;
+        label = String.format(Locale.ROOT, "dose response in '%s' of experiment '%s' from the %s state",
+                first.control(), first.experiment(), low ? "low" : "high");
+    }
+
+    @Override
+    public int size() {
+        return size;
+    }
+
+    @Override
+    public double constant() {
+        return constant;
+    }
+
+    @Override
+    public void evaluate(EvaluationContext ctx, double[] r, int offset, double[] jac) {
+        int np = ctx.parameterCount();
+        boolean sens = jac != null;
+        double end = low ? lower : upper;
+        SwitchingModel.Start s = sm.start(ctx, cond, control, end, sens);
+        double[] q = s.q;
+        double[] x = sm.attractor(sm.reduced.reducedState(s.y0), q, label);
+        double lam = end;
+        double h = (upper - lower) / STEPS_PER_RANGE;
+        for (int i = 0; i < doses.length; i++) {
+            double d = doses[i];
+            int steps = (int) Math.ceil(Math.abs(d - lam) / h - 1e-9);
+            double from = lam;
+            for (int k = 1; k <= steps; k++) {
+                q[control] = k == steps ? d : from + (d - from) * k / steps;
+                x = step(x, q);
+            }
+            q[control] = d;
+            lam = d;
+            if (steps == 0) {
+                x = step(x, q);
+            }
+            point(ctx, i, x, q, s.dq, np, r, offset, jac);
+        }
+    }
+
+    private double[] step(double[] x, double[] q) {
+        org.switchfit.continuation.SteadyState st = sm.newton(x, q);
+        if (st != null && st.stable()) {
+            double[] y = st.state();
+            double dmax = 0;
+            for (int a = 0; a < y.length; a++) {
+                dmax = Math.max(dmax, Math.abs(y[a] - x[a]) / (1 + Math.abs(x[a])));
+            }
+            if (dmax <= 0.1 && sm.physical(y, q)) {
+                return y;
+            }
+        }
+        return sm.attractor(x, q, label);
+    }
+
+    private void point(EvaluationContext ctx, int i, double[] x, double[] q, double[] dq, int np, double[] r,
+                       int offset, double[] jac) {
+        int n = sm.n;
+        int m = sm.m;
+        int o = obs[i];
+        ObservableDef od = sm.problem.observables().get(o);
+        double[] y = sm.reduced.fullState(x, q);
+        double[] qe = new double[sm.problem.qLength()];
+        System.arraycopy(q, 0, qe, 0, m);
+        List<ValueSource> g = sm.problem.globalSources();
+        for (int k = 0; k < g.size(); k++) {
+            ValueSource src = g.get(k);
+            qe[m + k] = src.isTheta() ? ctx.linear(src.thetaIndex()) : src.constant();
+        }
+        double[] out = new double[2];
+        sm.problem.evaluateObservable(o, 0.0, y, qe, out);
+        double hv = out[0];
+        double sigma = variable[i] ? out[1] : fixedSigma[i];
+        double[] gradH = null;
+        double[] gradS = null;
+        if (jac != null) {
+            gradH = new double[np];
+            gradS = new double[np];
+            double[] dy = sm.stateSensitivity(x, q, dq, np, label);
+            int cnt = sm.problem.observableDerivativeCount(o);
+            double[] deriv = new double[cnt];
+            sm.problem.evaluateObservableDerivatives(o, 0.0, y, qe, deriv);
+            int[] dr = sm.problem.observableDerivativeRows(o);
+            int[] dc = sm.problem.observableDerivativeCols(o);
+            for (int e = 0; e < cnt; e++) {
+                double v = deriv[e];
+                if (v == 0.0) {
+                    continue;
+                }
+                double[] gg = dr[e] == 0 ? gradH : gradS;
+                int var = dc[e];
+                if (var < n) {
+                    for (int j = 0; j < np; j++) {
+                        gg[j] += v * dy[var * np + j];
+                    }
+                    continue;
+                }
+                int k = var - n;
+                if (k < m) {
+                    for (int j = 0; j < np; j++) {
+                        gg[j] += v * dq[k * np + j];
+                    }
+                } else if (k < m + g.size()) {
+                    ValueSource src = g.get(k - m);
+                    if (src.isTheta()) {
+                        gg[src.thetaIndex()] += v * ctx.linearDerivative(src.thetaIndex());
+                    }
+                }
+            }
+        }
+        double hm = hv;
+        double mv = values[i];
+        double dhm = 1.0;
+        if (od.transformation() == ParameterScale.LOG) {
+            hm = Math.log(hv);
+            mv = Math.log(mv);
+            dhm = 1.0 / hv;
+        } else if (od.transformation() == ParameterScale.LOG10) {
+            hm = Math.log10(hv);
+            mv = Math.log10(mv);
+            dhm = 1.0 / (hv * LN10);
+        }
+        if (!Double.isFinite(hm) || !(sigma > 0) || !Double.isFinite(sigma)) {
+            throw new ObjectiveException(String.format(Locale.ROOT, "%s, observable '%s' at dose %.6g: prediction %s"
+                    + " or noise spread %s is not usable", label, od.id(), doses[i], hv, sigma));
+        }
+        int ro = offset + rowOffset[i];
+        double dd = mv - hm;
+        double res;
+        double dResDhm;
+        double dResDs;
+        if (od.noise() == ObservableDef.Noise.LAPLACE) {
+            double su = Math.sqrt(2.0 * Math.abs(dd) / sigma);
+            res = Math.copySign(su, dd);
+            dResDhm = su > 0 ? -1.0 / (sigma * su) : 0.0;
+            dResDs = -res / (2.0 * sigma);
+        } else {
+            res = dd / sigma;
+            dResDhm = -1.0 / sigma;
+            dResDs = -res / sigma;
+        }
+        r[ro] = res;
+        double rs = 0;
+        if (variable[i]) {
+            double arg = 2.0 * Math.log(sigma) + ExperimentBlock.SIGMA_SHIFT;
+            if (!(arg > 0)) {
+                throw new ObjectiveException(String.format(Locale.ROOT, "%s: noise spread %.3g is too small", label,
+                        sigma));
+            }
+            rs = Math.sqrt(arg);
+            r[ro + 1] = rs;
+        }
+        if (jac != null) {
+            for (int j = 0; j < np; j++) {
+                jac[ro * np + j] = dResDhm * dhm * gradH[j] + (variable[i] ? dResDs * gradS[j] : 0.0);
+            }
+            if (variable[i]) {
+                double f = 1.0 / (rs * sigma);
+                for (int j = 0; j < np; j++) {
+                    jac[(ro + 1) * np + j] = f * gradS[j];
+                }
+            }
+        }
+        Arrays.fill(out, 0.0);
+    }
+}
