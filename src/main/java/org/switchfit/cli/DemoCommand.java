@@ -79,7 +79,7 @@ public final class DemoCommand implements Callable<Integer> {
                     + threads);
         }
         DemoRun.Settings rs = new DemoRun.Settings(model, data.resolve(DemoScenario.PROBLEM_STEM + ".yaml"), out,
-                quick ? Math.min(starts, 4) : starts, seed == null ? 1 : seed, threads, quick);
+                quick ? Math.min(starts, 2) : starts, seed == null ? 1 : seed, threads, quick);
         return new DemoRun(rs, o).run();
     }
 

@@ -20,6 +20,7 @@ import org.switchfit.report.Figure;
 import org.switchfit.report.HtmlReport;
 import org.switchfit.report.Palette;
 import org.switchfit.report.Plot;
+import org.switchfit.report.ProfilesFile;
 import org.switchfit.report.Series;
 import org.switchfit.report.Table;
 
@@ -43,16 +44,27 @@ final class DemoReport {
         h.paragraph("Branches, region and sweep below are computed at the " + r.at.label() + ".");
 
         h.section("Parameters");
-        Table pt = new Table("Estimated parameters (log10 scale)", "parameter", "lower", "upper", "start",
-                "true value");
+        if (r.dataUsed != null) {
+            h.paragraph("Data used by the fit: " + r.dataUsed + ".");
+        }
+        Table pt = new Table("Estimated parameters (log10 scale) against the truth", "parameter", "lower", "upper",
+                "start", "true value", "best fit", "profile interval", "class", "truth inside");
         double[] truth = dm.nominal();
         for (EstimatedParameter e : r.problem.parameters()) {
             int k = dm.compiled.parameterIndex(e.id());
-            String tv = k >= 0 ? Table.formatNumber(truth[k])
-                    : e.id().equals("sigma_act") ? Table.formatNumber(DemoScenario.SIGMA_ACT) : "";
-            pt.row(e.id(), e.lower(), e.upper(), e.start(), tv);
+            double tv = k >= 0 ? truth[k] : e.id().equals("sigma_act") ? DemoScenario.SIGMA_ACT : Double.NaN;
+            Double best = r.fit == null ? null : r.fit.parameters().get(e.id());
+            ProfilesFile.Entry pe = profile(r, e.id());
+            String interval = pe == null ? "" : "[" + (pe.lower() == null ? "-inf" : Table.formatNumber(pe.lower()))
+                    + ", " + (pe.upper() == null ? "+inf" : Table.formatNumber(pe.upper())) + "]";
+            String inside = pe == null ? "" : (pe.lower() == null || pe.lower() <= tv)
+                    && (pe.upper() == null || tv <= pe.upper()) ? "yes" : "no";
+            pt.row(e.id(), e.lower(), e.upper(), e.start(), tv, best == null ? "" : best, interval,
+                    pe == null ? "" : String.valueOf(pe.classification()), inside);
         }
         h.table(pt);
+        h.paragraph("The full fit report (multistart, profiles, branches, region, sweep) is report.html in the same "
+                + "folder.");
 
         h.section("Timecourses");
         Figure tf = Figure.of("timecourses", "Stimulus steps: data and model").columns(2);
@@ -71,7 +83,7 @@ final class DemoReport {
                 + "high state, measured switching thresholds (squares, with 1 sigma).");
         if (r.region != null) {
             Figure rf = Figure.of("region", "Bistable region").columns(1);
-            rf.add(region(r));
+            rf.add(region(dm, r));
             h.figure(rf, "Region of (stimulus, " + DemoRun.REGION_PARAMETER + ") with two stable steady states.");
         }
         if (r.up != null && r.down != null) {
@@ -84,6 +96,18 @@ final class DemoReport {
         h.footer("switchfit demo; starts " + s.starts() + ", seed " + s.seed() + ", threads " + s.threads()
                 + (s.quick() ? ", quick" : ""));
         h.write(file);
+    }
+
+    private static ProfilesFile.Entry profile(DemoRun.Results r, String id) {
+        if (r.profiles == null) {
+            return null;
+        }
+        for (ProfilesFile.Entry e : r.profiles.profiles()) {
+            if (e.kind() == ProfilesFile.Kind.PARAMETER && e.id().equals(id)) {
+                return e;
+            }
+        }
+        return null;
     }
 
     private static String shortLabel(DemoRun.Results r) {
@@ -187,7 +211,7 @@ final class DemoReport {
         return pl;
     }
 
-    private static Plot region(DemoRun.Results r) {
+    private static Plot region(DemoModel dm, DemoRun.Results r) {
         double[][] poly = r.region.polygon();
         double[] x = new double[poly.length];
         double[] y = new double[poly.length];
@@ -195,8 +219,15 @@ final class DemoReport {
             x[i] = poly[i][0];
             y[i] = poly[i][1];
         }
-        Plot pl = new Plot("Bistable region", Axis.linear("stimulus"), Axis.linear(DemoRun.REGION_PARAMETER));
+        Plot pl = new Plot("Bistable region", Axis.linear("stimulus"), Axis.log10(DemoRun.REGION_PARAMETER));
         pl.add(Series.area("bistable", x, y).color(Palette.BLUE).opacity(0.3));
+        double[] cx = r.region.cusps().stream().mapToDouble(c -> c.p1()).toArray();
+        double[] cy = r.region.cusps().stream().mapToDouble(c -> c.p2()).toArray();
+        if (cx.length > 0) {
+            pl.add(Series.points("cusp", cx, cy).marker(Series.Marker.DIAMOND).color(Palette.VERMILLION).size(9));
+        }
+        pl.add(Series.horizontal(DemoRun.REGION_PARAMETER + " used", r.at.p()[dm.index(DemoRun.REGION_PARAMETER)])
+                .dash(Series.Dash.DOTTED));
         return pl;
     }
 }

@@ -1,8 +1,13 @@
 package org.switchfit.cli;
 
+import java.io.IOException;
 import java.io.PrintWriter;
+import java.io.StringWriter;
+import java.nio.file.Files;
 import java.nio.file.Path;
+import java.nio.file.StandardCopyOption;
 import java.util.ArrayList;
+import java.util.Comparator;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
@@ -17,29 +22,50 @@ import org.switchfit.continuation.FoldCurve;
 import org.switchfit.continuation.FoldCurves;
 import org.switchfit.continuation.HysteresisSweep;
 import org.switchfit.continuation.SweepResult;
-import org.switchfit.data.EstimatedParameter;
 import org.switchfit.data.ProblemFileReader;
+import org.switchfit.data.ProblemFileWriter;
 import org.switchfit.data.SwitchfitProblem;
+import org.switchfit.data.SwitchingThreshold;
+import org.switchfit.objective.FoldPredictionSource;
+import org.switchfit.objective.LikelihoodObjective;
 import org.switchfit.ode.IntegrationException;
 import org.switchfit.ode.Integrators;
 import org.switchfit.ode.SolverSettings;
+import org.switchfit.problem.ProblemLoader;
+import org.switchfit.report.BranchesFile;
+import org.switchfit.report.FitDirectory;
+import org.switchfit.report.FitFile;
+import org.switchfit.report.FitSummary;
 import org.switchfit.report.Json;
+import org.switchfit.report.ProfilesFile;
+import org.switchfit.report.RegionFile;
+import org.switchfit.report.SweepFile;
+import org.switchfit.util.SourceLocation;
 import org.switchfit.util.UserInputException;
+import picocli.CommandLine;
 
 /**
- * The stages of {@code switchfit demo}, each a method calling the library: data, fit, profiles, branches, bistable
- * region, hysteresis sweep, report. A stage whose library code is not in this build says so (status
- * {@link Status#NOT_AVAILABLE}) and the later stages use what exists; a stage that fails numerically is recorded
- * as {@link Status#FAILED} with its message and the run goes on. Prints one line per stage. Not thread-safe.
+ * The stages of {@code switchfit demo}, each a method calling the library or another command's Java entry point:
+ * data, fit ({@link FitCommand}), profiles ({@link ProfileCommand}), branches, bistable region and hysteresis
+ * sweep (continuation package, written as fit-directory files), report ({@link ReportCommand} plus the demo
+ * overview page). A stage whose code is not in this build says so (status {@link Status#NOT_AVAILABLE}); a stage
+ * that fails is recorded as {@link Status#FAILED} with its message and the run goes on with what exists. Prints
+ * one line per stage. Not thread-safe.
  */
 final class DemoRun {
     /** Second parameter of the two-parameter bistable region, and its range (linear). */
-    static final String REGION_PARAMETER = "K_inh";
+    static final String REGION_PARAMETER = "k_rec";
     static final double REGION_LOW = 0.1;
-    static final double REGION_HIGH = 1.0;
+    static final double REGION_HIGH = 10;
     /** Ramp speed of the hysteresis sweep (stimulus units per minute) and its samples. */
     static final double SWEEP_RATE = 0.005;
     static final int SWEEP_SAMPLES = 401;
+    /** Parameters profiled in quick mode (the full run profiles all). */
+    static final List<String> QUICK_PROFILES = List.of("k_stim");
+    /** Name of the problem file written when the objective of this build cannot use all the data. */
+    static final String PARTIAL_PROBLEM = "problem/stress_switch-fitted-data.yaml";
+    /** Where the profile command's own profiles.json (with diagnostics) is kept. */
+    static final String PROFILE_DIAGNOSTICS = "profiles-run.json";
 
     /** Run settings. */
     record Settings(Path model, Path problem, Path out, int starts, long seed, int threads, boolean quick) {
@@ -59,6 +85,9 @@ final class DemoRun {
     /** What the stages computed (null where a stage did not run). */
     static final class Results {
         SwitchfitProblem problem;
+        String dataUsed;
+        FitSummary fit;
+        ProfilesFile profiles;
         ParameterSet at;
         Branch branch;
         double[] branchQ;
@@ -68,16 +97,27 @@ final class DemoRun {
         SweepResult down;
     }
 
+    /** A stage that could not complete; the message says why. */
+    private static final class StageFailure extends RuntimeException {
+        private static final long serialVersionUID = 1L;
+
+        StageFailure(String message) {
+            super(message);
+        }
+    }
+
     private final Settings s;
     private final PrintWriter out;
     private final List<Stage> stages = new ArrayList<>();
+    private final FitDirectory dir;
 
     DemoRun(Settings s, PrintWriter out) {
         this.s = s;
         this.out = out;
+        this.dir = FitDirectory.of(s.out());
     }
 
-    /** Runs all stages; returns the exit code (0 unless the report could not be written). */
+    /** Runs all stages; returns the exit code (0 when no stage failed). */
     int run() {
         DemoCommand.mkdirs(s.out());
         Results r = new Results();
@@ -89,28 +129,38 @@ final class DemoRun {
                     r.problem.doseResponses().size(), r.problem.thresholds().size(), r.problem.parameters().size());
         });
         if (r.problem == null) {
-            throw new UserInputException(null, "the demo data set " + s.problem() + " could not be read; regenerate "
-                    + "it with 'switchfit demo --regenerate-data'");
+            throw new UserInputException(SourceLocation.ofFile(s.problem().toString()), "the demo data set could not "
+                    + "be read; regenerate it with 'switchfit demo --regenerate-data'");
         }
-        stageFit(r);
-        stageProfiles(r);
+        stage("fit", () -> fit(dm, r));
+        if (r.fit != null) {
+            stage("profiles", () -> profiles(r));
+        } else {
+            skipped("profiles", "skipped: needs a finished fit");
+        }
         if (r.at == null) {
             r.at = new ParameterSet("true values (the model file's nominal values, known because the data are "
-                    + "synthetic; used because no fit is available in this build)", dm.nominal());
+                    + "synthetic; used because the fit stage did not finish)", dm.nominal());
         }
-        out.println("        continuation stages at the " + r.at.label());
+        out.println("          continuation stages at the " + r.at.label());
         stage("branches", () -> branches(dm, r));
         stage("region", () -> region(dm, r));
         stage("sweep", () -> sweep(dm, r));
         Path report = s.out().resolve("report.html");
+        Path overview = s.out().resolve("demo.html");
         stage("report", () -> {
-            DemoReport.write(report, dm, r, stages, s);
-            return report.toString();
+            StringWriter log = new StringWriter();
+            int code = command(new ReportCommand(), log, s.out().toString());
+            if (code != 0) {
+                throw new StageFailure("report command exited with " + code + ": " + log.toString().strip());
+            }
+            DemoReport.write(overview, dm, r, stages, s);
+            return report + " (demo overview: " + overview.getFileName() + ")";
         });
         Json.write(s.out().resolve("stages.json"), stagesJson());
         out.println("report: " + report.toAbsolutePath().normalize());
         out.flush();
-        return stages.get(stages.size() - 1).status() == Status.DONE ? 0 : Main.EXIT_INTERNAL;
+        return stages.stream().anyMatch(st -> st.status() == Status.FAILED) ? Main.EXIT_INTERNAL : 0;
     }
 
     /** The stages so far. */
@@ -119,18 +169,83 @@ final class DemoRun {
     }
 
     /**
-     * Fit stage: multistart Levenberg-Marquardt on the likelihood of the problem, including the switching
-     * thresholds and the dose-responses from both histories. The objective that joins this problem to the model
-     * (timecourses with settle-in, steady-state dose-responses, threshold residuals) is not part of this build.
+     * Fit stage: {@code switchfit fit} on the demo problem. When the objective of this build rejects part of the
+     * data (dose-responses and thresholds need residual blocks that may be missing), the fit runs on the data it
+     * accepts, written as {@link #PARTIAL_PROBLEM}, and the stage message says which data were left out.
      */
-    private void stageFit(Results r) {
-        notAvailable("fit", "needs the likelihood objective with threshold and dose-response residual blocks "
-                + "(org.switchfit.objective), which is not in this build");
+    private String fit(DemoModel dm, Results r) {
+        Path problemFile = s.problem();
+        r.dataUsed = "all data";
+        try {
+            LikelihoodObjective.of(ProblemLoader.fromSwitchfit(r.problem), SimulateCommand.settings("bdf", 1e-8,
+                    1e-12));
+        } catch (UserInputException e) {
+            SwitchfitProblem p = r.problem;
+            problemFile = s.out().resolve(PARTIAL_PROBLEM).toAbsolutePath();
+            DemoCommand.mkdirs(problemFile.getParent());
+            ProblemFileWriter.write(new SwitchfitProblem(problemFile, p.formatVersion(),
+                    p.modelFile().toAbsolutePath(), p.parameters(), p.experiments(), p.observables(), p.timecourses(),
+                    List.of(), List.of(), List.of()), problemFile);
+            r.dataUsed = "timecourses only: the objective in this build does not take the " + p.doseResponses().size()
+                    + " dose-response points and " + p.thresholds().size() + " thresholds (" + e.getMessage() + ")";
+        }
+        clear(s.out().resolve("starts"));
+        clear(s.out().resolve("profiles"));
+        StringWriter log = new StringWriter();
+        int code = command(new FitCommand(), log, problemFile.toString(), "--out", s.out().toString(), "--starts",
+                Integer.toString(s.starts()), "--seed", Long.toString(s.seed()), "--threads",
+                Integer.toString(s.threads()), "--quiet");
+        if (code != 0 || !dir.has(FitFile.RESULT)) {
+            throw new StageFailure("fit command exited with " + code + ": " + log.toString().strip());
+        }
+        r.fit = dir.read(FitFile.RESULT);
+        double[] p = dm.nominal();
+        for (Map.Entry<String, Double> e : r.fit.parameters().entrySet()) {
+            int k = dm.compiled.parameterIndex(e.getKey());
+            if (k >= 0 && e.getValue() != null) {
+                p[k] = e.getValue();
+            }
+        }
+        r.at = new ParameterSet("best fit (" + (r.dataUsed.equals("all data") ? "all data" : "timecourses only")
+                + ")", p);
+        return String.format(Locale.ROOT, "best NLL %.8g, %d of %d starts within %.1f of it; data used: %s",
+                r.fit.bestNll(), r.fit.startsNearBest(), s.starts(), r.fit.nearBestTolerance(), r.dataUsed);
     }
 
-    /** Profile stage: parameter and fold-position profiles at the best fit; needs the fit stage. */
-    private void stageProfiles(Results r) {
-        notAvailable("profiles", "needs the fit stage (best fit and its objective)");
+    /** Profile stage: {@code switchfit profile} on the fit directory (fold positions when this build has them). */
+    private String profiles(Results r) {
+        List<String> args = new ArrayList<>(List.of(s.out().toString(), "--threads", Integer.toString(s.threads()),
+                "--seed", Long.toString(s.seed())));
+        if (s.quick()) {
+            args.add("--parameters");
+            args.add(String.join(",", QUICK_PROFILES));
+        }
+        boolean folds = FoldPredictionSource.find().isPresent();
+        if (folds) {
+            args.add("--folds");
+        }
+        StringWriter log = new StringWriter();
+        int code = command(new ProfileCommand(), log, args.toArray(new String[0]));
+        if (code != 0 || !dir.has(FitFile.PROFILES)) {
+            throw new StageFailure("profile command exited with " + code + ": " + log.toString().strip());
+        }
+        Path written = dir.pathOf(FitFile.PROFILES);
+        ProfilesJson run = Json.read(written, ProfilesJson.class);
+        r.profiles = toReportSchema(run);
+        try {
+            Files.move(written, s.out().resolve(PROFILE_DIAGNOSTICS), StandardCopyOption.REPLACE_EXISTING);
+        } catch (IOException e) {
+            throw new StageFailure("cannot keep " + written + " as " + PROFILE_DIAGNOSTICS + ": " + e.getMessage());
+        }
+        dir.write(FitFile.PROFILES, r.profiles);
+        StringBuilder b = new StringBuilder();
+        for (ProfilesFile.Entry e : r.profiles.profiles()) {
+            b.append(String.format(Locale.ROOT, "%n            %-10s %-9s [%s, %s] %s", e.id(),
+                    e.kind().name().toLowerCase(Locale.ROOT), e.lower() == null ? "-inf" : fmt(e.lower()),
+                    e.upper() == null ? "+inf" : fmt(e.upper()), e.classification()));
+        }
+        return String.format(Locale.ROOT, "%d profiles at level %.2f%s%s", r.profiles.profiles().size(),
+                r.profiles.level(), folds ? "" : "; fold-position profiles not available in this build", b);
     }
 
     private String branches(DemoModel dm, Results r) {
@@ -140,42 +255,43 @@ final class DemoRun {
         double[] p0 = r.at.p().clone();
         p0[dm.index(DemoScenario.CONTROL)] = DemoScenario.STIMULUS_LOW;
         r.branchQ = dm.reducedParameters(p0, dm.settle(p0, low));
-        Map<String, Object> j = new LinkedHashMap<>();
-        j.put("synthetic", true);
-        j.put("parameters", r.at.label());
-        j.put("control", DemoScenario.CONTROL);
-        List<Map<String, Object>> pts = new ArrayList<>();
+        List<BranchesFile.Point> pts = new ArrayList<>();
         for (BranchPoint bp : r.branch.points()) {
-            double[] y = dm.reduced.fullState(bp.state(), r.branchQ);
-            Map<String, Object> e = new LinkedHashMap<>();
-            e.put("stimulus", bp.parameter());
-            e.put("act_frac", DemoScenario.actFrac(dm, y));
-            e.put("state", y);
-            e.put("stable", bp.unstableCount() < 0 ? null : bp.stable());
-            pts.add(e);
+            pts.add(new BranchesFile.Point(bp.parameter(), dm.reduced.fullState(bp.state(), r.branchQ), bp.stable(),
+                    bp.eigenReal(), bp.eigenImag()));
         }
-        j.put("stateIds", dm.states);
-        j.put("points", pts);
-        List<Map<String, Object>> folds = new ArrayList<>();
+        List<BranchesFile.Special> folds = new ArrayList<>();
         StringBuilder msg = new StringBuilder();
-        for (Fold f : r.branch.folds()) {
-            Map<String, Object> e = new LinkedHashMap<>();
-            e.put("stimulus", f.parameter());
-            e.put("act_frac", DemoScenario.actFrac(dm, dm.reduced.fullState(f.state(), r.branchQ)));
-            e.put("refined", f.refined());
-            folds.add(e);
+        Map<SwitchingThreshold.Direction, String> foldIds = new LinkedHashMap<>();
+        for (int i = 0; i < r.branch.folds().size(); i++) {
+            Fold f = r.branch.folds().get(i);
+            double[] y = dm.reduced.fullState(f.state(), r.branchQ);
+            Map<String, Double> st = new LinkedHashMap<>();
+            for (int k = 0; k < y.length; k++) {
+                st.put(dm.states.get(k), y[k]);
+            }
+            String id = "fold" + (i + 1);
+            folds.add(new BranchesFile.Special(id, DemoScenario.CONTROL, f.parameter(), st, BranchesFile.Kind.FOLD));
+            foldIds.put(f.kind() == Fold.Kind.MAXIMUM ? SwitchingThreshold.Direction.UP
+                    : SwitchingThreshold.Direction.DOWN, id);
             msg.append(String.format(Locale.ROOT, "%s%.10g", msg.length() == 0 ? "" : ", ", f.parameter()));
         }
-        j.put("folds", folds);
-        j.put("ends", List.of(r.branch.startEnd().name(), r.branch.finishEnd().name()));
-        Json.write(s.out().resolve("branches.json"), j);
+        List<BranchesFile.Threshold> th = new ArrayList<>();
+        int n = 0;
+        for (SwitchingThreshold t : r.problem.thresholds()) {
+            th.add(new BranchesFile.Threshold("threshold" + (++n), t.value(), t.sigma(),
+                    t.direction().name().toLowerCase(Locale.ROOT), foldIds.get(t.direction())));
+        }
+        dir.write(FitFile.BRANCHES, new BranchesFile(DemoScenario.CONTROL,
+                new double[] {DemoScenario.STIMULUS_LOW, DemoScenario.STIMULUS_HIGH}, dm.states, folds,
+                List.of(new BranchesFile.Branch("from rest", pts)), th));
         return String.format(Locale.ROOT, "%d points, %d folds%s%s", r.branch.size(), r.branch.folds().size(),
                 folds.isEmpty() ? "" : " at stimulus ", msg);
     }
 
     private String region(DemoModel dm, Results r) {
         if (r.branch == null || r.branch.folds().isEmpty()) {
-            throw new ContinuationException("no fold on the branch, so no bistable region to trace");
+            throw new StageFailure("no fold on the branch, so no bistable region to trace");
         }
         int k2 = dm.index(REGION_PARAMETER);
         ContinuationSettings cs = ContinuationSettings.of(DemoScenario.STIMULUS_LOW, DemoScenario.STIMULUS_HIGH)
@@ -184,23 +300,30 @@ final class DemoRun {
                 r.branchQ, k2);
         r.region = BistableRegion.of(r.foldCurve, DemoScenario.STIMULUS_LOW, DemoScenario.STIMULUS_HIGH,
                 REGION_LOW, REGION_HIGH);
-        Map<String, Object> j = new LinkedHashMap<>();
-        j.put("synthetic", true);
-        j.put("parameters", r.at.label());
-        j.put("axes", List.of(DemoScenario.CONTROL, REGION_PARAMETER));
-        j.put("box", new double[] {DemoScenario.STIMULUS_LOW, DemoScenario.STIMULUS_HIGH, REGION_LOW, REGION_HIGH});
-        j.put("polygon", r.region.polygon());
-        List<double[]> cusps = new ArrayList<>();
-        for (FoldCurve.Cusp c : r.region.cusps()) {
-            cusps.add(new double[] {c.p1(), c.p2()});
+        int np = r.foldCurve.points().size();
+        double[] c1 = new double[np];
+        double[] c2 = new double[np];
+        for (int i = 0; i < np; i++) {
+            c1[i] = r.foldCurve.points().get(i).p1();
+            c2[i] = r.foldCurve.points().get(i).p2();
         }
-        j.put("cusps", cusps);
-        j.put("closedByChord", r.region.closedByChord());
-        j.put("area", r.region.area());
-        Json.write(s.out().resolve("region.json"), j);
-        return String.format(Locale.ROOT, "%d fold-curve points, %d cusp(s), area %.4g in (%s, %s)",
-                r.foldCurve.points().size(), r.region.cusps().size(), r.region.area(), DemoScenario.CONTROL,
-                REGION_PARAMETER);
+        double[][] poly = r.region.polygon();
+        double[] b1 = new double[poly.length];
+        double[] b2 = new double[poly.length];
+        for (int i = 0; i < poly.length; i++) {
+            b1[i] = poly[i][0];
+            b2[i] = poly[i][1];
+        }
+        List<RegionFile.Cusp> cusps = new ArrayList<>();
+        for (FoldCurve.Cusp c : r.region.cusps()) {
+            cusps.add(new RegionFile.Cusp(c.p1(), c.p2()));
+        }
+        dir.write(FitFile.REGION, new RegionFile(DemoScenario.CONTROL, REGION_PARAMETER,
+                new double[] {DemoScenario.STIMULUS_LOW, DemoScenario.STIMULUS_HIGH},
+                new double[] {REGION_LOW, REGION_HIGH}, List.of(new RegionFile.Curve(c1, c2)), cusps,
+                new RegionFile.Curve(b1, b2), r.region.closedByChord(), null));
+        return String.format(Locale.ROOT, "%d fold-curve points, %d cusp(s), area %.4g in (%s, %s)", np,
+                r.region.cusps().size(), r.region.area(), DemoScenario.CONTROL, REGION_PARAMETER);
     }
 
     private String sweep(DemoModel dm, Results r) {
@@ -216,34 +339,75 @@ final class DemoRun {
                 DemoScenario.STIMULUS_HIGH, SWEEP_RATE, c);
         r.down = hs.run(dm.reduced, dm.reduced.reducedState(high), q, k, DemoScenario.STIMULUS_HIGH,
                 DemoScenario.STIMULUS_LOW, SWEEP_RATE, c);
-        Map<String, Object> j = new LinkedHashMap<>();
-        j.put("synthetic", true);
-        j.put("parameters", r.at.label());
-        j.put("readout", "ZarnA");
-        j.put("rate", SWEEP_RATE);
-        j.put("up", sweepJson(r.up));
-        j.put("down", sweepJson(r.down));
-        Json.write(s.out().resolve("sweep.json"), j);
+        dir.write(FitFile.SWEEP, new SweepFile(DemoScenario.CONTROL, "ZarnA", SWEEP_RATE,
+                List.of(run(r.up, SweepFile.Direction.UP), run(r.down, SweepFile.Direction.DOWN))));
         return String.format(Locale.ROOT, "ramp at %.3g per min: jumps at stimulus %.4g (up) and %.4g (down)",
                 SWEEP_RATE, r.up.jumpParameter(), r.down.jumpParameter());
     }
 
-    private static Map<String, Object> sweepJson(SweepResult sr) {
-        Map<String, Object> m = new LinkedHashMap<>();
-        m.put("rate", sr.rate());
-        m.put("stimulus", sr.parameter());
-        m.put("ZarnA", sr.readout());
-        m.put("jump", sr.jumpParameter());
-        return m;
+    /** A ramp with its one jump; before/after are the readouts at the samples around the jump. */
+    private static SweepFile.Run run(SweepResult sr, SweepFile.Direction d) {
+        double[] v = sr.parameter();
+        double[] y = sr.readout();
+        int i = 0;
+        while (i + 1 < v.length && (d == SweepFile.Direction.UP ? v[i + 1] < sr.jumpParameter()
+                : v[i + 1] > sr.jumpParameter())) {
+            i++;
+        }
+        int j = Math.min(i + 1, v.length - 1);
+        return new SweepFile.Run(d, v, y, List.of(new SweepFile.Jump(sr.jumpParameter(), y[i], y[j])));
     }
 
-    /** Start values of the problem file on the linear scale, by id. */
-    static Map<String, Double> startValues(SwitchfitProblem problem) {
-        Map<String, Double> m = new LinkedHashMap<>();
-        for (EstimatedParameter e : problem.parameters()) {
-            m.put(e.id(), e.start());
+    /**
+     * The profile command's output restricted to the fields of the report schema ({@link ProfilesFile}); the
+     * command's full file, with its diagnostics, is kept as {@link #PROFILE_DIAGNOSTICS}. (At this build the
+     * report reader rejects the diagnostic fields as unknown properties.)
+     */
+    static ProfilesFile toReportSchema(ProfilesJson run) {
+        List<ProfilesFile.Entry> l = new ArrayList<>();
+        for (ProfilesJson.Entry e : run.profiles()) {
+            List<ProfilesFile.Point> pts = new ArrayList<>();
+            for (ProfilesJson.Point pt : e.points()) {
+                pts.add(new ProfilesFile.Point(pt.value(), pt.nll()));
+            }
+            l.add(new ProfilesFile.Entry(e.id(), ProfilesFile.Kind.valueOf(e.kind().toUpperCase(Locale.ROOT)),
+                    e.scale(), e.estimate(), e.lower(), e.upper(), e.thresholdNll(),
+                    ProfilesFile.Identifiability.valueOf(e.classification().replace('-', '_').toUpperCase(Locale.ROOT)),
+                    e.compensating(), pts));
         }
-        return m;
+        return new ProfilesFile(run.level(), run.bestNll(), l);
+    }
+
+    /** Runs a command object through picocli with its output captured in {@code log}; returns the exit code. */
+    private static int command(Object cmd, StringWriter log, String... args) {
+        CommandLine cl = new CommandLine(cmd);
+        PrintWriter w = new PrintWriter(log, true);
+        cl.setOut(w);
+        cl.setErr(w);
+        cl.setExecutionExceptionHandler((ex, c, pr) -> {
+            w.println("error: " + ex.getMessage());
+            return ex instanceof UserInputException ? Main.EXIT_USER_ERROR : Main.EXIT_INTERNAL;
+        });
+        return cl.execute(args);
+    }
+
+    /** Deletes a folder of an earlier demo run in the output folder (starts or profiles). */
+    private static void clear(Path folder) {
+        if (!Files.isDirectory(folder)) {
+            return;
+        }
+        try (var walk = Files.walk(folder)) {
+            for (Path f : walk.sorted(Comparator.reverseOrder()).toList()) {
+                Files.delete(f);
+            }
+        } catch (IOException e) {
+            throw new UserInputException(SourceLocation.ofFile(folder.toString()), "holds results of an earlier run "
+                    + "that cannot be removed (" + e.getMessage() + "); delete it or choose another --out", e);
+        }
+    }
+
+    private static String fmt(double v) {
+        return String.format(Locale.ROOT, "%.4g", v);
     }
 
     private interface Body {
@@ -257,20 +421,20 @@ final class DemoRun {
         try {
             msg = body.run();
             st = Status.DONE;
-        } catch (ContinuationException | IntegrationException e) {
+        } catch (ContinuationException | IntegrationException | StageFailure e) {
             msg = e.getMessage();
             st = Status.FAILED;
         }
         double sec = (System.nanoTime() - t0) * 1e-9;
         stages.add(new Stage(name, st, msg, sec));
-        out.printf(Locale.ROOT, "%-9s %-14s %6.1f s  %s%n", name, st == Status.DONE ? "done" : st == Status.FAILED
+        out.printf(Locale.ROOT, "%-9s %-6s %6.1f s  %s%n", name, st == Status.DONE ? "done" : st == Status.FAILED
                 ? "FAILED" : "n/a", sec, msg);
         out.flush();
     }
 
-    private void notAvailable(String name, String why) {
-        stages.add(new Stage(name, Status.NOT_AVAILABLE, "not available in this build: " + why, 0));
-        out.printf(Locale.ROOT, "%-9s %-14s %6s    %s%n", name, "n/a", "", "not available in this build: " + why);
+    private void skipped(String name, String why) {
+        stages.add(new Stage(name, Status.NOT_AVAILABLE, why, 0));
+        out.printf(Locale.ROOT, "%-9s %-6s %6s    %s%n", name, "n/a", "", why);
         out.flush();
     }
 
