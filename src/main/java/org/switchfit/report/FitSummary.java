@@ -117,9 +117,16 @@ public record FitSummary(String problem, double bestNll, Map<String, Double> par
      * @param seed         random seed
      * @param rtol         relative integration tolerance
      * @param atol         absolute integration tolerance
+     * @param costTolerance relative cost-change tolerance of Levenberg-Marquardt (0: its default)
+     * @param maxIterations iteration limit of Levenberg-Marquardt per start (0: its default)
      * @param nominalStart whether start 0 was the nominal parameter vector
      */
-    public record Settings(int starts, long seed, double rtol, double atol, boolean nominalStart) {
+    public record Settings(int starts, long seed, double rtol, double atol, boolean nominalStart,
+            double costTolerance, int maxIterations) {
+        /** Settings without explicit optimizer limits (recorded as 0: the optimizer's defaults). */
+        public Settings(int starts, long seed, double rtol, double atol, boolean nominalStart) {
+            this(starts, seed, rtol, atol, nominalStart, 0.0, 0);
+        }
     }
 
     /**
