@@ -246,6 +246,31 @@ class SwitchCommandsTest {
     }
 
     @Test
+    void compartmentsOfDifferentSizes() {
+        String m = res("two-compartments.xml");
+        BranchesFile f = branches(m, "--vary", "k", "--from", "0.5", "--to", "4");
+        // closed form (see the model's comment); states are amounts, A + B = T = 2, A = 2 / (1 + k / k2)
+        for (BranchesFile.Point p : f.branches().get(0).points()) {
+            double a = p.states()[f.stateIds().indexOf("A")];
+            double b = p.states()[f.stateIds().indexOf("B")];
+            assertEquals(2, a + b, 1e-12); // reconstruction from the law: rounding only
+            assertEquals(2 / (1 + p.value()), a, 1e-9); // corrector tolerance 1e-11 relative, margin
+        }
+        // the amount of A does not depend on the nucleus size (k = k2 = 1: A = 1), and the law on amounts holds
+        BranchesFile g = branches(m, "--vary", "nuc", "--from", "0.25", "--to", "1");
+        assertTrue(g.branches().get(0).points().size() > 2);
+        for (BranchesFile.Point p : g.branches().get(0).points()) {
+            assertEquals(1, p.states()[g.stateIds().indexOf("A")], 1e-9); // as above
+        }
+        // init:B in its declared unit (concentration): amount 0.5 [B]0, so T = 2 + 0.5 [B]0; at k = k2 = 1,
+        // A = T / 2
+        BranchesFile h = branches(m, "--vary", "init:B", "--from", "0", "--to", "2");
+        for (BranchesFile.Point p : h.branches().get(0).points()) {
+            assertEquals((2 + 0.5 * p.value()) / 2, p.states()[h.stateIds().indexOf("A")], 1e-9); // as above
+        }
+    }
+
+    @Test
     void thresholdOfMissingExperimentIsReportedByCheck() throws IOException {
         Files.copy(Path.of(DEMO), dir.resolve("model.xml"));
         Path yaml = dir.resolve("problem.yaml");
