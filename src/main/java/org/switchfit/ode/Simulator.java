@@ -14,12 +14,15 @@ import org.switchfit.model.BoundEvent;
  * event execution. Immutable; {@link #simulate} may run concurrently from several threads.
  *
  * <p>Order of simultaneous events: highest priority first (priority evaluated when choosing; events without
- * priority come after those with one), ties in model order. Events with useValuesFromTriggerTime compute their
+ * priority come after those with one); ties between equal explicit priorities are broken at random with a fixed
+ * seed ({@link #TIE_BREAK_SEED}, so every run gives the same result), other ties in model order. Events with useValuesFromTriggerTime compute their
  * assignment values when triggered, the others when executed.
  */
 public final class Simulator {
     /** Maximum number of event executions at one time point before giving up (cycles of events). */
     static final int MAX_EVENTS_PER_INSTANT = 10_000;
+    /** Seed of the random order among simultaneous events of equal priority (fixed: runs are reproducible). */
+    static final long TIE_BREAK_SEED = 20261202L;
 
     private final CompiledModel model;
     private final Integrator integrator;
@@ -222,6 +225,120 @@ public final class Simulator {
         }
     }
 
+    /**
+     * Session for systems whose states never change between events: no integration, only root location of the
+     * switching functions in time (sampled at 16 points per interval, then bisected to the session tolerance on the
+     * side where the new sign holds).
+     */
+    private static final class FrozenSession implements IntegrationSession {
+        private static final int SAMPLES = 16;
+        private final double[] y;
+        private final double[] p;
+        private final RootFunctions roots;
+        private final double[] ga;
+        private final double[] gb;
+        private double t;
+        private boolean atRoot;
+        private int[] found = new int[0];
+        private long calls;
+
+        FrozenSession(double[] y0, double[] p, RootFunctions roots, double t0) {
+            this.y = y0.clone();
+            this.p = p;
+            this.roots = roots;
+            int nr = roots == null ? 0 : roots.count();
+            this.ga = new double[nr];
+            this.gb = new double[nr];
+            this.t = t0;
+        }
+
+        private boolean changed(double a, double b) {
+            roots.evaluate(a, y, p, ga);
+            roots.evaluate(b, y, p, gb);
+            calls += 2;
+            for (int k = 0; k < ga.length; k++) {
+                if (Math.signum(ga[k]) != Math.signum(gb[k])) {
+                    return true;
+                }
+            }
+            return false;
+        }
+
+        @Override
+        public double advance(double tOut, double[] yOut, double[] sOut) {
+            if (Thread.currentThread().isInterrupted()) {
+                throw new IntegrationException(t, "interrupted");
+            }
+            atRoot = false;
+            found = new int[0];
+            if (roots != null && ga.length > 0 && tOut > t) {
+                double a = t;
+                for (int i = 1; i <= SAMPLES; i++) {
+                    double b = i == SAMPLES ? tOut : t + (tOut - t) * i / SAMPLES;
+                    if (changed(a, b)) {
+                        double lo = a;
+                        double hi = b;
+                        double scale = Math.max(Math.abs(hi), 1.0);
+                        double tol = 4 * Math.ulp(scale) + 1e-12 * scale;
+                        while (hi - lo > tol) {
+                            double mid = 0.5 * (lo + hi);
+                            if (changed(lo, mid)) {
+                                hi = mid;
+                            } else {
+                                lo = mid;
+                            }
+                        }
+                        if (hi < tOut) {
+                            changed(a, hi);
+                            int c = 0;
+                            int[] tmp = new int[ga.length];
+                            for (int k = 0; k < ga.length; k++) {
+                                if (Math.signum(ga[k]) != Math.signum(gb[k])) {
+                                    tmp[c++] = k;
+                                }
+                            }
+                            found = java.util.Arrays.copyOf(tmp, c);
+                            atRoot = true;
+                            t = hi;
+                            System.arraycopy(y, 0, yOut, 0, y.length);
+                            return t;
+                        }
+                        break;
+                    }
+                    a = b;
+                }
+            }
+            t = tOut;
+            System.arraycopy(y, 0, yOut, 0, y.length);
+            return t;
+        }
+
+        @Override
+        public boolean stoppedAtRoot() {
+            return atRoot;
+        }
+
+        @Override
+        public int[] rootsFound() {
+            return found.clone();
+        }
+
+        @Override
+        public double time() {
+            return t;
+        }
+
+        @Override
+        public void reset(double[] yNew, double[] sNew) {
+            System.arraycopy(yNew, 0, y, 0, y.length);
+        }
+
+        @Override
+        public SolverStats stats() {
+            return new SolverStats(0, 0, 0, 0, 0);
+        }
+    }
+
     /** One pending event execution. */
     private static final class Pending {
         final int event;
@@ -248,6 +365,7 @@ public final class Simulator {
         final boolean[] trig = new boolean[ne];
         final List<Pending> pending = new ArrayList<>();
         final double[] scratch = new double[1];
+        final java.util.SplittableRandom random = new java.util.SplittableRandom(TIE_BREAK_SEED);
         IntegrationSession session;
         double t;
         long seq;
@@ -276,11 +394,24 @@ public final class Simulator {
             for (int e = 0; e < ne; e++) {
                 trig[e] = events.get(e).initialValue();
             }
-            session = integrator.start(n == 0 ? new Padded(model) : model, t0, n == 0 ? new double[1] : y, p,
-                    ne > 0 ? new PaddedRoots(model.switchingFunctions(), n) : null, null, null);
+            RootFunctions rf = ne > 0 ? new PaddedRoots(model.switchingFunctions(), n) : null;
+            session = constantStates()
+                    ? new FrozenSession(n == 0 ? new double[1] : y, p, rf, t0)
+                    : integrator.start(n == 0 ? new Padded(model) : model, t0, n == 0 ? new double[1] : y, p, rf,
+                            null, null);
             if (handleEvents()) {
                 session.reset(n == 0 ? scratch : y, null);
             }
+        }
+
+        /** True when every derivative is structurally zero (states change only through events). */
+        private boolean constantStates() {
+            for (Expr d : model.form().runtime().outputs()) {
+                if (!d.isConst(0.0)) {
+                    return false;
+                }
+            }
+            return true;
         }
 
         void advanceTo(double tOut) {
@@ -348,6 +479,7 @@ public final class Simulator {
                 }
                 Pending next = null;
                 double bestPrio = Double.NEGATIVE_INFINITY;
+                int ties = 0;
                 for (Pending pe : pending) {
                     if (pe.time > t) {
                         continue;
@@ -357,11 +489,20 @@ public final class Simulator {
                     if (Double.isNaN(prio)) {
                         prio = Double.NEGATIVE_INFINITY;
                     }
-                    if (next == null || prio > bestPrio
-                            || (prio == bestPrio && (pe.event < next.event
-                            || (pe.event == next.event && pe.seq < next.seq)))) {
+                    if (next == null || prio > bestPrio) {
                         next = pe;
                         bestPrio = prio;
+                        ties = 1;
+                    } else if (prio == bestPrio) {
+                        if (ev.priority() != null) {
+                            // equal explicit priorities: SBML leaves the order random; seeded reservoir choice
+                            ties++;
+                            if (random.nextInt(ties) == 0) {
+                                next = pe;
+                            }
+                        } else if (pe.event < next.event || (pe.event == next.event && pe.seq < next.seq)) {
+                            next = pe;
+                        }
                     }
                 }
                 if (next == null) {

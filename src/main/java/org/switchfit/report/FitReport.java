@@ -189,6 +189,10 @@ public final class FitReport {
             kv.put("seed", f.settings().seed());
             kv.put("integration tolerances", String.format(Locale.ROOT, "rtol %.3g, atol %.3g",
                     f.settings().rtol(), f.settings().atol()));
+            kv.put("iterations per start (limit)", f.settings().maxIterations() == 0 ? "optimizer default"
+                    : f.settings().maxIterations());
+            kv.put("cost-change tolerance", f.settings().costTolerance() == 0 ? "optimizer default"
+                    : f.settings().costTolerance());
         }
         kv.put("wall time [s]", f.wallSeconds());
         for (Map.Entry<String, String> e : f.versions().entrySet()) {

@@ -85,10 +85,36 @@ final class FitReportTables {
             t.row(id, est, scale, lo, hi, cls, bounds, note, comp);
         }
         r.table(t);
+        if (prof != null) {
+            diagnostics(r, prof);
+        }
         if (!nonId.isEmpty()) {
             r.note(HtmlReport.NoteKind.WARNING, "Not identifiable from these data: " + String.join(", ", nonId)
                     + ". Their estimates are one point of a flat or one-sided valley; do not report them as "
                     + "measured values.");
+        }
+    }
+
+    /** Optimum and rank-check diagnostics of the profile run, when recorded. */
+    static void diagnostics(HtmlReport r, ProfilesFile prof) {
+        if (prof.betterOptimumFound()) {
+            r.note(HtmlReport.NoteKind.WARNING, String.format(Locale.ROOT, "A profile met a lower negative "
+                    + "log-likelihood (%.8g) than the fit (%.8g): the fit had not reached the optimum. Refit (more "
+                    + "starts) before using these intervals.", prof.bestNllFound(), prof.bestNll()));
+        }
+        ProfilesFile.RankCheck rc = prof.rankCheck();
+        if (rc != null && rc.atOptimum() != null) {
+            String txt = String.format(Locale.ROOT, "Residual Jacobian at the optimum: rank %d of %d free parameters",
+                    rc.atOptimum().rank(), rc.atOptimum().freeCount());
+            if (rc.atOptimum().fullRank()) {
+                r.paragraph(txt + " (locally identifiable structure).");
+            } else {
+                StringBuilder sb = new StringBuilder(txt).append("; directions the data cannot see: ");
+                for (int i = 0; i < rc.atOptimum().nullSpace().size(); i++) {
+                    sb.append(i > 0 ? "; " : "").append(rc.atOptimum().nullSpace().get(i).description());
+                }
+                r.note(HtmlReport.NoteKind.WARNING, sb.append('.').toString());
+            }
         }
     }
 

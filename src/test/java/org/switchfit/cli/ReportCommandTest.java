@@ -20,6 +20,7 @@ import org.switchfit.report.FitDirectory;
 import org.switchfit.report.FitFile;
 import org.switchfit.report.FitSummary;
 import org.switchfit.report.FittedTrajectories;
+import org.switchfit.report.ProfilesFile;
 import org.switchfit.report.SweepFile;
 
 /** {@code switchfit report}: exit codes, default and explicit output file, one-line errors. */
@@ -78,7 +79,8 @@ class ReportCommandTest {
 
     /**
      * End to end with the real fit command: its result.json must read as {@link FitSummary} (the shared schema),
-     * and the report over fit output plus trajectories.json computed at the best theta has the expected figures.
+     * and so must the profiles.json of the real profile command; the report over that output plus trajectories.json
+     * computed at the best theta has the expected figures.
      */
     @Test
     void reportsTheOutputOfTheFitCommand() throws Exception {
@@ -96,10 +98,14 @@ class ReportCommandTest {
         double[] theta = {s.parametersEstimationScale().get("k"), s.parametersEstimationScale().get("x0")};
         d.write(FitFile.TRAJECTORIES, FittedTrajectories.compute(p, theta,
                 SolverSettings.defaults().withTolerances(1e-8, 1e-12), FittedTrajectories.DEFAULT_GRID));
+        String[] pr = run("profile", fitDir.toString(), "--threads", "1");
+        assertEquals("0", pr[0], pr[2]);
+        ProfilesFile prof = d.read(FitFile.PROFILES);
+        assertEquals(2, prof.profiles().size());
         String[] r = run("report", fitDir.toString());
         assertEquals("0", r[0], r[2]);
         String page = Files.readString(fitDir.resolve("report.html"));
-        assertTrue(page.contains("content=\"trajectories waterfall\""), "figure ids in the meta tag");
+        assertTrue(page.contains("content=\"trajectories waterfall profiles\""), "figure ids in the meta tag");
     }
 
     @Test

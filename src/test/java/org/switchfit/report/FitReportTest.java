@@ -69,6 +69,7 @@ class FitReportTest {
         // fixture's se = 0.1 and value 2 (derived by hand from its quadratic profile); shown with %.6g
         double width = 2 * Math.sqrt(2 * SyntheticFitDirectory.HALF_CHI2) * 0.1 / 2;
         assertEquals(String.format(java.util.Locale.ROOT, "%.6g", width), foldRows.get(0).get(5));
+        assertTrue(html.contains("rank 2 of 3 free parameters; directions the data cannot see: +0.707 log10(k_on)"));
         // prediction-profile table
         List<List<String>> pred = tableRows(doc, "Predictions with 95 %");
         assertEquals("gfp(cond1, t=10)", pred.get(0).get(0));

@@ -6,6 +6,8 @@ import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.SplittableRandom;
+import org.switchfit.profile.NullDirection;
+import org.switchfit.profile.RankReport;
 
 /**
  * Synthetic content for every file of a fit directory, from closed-form curves and seeded noise (nothing here is
@@ -95,7 +97,11 @@ final class SyntheticFitDirectory {
 
     static ProfilesFile profiles() {
         double best = result().bestNll();
-        return new ProfilesFile(0.95, best, List.of(
+        RankReport rank = new RankReport(new double[] {0, 1, -3}, new double[] {3.0, 1.0, 1e-13}, 2, 3, 1e-8,
+                List.of(new NullDirection(new String[] {"k_on", "K_d", "k_deg"}, new double[] {0.7071, -0.7071, 0},
+                        1e-13, "+0.707 log10(k_on) -0.707 log10(K_d); invariant: k_on * K_d")));
+        return new ProfilesFile(0.95, best, new ProfilesFile.Thresholds(3.84, 7.81, 3), false, best, "2",
+                new ProfilesFile.RankCheck(rank, List.of(), ""), List.of(
                 quadratic("k_on", ProfilesFile.Kind.PARAMETER, 0.5, 0.05, best, false,
                         ProfilesFile.Identifiability.IDENTIFIABLE),
                 quadratic("K_d", ProfilesFile.Kind.PARAMETER, 20, 2, best, false,
