@@ -25,7 +25,9 @@ import picocli.CommandLine.Spec;
 /**
  * {@code switchfit branches}: pseudo-arclength continuation of the steady states in one control quantity, both
  * directions from the steady state at the start value, with folds (refined) and Hopf points. Prints one line per
- * fold or Hopf point and a summary; writes {@code branches.json} content ({@link BranchesFile}) and a CSV.
+ * fold or Hopf point and a summary; writes {@code branches.json} content ({@link BranchesFile}) and a CSV. States
+ * are the model's state vector: species amounts (concentrations only for species with rate rules), as in
+ * {@code OdeForm}.
  */
 @Command(name = "branches", mixinStandardHelpOptions = true,
         description = "Trace the steady states of an SBML model against one control quantity and report its folds "

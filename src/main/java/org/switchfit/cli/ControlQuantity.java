@@ -36,8 +36,10 @@ record ControlQuantity(String label, int index, double scale, double offset) {
      * @param option the option it came from (for messages)
      * @param y0     full initial state
      * @param q0     reduced parameters at the initial state
+     * @param pEff   effective model parameters (compartment sizes)
      */
-    static ControlQuantity resolve(SwitchModel sm, String name, String option, double[] y0, double[] q0) {
+    static ControlQuantity resolve(SwitchModel sm, String name, String option, double[] y0, double[] q0,
+                                   double[] pEff) {
         String id = name.strip();
         SourceLocation where = SourceLocation.ofFile(sm.file.toString());
         if (id.startsWith("init:") || id.startsWith("total:")) {
@@ -76,10 +78,15 @@ record ControlQuantity(String label, int index, double scale, double offset) {
                         + "does not support; vary total:%s instead", option, name, sp, in.size(), sp));
             }
             int c = in.get(0);
-            double l = sm.laws.coefficients(c)[i];
+            // states are amounts; the declared initial value may be a concentration (amount / compartment size)
+            double vol = 1;
+            if (sm.compiled.form().speciesDeclaredAsConcentration(sp)) {
+                vol = pEff[sm.compiled.parameterIndex(sm.model.species(sp).compartment())];
+            }
+            double l = sm.laws.coefficients(c)[i] * vol;
             int k = sm.reduced.totalIndex(c);
-            // T = T0 + l (v - v0)  <=>  v = v0 - T0 / l + T / l
-            return new ControlQuantity(id, k, 1 / l, y0[i] - q0[k] / l);
+            // T = T0 + l (v - v0)  <=>  v = v0 - T0 / l + T / l, v0 the declared-unit value y0 / vol
+            return new ControlQuantity(id, k, 1 / l, y0[i] / vol - q0[k] / l);
         }
         int k = sm.compiled.parameterIndex(id);
         if (k >= 0 && sm.compiled.form().isSpecies(id)) {

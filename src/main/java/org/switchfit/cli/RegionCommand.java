@@ -56,7 +56,7 @@ public final class RegionCommand implements Callable<Integer> {
         // the second quantity's start value goes in first, then the steady state is found
         SwitchSetup.Start s0 = setup.start();
         ControlQuantity c2 = ControlQuantity.resolve(s0.sm, second, "--and", s0.sm.reduced.fullState(s0.x, s0.q),
-                s0.q);
+                s0.q, s0.pEff);
         if (c2.index() == s0.control.index()) {
             throw new UserInputException(null, "--and " + second + " is the same quantity as --vary " + setup.vary
                     + "; name a different one");

@@ -254,7 +254,7 @@ final class SwitchModel {
         String best = null;
         int bestD = 3;
         for (String c : candidates) {
-            int d = editDistance(id.toLowerCase(Locale.ROOT), c.toLowerCase(Locale.ROOT));
+            int d = editDistance(id, c);
             if (d < bestD) {
                 bestD = d;
                 best = c;

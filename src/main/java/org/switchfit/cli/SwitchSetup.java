@@ -59,7 +59,7 @@ final class SwitchSetup {
         double[][] ini = s.sm.initial(decl);
         s.pEff = ini[1];
         s.q = s.sm.reduced.parameters(ini[1], ini[0]);
-        s.control = ControlQuantity.resolve(s.sm, vary, "--vary", ini[0], s.q);
+        s.control = ControlQuantity.resolve(s.sm, vary, "--vary", ini[0], s.q, s.pEff);
         double model = s.control.toUser(s.q[s.control.index()]);
         s.startValue = model >= from && model <= to ? model : from;
         s.q[s.control.index()] = s.control.toQ(s.startValue);
