@@ -30,6 +30,8 @@ import picocli.CommandLine.Spec;
 public final class BenchPetabCommand implements Callable<Integer> {
     /** Relative agreement required between gradient and central finite differences. */
     static final double GRADIENT_REL_TOL = 1e-4;
+    /** Largest number of gradient components checked by finite differences per problem. */
+    static final int MAX_FD_PARAMETERS = 12;
 
     @Spec
     picocli.CommandLine.Model.CommandSpec spec;
@@ -45,6 +47,13 @@ public final class BenchPetabCommand implements Callable<Integer> {
 
     @Option(names = "--no-gradient", description = "skip the finite-difference gradient check")
     boolean noGradient;
+
+    @Option(names = "--no-check", description = "skip the comparison with reference simulations")
+    boolean noCheck;
+
+    @Option(names = "--timing", paramLabel = "STARTS", defaultValue = "0",
+            description = "time objective evaluations and this many single LM starts (rtol 1e-8, after warm-up)")
+    int timingStarts;
 
     @Override
     public Integer call() throws IOException {
@@ -72,12 +81,22 @@ public final class BenchPetabCommand implements Callable<Integer> {
                 }
             }
             try {
-                CheckRun run = new CheckRun(yaml, null, SolverSettings.defaults().withTolerances(1e-8, 1e-12));
-                r.putAll(run.json);
-                r.remove("observables");
-                boolean ok = run.allMatch();
-                matched += ok ? 1 : 0;
-                r.put("status", ok ? "match" : "mismatch");
+                if (!noCheck) {
+                    CheckRun run = new CheckRun(yaml, null, SolverSettings.defaults().withTolerances(1e-8, 1e-12));
+                    r.putAll(run.json);
+                    r.remove("observables");
+                    boolean ok = run.allMatch();
+                    matched += ok ? 1 : 0;
+                    r.put("status", ok ? "match" : "mismatch");
+                }
+                if (timingStarts > 0) {
+                    timing(yaml, timingStarts, r);
+                    out.printf(Locale.ROOT, "%-32s timing: residuals %.4g s, residuals+Jacobian %.4g s, ratio %.2f;"
+                            + " %d LM starts: mean %.4g s (median %.4g s), mean %.1f iterations, best NLL %.6g%n",
+                            name, r.get("secondsResiduals"), r.get("secondsResidualsAndJacobian"),
+                            r.get("jacobianCostRatio"), timingStarts, r.get("secondsPerStartMean"),
+                            r.get("secondsPerStartMedian"), r.get("iterationsPerStartMean"), r.get("bestNllTiming"));
+                }
                 if (!noGradient) {
                     double err = gradientError(yaml, r);
                     gradOk += err <= GRADIENT_REL_TOL ? 1 : 0;
@@ -105,6 +124,58 @@ public final class BenchPetabCommand implements Callable<Integer> {
             Json.write(json, all);
         }
         return 0;
+    }
+
+    /**
+     * Times, after 10 warm-up evaluations: mean of 20 residual evaluations, mean of 20 residual + Jacobian
+     * evaluations at the nominal point, and single LM starts from Latin-hypercube points within the bounds (seed 1),
+     * one thread, rtol 1e-8.
+     */
+    static void timing(Path yaml, int starts, Map<String, Object> r) {
+        LikelihoodObjective obj = LikelihoodObjective.of(org.switchfit.problem.ProblemLoader.load(yaml),
+                SolverSettings.defaults().withTolerances(1e-8, 1e-12));
+        int np = obj.parameterCount();
+        int nr = obj.residualCount();
+        double[] th = obj.problem().nominalTheta();
+        double[] res = new double[nr];
+        double[] jac = new double[nr * np];
+        for (int i = 0; i < 10; i++) {
+            obj.evaluate(th, res, jac);
+        }
+        long t0 = System.nanoTime();
+        for (int i = 0; i < 20; i++) {
+            obj.evaluate(th, res, null);
+        }
+        double plain = (System.nanoTime() - t0) * 1e-9 / 20;
+        t0 = System.nanoTime();
+        for (int i = 0; i < 20; i++) {
+            obj.evaluate(th, res, jac);
+        }
+        double withJac = (System.nanoTime() - t0) * 1e-9 / 20;
+        org.switchfit.fit.FitProblem fp = FitCommand.fitProblem(obj.problem(), obj);
+        org.switchfit.fit.Multistart ms = org.switchfit.fit.Multistart.defaults().withStarts(starts).withSeed(1);
+        double[] secs = new double[starts];
+        double iters = 0;
+        double best = Double.POSITIVE_INFINITY;
+        ms.runStart(fp, null, 0);
+        for (int i = 0; i < starts; i++) {
+            long s0 = System.nanoTime();
+            org.switchfit.fit.StartResult sr = ms.runStart(fp, null, i);
+            secs[i] = (System.nanoTime() - s0) * 1e-9;
+            iters += sr.iterations();
+            if (Double.isFinite(sr.nll())) {
+                best = Math.min(best, sr.nll());
+            }
+        }
+        double[] sorted = secs.clone();
+        Arrays.sort(sorted);
+        r.put("secondsResiduals", plain);
+        r.put("secondsResidualsAndJacobian", withJac);
+        r.put("jacobianCostRatio", withJac / plain);
+        r.put("secondsPerStartMean", Arrays.stream(secs).average().orElse(Double.NaN));
+        r.put("secondsPerStartMedian", sorted[starts / 2]);
+        r.put("iterationsPerStartMean", iters / starts);
+        r.put("bestNllTiming", best);
     }
 
     private static String fmt(Object o) {
@@ -151,7 +222,9 @@ public final class BenchPetabCommand implements Callable<Integer> {
         double num = 0.0;
         double den = 0.0;
         int worst = -1;
-        for (int j = 0; j < np; j++) {
+        // At most MAX_FD_PARAMETERS components (evenly spaced) keep the check affordable for large problems.
+        int stride = Math.max(1, (np + MAX_FD_PARAMETERS - 1) / MAX_FD_PARAMETERS);
+        for (int j = 0; j < np; j += stride) {
             double h = 1e-4 * Math.max(1.0, Math.abs(th[j]));
             double[] tp = th.clone();
             tp[j] += h;
@@ -167,6 +240,7 @@ public final class BenchPetabCommand implements Callable<Integer> {
         }
         double err = den > 0 ? num / den : num;
         r.put("gradientRelError", err);
+        r.put("gradientComponentsChecked", (np + stride - 1) / stride);
         r.put("gradientWorstParameter", worst < 0 ? null : obj.problem().parameters().get(worst).id());
         r.put("secondsObjectiveAndGradient", tGrad);
         r.put("secondsObjectiveOnly", tPlain);

@@ -161,21 +161,54 @@ final class CheckRun {
         List<Measurement> ms = problem.measurements();
         double[] out = new double[ms.size()];
         java.util.Arrays.fill(out, Double.NaN);
-        Map<String, Deque<Double>> byKey = new HashMap<>();
-        for (PetabMeasurement r : ref) {
-            byKey.computeIfAbsent(key(r.observableId(), r.simulationConditionId(), r.time()),
-                    k -> new ArrayDeque<>()).add(r.value());
+        if (ref.size() == ms.size()) {
+            boolean same = true;
+            for (int i = 0; i < ms.size() && same; i++) {
+                Measurement me = ms.get(i);
+                String sim = problem.conditions().get(problem.experiments().get(me.experiment()).condition()).id();
+                same = sim.equals(ref.get(i).simulationConditionId()) && me.time() == ref.get(i).time();
+            }
+            if (same) {
+                // Same rows in the same order (some published tables rename the observables): align by row.
+                for (int i = 0; i < ms.size(); i++) {
+                    out[i] = ref.get(i).value();
+                }
+                return out;
+            }
         }
+        Map<String, List<PetabMeasurement>> byKey = new HashMap<>();
+        for (PetabMeasurement r : ref) {
+            byKey.computeIfAbsent(key(r.simulationConditionId(), r.time()), k -> new ArrayList<>()).add(r);
+        }
+        java.util.Set<PetabMeasurement> used = java.util.Collections.newSetFromMap(new java.util.IdentityHashMap<>());
         int missing = 0;
         for (int i = 0; i < ms.size(); i++) {
             Measurement me = ms.get(i);
             String sim = problem.conditions().get(problem.experiments().get(me.experiment()).condition()).id();
-            Deque<Double> q = byKey.get(key(problem.observables().get(me.observable()).id(), sim, me.time()));
-            if (q == null || q.isEmpty()) {
+            List<PetabMeasurement> cands = byKey.getOrDefault(key(sim, me.time()), List.of());
+            String obs = problem.observables().get(me.observable()).id();
+            PetabMeasurement pick = null;
+            // exact observable id first; then ids that extend it with '__' (some tables append the row's
+            // parameters and conditions to the observable id)
+            for (int pass = 0; pass < 2 && pick == null; pass++) {
+                for (PetabMeasurement c : cands) {
+                    if (used.contains(c)) {
+                        continue;
+                    }
+                    String id = c.observableId();
+                    boolean ok = pass == 0 ? id.equals(obs) : id.startsWith(obs + "__");
+                    if (ok) {
+                        pick = c;
+                        break;
+                    }
+                }
+            }
+            if (pick == null) {
                 missing++;
                 continue;
             }
-            out[i] = q.poll();
+            used.add(pick);
+            out[i] = pick.value();
         }
         if (missing == ms.size()) {
             throw new UserInputException(SourceLocation.ofFile(reference.toString()), "no row matches a measurement "
@@ -184,9 +217,10 @@ final class CheckRun {
         return out;
     }
 
-    private static String key(String obs, String sim, double t) {
-        return obs + '\u0000' + sim + '\u0000' + t;
+    private static String key(String sim, double t) {
+        return sim + '\u0000' + t;
     }
+
 
     /** Measurement table with a simulation column after measurement (PEtab); one row per measurement row. */
     String simulationsTsv() {

@@ -84,6 +84,11 @@ public final class FitCommand implements Callable<Integer> {
             description = "iterations per start (default: ${DEFAULT-VALUE})")
     int maxIterations;
 
+    @Option(names = "--cost-tolerance", defaultValue = "1e-10",
+            description = "stop when an LM step changes the cost by less than this fraction (default: "
+                    + "${DEFAULT-VALUE}; objective values are only accurate to about the integration rtol)")
+    double costTolerance;
+
     @Override
     public Integer call() {
         if (starts < 1 || threads < 1) {
@@ -103,7 +108,8 @@ public final class FitCommand implements Callable<Integer> {
             finished.addAll(store.readAll(StartResult.class).values());
         }
         Multistart ms = Multistart.defaults().withStarts(starts).withSeed(seed)
-                .withOptimizer(org.switchfit.fit.LevenbergMarquardt.defaults().withMaxIterations(maxIterations));
+                .withOptimizer(org.switchfit.fit.LevenbergMarquardt.defaults().withMaxIterations(maxIterations)
+                        .withCostTolerance(costTolerance));
         double[] guess = nominalStart ? problem.nominalTheta() : null;
         boolean bar = !quiet && System.console() != null;
         PrintWriter err = spec.commandLine().getErr();
@@ -205,6 +211,8 @@ public final class FitCommand implements Callable<Integer> {
         settings.put("seed", seed);
         settings.put("rtol", rtol);
         settings.put("atol", atol);
+        settings.put("costTolerance", costTolerance);
+        settings.put("maxIterations", maxIterations);
         settings.put("nominalStart", nominalStart);
         j.put("settings", settings);
         j.put("wallSeconds", wall);

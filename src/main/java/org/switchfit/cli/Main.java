@@ -22,6 +22,10 @@ import picocli.CommandLine.Command;
             ReportCommand.class,
             ProfileCommand.class,
             DemoCommand.class,
+            BenchProfilesCommand.class,
+            BranchesCommand.class,
+            RegionCommand.class,
+            SweepCommand.class,
         })
 public final class Main implements Runnable {
 

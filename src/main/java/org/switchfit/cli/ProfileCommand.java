@@ -118,8 +118,8 @@ public final class ProfileCommand implements Callable<Integer> {
         long t0 = System.nanoTime();
         List<ProfilesJson.Stored> results = run.run(tasks, store, nThreads, s -> {
             done[0]++;
-            err.printf(Locale.ROOT, "profile %s %s finished (%d new): %s%n", s.entry().kind(), s.entry().id(),
-                    done[0], s.entry().classification());
+            err.printf(Locale.ROOT, "[%d/%d] profile of %s %s finished: %s%n", done[0], tasks.size(),
+                    s.entry().kind(), s.entry().id(), s.entry().classification());
             err.flush();
         });
         ProfilesJson file = assemble(in, fp, pl, results, foldStatus, seed);

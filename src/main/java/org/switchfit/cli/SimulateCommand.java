@@ -1,10 +1,7 @@
 package org.switchfit.cli;
 
-import java.io.IOException;
 import java.io.PrintWriter;
 import java.io.StringWriter;
-import java.nio.charset.StandardCharsets;
-import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
@@ -197,7 +194,4 @@ public final class SimulateCommand implements Callable<Integer> {
         return Double.toString(v);
     }
 
-    static void write(Path p, String content) throws IOException {
-        Files.writeString(p, content, StandardCharsets.UTF_8);
-    }
 }

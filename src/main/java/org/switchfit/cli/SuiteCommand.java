@@ -28,7 +28,9 @@ import java.util.regex.Matcher;
 import java.util.regex.Pattern;
 import java.util.stream.Stream;
 import org.switchfit.model.Model;
+import org.switchfit.ode.AutoIntegrator;
 import org.switchfit.ode.CompiledModel;
+import org.switchfit.ode.Integrator;
 import org.switchfit.ode.IntegrationException;
 import org.switchfit.ode.Integrators;
 import org.switchfit.ode.ModelCompiler;
@@ -78,6 +80,10 @@ public final class SuiteCommand implements Callable<Integer> {
     @Option(names = "--level", paramLabel = "L.V", description = "use this SBML level.version (e.g. 2.4) instead "
             + "of the highest available")
     String level;
+
+    @Option(names = "--method", paramLabel = "bdf|dp|auto", description = "integration method (default: "
+            + "Dormand-Prince, switching to BDF when a case turns out stiff)")
+    String method;
 
     @Option(names = "--threads", paramLabel = "N", description = "worker threads (default: available processors)")
     Integer threads;
@@ -329,9 +335,11 @@ public final class SuiteCommand implements Callable<Integer> {
                 }
             }
             ModelOutputs outs = ModelOutputs.of(cm, outNames);
-            SolverSettings ss = SolverSettings.defaults().withMethod(SolverSettings.Method.AUTO)
-                    .withTolerances(1e-10, Math.min(1e-12, absTol * 1e-4));
-            Trajectory tr = new Simulator(cm, Integrators.create(ss)).simulate(times, cm.parameterValues(), outs);
+            double atol = Math.min(1e-12, absTol * 1e-4);
+            Integrator integ = method == null
+                    ? new AutoIntegrator(SolverSettings.defaults().withTolerances(1e-10, atol))
+                    : Integrators.create(SimulateCommand.settings(method, 1e-10, atol));
+            Trajectory tr = new Simulator(cm, integ).simulate(times, cm.parameterValues(), outs);
             Results expected = readResults(caseDir.resolve(id + "-results.csv"));
             if (save != null) {
                 AtomicFiles.writeString(save.resolve(id + ".csv"), toCsv(expected.header, tr));

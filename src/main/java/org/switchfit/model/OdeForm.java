@@ -324,44 +324,6 @@ public final class OdeForm {
         }
     }
 
-    private void checkNoDelay() {
-        List<Expr> all = new ArrayList<>();
-        List<String> where = new ArrayList<>();
-        for (Rule r : model.rules()) {
-            all.add(r.math());
-            where.add(r.elementId() != null ? r.elementId() : r.variable() != null ? r.variable() : "rule");
-        }
-        for (Reaction r : model.reactions()) {
-            if (r.kineticLaw() != null) {
-                all.add(r.kineticLaw());
-                where.add(r.id());
-            }
-        }
-        for (Event e : model.events()) {
-            all.add(e.trigger());
-            where.add(e.id());
-            for (Event.Assignment a : e.assignments()) {
-                all.add(a.math());
-                where.add(e.id());
-            }
-            if (e.delay() != null) {
-                all.add(e.delay());
-                where.add(e.id());
-            }
-        }
-        for (InitialAssignment ia : model.initialAssignments()) {
-            all.add(ia.math());
-            where.add(ia.symbol());
-        }
-        for (int i = 0; i < all.size(); i++) {
-            if (all.get(i).contains(x -> x.op() == Op.DELAY)) {
-                throw new UnsupportedConstructException(SourceLocation.ofElement(file, where.get(i)),
-                        "the delay function (a delay differential equation)",
-                        "replace the delay by a chain of intermediate species");
-            }
-        }
-    }
-
     /** Inlines assignment rules recursively (used to analyse algebraic rules). */
     private Expr inlineAssignments(Expr e, int depth) {
         if (depth > 50) {
@@ -397,6 +359,9 @@ public final class OdeForm {
                 if (cands.isEmpty() || (cands.size() > 1 && !greedy)) {
                     continue;
                 }
+                // prefer quantities the modeller did not mark as externally set (boundary species last)
+                cands.sort(java.util.Comparator.comparing(c -> types.get(c) == QType.SPECIES
+                        && model.species(c).boundaryCondition()));
                 for (String c : cands) {
                     Expr var = Expr.symbol(c);
                     Expr a = Derivative.of(f, var, null);

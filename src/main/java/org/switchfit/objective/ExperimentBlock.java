@@ -38,8 +38,10 @@ import org.switchfit.problem.ValueSource;
  */
 final class ExperimentBlock implements ResidualBlock {
     /**
-     * C in {@code sqrt(2 log σ + C)}: makes the residual real for σ &gt; exp(-C/2) ≈ 2e-22. Smaller σ raise an
-     * {@link ObjectiveException}.
+     * Default C in {@code sqrt(2 log σ + C)}: makes the residual real for σ &gt; exp(-C/2) ≈ 2e-22; smaller σ raise
+     * an {@link ObjectiveException}. When σ is directly an estimated parameter with a positive lower bound L,
+     * {@code C = max(1, 1 - 2 log L)} instead (real on the whole box, and a smaller constant keeps the cost, and so
+     * the optimizer's relative stopping tests, close to the NLL).
      */
     static final double SIGMA_SHIFT = 100.0;
     private static final double LN10 = Math.log(10.0);
@@ -60,6 +62,7 @@ final class ExperimentBlock implements ResidualBlock {
     private final int[] rowOffset;
     private final boolean[] sigmaVariable;
     private final double[] fixedSigma;
+    private final double[] shift;
     private final int size;
     private final double constant;
     private final BdfIntegrator integrator;
@@ -67,6 +70,7 @@ final class ExperimentBlock implements ResidualBlock {
     private final ThreadLocal<Work> work;
     private final int[][] derivRows;
     private final Simulator simulator;
+    private final List<org.switchfit.expr.Expr> timeSwitches;
     private final ModelOutputs stateOutputs;
     private final int[][] derivCols;
 
@@ -107,6 +111,7 @@ final class ExperimentBlock implements ResidualBlock {
         rowOffset = new int[rows.length];
         sigmaVariable = new boolean[rows.length];
         fixedSigma = new double[rows.length];
+        shift = new double[rows.length];
         int off = 0;
         double c = 0.0;
         for (int i = 0; i < rows.length; i++) {
@@ -119,7 +124,8 @@ final class ExperimentBlock implements ResidualBlock {
             off += sigmaVariable[i] ? 2 : 1;
             c += transformConstant(od.transformation(), me.value());
             if (sigmaVariable[i]) {
-                c += (od.noise() == ObservableDef.Noise.LAPLACE ? Math.log(2.0) : 0.5 * LOG_2PI) - 0.5 * SIGMA_SHIFT;
+                shift[i] = sigmaShift(me, od);
+                c += (od.noise() == ObservableDef.Noise.LAPLACE ? Math.log(2.0) : 0.5 * LOG_2PI) - 0.5 * shift[i];
             } else if (!(s > 0)) {
                 throw new org.switchfit.util.UserInputException(me.location(), String.format(Locale.ROOT,
                         "noise spread of observable '%s' evaluates to %s; it must be positive: correct the noise "
@@ -138,6 +144,7 @@ final class ExperimentBlock implements ResidualBlock {
             derivCols[o] = problem.observableDerivativeCols(o);
         }
         work = ThreadLocal.withInitial(Work::new);
+        timeSwitches = timeSwitches(model);
         if (problem.hasEvents()) {
             if (pre != null) {
                 throw new UserInputException(problem.measurements().get(rows[0]).location(), "pre-equilibration of"
@@ -168,6 +175,23 @@ final class ExperimentBlock implements ResidualBlock {
             default:
                 return 0.0;
         }
+    }
+
+    /** C for a row with variable σ (see {@link #SIGMA_SHIFT}). */
+    private double sigmaShift(Measurement me, ObservableDef od) {
+        if (od.sigma().op() != org.switchfit.expr.Op.PARAM || od.sigma().index() < m) {
+            return SIGMA_SHIFT;
+        }
+        int k = od.sigma().index();
+        int oOff = problem.obsPlaceholderOffset();
+        int nOff = problem.noisePlaceholderOffset();
+        ValueSource src = k < oOff ? problem.globalSources().get(k - m)
+                : k < nOff ? me.obsParameters().get(k - oOff) : me.noiseParameters().get(k - nOff);
+        if (!src.isTheta()) {
+            return SIGMA_SHIFT;
+        }
+        double lower = problem.parameters().get(src.thetaIndex()).lower();
+        return lower > 0 ? Math.max(1.0, 1.0 - 2.0 * Math.log(lower)) : SIGMA_SHIFT;
     }
 
     /** σ when it is a constant for this row, else NaN. */
@@ -365,6 +389,8 @@ final class ExperimentBlock implements ResidualBlock {
                 w.sys.setColumns(w.dPeff);
             }
             BdfSession ses = null;
+            double[] breaks = null;
+            int nextBreak = 0;
             double t = 0.0;
             for (int i = 0; i < rows.length; i++) {
                 Measurement me = problem.measurements().get(rows[i]);
@@ -373,11 +399,12 @@ final class ExperimentBlock implements ResidualBlock {
                     if (ses == null) {
                         ses = integrator.start(w.sys, t, w.y, w.pEff, null, sens ? w.sensParams : null,
                                 sens ? w.s : null);
+                        breaks = breakpoints(w.pEff, w.y);
                     }
                     if (tm == Double.POSITIVE_INFINITY) {
                         steady.run(ses, model, w.pEff, w.y, sens ? w.s : null, "condition '" + sim.id() + "'");
                     } else {
-                        ses.advance(tm, w.y, sens ? w.s : null);
+                        nextBreak = advanceTo(ses, tm, breaks, nextBreak, w.y, sens ? w.s : null);
                     }
                     t = tm;
                 }
@@ -448,10 +475,10 @@ final class ExperimentBlock implements ResidualBlock {
         r[ro] = res;
         double rs = 0.0;
         if (sigmaVariable[i]) {
-            double arg = 2.0 * Math.log(sigma) + SIGMA_SHIFT;
+            double arg = 2.0 * Math.log(sigma) + shift[i];
             if (!(arg > 0)) {
                 throw new ObjectiveException(String.format(Locale.ROOT, "experiment '%s', observable '%s': noise "
-                        + "spread %.3g is below exp(-%.0f)", exp.id(), od.id(), sigma, SIGMA_SHIFT / 2));
+                        + "spread %.3g is below exp(-%.1f)", exp.id(), od.id(), sigma, shift[i] / 2));
             }
             rs = Math.sqrt(arg);
             r[ro + 1] = rs;
@@ -530,6 +557,79 @@ final class ExperimentBlock implements ResidualBlock {
             }
             row(ctx, w, i, problem.measurements().get(rows[i]), times[i], linear, null, false, r, offset, null);
         }
+    }
+
+    /**
+     * Comparisons {@code a op b} of the model whose difference {@code a - b} involves time but no state or runtime
+     * local: they switch the right-hand side at a time computable in advance (piecewise inputs). The integration
+     * stops and restarts there instead of stepping across the discontinuity. Sensitivities are carried across
+     * unchanged, which is exact when the switch time does not depend on θ (partial otherwise: the jump term of a
+     * θ-dependent switch time is not added).
+     */
+    private static List<org.switchfit.expr.Expr> timeSwitches(CompiledModel model) {
+        List<org.switchfit.expr.Expr> out = new ArrayList<>();
+        org.switchfit.expr.Block b = model.form().runtime();
+        List<org.switchfit.expr.Expr> all = new ArrayList<>(b.locals());
+        all.addAll(b.outputs());
+        for (org.switchfit.expr.Expr e : all) {
+            e.forEach(x -> {
+                if (x.op().isRelational() && x.op() != org.switchfit.expr.Op.EQ
+                        && x.op() != org.switchfit.expr.Op.NEQ && x.argCount() == 2) {
+                    org.switchfit.expr.Expr g = org.switchfit.expr.Expr.sub(x.arg(0), x.arg(1));
+                    boolean time = g.contains(l -> l.op() == org.switchfit.expr.Op.TIME);
+                    boolean other = g.contains(l -> l.op() == org.switchfit.expr.Op.STATE
+                            || l.op() == org.switchfit.expr.Op.LOCAL);
+                    if (time && !other && !out.contains(g)) {
+                        out.add(g);
+                    }
+                }
+            });
+        }
+        return out;
+    }
+
+    /** Sorted positive switch times for effective parameters p (switch functions linear in time only). */
+    private double[] breakpoints(double[] p, double[] y) {
+        if (timeSwitches.isEmpty()) {
+            return new double[0];
+        }
+        double[] w = new double[0];
+        double[] t = new double[timeSwitches.size()];
+        int c = 0;
+        for (org.switchfit.expr.Expr g : timeSwitches) {
+            double g0 = org.switchfit.expr.Interpreter.evaluate(g, 0.0, y, p, w);
+            double g1 = org.switchfit.expr.Interpreter.evaluate(g, 1.0, y, p, w);
+            double g2 = org.switchfit.expr.Interpreter.evaluate(g, 2.0, y, p, w);
+            double slope = g1 - g0;
+            if (slope == 0.0 || !(Math.abs(g2 - g1 - slope) <= 1e-12 * (Math.abs(slope) + Math.abs(g0)))) {
+                continue;
+            }
+            double tb = -g0 / slope;
+            if (tb > 0 && Double.isFinite(tb)) {
+                t[c++] = tb;
+            }
+        }
+        double[] out = Arrays.copyOf(t, c);
+        Arrays.sort(out);
+        return out;
+    }
+
+    /** Advances to tOut, stopping and restarting at every switch time on the way; returns the next switch index. */
+    private static int advanceTo(BdfSession ses, double tOut, double[] breaks, int next, double[] y, double[] s) {
+        int k = next;
+        while (k < breaks.length && breaks[k] <= tOut) {
+            if (breaks[k] > ses.time()) {
+                ses.setStopTime(breaks[k]);
+                ses.advance(breaks[k], y, s);
+                ses.reset(y, s);
+            }
+            k++;
+        }
+        ses.setStopTime(k < breaks.length ? breaks[k] : Double.POSITIVE_INFINITY);
+        if (tOut > ses.time()) {
+            ses.advance(tOut, y, s);
+        }
+        return k;
     }
 
     /** Fills gradH, gradS: dh/dθ and dσ/dθ at the current state and sensitivities. */

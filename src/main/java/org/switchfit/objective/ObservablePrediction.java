@@ -19,9 +19,9 @@ import org.switchfit.util.SourceLocation;
 import org.switchfit.util.UserInputException;
 
 /**
- * The model prediction {@code g(θ) = h(t, y(t; θ), q(θ))} of one observable in one experiment at one time, untransformed
- * (the observable formula itself, not its log), with the exact gradient from forward sensitivities: the same chain
- * as the residuals of {@link LikelihoodObjective} (initial-assignment derivatives times dp/dθ, optional
+ * The model prediction {@code g(θ) = h(t, y(t; θ), q(θ))} of one observable in one experiment at one time,
+ * untransformed (the observable formula itself, not its log), with the exact gradient from forward sensitivities:
+ * the same chain as the residuals of {@link LikelihoodObjective} (initial-assignment derivatives times dp/dθ, optional
  * pre-equilibration to steady state, staggered BDF sensitivities through {@link ThetaSystem}, observable
  * derivatives with respect to states and parameters). Used for prediction profiles (Kreutz, Raue and Timmer 2012,
  * BMC Syst Biol 6:120, doi:10.1186/1752-0509-6-120).
@@ -215,7 +215,10 @@ public final class ObservablePrediction implements Prediction {
     @Override
     public double evaluate(double[] theta, double[] gradient) {
         Work w = work.get();
-        boolean sens = gradient != null && np > 0;
+        // Sensitivities are integrated even without a gradient request: they take part in the step-size control,
+        // so skipping them changes the steps and g by up to the integration tolerance; an optimizer comparing
+        // trial values (no gradient) with accepted ones (gradient) would see that as noise.
+        boolean sens = np > 0;
         for (int j = 0; j < np; j++) {
             w.linear[j] = problem.parameters().get(j).toLinear(theta[j]);
             w.dLinear[j] = problem.parameters().get(j).linearDerivative(theta[j]);

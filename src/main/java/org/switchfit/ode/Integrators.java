@@ -8,7 +8,8 @@ import org.switchfit.ode.bdf.BdfIntegrator;
  *
  * <p>AUTO currently means BDF for every model: biochemical models are stiff often enough (fast binding next to slow
  * synthesis), and BDF on a non-stiff model costs a small constant factor, while an explicit method on a stiff model
- * can cost orders of magnitude. A stiffness detector that starts explicit and switches is a possible refinement.
+ * can cost orders of magnitude. {@link AutoIntegrator} is the alternative that starts explicit and switches to BDF
+ * when the explicit step budget runs out (used by the conformance runner).
  */
 public final class Integrators {
     private Integrators() {

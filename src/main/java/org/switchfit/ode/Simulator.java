@@ -14,8 +14,8 @@ import org.switchfit.model.BoundEvent;
  * event execution. Immutable; {@link #simulate} may run concurrently from several threads.
  *
  * <p>Order of simultaneous events: highest priority first (priority evaluated when choosing; events without
- * priority come after those with one), ties in model order. Events without a delay compute their assignment values
- * when executed; delayed events with useValuesFromTriggerTime compute them when triggered.
+ * priority come after those with one), ties in model order. Events with useValuesFromTriggerTime compute their
+ * assignment values when triggered, the others when executed.
  */
 public final class Simulator {
     /** Maximum number of event executions at one time point before giving up (cycles of events). */
@@ -338,8 +338,7 @@ public final class Simulator {
                     boolean now = truth(ev.trigger());
                     if (now && !trig[e]) {
                         double delay = ev.delay() == null ? 0.0 : value(ev.delay());
-                        double[] vals = ev.delay() != null && ev.useValuesFromTriggerTime()
-                                ? assignmentValues(ev) : null;
+                        double[] vals = ev.useValuesFromTriggerTime() ? assignmentValues(ev) : null;
                         pending.add(new Pending(e, ev.delay() == null ? t : t + delay, vals, seq++));
                     } else if (!now && trig[e] && !ev.persistent()) {
                         final int fe = e;

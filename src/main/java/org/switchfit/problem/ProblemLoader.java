@@ -171,8 +171,8 @@ public final class ProblemLoader {
         int maxObs = 0;
         int maxNoise = 0;
         for (PetabObservable o : pp.observables()) {
-            maxObs = Math.max(maxObs, placeholderCount(o.formula(), "observable", o.id()));
-            maxNoise = Math.max(maxNoise, placeholderCount(o.noiseFormula(), "noise", o.id()));
+            maxObs = Math.max(maxObs, placeholderCount(o.formula(), "observable", o.id(), sources.keySet()));
+            maxNoise = Math.max(maxNoise, placeholderCount(o.noiseFormula(), "noise", o.id(), sources.keySet()));
         }
         List<String> globalIds = new ArrayList<>();
         List<ValueSource> globalSources = new ArrayList<>();
@@ -188,8 +188,8 @@ public final class ProblemLoader {
             ObservableDef.Noise noise = o.noiseDistribution() == PetabObservable.NoiseDistribution.LAPLACE
                     ? ObservableDef.Noise.LAPLACE : ObservableDef.Noise.NORMAL;
             observables.add(new ObservableDef(o.id(), h, s, o.transformation(), noise,
-                    placeholderCount(o.formula(), "observable", o.id()),
-                    placeholderCount(o.noiseFormula(), "noise", o.id()), o.location()));
+                    placeholderCount(o.formula(), "observable", o.id(), sources.keySet()),
+                    placeholderCount(o.noiseFormula(), "noise", o.id(), sources.keySet()), o.location()));
             obsIndex.put(o.id(), observables.size() - 1);
         }
         observables = finalSlots(observables, m, globalIds.size(), maxObs);
@@ -349,11 +349,11 @@ public final class ProblemLoader {
         return out;
     }
 
-    private static int placeholderCount(String formula, String kind, String obsId) {
+    private static int placeholderCount(String formula, String kind, String obsId, Set<String> tableIds) {
         int max = 0;
         Matcher mt = PLACEHOLDER.matcher(formula == null ? "" : formula);
         while (mt.find()) {
-            if (mt.group(1).equals(kind) && mt.group(3).equals(obsId)) {
+            if (mt.group(1).equals(kind) && mt.group(3).equals(obsId) && !tableIds.contains(mt.group())) {
                 max = Math.max(max, Integer.parseInt(mt.group(2)));
             }
         }
@@ -429,7 +429,8 @@ public final class ProblemLoader {
                 }
                 String nm = x.name();
                 Matcher mt = PLACEHOLDER.matcher(nm);
-                if (mt.matches()) {
+                // a parameter-table id is a parameter even when it looks like a placeholder
+                if (mt.matches() && !sources.containsKey(nm)) {
                     if (!mt.group(3).equals(obsId)) {
                         throw UserInputException.of(loc, "%s uses '%s', a placeholder of another observable; use "
                                 + "placeholders ending in _%s", column, nm, obsId);

@@ -83,6 +83,7 @@ public final class FitReport {
         } else {
             missing(r, dir, FitFile.TRAJECTORIES);
         }
+        prof.ifPresent(p -> FitReportTables.predictions(r, p));
 
         r.section(S_MULTI);
         if (fit.isPresent()) {
@@ -217,7 +218,10 @@ public final class FitReport {
         String verdict = String.format(Locale.ROOT, "%d of %d starts ended within %.3g of the best value %.8g; "
                 + "%d failed.", f.startsNearBest(), starts.size(), f.nearBestTolerance(), f.bestNll(),
                 f.failedStarts());
-        if (f.startsNearBest() <= 1) {
+        if (f.startsNearBest() == 0) {
+            r.note(HtmlReport.NoteKind.WARNING, verdict + " No start produced a usable value, so there is no "
+                    + "estimate: check the problem with 'switchfit check' and the failure reasons below.");
+        } else if (f.startsNearBest() == 1) {
             r.note(HtmlReport.NoteKind.WARNING, verdict + " The best value was reached only once, so a better "
                     + "optimum may exist: run more starts.");
         } else {

@@ -143,6 +143,23 @@ final class FitReportTables {
         }
     }
 
+    /** Table of the prediction profiles (Kreutz et al. 2012), when profiles.json has any. */
+    static void predictions(HtmlReport r, ProfilesFile prof) {
+        Table t = new Table(String.format(Locale.ROOT, "Predictions with %.0f %% prediction-profile intervals",
+                100 * prof.level()), "prediction", "value", "lower", "upper", "verdict");
+        int n = 0;
+        for (ProfilesFile.Entry e : prof.profiles()) {
+            if (e.kind() == ProfilesFile.Kind.PREDICTION) {
+                t.row(e.id(), e.estimate(), e.lower() == null ? "open" : e.lower(),
+                        e.upper() == null ? "open" : e.upper(), Pinning.of(e.lower(), e.upper()).text);
+                n++;
+            }
+        }
+        if (n > 0) {
+            r.table(t);
+        }
+    }
+
     /** Table of the jumps of each ramp. */
     static void jumps(HtmlReport r, SweepFile s) {
         Table t = new Table("Jumps of " + s.readout(), "ramp", s.parameter(), "before", "after");

@@ -1,9 +1,14 @@
 package org.switchfit.report;
 
 import com.fasterxml.jackson.annotation.JsonInclude;
+import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
+import org.switchfit.fit.FitResult;
+import org.switchfit.fit.StartResult;
+import org.switchfit.problem.EstimationProblem;
+import org.switchfit.problem.FreeParameter;
 
 /**
  * Content of {@code result.json}, written by {@code switchfit fit}: the best parameter vector, the outcome of every
@@ -45,6 +50,42 @@ public record FitSummary(String problem, double bestNll, Map<String, Double> par
         inputs = inputs == null ? List.of() : List.copyOf(inputs);
     }
 
+    /**
+     * The summary of a finished multistart fit of {@code problem}, in the layout the {@code fit} command writes,
+     * with the parameter bounds added.
+     *
+     * @param problem     the problem that was fitted
+     * @param result      the multistart result (starts in the order given there)
+     * @param settings    run settings
+     * @param wallSeconds wall-clock duration, s
+     * @param versions    program and runtime versions
+     * @param inputs      input files with checksums
+     * @return the summary
+     */
+    public static FitSummary of(EstimationProblem problem, FitResult result, Settings settings, double wallSeconds,
+                                Map<String, String> versions, List<InputFile> inputs) {
+        Map<String, Double> lin = new LinkedHashMap<>();
+        Map<String, Double> est = new LinkedHashMap<>();
+        Map<String, String> sc = new LinkedHashMap<>();
+        Map<String, Bounds> bd = new LinkedHashMap<>();
+        double[] th = result.bestTheta();
+        for (int k = 0; k < problem.parameterCount(); k++) {
+            FreeParameter p = problem.parameters().get(k);
+            lin.put(p.id(), th == null ? null : p.toLinear(th[k]));
+            est.put(p.id(), th == null ? null : th[k]);
+            sc.put(p.id(), p.scale().token());
+            bd.put(p.id(), new Bounds(p.lower(), p.upper()));
+        }
+        List<Start> st = new ArrayList<>();
+        for (StartResult r : result.starts()) {
+            st.add(new Start(r.index(), r.nll(), r.status().name(), r.termination() == null ? null
+                    : r.termination().name(), r.iterations(), r.evaluations(), r.reason()));
+        }
+        return new FitSummary(problem.problemFile().toString(), result.bestNll(), lin, est, sc, bd,
+                result.startsNearBest(), FitResult.NEAR_BEST_TOLERANCE, result.failedCount(), st, settings,
+                wallSeconds, versions, inputs);
+    }
+
     private static <V> Map<String, V> copy(Map<String, V> m) {
         return m == null ? Map.of() : java.util.Collections.unmodifiableMap(new LinkedHashMap<>(m));
     }
@@ -76,9 +117,16 @@ public record FitSummary(String problem, double bestNll, Map<String, Double> par
      * @param seed         random seed
      * @param rtol         relative integration tolerance
      * @param atol         absolute integration tolerance
+     * @param costTolerance relative cost-change tolerance of Levenberg-Marquardt (0: its default)
+     * @param maxIterations iteration limit of Levenberg-Marquardt per start (0: its default)
      * @param nominalStart whether start 0 was the nominal parameter vector
      */
-    public record Settings(int starts, long seed, double rtol, double atol, boolean nominalStart) {
+    public record Settings(int starts, long seed, double rtol, double atol, boolean nominalStart,
+            double costTolerance, int maxIterations) {
+        /** Settings without explicit optimizer limits (recorded as 0: the optimizer's defaults). */
+        public Settings(int starts, long seed, double rtol, double atol, boolean nominalStart) {
+            this(starts, seed, rtol, atol, nominalStart, 0.0, 0);
+        }
     }
 
     /**

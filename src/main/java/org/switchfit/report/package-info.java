@@ -13,6 +13,17 @@
  *   <li>Data files: {@link org.switchfit.report.Json} (mapper conventions; NaN and infinities as null),
  *       {@link org.switchfit.report.Csv}, and {@link org.switchfit.report.ResultStore} (one JSON file per finished
  *       task, for resuming runs).</li>
+ *   <li>Fit directories: {@link org.switchfit.report.FitDirectory} reads and writes the JSON files listed in
+ *       {@link org.switchfit.report.FitFile} as immutable records that writers and the report share:
+ *       {@link org.switchfit.report.FitSummary} ({@code result.json}), {@link org.switchfit.report.TrajectoriesFile},
+ *       {@link org.switchfit.report.ProfilesFile}, {@link org.switchfit.report.BranchesFile},
+ *       {@link org.switchfit.report.RegionFile}, {@link org.switchfit.report.SweepFile} and
+ *       {@link org.switchfit.report.PhasePlaneFile}. Unknown fields fail the read; a missing or malformed file is a
+ *       one-line {@code UserInputException} naming the file and the command that writes it.
+ *       {@link org.switchfit.report.FittedTrajectories} and {@link org.switchfit.report.PhasePlanes} compute the
+ *       content of {@code trajectories.json} and {@code phaseplane.json} from the fitted model;
+ *       {@link org.switchfit.report.FitReport} turns a directory into one HTML page without recomputing
+ *       anything.</li>
  * </ul>
  * All files are written atomically through {@code org.switchfit.util.AtomicFiles}. Nothing here prints or exits.
  *

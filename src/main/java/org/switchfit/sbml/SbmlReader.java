@@ -1,6 +1,5 @@
 package org.switchfit.sbml;
 
-import java.io.File;
 import java.io.IOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -13,7 +12,6 @@ import java.util.Set;
 import javax.xml.stream.XMLStreamException;
 import org.apache.logging.log4j.Level;
 import org.apache.logging.log4j.core.config.Configurator;
-import org.sbml.jsbml.ASTNode;
 import org.sbml.jsbml.AlgebraicRule;
 import org.sbml.jsbml.AssignmentRule;
 import org.sbml.jsbml.KineticLaw;
@@ -374,13 +372,4 @@ public final class SbmlReader {
         }
     }
 
-    /** Unused: keeps the ASTNode import meaningful for readers of the converter. */
-    static boolean isMath(ASTNode n) {
-        return n != null;
-    }
-
-    /** Name of a file for messages. */
-    static String name(File f) {
-        return f.getName();
-    }
 }

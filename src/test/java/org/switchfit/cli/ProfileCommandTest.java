@@ -32,10 +32,11 @@ import org.switchfit.report.Json;
  * that interval: the profile of the reparameterised model with B = y(t*) as parameter (no delta method).
  * q = χ²₁(0.95) pointwise and χ²₂(0.95) simultaneous, computed with Hipparchus (common practice).
  *
- * <p>Tolerance {@link #TOL} = 1e-6 relative: the objective is integrated at rtol 1e-10 / atol 1e-14, so ln X carries
- * errors of about 1e-9 (global error can exceed the local tolerance by one to two orders, common practice), which
- * moves residuals by 1e-8 (÷ σ) and the interval ends by the same relative order; the LM optimum and the crossing
- * refinement (secant to 1e-12) add less. 1e-6 leaves a margin of about 100.
+ * <p>Tolerance {@link #TOL} = 1e-6 relative: the objective is integrated at rtol 1e-10 / atol 1e-14, so ln X
+ * carries errors of about 1e-9 (global error can exceed the local tolerance by one to two orders, common practice),
+ * which moves residuals by 1e-8 (÷ σ) and the interval ends by the same relative order; the LM optimum and the
+ * crossing refinement (secant to 1e-12) add less. Measured at commit time: largest relative error 7.3e-9 (the
+ * prediction estimate), interval ends ≤ 4.6e-10, so 1e-6 leaves a margin above 100.
  */
 class ProfileCommandTest {
     private static final double[] T = {0, 1, 2, 3, 4, 6};
@@ -204,6 +205,55 @@ class ProfileCommandTest {
         assertEquals(0, r.code(), r.err());
         assertTrue(r.err().contains("fold predictions not available in this build"), r.err());
         assertEquals("fold predictions not available in this build", profiles().get("folds").asText());
+    }
+
+    /** A copy of the fit directory holding only result.json, optionally with θ_k shifted. */
+    private static Path copyFit(String name, double shiftK) throws IOException {
+        Path d = dir.resolve(name);
+        Files.createDirectories(d);
+        com.fasterxml.jackson.databind.node.ObjectNode root =
+                (com.fasterxml.jackson.databind.node.ObjectNode) Json.mapper().readTree(
+                        fitDir.resolve("result.json").toFile());
+        com.fasterxml.jackson.databind.node.ObjectNode est =
+                (com.fasterxml.jackson.databind.node.ObjectNode) root.get("parametersEstimationScale");
+        est.put("k", est.get("k").asDouble() + shiftK);
+        Json.write(d.resolve("result.json"), root);
+        return d;
+    }
+
+    @Test
+    void resultsDoNotDependOnTheThreadCount() throws IOException {
+        Path d = copyFit("one-thread", 0.0);
+        Result r = run("profile", d.toString(), "--parameters", "k", "--threads", "1");
+        assertEquals(0, r.code(), r.err());
+        // Compared node by node (JsonNode equality of doubles is exact): the first directory was profiled on two
+        // threads together with x0 and the prediction.
+        JsonNode a = profiles();
+        JsonNode b = Json.mapper().readTree(d.resolve("profiles.json").toFile());
+        assertEquals(entry(a, "k"), entry(b, "k"));
+        assertEquals(a.get("rankCheck"), b.get("rankCheck"));
+        assertEquals(a.get("bestNll"), b.get("bestNll"));
+    }
+
+    @Test
+    void startingOffTheOptimumIsReportedLoudly() throws IOException {
+        // k moved by 0.05 with x0 at its optimum: the first re-optimisation returns k to k̂ and lands below the
+        // recorded NLL by 0.5 · 0.05² · S_tt / σ² ≈ 2.9 NLL units (derived by hand, S_tt = 23.33).
+        Path d = copyFit("off-optimum", 0.05);
+        Result r = run("profile", d.toString(), "--parameters", "x0", "--threads", "1");
+        assertEquals(0, r.code(), r.err());
+        assertTrue(r.err().contains("A BETTER OPTIMUM WAS FOUND"), r.err());
+        JsonNode root = Json.mapper().readTree(d.resolve("profiles.json").toFile());
+        assertTrue(root.get("betterOptimumFound").asBoolean());
+        assertTrue(root.get("bestNllFound").asDouble() < root.get("bestNll").asDouble() - 1.0);
+        JsonNode x0 = entry(root, "x0");
+        assertTrue(x0.get("betterOptimumFound").asBoolean());
+        // after the restart the interval is the closed-form one again
+        Regression g = new Regression();
+        double q1 = new ChiSquaredDistribution(1).inverseCumulativeProbability(0.95);
+        double ha = SIGMA * Math.sqrt(q1 * (1.0 / g.n + g.tb * g.tb / g.stt));
+        assertRel(Math.exp(g.a - ha), x0.get("lower"), "x0 lower after restart");
+        assertRel(Math.exp(g.a + ha), x0.get("upper"), "x0 upper after restart");
     }
 
     static void assertUserError(Result r, String... fragments) {

@@ -69,6 +69,10 @@ class FitReportTest {
         // fixture's se = 0.1 and value 2 (derived by hand from its quadratic profile); shown with %.6g
         double width = 2 * Math.sqrt(2 * SyntheticFitDirectory.HALF_CHI2) * 0.1 / 2;
         assertEquals(String.format(java.util.Locale.ROOT, "%.6g", width), foldRows.get(0).get(5));
+        // prediction-profile table
+        List<List<String>> pred = tableRows(doc, "Predictions with 95 %");
+        assertEquals("gfp(cond1, t=10)", pred.get(0).get(0));
+        assertEquals("pinned", pred.get(0).get(4));
         // multistart table sorted by final value, failed start last
         List<List<String>> starts = tableRows(doc, "Starts sorted by final value");
         assertEquals("7", starts.get(starts.size() - 1).get(1));
@@ -196,6 +200,34 @@ class FitReportTest {
         assertEquals(1L, s.settings().seed());
         assertEquals("00", s.inputs().get(0).sha256());
         SampleReportTest.parse(FitReport.build(FitDirectory.of(f.getParent()), null).toHtml());
+    }
+
+    /** Degenerate but valid content (all starts failed, empty profiles and branches) still gives a page. */
+    @Test
+    void degenerateContentStillRenders() throws Exception {
+        FitDirectory d = FitDirectory.of(tmp.resolve("degenerate"));
+        Map<String, Double> nulls = new LinkedHashMap<>();
+        nulls.put("k", null);
+        d.write(FitFile.RESULT, new FitSummary("p.yaml", Double.NaN, nulls, nulls, Map.of("k", "log10"), null, 0,
+                0.1, 2, List.of(new FitSummary.Start(0, Double.NaN, "FAILED", null, 0, 1, "stiff"),
+                new FitSummary.Start(1, Double.NaN, "FAILED", null, 0, 1, "stiff")), null, 0.1, null, null));
+        d.write(FitFile.PROFILES, new ProfilesFile(0.95, Double.NaN, List.of(new ProfilesFile.Entry("k",
+                ProfilesFile.Kind.PARAMETER, "log10", Double.NaN, null, null, Double.NaN,
+                ProfilesFile.Identifiability.STRUCTURALLY_NONIDENTIFIABLE, null, null))));
+        d.write(FitFile.BRANCHES, new BranchesFile("p", new double[] {0, 1}, List.of("x"), null,
+                List.of(new BranchesFile.Branch("b", List.of(new BranchesFile.Point(0.5, new double[] {1}, true,
+                        null, null)))), null));
+        d.write(FitFile.TRAJECTORIES, new TrajectoriesFile(null, List.of(new TrajectoriesFile.Experiment("e",
+                List.of(new TrajectoriesFile.Observable("o", new double[] {0}, new double[] {Double.NaN}, null,
+                        null, new double[0], new double[0], new double[0]))))));
+        d.write(FitFile.SWEEP, new SweepFile("p", "x", 1, List.of()));
+        HtmlReport r = FitReport.build(d, null);
+        String html = r.toHtml();
+        SampleReportTest.parse(html);
+        assertTrue(html.contains("0 of 2 starts ended within 0.1"), "all-failed verdict");
+        assertTrue(html.contains("No start produced a usable value"));
+        assertTrue(html.contains("structurally non-identifiable"));
+        assertTrue(html.contains("holds no ramps"));
     }
 
     @Test

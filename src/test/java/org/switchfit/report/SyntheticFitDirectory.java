@@ -105,7 +105,9 @@ final class SyntheticFitDirectory {
                 quadratic("fold1", ProfilesFile.Kind.FOLD, 2, 0.1, best, false,
                         ProfilesFile.Identifiability.IDENTIFIABLE),
                 quadratic("fold2", ProfilesFile.Kind.FOLD, -2, 0.2, best, true,
-                        ProfilesFile.Identifiability.PRACTICALLY_NONIDENTIFIABLE)));
+                        ProfilesFile.Identifiability.PRACTICALLY_NONIDENTIFIABLE),
+                quadratic("gfp(cond1, t=10)", ProfilesFile.Kind.PREDICTION, 8, 0.3, best, false,
+                        ProfilesFile.Identifiability.IDENTIFIABLE)));
     }
 
     /** Cusp normal form dx/dt = p + 3x - x^3: p(x) = x^3 - 3x, stable for |x| > 1, folds at (p, x) = (+-2, -+1). */

@@ -1,0 +1,158 @@
+package org.switchfit.cli;
+
+import java.io.PrintWriter;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.concurrent.Callable;
+import org.switchfit.continuation.Branch;
+import org.switchfit.continuation.BranchPoint;
+import org.switchfit.continuation.ContinuationSettings;
+import org.switchfit.continuation.Fold;
+import org.switchfit.continuation.Hopf;
+import org.switchfit.report.BranchesFile;
+import org.switchfit.report.Json;
+import org.switchfit.util.AtomicFiles;
+import org.switchfit.util.UserInputException;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Spec;
+
+/**
+ * {@code switchfit branches}: pseudo-arclength continuation of the steady states in one control quantity, both
+ * directions from the steady state at the start value, with folds (refined) and Hopf points. Prints one line per
+ * fold or Hopf point and a summary; writes {@code branches.json} content ({@link BranchesFile}) and a CSV.
+ */
+@Command(name = "branches", mixinStandardHelpOptions = true,
+        description = "Trace the steady states of an SBML model against one control quantity and report its folds "
+                + "(switching points) and Hopf points.")
+public final class BranchesCommand implements Callable<Integer> {
+
+    @Spec
+    picocli.CommandLine.Model.CommandSpec spec;
+
+    @Mixin
+    SwitchSetup setup;
+
+    @Option(names = "--json", paramLabel = "FILE", description = "write branches and folds as JSON")
+    Path json;
+
+    @Option(names = "--csv", paramLabel = "FILE", description = "write one row per branch point as CSV")
+    Path csv;
+
+    @Option(names = "--max-points", defaultValue = "2000", paramLabel = "N",
+            description = "point limit per direction (default: ${DEFAULT-VALUE})")
+    int maxPoints;
+
+    @Override
+    public Integer call() {
+        if (maxPoints < 2) {
+            throw new UserInputException(null, "--max-points " + maxPoints + ": need at least 2");
+        }
+        long t0 = System.nanoTime();
+        SwitchSetup.Start s = setup.start();
+        ContinuationSettings cs = SwitchSetup.settings(s.control, setup.from, setup.to).withMaxPoints(maxPoints);
+        long t1 = System.nanoTime();
+        Branch b = setup.branch(s, cs);
+        long t2 = System.nanoTime();
+        BranchesFile file = toFile(s, b, setup.from, setup.to);
+        PrintWriter out = spec.commandLine().getOut();
+        for (BranchesFile.Special sp : file.folds()) {
+            out.printf(Locale.ROOT, "%s: %s at %s = %.15g%s%n", sp.id(), sp.kind() == BranchesFile.Kind.FOLD
+                    ? "fold" : "Hopf point", sp.parameter(), sp.value(), note(b, sp));
+        }
+        out.printf(Locale.ROOT, "%d points from %s = %s, %d fold(s), %d Hopf point(s); ends: %s, %s; "
+                        + "load %.2f s, compile %.2f s, laws %.2f s (%d), steady state %.2f s, continuation %.2f s%n",
+                b.size(), s.control.label(), SwitchSetup.fmt(s.startValue), b.folds().size(), b.hopfs().size(),
+                b.startEnd(), b.finishEnd(), s.timing[0], s.timing[1], s.timing[2], s.sm.laws.lawCount(),
+                s.timing[3], (t2 - t1) * 1e-9);
+        if (b.size() > 0 && b.point(0).unstableCount() < 0) {
+            out.println("stability not computed: the reduced system has " + s.sm.reduced.stateCount()
+                    + " states, above the eigenvalue limit of the continuation settings");
+        }
+        out.flush();
+        if (json != null) {
+            Json.write(json, file);
+        }
+        if (csv != null) {
+            AtomicFiles.writeString(csv, toCsv(file));
+        }
+        return 0;
+    }
+
+    private static String note(Branch b, BranchesFile.Special sp) {
+        if (sp.kind() == BranchesFile.Kind.FOLD) {
+            int k = Integer.parseInt(sp.id().substring(4)) - 1;
+            return b.folds().get(k).refined() ? "" : " (not refined: interpolated between branch points)";
+        }
+        int k = Integer.parseInt(sp.id().substring(4)) - 1;
+        return String.format(Locale.ROOT, " (frequency %.6g)", b.hopfs().get(k).frequency());
+    }
+
+    /** The JSON record of a traced branch, in user units of the control and full states. */
+    static BranchesFile toFile(SwitchSetup.Start s, Branch b, double a, double bHi) {
+        List<String> ids = s.sm.states;
+        int k = s.control.index();
+        double[] q = s.q.clone();
+        List<BranchesFile.Special> specials = new ArrayList<>();
+        int i = 1;
+        for (Fold f : b.folds()) {
+            q[k] = f.parameter();
+            specials.add(new BranchesFile.Special("fold" + i++, s.control.label(), s.control.toUser(f.parameter()),
+                    stateMap(ids, s.sm.reduced.fullState(f.state(), q)), BranchesFile.Kind.FOLD));
+        }
+        i = 1;
+        for (Hopf h : b.hopfs()) {
+            q[k] = h.parameter();
+            specials.add(new BranchesFile.Special("hopf" + i++, s.control.label(), s.control.toUser(h.parameter()),
+                    stateMap(ids, s.sm.reduced.fullState(h.state(), q)), BranchesFile.Kind.HOPF));
+        }
+        List<BranchesFile.Point> pts = new ArrayList<>();
+        BranchPoint prev = null;
+        for (BranchPoint bp : b.points()) {
+            if (prev != null && prev.parameter() == bp.parameter()
+                    && java.util.Arrays.equals(prev.state(), bp.state())) {
+                continue; // a one-sided start on a bound repeats the start point
+            }
+            prev = bp;
+            q[k] = bp.parameter();
+            pts.add(new BranchesFile.Point(s.control.toUser(bp.parameter()), s.sm.reduced.fullState(bp.state(), q),
+                    bp.stable(), bp.eigenReal(), bp.eigenImag()));
+        }
+        return new BranchesFile(s.control.label(), new double[] {a, bHi}, ids, specials,
+                List.of(new BranchesFile.Branch("branch1", pts)), List.of());
+    }
+
+    static Map<String, Double> stateMap(List<String> ids, double[] y) {
+        Map<String, Double> m = new LinkedHashMap<>();
+        for (int i = 0; i < ids.size(); i++) {
+            m.put(ids.get(i), y[i]);
+        }
+        return m;
+    }
+
+    static String toCsv(BranchesFile f) {
+        StringBuilder sb = new StringBuilder();
+        sb.append("branch,point,").append(org.switchfit.report.Csv.field(f.control())).append(",stable");
+        for (String id : f.stateIds()) {
+            sb.append(',').append(org.switchfit.report.Csv.field(id));
+        }
+        sb.append('\n');
+        for (BranchesFile.Branch br : f.branches()) {
+            int i = 0;
+            for (BranchesFile.Point p : br.points()) {
+                sb.append(br.id()).append(',').append(i++).append(',').append(p.value()).append(',')
+                        .append(p.stable());
+                for (double v : p.states()) {
+                    sb.append(',').append(v);
+                }
+                sb.append('\n');
+            }
+        }
+        return sb.toString();
+    }
+}

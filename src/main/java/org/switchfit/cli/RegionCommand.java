@@ -1,0 +1,127 @@
+package org.switchfit.cli;
+
+import java.io.PrintWriter;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Locale;
+import java.util.concurrent.Callable;
+import org.switchfit.continuation.BistableRegion;
+import org.switchfit.continuation.Branch;
+import org.switchfit.continuation.ContinuationException;
+import org.switchfit.continuation.ContinuationSettings;
+import org.switchfit.continuation.FoldCurve;
+import org.switchfit.continuation.FoldCurves;
+import org.switchfit.report.Json;
+import org.switchfit.report.RegionFile;
+import org.switchfit.util.SourceLocation;
+import org.switchfit.util.UserInputException;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Spec;
+
+/**
+ * {@code switchfit region}: the fold curve of the model in two control quantities, traced from the first fold
+ * found along the first quantity at the second quantity's start value, with its cusps and the bistable region
+ * it bounds inside the box; written as {@link RegionFile} JSON.
+ */
+@Command(name = "region", mixinStandardHelpOptions = true,
+        description = "Trace the folds of an SBML model in two control quantities and report the cusps and the "
+                + "bistable region.")
+public final class RegionCommand implements Callable<Integer> {
+
+    @Spec
+    picocli.CommandLine.Model.CommandSpec spec;
+
+    @Mixin
+    SwitchSetup setup;
+
+    @Option(names = "--and", required = true, paramLabel = "ID", description = "second control quantity (same "
+            + "forms as --vary)")
+    String second;
+
+    @Option(names = "--from2", required = true, paramLabel = "C", description = "lower end of the second range")
+    double from2;
+
+    @Option(names = "--to2", required = true, paramLabel = "D", description = "upper end of the second range")
+    double to2;
+
+    @Option(names = "--json", paramLabel = "FILE", description = "write the region as JSON")
+    Path json;
+
+    @Override
+    public Integer call() {
+        SwitchSetup.checkRange("--from2", "--to2", from2, to2);
+        // the second quantity's start value goes in first, then the steady state is found
+        SwitchSetup.Start s0 = setup.start();
+        ControlQuantity c2 = ControlQuantity.resolve(s0.sm, second, "--and", s0.sm.reduced.fullState(s0.x, s0.q),
+                s0.q);
+        if (c2.index() == s0.control.index()) {
+            throw new UserInputException(null, "--and " + second + " is the same quantity as --vary " + setup.vary
+                    + "; name a different one");
+        }
+        double v2 = c2.toUser(s0.q[c2.index()]);
+        if (!(v2 >= from2 && v2 <= to2)) {
+            throw new UserInputException(null, String.format(Locale.ROOT, "--and %s: its value %s is outside "
+                    + "[--from2, --to2] = [%s, %s]; widen the range or set it with --set", second,
+                    SwitchSetup.fmt(v2), SwitchSetup.fmt(from2), SwitchSetup.fmt(to2)));
+        }
+        ContinuationSettings cs = SwitchSetup.settings(s0.control, setup.from, setup.to);
+        Branch b = setup.branch(s0, cs);
+        if (b.folds().isEmpty()) {
+            throw new UserInputException(SourceLocation.ofFile(setup.modelFile.toString()), String.format(
+                    Locale.ROOT, "no fold in %s over [%s, %s] at %s = %s, so no fold curve to trace; widen "
+                            + "--from/--to or choose another --and value (run 'switchfit branches' to see the folds)",
+                    setup.vary, SwitchSetup.fmt(setup.from), SwitchSetup.fmt(setup.to), second, SwitchSetup.fmt(v2)));
+        }
+        double q2a = c2.toQ(from2);
+        double q2b = c2.toQ(to2);
+        double lo2 = Math.min(q2a, q2b);
+        double hi2 = Math.max(q2a, q2b);
+        FoldCurve curve;
+        try {
+            double[] q = s0.q.clone();
+            curve = new FoldCurves(cs, lo2, hi2).trace(s0.sm.reduced, b.folds().get(0), q, c2.index());
+        } catch (ContinuationException e) {
+            throw new UserInputException(SourceLocation.ofFile(setup.modelFile.toString()), "fold-curve "
+                    + "continuation in (" + setup.vary + ", " + second + ") failed: " + e.getMessage()
+                    + "; try narrower ranges");
+        }
+        BistableRegion region = BistableRegion.of(curve, cs.lowerBound(), cs.upperBound(), lo2, hi2);
+        ControlQuantity c1 = s0.control;
+        double[] x1 = new double[curve.points().size()];
+        double[] x2 = new double[x1.length];
+        for (int i = 0; i < x1.length; i++) {
+            x1[i] = c1.toUser(curve.points().get(i).p1());
+            x2[i] = c2.toUser(curve.points().get(i).p2());
+        }
+        List<RegionFile.Cusp> cusps = new ArrayList<>();
+        for (FoldCurve.Cusp c : curve.cusps()) {
+            cusps.add(new RegionFile.Cusp(c1.toUser(c.p1()), c2.toUser(c.p2())));
+        }
+        double[][] poly = region.polygon();
+        double[] y1 = new double[poly.length];
+        double[] y2 = new double[poly.length];
+        for (int i = 0; i < poly.length; i++) {
+            y1[i] = c1.toUser(poly[i][0]);
+            y2[i] = c2.toUser(poly[i][1]);
+        }
+        RegionFile file = new RegionFile(c1.label(), c2.label(), new double[] {setup.from, setup.to},
+                new double[] {from2, to2}, List.of(new RegionFile.Curve(x1, x2)), cusps,
+                new RegionFile.Curve(y1, y2), region.closedByChord(), null);
+        PrintWriter out = spec.commandLine().getOut();
+        for (RegionFile.Cusp c : cusps) {
+            out.printf(Locale.ROOT, "cusp at %s = %.12g, %s = %.12g%n", c1.label(), c.p1(), c2.label(), c.p2());
+        }
+        out.printf(Locale.ROOT, "%d fold-curve points (ends: %s, %s), %d cusp(s), bistable area %.6g in "
+                        + "(%s, %s)%s%n", x1.length, curve.startEnd(), curve.finishEnd(), cusps.size(),
+                Math.abs(region.area() * c1.scale() * c2.scale()), c1.label(), c2.label(),
+                region.closedByChord() ? " (polygon closed by a chord)" : "");
+        out.flush();
+        if (json != null) {
+            Json.write(json, file);
+        }
+        return 0;
+    }
+}

@@ -1,0 +1,179 @@
+package org.switchfit.cli;
+
+import java.io.PrintWriter;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Locale;
+import java.util.concurrent.Callable;
+import org.switchfit.continuation.Branch;
+import org.switchfit.continuation.BranchPoint;
+import org.switchfit.continuation.ContinuationException;
+import org.switchfit.continuation.HysteresisSweep;
+import org.switchfit.continuation.PseudoArclength;
+import org.switchfit.continuation.SweepResult;
+import org.switchfit.ode.IntegrationException;
+import org.switchfit.ode.Integrators;
+import org.switchfit.ode.SolverSettings;
+import org.switchfit.report.Json;
+import org.switchfit.report.SweepFile;
+import org.switchfit.util.AtomicFiles;
+import org.switchfit.util.SourceLocation;
+import org.switchfit.util.UserInputException;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Spec;
+
+/**
+ * {@code switchfit sweep}: a simulated slow ramp of the control quantity from A up to B and back down, the readout
+ * along each ramp and where it jumped. The up ramp starts from the steady state at A; the down ramp from the
+ * steady state at B on the branch continued from it (the state an up ramp slow enough ends in). Written as
+ * {@link SweepFile} JSON and a CSV.
+ */
+@Command(name = "sweep", mixinStandardHelpOptions = true,
+        description = "Simulate a slow ramp of a control quantity up and down and report where the response jumps.")
+public final class SweepCommand implements Callable<Integer> {
+
+    @Spec
+    picocli.CommandLine.Model.CommandSpec spec;
+
+    @Mixin
+    SwitchSetup setup;
+
+    @Option(names = "--rate", required = true, paramLabel = "R", description = "ramp speed, control units per "
+            + "model time unit (> 0)")
+    double rate;
+
+    @Option(names = "--readout", paramLabel = "SPECIES", description = "state followed (default: the first state)")
+    String readout;
+
+    @Option(names = "--samples", defaultValue = "401", paramLabel = "N", description = "samples per ramp "
+            + "(default: ${DEFAULT-VALUE})")
+    int samples;
+
+    @Option(names = "--json", paramLabel = "FILE", description = "write the ramps as JSON")
+    Path json;
+
+    @Option(names = "--csv", paramLabel = "FILE", description = "write direction, value, response rows as CSV")
+    Path csv;
+
+    @Override
+    public Integer call() {
+        if (!(rate > 0) || !Double.isFinite(rate)) {
+            throw new UserInputException(null, "--rate " + rate + ": need a positive ramp speed, e.g. 0.01");
+        }
+        if (samples < 3) {
+            throw new UserInputException(null, "--samples " + samples + ": need at least 3");
+        }
+        // start the analysis at A: the up ramp begins there
+        double[] range = {setup.from, setup.to};
+        SwitchSetup.Start s = setup.start();
+        SwitchModel sm = s.sm;
+        String ro = readout == null ? sm.states.get(0) : readout.strip();
+        int ri = sm.states.indexOf(ro);
+        if (ri < 0) {
+            throw new UserInputException(SourceLocation.ofFile(setup.modelFile.toString()), String.format(
+                    Locale.ROOT, "--readout %s: the model has no state '%s'%s; states include: %s", ro, ro,
+                    SwitchModel.didYouMean(ro, sm.states), SimulateCommand.abbreviate(sm.states)));
+        }
+        ControlQuantity c = s.control;
+        int k = c.index();
+        double[] full = new double[sm.states.size()];
+        full[ri] = 1;
+        double[] w = sm.reducedReadout(full, s.q);
+        double qa = c.toQ(range[0]);
+        double qb = c.toQ(range[1]);
+        double qRate = rate / Math.abs(c.scale());
+        HysteresisSweep hs = new HysteresisSweep(Integrators.create(SolverSettings.defaults()
+                .withMethod(SolverSettings.Method.BDF).withTolerances(1e-8, 1e-10)), samples);
+        SweepResult up;
+        SweepResult down;
+        try {
+            double[] xa = s.x;
+            if (s.startValue != range[0]) {
+                double[] q = s.q.clone();
+                q[k] = qa;
+                xa = sm.steadyState(s.x, q, s.pEff);
+            }
+            up = hs.run(sm.reduced, xa, s.q, k, qa, qb, qRate, w);
+            double[] xb = endState(s, xa, qa, qb);
+            down = hs.run(sm.reduced, xb, s.q, k, qb, qa, qRate, w);
+        } catch (ContinuationException | IntegrationException e) {
+            throw new UserInputException(SourceLocation.ofFile(setup.modelFile.toString()), "sweep of "
+                    + setup.vary + " failed: " + e.getMessage() + "; try a smaller --rate, a narrower range or "
+                    + "other --set values");
+        }
+        List<SweepFile.Run> runs = List.of(run(SweepFile.Direction.UP, up, s, ri),
+                run(SweepFile.Direction.DOWN, down, s, ri));
+        SweepFile file = new SweepFile(c.label(), ro, rate, runs);
+        PrintWriter out = spec.commandLine().getOut();
+        for (SweepFile.Run r : runs) {
+            SweepFile.Jump j = r.jumps().get(0);
+            out.printf(Locale.ROOT, "%s ramp at %s per time unit: steepest change of %s at %s = %.8g (%.6g -> "
+                    + "%.6g)%n", r.direction() == SweepFile.Direction.UP ? "up" : "down", SwitchSetup.fmt(rate), ro,
+                    c.label(), j.value(), j.before(), j.after());
+        }
+        out.flush();
+        if (json != null) {
+            Json.write(json, file);
+        }
+        if (csv != null) {
+            StringBuilder sb = new StringBuilder("direction,").append(org.switchfit.report.Csv.field(c.label()))
+                    .append(',').append(org.switchfit.report.Csv.field(ro)).append('\n');
+            for (SweepFile.Run r : runs) {
+                double[] v = r.values();
+                double[] y = r.response();
+                for (int i = 0; i < v.length; i++) {
+                    sb.append(r.direction() == SweepFile.Direction.UP ? "up" : "down").append(',').append(v[i])
+                            .append(',').append(y[i]).append('\n');
+                }
+            }
+            AtomicFiles.writeString(csv, sb.toString());
+        }
+        return 0;
+    }
+
+    /** Reduced steady state at qb on the branch continued from (xa, qa); the plain steady state if that fails. */
+    private double[] endState(SwitchSetup.Start s, double[] xa, double qa, double qb) {
+        double[] q = s.q.clone();
+        q[s.control.index()] = qa;
+        try {
+            Branch b = new PseudoArclength(SwitchSetup.settings(s.control, setup.from, setup.to))
+                    .trace(s.sm.reduced, xa, q, s.control.index(), qb > qa ? +1 : -1);
+            BranchPoint last = b.point(b.size() - 1);
+            if (last.parameter() == qb) {
+                return last.state();
+            }
+        } catch (ContinuationException e) {
+            // fall back to the steady state reached from xa
+        }
+        q[s.control.index()] = qb;
+        return s.sm.steadyState(xa, q, s.pEff);
+    }
+
+    /**
+     * The ramp in user units. The sweep's readout is on the reduced state; the constant part of a dependent
+     * species (its total divided by its coefficient) is added back per sample.
+     */
+    private static SweepFile.Run run(SweepFile.Direction d, SweepResult r, SwitchSetup.Start s, int ri) {
+        ControlQuantity c = s.control;
+        double[] lam = r.parameter();
+        double[] v = new double[lam.length];
+        double[] y = r.readout();
+        double[] zero = new double[s.sm.reduced.stateCount()];
+        double[] q = s.q.clone();
+        for (int i = 0; i < v.length; i++) {
+            v[i] = c.toUser(lam[i]);
+            q[c.index()] = lam[i];
+            y[i] += s.sm.reduced.fullState(zero, q)[ri];
+        }
+        double jq = r.jumpParameter();
+        int i = 0;
+        while (i + 1 < lam.length && (lam[i + 1] - jq) * Math.signum(lam[lam.length - 1] - lam[0]) <= 0) {
+            i++;
+        }
+        int after = Math.min(i + 1, lam.length - 1);
+        return new SweepFile.Run(d, v, y, List.of(new SweepFile.Jump(c.toUser(jq), y[i], y[after])));
+    }
+}

@@ -1,0 +1,107 @@
+package org.switchfit.cli;
+
+import java.nio.file.Path;
+import java.util.LinkedHashMap;
+import java.util.Locale;
+import java.util.Map;
+import org.switchfit.continuation.Branch;
+import org.switchfit.continuation.ContinuationException;
+import org.switchfit.continuation.ContinuationSettings;
+import org.switchfit.continuation.PseudoArclength;
+import org.switchfit.util.SourceLocation;
+import org.switchfit.util.UserInputException;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Parameters;
+
+/**
+ * Options and set-up shared by {@code branches}, {@code region} and {@code sweep}: the model, the control
+ * quantity and its range, overrides; and the steady state the analysis starts from. Not thread-safe.
+ */
+final class SwitchSetup {
+
+    @Parameters(index = "0", paramLabel = "MODEL.xml", description = "SBML model file")
+    Path modelFile;
+
+    @Option(names = "--vary", required = true, paramLabel = "ID", description = "control quantity: a parameter "
+            + "or compartment id, init:SPECIES (initial value) or total:SPECIES (conservation total)")
+    String vary;
+
+    @Option(names = "--from", required = true, paramLabel = "A", description = "lower end of the control range")
+    double from;
+
+    @Option(names = "--to", required = true, paramLabel = "B", description = "upper end of the control range")
+    double to;
+
+    @Option(names = "--set", paramLabel = "ID=VALUE", description = "override a parameter, compartment size or "
+            + "species initial value before the analysis (repeatable)")
+    Map<String, String> sets = new LinkedHashMap<>();
+
+    /** The loaded state of a run. */
+    static final class Start {
+        SwitchModel sm;
+        ControlQuantity control;
+        double[] pEff;
+        /** Reduced parameters with the control at {@link #startValue}. */
+        double[] q;
+        /** Reduced steady state at {@link #startValue}. */
+        double[] x;
+        double startValue;
+        /** Seconds: parse, compile, conservation laws, steady state. */
+        double[] timing = new double[4];
+    }
+
+    /** Loads the model, resolves the control, finds the steady state at the model's value (if in range) or A. */
+    Start start() {
+        checkRange("--from", "--to", from, to);
+        Start s = new Start();
+        s.sm = SwitchModel.load(modelFile, s.timing);
+        double[] decl = s.sm.declared(sets);
+        double[][] ini = s.sm.initial(decl);
+        s.pEff = ini[1];
+        s.q = s.sm.reduced.parameters(ini[1], ini[0]);
+        s.control = ControlQuantity.resolve(s.sm, vary, "--vary", ini[0], s.q);
+        double model = s.control.toUser(s.q[s.control.index()]);
+        s.startValue = model >= from && model <= to ? model : from;
+        s.q[s.control.index()] = s.control.toQ(s.startValue);
+        long t0 = System.nanoTime();
+        try {
+            s.x = s.sm.steadyState(s.sm.reduced.reducedState(ini[0]), s.q, s.pEff);
+        } catch (ContinuationException e) {
+            throw new UserInputException(SourceLocation.ofFile(modelFile.toString()), String.format(Locale.ROOT,
+                    "no steady state found at %s = %.6g (%s); check the range --from/--to and the --set values, "
+                            + "or start inside a range where the model settles", vary, s.startValue, e.getMessage()));
+        }
+        s.timing[3] = (System.nanoTime() - t0) * 1e-9;
+        return s;
+    }
+
+    /** Continuation settings for the control range in q units. */
+    static ContinuationSettings settings(ControlQuantity c, double a, double b) {
+        double qa = c.toQ(a);
+        double qb = c.toQ(b);
+        return ContinuationSettings.of(Math.min(qa, qb), Math.max(qa, qb));
+    }
+
+    /** Both-direction branch from the start, with user-facing errors. */
+    Branch branch(Start s, ContinuationSettings cs) {
+        try {
+            return new PseudoArclength(cs).trace(s.sm.reduced, s.x, s.q, s.control.index());
+        } catch (ContinuationException e) {
+            throw new UserInputException(SourceLocation.ofFile(modelFile.toString()), String.format(Locale.ROOT,
+                    "continuation in %s over [%.6g, %.6g] failed: %s; try a narrower range or other --set values",
+                    vary, from, to, e.getMessage()));
+        }
+    }
+
+    static void checkRange(String lo, String hi, double a, double b) {
+        if (!Double.isFinite(a) || !Double.isFinite(b) || !(a < b)) {
+            throw new UserInputException(null, String.format(Locale.ROOT, "%s %s %s %s: the range is empty; give "
+                    + "%s smaller than %s", lo, fmt(a), hi, fmt(b), lo, hi));
+        }
+    }
+
+    static String fmt(double v) {
+        return String.format(Locale.ROOT, "%.10g", v).replaceAll("(\\.\\d*?)0+($|e)", "$1$2").replace(".e", "e")
+                .replaceAll("\\.$", "");
+    }
+}

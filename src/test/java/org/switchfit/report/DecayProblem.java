@@ -1,0 +1,69 @@
+package org.switchfit.report;
+
+import java.io.IOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+
+/**
+ * A small PEtab problem for tests: first-order decay X' = -k X, X(0) = x0 (solution x0 exp(-k t)), observables
+ * linObs = 2 X (linear, sigma 0.1) and logObs = X (log-normal, sigma 0.2), conditions c0 (k estimated) and fast
+ * (k = 0.9). Data: noise-free closed-form values, linObs shifted by 0.01.
+ */
+public final class DecayProblem {
+    private DecayProblem() {
+    }
+
+    /** The SBML model. */
+    public static final String MODEL = """
+            <?xml version="1.0" encoding="UTF-8"?>
+            <sbml xmlns="http://www.sbml.org/sbml/level3/version2/core" level="3" version="2">
+              <model id="decay">
+                <listOfCompartments><compartment id="c" size="1" constant="true" spatialDimensions="3"/>
+                </listOfCompartments>
+                <listOfSpecies><species id="X" compartment="c" initialConcentration="1"
+                  hasOnlySubstanceUnits="false" boundaryCondition="false" constant="false"/></listOfSpecies>
+                <listOfParameters>
+                  <parameter id="k" value="0.3" constant="true"/>
+                  <parameter id="x0" value="2" constant="true"/>
+                </listOfParameters>
+                <listOfInitialAssignments>
+                  <initialAssignment symbol="X"><math xmlns="http://www.w3.org/1998/Math/MathML"><ci>x0</ci></math>
+                  </initialAssignment>
+                </listOfInitialAssignments>
+                <listOfReactions>
+                  <reaction id="r" reversible="false">
+                    <listOfReactants><speciesReference species="X" stoichiometry="1" constant="true"/>
+                    </listOfReactants>
+                    <kineticLaw><math xmlns="http://www.w3.org/1998/Math/MathML">
+                      <apply><times/><ci>k</ci><ci>X</ci></apply></math></kineticLaw>
+                  </reaction>
+                </listOfReactions>
+              </model>
+            </sbml>
+            """;
+
+    /** Writes the problem files into {@code dir}; returns the YAML path. */
+    public static Path write(Path dir) throws IOException {
+        Files.createDirectories(dir);
+        Files.writeString(dir.resolve("model.xml"), MODEL);
+        Files.writeString(dir.resolve("parameters.tsv"), "parameterId\tparameterScale\tlowerBound\tupperBound\t"
+                + "nominalValue\testimate\nk\tlog10\t1e-3\t10\t0.2\t1\nx0\tlog10\t1e-2\t100\t1.0\t1\n");
+        Files.writeString(dir.resolve("conditions.tsv"), "conditionId\tk\nc0\tk\nfast\t0.9\n");
+        Files.writeString(dir.resolve("observables.tsv"), "observableId\tobservableFormula\tnoiseFormula\t"
+                + "observableTransformation\tnoiseDistribution\nlinObs\t2 * X\t0.1\tlin\tnormal\n"
+                + "logObs\tX\t0.2\tlog\tnormal\n");
+        StringBuilder m = new StringBuilder("observableId\tsimulationConditionId\tmeasurement\ttime\n");
+        double[] t = {0, 1, 2, 4, 8};
+        for (double ti : t) {
+            m.append("linObs\tc0\t").append(4 * Math.exp(-0.3 * ti) + 0.01).append('\t').append(ti).append('\n');
+            m.append("logObs\tc0\t").append(2 * Math.exp(-0.3 * ti)).append('\t').append(ti).append('\n');
+        }
+        m.append("linObs\tfast\t1.5\t3\n");
+        Files.writeString(dir.resolve("measurements.tsv"), m.toString());
+        Path yaml = dir.resolve("problem.yaml");
+        Files.writeString(yaml, "format_version: 1\nparameter_file: parameters.tsv\nproblems:\n"
+                + "  - sbml_files: [model.xml]\n    condition_files: [conditions.tsv]\n"
+                + "    measurement_files: [measurements.tsv]\n    observable_files: [observables.tsv]\n");
+        return yaml;
+    }
+}
