@@ -56,7 +56,8 @@ final class DemoRun {
     /** Second parameter of the two-parameter bistable region, and its range (linear). */
     static final String REGION_PARAMETER = "k_rec";
     static final double REGION_LOW = 0.1;
-    static final double REGION_HIGH = 10;
+    /** Upper ends tried in turn for the second parameter until the fold curve closes at a cusp inside the box. */
+    static final double[] REGION_HIGHS = {10, 30, 100};
     /** Ramp speed of the hysteresis sweep (stimulus units per minute) and its samples. */
     static final double SWEEP_RATE = 0.005;
     static final int SWEEP_SAMPLES = 401;
@@ -92,6 +93,7 @@ final class DemoRun {
         Branch branch;
         double[] branchQ;
         BistableRegion region;
+        double regionHigh;
         FoldCurve foldCurve;
         SweepResult up;
         SweepResult down;
@@ -296,10 +298,25 @@ final class DemoRun {
         int k2 = dm.index(REGION_PARAMETER);
         ContinuationSettings cs = ContinuationSettings.of(DemoScenario.STIMULUS_LOW, DemoScenario.STIMULUS_HIGH)
                 .withSteps(0.01, 1e-9, s.quick() ? 0.1 : 0.04);
-        r.foldCurve = new FoldCurves(cs, REGION_LOW, REGION_HIGH).trace(dm.reduced, r.branch.folds().get(0),
-                r.branchQ, k2);
+        // Without a cusp in the box the traced curve is one fold branch only, and the polygon it closes along
+        // the box edge is not the bistable region; so widen the range of the second parameter until it closes.
+        double high = REGION_HIGHS[0];
+        for (double h : REGION_HIGHS) {
+            high = h;
+            r.foldCurve = new FoldCurves(cs, REGION_LOW, high).trace(dm.reduced, r.branch.folds().get(0),
+                    r.branchQ, k2);
+            if (!r.foldCurve.cusps().isEmpty()) {
+                break;
+            }
+        }
+        if (r.foldCurve.cusps().isEmpty()) {
+            r.foldCurve = null;
+            throw new StageFailure(String.format(Locale.ROOT, "no cusp of the fold curve for %s in [%.3g, %.3g], so "
+                    + "the bistable region is not closed there", REGION_PARAMETER, REGION_LOW, high));
+        }
+        r.regionHigh = high;
         r.region = BistableRegion.of(r.foldCurve, DemoScenario.STIMULUS_LOW, DemoScenario.STIMULUS_HIGH,
-                REGION_LOW, REGION_HIGH);
+                REGION_LOW, high);
         int np = r.foldCurve.points().size();
         double[] c1 = new double[np];
         double[] c2 = new double[np];
@@ -320,7 +337,7 @@ final class DemoRun {
         }
         dir.write(FitFile.REGION, new RegionFile(DemoScenario.CONTROL, REGION_PARAMETER,
                 new double[] {DemoScenario.STIMULUS_LOW, DemoScenario.STIMULUS_HIGH},
-                new double[] {REGION_LOW, REGION_HIGH}, List.of(new RegionFile.Curve(c1, c2)), cusps,
+                new double[] {REGION_LOW, high}, List.of(new RegionFile.Curve(c1, c2)), cusps,
                 new RegionFile.Curve(b1, b2), r.region.closedByChord(), null));
         return String.format(Locale.ROOT, "%d fold-curve points, %d cusp(s), area %.4g in (%s, %s)", np,
                 r.region.cusps().size(), r.region.area(), DemoScenario.CONTROL, REGION_PARAMETER);
