@@ -213,12 +213,15 @@ class ProfileCommandTest {
     }
 
     @Test
-    void foldsWithoutASourceSaySoInsteadOfFaking() throws IOException {
-        // Nothing in this build registers a FoldPredictionSource (see its javadoc).
-        Result r = run("profile", fitDir.toString(), "--resume", "--folds", "--predict", "obs@" + T_STAR);
-        assertEquals(0, r.code(), r.err());
-        assertTrue(r.err().contains("fold predictions not available in this build"), r.err());
-        assertEquals("fold predictions not available in this build", profiles().get("folds").asText());
+    void foldsWithoutThresholdsAreAOneLineUserError() throws IOException {
+        // This build registers a FoldPredictionSource (objective.FoldPredictions); the decay problem has no
+        // switching thresholds, so --folds is a user error (exit 2) rather than an empty or faked profile.
+        Result r = run("profile", copyFit("nofolds", 0.0).toString(), "--folds");
+        assertEquals(2, r.code(), r.err());
+        assertTrue(r.err().contains("has no switching thresholds"), r.err());
+        // the prediction profile that observablePredictionIntervalEqualsReparameterisedProfile reads
+        Result p = run("profile", fitDir.toString(), "--resume", "--predict", "obs@" + T_STAR);
+        assertEquals(0, p.code(), p.err());
     }
 
     /** A copy of the fit directory holding only result.json, optionally with θ_k shifted. */
