@@ -252,6 +252,21 @@ public final class FitCommand implements Callable<Integer> {
             values.put(problem.parameters().get(k).id(), problem.parameters().get(k).toLinear(th[k]));
         }
         SbmlWriter.writeWithValues(problem.modelFile(), out.resolve("model_fitted.xml"), values);
+        writeTrajectories(problem, th);
+    }
+
+    /**
+     * Fitted observables on a fine time grid with the data, for the report (trajectories.json). A simulation failure
+     * here loses nothing already written; it is reported on stderr and the report skips the section.
+     */
+    private void writeTrajectories(EstimationProblem problem, double[] th) {
+        try {
+            org.switchfit.report.TrajectoriesFile tf = org.switchfit.report.FittedTrajectories.compute(problem, th,
+                    SimulateCommand.settings("bdf", rtol, atol), org.switchfit.report.FittedTrajectories.DEFAULT_GRID);
+            org.switchfit.report.FitDirectory.of(out).write(org.switchfit.report.FitFile.TRAJECTORIES, tf);
+        } catch (RuntimeException e) {
+            System.err.println("note: fitted trajectories not written (" + e.getMessage() + ")");
+        }
     }
 
     static String sha256(Path p) {
