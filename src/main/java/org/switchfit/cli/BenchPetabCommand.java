@@ -129,7 +129,7 @@ public final class BenchPetabCommand implements Callable<Integer> {
     /**
      * Times, after 10 warm-up evaluations: mean of 20 residual evaluations, mean of 20 residual + Jacobian
      * evaluations at the nominal point, and single LM starts from Latin-hypercube points within the bounds (seed 1),
-     * one thread, rtol 1e-8.
+     * one thread, rtol 1e-8, LM cost tolerance 1e-10 (the fit command's default).
      */
     static void timing(Path yaml, int starts, Map<String, Object> r) {
         LikelihoodObjective obj = LikelihoodObjective.of(org.switchfit.problem.ProblemLoader.load(yaml),
@@ -153,7 +153,8 @@ public final class BenchPetabCommand implements Callable<Integer> {
         }
         double withJac = (System.nanoTime() - t0) * 1e-9 / 20;
         org.switchfit.fit.FitProblem fp = FitCommand.fitProblem(obj.problem(), obj);
-        org.switchfit.fit.Multistart ms = org.switchfit.fit.Multistart.defaults().withStarts(starts).withSeed(1);
+        org.switchfit.fit.Multistart ms = org.switchfit.fit.Multistart.defaults().withStarts(starts).withSeed(1)
+                .withOptimizer(org.switchfit.fit.LevenbergMarquardt.defaults().withCostTolerance(1e-10));
         double[] secs = new double[starts];
         double iters = 0;
         double best = Double.POSITIVE_INFINITY;

@@ -211,8 +211,6 @@ public final class FitCommand implements Callable<Integer> {
         settings.put("seed", seed);
         settings.put("rtol", rtol);
         settings.put("atol", atol);
-        settings.put("costTolerance", costTolerance);
-        settings.put("maxIterations", maxIterations);
         settings.put("nominalStart", nominalStart);
         j.put("settings", settings);
         j.put("wallSeconds", wall);
