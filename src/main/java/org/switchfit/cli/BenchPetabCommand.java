@@ -57,6 +57,10 @@ public final class BenchPetabCommand implements Callable<Integer> {
 
     @Override
     public Integer call() throws IOException {
+        if (!Files.isDirectory(dir)) {
+            throw new org.switchfit.util.UserInputException(null, "benchmark folder '" + dir
+                    + "' does not exist; pass the folder that holds one sub-folder per PEtab problem");
+        }
         PrintWriter out = spec.commandLine().getOut();
         List<Path> folders;
         try (Stream<Path> s = Files.list(dir)) {
