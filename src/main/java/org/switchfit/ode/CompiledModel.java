@@ -32,6 +32,7 @@ public final class CompiledModel implements OdeSystem {
     private final int[][] pattern;
     private volatile CompiledBlock jacY;
     private volatile CompiledBlock jacP;
+    private volatile EventDerivatives eventDerivatives;
 
     CompiledModel(OdeForm form, List<Expr> switchingFunctions) {
         this.form = form;
@@ -210,6 +211,21 @@ public final class CompiledModel implements OdeSystem {
                 sw.eval(t, y, p, g);
             }
         };
+    }
+
+    /** Derivatives of the event mathematics (compiled on first use, then shared). */
+    EventDerivatives eventDerivatives() {
+        EventDerivatives d = eventDerivatives;
+        if (d == null) {
+            synchronized (this) {
+                d = eventDerivatives;
+                if (d == null) {
+                    d = EventDerivatives.of(this);
+                    eventDerivatives = d;
+                }
+            }
+        }
+        return d;
     }
 
     /** Symbolic switching functions (for messages and tests). */

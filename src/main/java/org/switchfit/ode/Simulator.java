@@ -59,6 +59,61 @@ public final class Simulator {
         return new Trajectory(outputs.names(), times, values);
     }
 
+    /**
+     * Simulates with forward sensitivities carried across events, from given initial values. Between events the
+     * sensitivities follow the variational equations integrated by the session of {@code sys}; at an event time
+     * t_ev they jump by the conditions of Galán, Feehery &amp; Barton 1999, "Parametric sensitivity functions for
+     * hybrid discrete/continuous systems", Appl. Numer. Math. 31(1):17-47, in the form used by Fröhlich et al.
+     * 2017, "Parameter estimation for dynamical systems with discrete events and logical operations",
+     * Bioinformatics 33(7):1049-1056. With τ = d t_ev/dθ:
+     * <pre>
+     *   τ  = -(∂g/∂y s⁻ + ∂g/∂p dp/dθ) / (∂g/∂y f⁻ + ∂g/∂t)
+     *   s⁺ = ∂h/∂y (s⁻ + f⁻ τ) + ∂h/∂p dp/dθ + ∂h/∂t τ - f⁺ τ
+     * </pre>
+     * where g is the switching function of the event whose root stopped the integration and h the map of its
+     * assignments (h = y for unassigned components). Cascades at one instant compose the maps h: the total
+     * derivative {@code D = s⁻ + f⁻ τ} is carried through them and {@code s⁺ = D - f⁺ τ} at the end.
+     * Time-triggered events (g = t - t_k) come out of the same formula (τ = dt_k/dθ, 0 for a fixed t_k).
+     * Events with a delay execute at t_ex = t_ev + d(θ) with {@code dt_ex/dθ = τ + dd/dθ}, d differentiated at
+     * the trigger time; values used from the trigger time are differentiated there. Quantities assigned by events
+     * (parameters included) are states of the ODE form, so their sensitivities jump like those of species.
+     *
+     * <p>Limits, stated: when two different switching functions have roots at the same instant, τ of the
+     * first (lowest event index) whose event fires is used for the whole instant (the trigger time is not
+     * differentiable there). A trigger whose switching function has a zero time derivative along the flow is
+     * treated as firing at a θ-independent time when the numerator vanishes too (discrete conditions such as
+     * equality tests); otherwise an {@link IntegrationException} reports the tangential crossing. Models with
+     * {@code delay()} in their mathematics are refused (the history of the sensitivities is not kept).
+     *
+     * @param sys        the system integrated: the model's right-hand side with parameters {@code [p (m) | extra]};
+     *                   its sensitivity column c must satisfy {@code ∂f/∂θ_c = Σ_k ∂f/∂p_k dP[k * nc + c]}
+     * @param t0         start time, &lt;= times[0]; y0, p are values at t0
+     * @param y0         initial state (length n), not modified
+     * @param p          parameters of sys; the first m are the model's effective parameters; kept by reference
+     * @param sensParams parameter index (into sys) per sensitivity column; length nc
+     * @param s0         initial sensitivities {@code s0[c * n + i]}
+     * @param dP         {@code dP[k * nc + c] = dp_k/dθ_c}, k &lt; m
+     * @param yOut       receives {@code yOut[r * n + i]} = y_i(times[r])
+     * @param sOut       receives {@code sOut[(r * nc + c) * n + i]} = dy_i/dθ_c at times[r]
+     * @throws IntegrationException when integration fails or a trigger time has no derivative
+     * @throws IllegalArgumentException for a model with delay() in its mathematics
+     */
+    public void simulateSensitivities(double[] times, OdeSystem sys, double t0, double[] y0, double[] p,
+                                      int[] sensParams, double[] s0, double[] dP, double[] yOut, double[] sOut) {
+        if (!model.form().delaySlots().isEmpty()) {
+            throw new IllegalArgumentException("sensitivities across events are not available for models with "
+                    + "delay() in their mathematics");
+        }
+        int n = model.stateCount();
+        int nc = sensParams.length;
+        Run run = new Run(t0, y0, p, sys, sensParams, s0, dP);
+        for (int r = 0; r < times.length; r++) {
+            run.advanceTo(times[r]);
+            System.arraycopy(run.y, 0, yOut, r * n, n);
+            System.arraycopy(run.sens.s, 0, sOut, r * nc * n, nc * n);
+        }
+    }
+
     /** A model without states, given one dummy state with zero derivative so integrators can run. */
     private static final class Padded implements OdeSystem {
         private final OdeSystem inner;
@@ -345,6 +400,9 @@ public final class Simulator {
         final double time;
         final double[] values;
         final long seq;
+        /** Sensitivity runs: d(execution time)/dθ (length nc) and, with values from trigger time, their θ-derivatives. */
+        double[] dTime;
+        double[] dValues;
 
         Pending(int event, double time, double[] values, long seq) {
             this.event = event;
@@ -360,7 +418,7 @@ public final class Simulator {
         final List<BoundEvent> events = model.form().events();
         final int ne = events.size();
         final double[] y = new double[n];
-        final double[] p = new double[model.parameterCount()];
+        final double[] p;
         final double[] w = new double[Math.max(1, model.localCount())];
         final boolean[] trig = new boolean[ne];
         final List<Pending> pending = new ArrayList<>();
@@ -374,11 +432,18 @@ public final class Simulator {
         double chunk = Double.POSITIVE_INFINITY;
 
         final double[] pDeclared;
+        /** Roots of the stop being handled (null when it is not a root), and scratch for their values. */
+        int[] rootHere;
+        double[] gNow;
+        /** Sensitivity state, or null for a plain simulation. */
+        final Sens sens;
 
         Run(double[] pDeclared, double t0, DelayRecord hist) {
             t = t0;
             this.pDeclared = pDeclared.clone();
             this.hist = hist;
+            this.p = new double[model.parameterCount()];
+            this.sens = null;
             model.initialValues(t0, pDeclared, y, p);
             if (hist != null) {
                 hist.init(this);
@@ -391,17 +456,36 @@ public final class Simulator {
                 }
                 hist.record(t, y);
             }
+            begin(t0, model, null, null);
+        }
+
+        Run(double t0, double[] y0, double[] pSys, OdeSystem sys, int[] sensParams, double[] s0, double[] dP) {
+            t = t0;
+            this.pDeclared = null;
+            this.hist = null;
+            this.p = pSys;
+            System.arraycopy(y0, 0, y, 0, n);
+            this.sens = new Sens(sensParams.length, s0, dP);
+            begin(t0, sys, n == 0 ? null : sensParams, n == 0 ? null : sens.s);
+        }
+
+        private void begin(double t0, OdeSystem sys, int[] sensParams, double[] s0) {
             for (int e = 0; e < ne; e++) {
                 trig[e] = events.get(e).initialValue();
             }
             RootFunctions rf = ne > 0 ? new PaddedRoots(model.switchingFunctions(), n) : null;
             session = constantStates()
                     ? new FrozenSession(n == 0 ? new double[1] : y, p, rf, t0)
-                    : integrator.start(n == 0 ? new Padded(model) : model, t0, n == 0 ? new double[1] : y, p, rf,
-                            null, null);
-            if (handleEvents()) {
-                session.reset(n == 0 ? scratch : y, null);
+                    : integrator.start(n == 0 ? new Padded(model) : sys, t0, n == 0 ? new double[1] : y, p, rf,
+                            sensParams, s0);
+            if (handleEvents(false, null)) {
+                session.reset(n == 0 ? scratch : y, sensOut());
             }
+        }
+
+        /** The sensitivity array handed to the session, or null. */
+        private double[] sensOut() {
+            return sens == null || n == 0 ? null : sens.s;
         }
 
         /** True when every derivative is structurally zero (states change only through events). */
@@ -425,12 +509,13 @@ public final class Simulator {
                 if (hist != null && target > t + chunk) {
                     target = t + chunk;
                 }
-                t = session.advance(target, n == 0 ? scratch : y, null);
+                t = session.advance(target, n == 0 ? scratch : y, sensOut());
                 if (hist != null) {
                     hist.record(t, y);
                 }
-                if (ne > 0 && handleEvents()) {
-                    session.reset(n == 0 ? scratch : y, null);
+                boolean atRoot = session.stoppedAtRoot();
+                if (ne > 0 && handleEvents(atRoot, atRoot ? session.rootsFound() : null)) {
+                    session.reset(n == 0 ? scratch : y, sensOut());
                     if (hist != null) {
                         hist.record(t, y);
                     }
@@ -450,6 +535,31 @@ public final class Simulator {
             return Interpreter.evaluate(e, t, y, p, w);
         }
 
+        /**
+         * Whether the trigger of event e holds now. At a root of e's switching function the locator stops where the
+         * new sign holds (g &gt;= 0 for a trigger turning true), which for a strict inequality can be g = 0 exactly:
+         * the trigger then counts as true, as it is just after the crossing (otherwise the event would fire only at
+         * the next stop).
+         */
+        boolean holds(int e) {
+            if (truth(events.get(e).trigger())) {
+                return true;
+            }
+            if (rootHere == null) {
+                return false;
+            }
+            for (int k : rootHere) {
+                if (k == e) {
+                    if (gNow == null) {
+                        gNow = new double[ne];
+                    }
+                    model.switchingFunctions().evaluate(t, y, p, gNow);
+                    return gNow[e] >= 0;
+                }
+            }
+            return false;
+        }
+
         private double[] assignmentValues(BoundEvent ev) {
             double[] v = new double[ev.targets().size()];
             for (int i = 0; i < v.length; i++) {
@@ -458,19 +568,32 @@ public final class Simulator {
             return v;
         }
 
-        /** Processes triggers and due executions at the current time; returns true when states changed. */
-        boolean handleEvents() {
+        /**
+         * Processes triggers and due executions at the current time; returns true when states changed.
+         *
+         * @param atRoot true when the integration stopped at a root of {@code roots}
+         */
+        boolean handleEvents(boolean atRoot, int[] roots) {
             boolean changed = false;
             int executed = 0;
+            rootHere = atRoot ? roots : null;
+            if (sens != null) {
+                refreshLocals();
+                sens.beginInstant(this, atRoot, roots);
+            }
             while (true) {
                 refreshLocals();
                 for (int e = 0; e < ne; e++) {
                     BoundEvent ev = events.get(e);
-                    boolean now = truth(ev.trigger());
+                    boolean now = holds(e);
                     if (now && !trig[e]) {
                         double delay = ev.delay() == null ? 0.0 : value(ev.delay());
                         double[] vals = ev.useValuesFromTriggerTime() ? assignmentValues(ev) : null;
-                        pending.add(new Pending(e, ev.delay() == null ? t : t + delay, vals, seq++));
+                        Pending pe = new Pending(e, ev.delay() == null ? t : t + delay, vals, seq++);
+                        if (sens != null) {
+                            sens.triggered(this, e, pe);
+                        }
+                        pending.add(pe);
                     } else if (!now && trig[e] && !ev.persistent()) {
                         final int fe = e;
                         pending.removeIf(pe -> pe.event == fe);
@@ -506,10 +629,13 @@ public final class Simulator {
                     }
                 }
                 if (next == null) {
+                    if (changed && sens != null) {
+                        sens.endInstant(this);
+                    }
                     return changed;
                 }
                 pending.remove(next);
-                execute(events.get(next.event), next.values);
+                execute(next.event, next.values, next.dValues);
                 changed = true;
                 if (++executed > MAX_EVENTS_PER_INSTANT) {
                     throw new IntegrationException(t, "more than " + MAX_EVENTS_PER_INSTANT + " event executions at "
@@ -518,14 +644,19 @@ public final class Simulator {
             }
         }
 
-        private void execute(BoundEvent ev, double[] precomputed) {
+        private void execute(int event, double[] precomputed, double[] dPrecomputed) {
+            BoundEvent ev = events.get(event);
             double[] v = precomputed != null ? precomputed : assignmentValues(ev);
+            double[] dv = sens == null ? null : sens.valueDerivatives(this, event, dPrecomputed);
             List<BoundEvent.Target> ts = ev.targets();
             boolean scaled = false;
             for (int i = 0; i < v.length; i++) {
                 BoundEvent.Target tg = ts.get(i);
                 if (tg.scale() == null) {
                     y[tg.stateIndex()] = v[i];
+                    if (dv != null) {
+                        sens.assign(tg.stateIndex(), dv, i);
+                    }
                 } else {
                     scaled = true;
                 }
@@ -535,8 +666,177 @@ public final class Simulator {
                 for (int i = 0; i < v.length; i++) {
                     BoundEvent.Target tg = ts.get(i);
                     if (tg.scale() != null) {
-                        y[tg.stateIndex()] = v[i] * value(tg.scale());
+                        double sc = value(tg.scale());
+                        if (dv != null) {
+                            sens.assignScaled(this, event, i, v[i], sc, dv);
+                        }
+                        y[tg.stateIndex()] = v[i] * sc;
                     }
+                }
+            }
+        }
+    }
+
+    /**
+     * Sensitivity bookkeeping of one run (see {@link #simulateSensitivities}): s between events; during one instant
+     * the total derivative {@code d = s⁻ + f⁻ τᵀ} of the state at the moving event time, τ = d t_ev/dθ.
+     */
+    private final class Sens {
+        final int nc;
+        final double[] s;
+        final double[] dP;
+        final double[] d;
+        final double[] tauC;
+        final double[] f;
+        final double[] ent;
+        final double[] tmp;
+        final EventDerivatives ed;
+        boolean dReady;
+
+        Sens(int nc, double[] s0, double[] dP) {
+            int n = model.stateCount();
+            this.nc = nc;
+            this.s = s0.clone();
+            this.dP = dP;
+            this.d = new double[nc * n];
+            this.tauC = new double[nc];
+            this.f = new double[n];
+            this.ed = model.eventDerivatives();
+            this.ent = new double[ed.entryCount()];
+            this.tmp = new double[nc];
+        }
+
+        /** Fixes τ for the instant: from the first root whose event fires, else from a due delayed execution. */
+        void beginInstant(Run r, boolean atRoot, int[] roots) {
+            java.util.Arrays.fill(tauC, 0.0);
+            dReady = false;
+            if (atRoot) {
+                for (int k : roots) {
+                    if (!r.trig[k] && r.holds(k)) {
+                        triggerTimeDerivative(r, k);
+                        return;
+                    }
+                }
+            }
+            for (Pending pe : r.pending) {
+                if (pe.time <= r.t && pe.dTime != null) {
+                    System.arraycopy(pe.dTime, 0, tauC, 0, nc);
+                    return;
+                }
+            }
+        }
+
+        /** τ from the switching function of event k at the current (pre-event) state. */
+        private void triggerTimeDerivative(Run r, int k) {
+            int row = ed.switchingRow(k);
+            ed.evaluate(r.t, r.y, r.p, ent);
+            model.rhs(r.t, r.y, r.p, f);
+            double den = ed.alongFlow(row, ent, f);
+            ed.total(row, ent, s, dP, null, nc, tmp);
+            boolean numZero = true;
+            for (int c = 0; c < nc; c++) {
+                numZero &= tmp[c] == 0.0;
+            }
+            if (numZero) {
+                return;
+            }
+            if (!(Math.abs(den) > 0) || !Double.isFinite(den)) {
+                throw new IntegrationException(r.t, "event '" + r.events.get(k).id() + "' fires where its trigger "
+                        + "is tangent to the solution (d g/dt = " + den + "); the event time has no derivative "
+                        + "with respect to the parameters");
+            }
+            for (int c = 0; c < nc; c++) {
+                tauC[c] = -tmp[c] / den;
+            }
+        }
+
+        /** d = s + f τᵀ at the current state, once per instant before the first change. */
+        private void ensureD(Run r) {
+            if (dReady) {
+                return;
+            }
+            int n = r.n;
+            model.rhs(r.t, r.y, r.p, f);
+            for (int c = 0; c < nc; c++) {
+                double tc = tauC[c];
+                for (int i = 0; i < n; i++) {
+                    d[c * n + i] = s[c * n + i] + f[i] * tc;
+                }
+            }
+            dReady = true;
+        }
+
+        /** Derivatives of a new pending execution: time (delay) and values used from the trigger time. */
+        void triggered(Run r, int e, Pending pe) {
+            BoundEvent ev = r.events.get(e);
+            if (ev.delay() == null && !ev.useValuesFromTriggerTime()) {
+                return;
+            }
+            ensureD(r);
+            ed.evaluate(r.t, r.y, r.p, ent);
+            pe.dTime = tauC.clone();
+            if (ev.delay() != null) {
+                ed.total(ed.delayRow(e), ent, d, dP, tauC, nc, tmp);
+                for (int c = 0; c < nc; c++) {
+                    pe.dTime[c] += tmp[c];
+                }
+            }
+            if (ev.useValuesFromTriggerTime()) {
+                int nt = ev.targets().size();
+                pe.dValues = new double[nt * nc];
+                for (int i = 0; i < nt; i++) {
+                    ed.total(ed.valueRow(e, i), ent, d, dP, tauC, nc, tmp);
+                    System.arraycopy(tmp, 0, pe.dValues, i * nc, nc);
+                }
+            }
+        }
+
+        /** θ-derivatives of the assigned values of event e ({@code [target * nc + c]}), before any assignment. */
+        double[] valueDerivatives(Run r, int e, double[] precomputed) {
+            ensureD(r);
+            if (precomputed != null) {
+                return precomputed;
+            }
+            BoundEvent ev = r.events.get(e);
+            int nt = ev.targets().size();
+            double[] dv = new double[nt * nc];
+            ed.evaluate(r.t, r.y, r.p, ent);
+            for (int i = 0; i < nt; i++) {
+                ed.total(ed.valueRow(e, i), ent, d, dP, tauC, nc, tmp);
+                System.arraycopy(tmp, 0, dv, i * nc, nc);
+            }
+            return dv;
+        }
+
+        void assign(int state, double[] dv, int target) {
+            int n = model.stateCount();
+            for (int c = 0; c < nc; c++) {
+                d[c * n + state] = dv[target * nc + c];
+            }
+        }
+
+        /** Scaled target: d(v · scale) = dv · scale + v · dscale, scale differentiated after the plain assignments. */
+        void assignScaled(Run r, int e, int target, double v, double scale, double[] dv) {
+            ed.evaluate(r.t, r.y, r.p, ent);
+            ed.total(ed.scaleRow(e, target), ent, d, dP, tauC, nc, tmp);
+            int n = r.n;
+            int state = r.events.get(e).targets().get(target).stateIndex();
+            for (int c = 0; c < nc; c++) {
+                tmp[c] = dv[target * nc + c] * scale + v * tmp[c];
+            }
+            for (int c = 0; c < nc; c++) {
+                d[c * n + state] = tmp[c];
+            }
+        }
+
+        /** s⁺ = d - f⁺ τᵀ after the last execution of the instant. */
+        void endInstant(Run r) {
+            int n = r.n;
+            model.rhs(r.t, r.y, r.p, f);
+            for (int c = 0; c < nc; c++) {
+                double tc = tauC[c];
+                for (int i = 0; i < n; i++) {
+                    s[c * n + i] = d[c * n + i] - f[i] * tc;
                 }
             }
         }

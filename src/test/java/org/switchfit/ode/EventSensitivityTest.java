@@ -1,0 +1,379 @@
+package org.switchfit.ode;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertThrows;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.IOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.List;
+import java.util.Map;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import org.switchfit.ode.bdf.BdfIntegrator;
+import org.switchfit.sbml.SbmlReader;
+
+/**
+ * Forward sensitivities across events ({@link Simulator#simulateSensitivities}) against closed forms derived by
+ * hand and against central differences of plain simulations.
+ *
+ * <p>Tolerance of the closed-form checks, {@link #REL_CLOSED}: BDF at rtol 1e-10, atol 1e-14; the global error of
+ * states and sensitivities may exceed the local tolerance by one to two orders of magnitude (common practice), the
+ * event time is located to about 1e-12 relative and the jump itself is algebraically exact, so 1e-6 relative
+ * leaves a margin of 100 or more.
+ */
+class EventSensitivityTest {
+    /** Relative tolerance against closed forms (see class comment). */
+    static final double REL_CLOSED = 1e-6;
+    /**
+     * Relative tolerance against central differences with step h = 1e-4 max(1, |p|): differencing noise about
+     * rtol / h = 1e-6, truncation about h² = 1e-8 relative; 2e-5 leaves a margin of 20 on the noise.
+     */
+    static final double REL_FD = 2e-5;
+
+    @TempDir
+    Path dir;
+
+    private static final String TIME = "<csymbol encoding=\"text\" "
+            + "definitionURL=\"http://www.sbml.org/sbml/symbols/time\">time</csymbol>";
+
+    /** X' = -k X (species X in a unit compartment, amount = concentration), X(0) = a, plus extra parameters. */
+    private CompiledModel model(String params, String events) throws IOException {
+        String xml = """
+                <?xml version="1.0" encoding="UTF-8"?>
+                <sbml xmlns="http://www.sbml.org/sbml/level3/version2/core" level="3" version="2">
+                  <model id="m">
+                    <listOfCompartments><compartment id="c" size="1" constant="true" spatialDimensions="3"/>
+                    </listOfCompartments>
+                    <listOfSpecies><species id="X" compartment="c" initialConcentration="1"
+                      hasOnlySubstanceUnits="false" boundaryCondition="false" constant="false"/></listOfSpecies>
+                    <listOfParameters>
+                      <parameter id="a" value="2" constant="true"/>
+                      %s
+                    </listOfParameters>
+                    <listOfInitialAssignments>
+                      <initialAssignment symbol="X"><math xmlns="http://www.w3.org/1998/Math/MathML"><ci>a</ci>
+                      </math></initialAssignment>
+                    </listOfInitialAssignments>
+                    <listOfReactions>
+                      <reaction id="r" reversible="false">
+                        <listOfReactants><speciesReference species="X" stoichiometry="1" constant="true"/>
+                        </listOfReactants>
+                        <kineticLaw><math xmlns="http://www.w3.org/1998/Math/MathML">
+                          <apply><times/><ci>k</ci><ci>X</ci></apply></math></kineticLaw>
+                      </reaction>
+                    </listOfReactions>
+                    <listOfEvents>%s</listOfEvents>
+                  </model>
+                </sbml>
+                """.formatted(params, events);
+        Path f = dir.resolve("m" + System.nanoTime() + ".xml");
+        Files.writeString(f, xml);
+        return ModelCompiler.compile(SbmlReader.read(f));
+    }
+
+    private static String event(String id, boolean fromTrigger, String trigger, String delay, String var,
+                                String value) {
+        return "<event id=\"" + id + "\" useValuesFromTriggerTime=\"" + fromTrigger + "\">"
+                + "<trigger initialValue=\"false\" persistent=\"true\"><math xmlns=\"http://www.w3.org/1998/Math/"
+                + "MathML\">" + trigger + "</math></trigger>"
+                + (delay == null ? "" : "<delay><math xmlns=\"http://www.w3.org/1998/Math/MathML\">" + delay
+                + "</math></delay>")
+                + "<listOfEventAssignments><eventAssignment variable=\"" + var + "\"><math xmlns=\"http://www.w3"
+                + ".org/1998/Math/MathML\">" + value + "</math></eventAssignment></listOfEventAssignments></event>";
+    }
+
+    private static String param(String id, double v, boolean constant) {
+        return "<parameter id=\"" + id + "\" value=\"" + v + "\" constant=\"" + constant + "\"/>";
+    }
+
+    /** States and sensitivities at the times; θ = the named declared parameters, each the initial value of the
+     * state given in {@code initialOf} (derivative 1) or of none. */
+    private static final class Run {
+        final double[] y;
+        final double[] s;
+        final int n;
+        final int nc;
+
+        Run(double[] y, double[] s, int n, int nc) {
+            this.y = y;
+            this.s = s;
+            this.n = n;
+            this.nc = nc;
+        }
+
+        double y(int r, int i) {
+            return y[r * n + i];
+        }
+
+        double s(int r, int c, int i) {
+            return s[(r * nc + c) * n + i];
+        }
+    }
+
+    private static SolverSettings tight() {
+        return SolverSettings.defaults().withTolerances(1e-10, 1e-14);
+    }
+
+    private static Run sensitivities(CompiledModel cm, double[] pDecl, List<String> theta, Map<String, String> initialOf,
+                                     double[] times) {
+        int n = cm.stateCount();
+        int m = cm.parameterCount();
+        int nc = theta.size();
+        double[] y0 = new double[n];
+        double[] p = new double[m];
+        cm.initialValues(0.0, pDecl, y0, p);
+        int[] sp = new int[nc];
+        double[] s0 = new double[nc * n];
+        double[] dP = new double[m * nc];
+        for (int c = 0; c < nc; c++) {
+            sp[c] = cm.parameterIndex(theta.get(c));
+            dP[sp[c] * nc + c] = 1.0;
+            String st = initialOf.get(theta.get(c));
+            if (st != null) {
+                s0[c * n + cm.form().stateIds().indexOf(st)] = 1.0;
+            }
+        }
+        double[] y = new double[times.length * n];
+        double[] s = new double[times.length * nc * n];
+        new Simulator(cm, BdfIntegrator.of(tight())).simulateSensitivities(times, cm, 0.0, y0, p, sp, s0, dP, y, s);
+        return new Run(y, s, n, nc);
+    }
+
+    /** Central differences of the state at the times with respect to declared parameter {@code id}. */
+    private static double[] centralDifference(CompiledModel cm, double[] pDecl, String id, double[] times) {
+        int n = cm.stateCount();
+        ModelOutputs out = ModelOutputs.of(cm, cm.form().stateIds());
+        Simulator sim = new Simulator(cm, BdfIntegrator.of(tight()));
+        int k = cm.parameterIndex(id);
+        double h = 1e-4 * Math.max(1.0, Math.abs(pDecl[k]));
+        double[] pp = pDecl.clone();
+        pp[k] += h;
+        Trajectory up = sim.simulate(times, pp, out);
+        pp[k] = pDecl[k] - h;
+        Trajectory down = sim.simulate(times, pp, out);
+        double[] d = new double[times.length * n];
+        for (int r = 0; r < times.length; r++) {
+            for (int i = 0; i < n; i++) {
+                d[r * n + i] = (up.value(r, i) - down.value(r, i)) / (2 * h);
+            }
+        }
+        return d;
+    }
+
+    private static void assertRel(double expected, double actual, double rel, String what) {
+        assertEquals(expected, actual, rel * Math.max(1e-12, Math.abs(expected)), what);
+    }
+
+    /** Every sensitivity column against central differences (relative to the column's largest entry). */
+    private static void assertMatchesCentralDifferences(CompiledModel cm, double[] pDecl, List<String> theta,
+                                                        Run run, double[] times) {
+        int n = cm.stateCount();
+        for (int c = 0; c < theta.size(); c++) {
+            double[] fd = centralDifference(cm, pDecl, theta.get(c), times);
+            double scale = 0;
+            for (double v : fd) {
+                scale = Math.max(scale, Math.abs(v));
+            }
+            for (int r = 0; r < times.length; r++) {
+                for (int i = 0; i < n; i++) {
+                    assertEquals(fd[r * n + i], run.s(r, c, i), REL_FD * Math.max(scale, 1e-3),
+                            "d" + cm.form().stateIds().get(i) + "/d" + theta.get(c) + " at t = " + times[r]);
+                }
+            }
+        }
+    }
+
+    @Test
+    void timeTriggeredBolusOnExponentialDecay() throws IOException {
+        // x' = -k x, x(0) = a; at t = t1: x += d. Derived by hand: for t > t1, x = a e^{-kt} + d e^{-k(t-t1)};
+        // dx/dk = -t a e^{-kt} - (t-t1) d e^{-k(t-t1)}, dx/da = e^{-kt}, dx/dd = e^{-k(t-t1)},
+        // dx/dt1 = k d e^{-k(t-t1)} (the bolus time is a parameter: τ = dt1/dθ from g = t - t1).
+        CompiledModel cm = model(param("k", 0.3, true) + param("d", 1.5, true) + param("t1", 2.0, true),
+                event("bolus", false, "<apply><geq/>" + TIME + "<ci>t1</ci></apply>", null, "X",
+                        "<apply><plus/><ci>X</ci><ci>d</ci></apply>"));
+        double[] pDecl = cm.parameterValues();
+        List<String> theta = List.of("k", "a", "d", "t1");
+        double[] times = {1.0, 3.0, 7.5};
+        Run run = sensitivities(cm, pDecl, theta, Map.of("a", "X"), times);
+        double k = 0.3;
+        double a = 2;
+        double d = 1.5;
+        double t1 = 2;
+        int x = cm.form().stateIds().indexOf("X");
+        for (int r = 0; r < times.length; r++) {
+            double t = times[r];
+            double after = t > t1 ? 1 : 0;
+            double e1 = Math.exp(-k * t);
+            double e2 = after * Math.exp(-k * (t - t1));
+            assertRel(a * e1 + d * e2, run.y(r, x), REL_CLOSED, "x at " + t);
+            assertRel(-t * a * e1 - (t - t1) * d * e2, run.s(r, 0, x), REL_CLOSED, "dx/dk at " + t);
+            assertRel(e1, run.s(r, 1, x), REL_CLOSED, "dx/da at " + t);
+            assertEquals(e2, run.s(r, 2, x), REL_CLOSED * e1, "dx/dd at " + t);
+            assertEquals(k * d * e2, run.s(r, 3, x), REL_CLOSED * e1, "dx/dt1 at " + t);
+        }
+        assertMatchesCentralDifferences(cm, pDecl, theta, run, times);
+    }
+
+    @Test
+    void stateTriggeredResetAtThreshold() throws IOException {
+        // x' = -k x, x(0) = a; when x < c: x = x0. Derived by hand: first firing t1 = ln(a/c)/k, then
+        // x = x0 e^{-k(t-t1)}; second firing t2 = t1 + ln(x0/c)/k, then x = x0 e^{-k(t-t2)}.
+        // Between t1 and t2: dx/dk = -x t (since k dt1/dk = -t1), dx/da = x/a, dx/dc = -x/c, dx/dx0 = x/x0.
+        // After t2: dx/dk = -x t, dx/da = x/a, dx/dc = -2x/c, dx/dx0 = 2x/x0.
+        double k = 0.3;
+        double a = 2;
+        double c = 0.5;
+        double x0 = 1;
+        CompiledModel cm = model(param("k", k, true) + param("cth", c, true) + param("x0", x0, true),
+                event("reset", true, "<apply><lt/><ci>X</ci><ci>cth</ci></apply>", null, "X", "<ci>x0</ci>"));
+        double[] pDecl = cm.parameterValues();
+        List<String> theta = List.of("k", "a", "cth", "x0");
+        double t1 = Math.log(a / c) / k;
+        double t2 = t1 + Math.log(x0 / c) / k;
+        double[] times = {3.0, 5.0, 6.5, 8.0, 9.0};
+        Run run = sensitivities(cm, pDecl, theta, Map.of("a", "X"), times);
+        int xi = cm.form().stateIds().indexOf("X");
+        for (int r = 0; r < times.length; r++) {
+            double t = times[r];
+            double x;
+            double[] ds;
+            if (t < t1) {
+                x = a * Math.exp(-k * t);
+                ds = new double[] {-x * t, x / a, 0, 0};
+            } else if (t < t2) {
+                x = x0 * Math.exp(-k * (t - t1));
+                ds = new double[] {-x * t, x / a, -x / c, x / x0};
+            } else {
+                x = x0 * Math.exp(-k * (t - t2));
+                ds = new double[] {-x * t, x / a, -2 * x / c, 2 * x / x0};
+            }
+            assertRel(x, run.y(r, xi), REL_CLOSED, "x at " + t);
+            for (int col = 0; col < 4; col++) {
+                assertEquals(ds[col], run.s(r, col, xi), REL_CLOSED * Math.max(Math.abs(ds[col]), x),
+                        "dx/d" + theta.get(col) + " at " + t);
+            }
+        }
+        assertMatchesCentralDifferences(cm, pDecl, theta, run, times);
+    }
+
+    @Test
+    void delayedResetMovesWithTriggerTimeAndDelay() throws IOException {
+        // x' = -k x, x(0) = a; trigger x < c fires at ts = ln(a/c)/k, executes x = x0 at te = ts + delta.
+        // Derived by hand, for te < t < next firing: x = x0 e^{-k(t-te)}; dx/dk = -x (t - delta),
+        // dx/ddelta = k x, dx/dc = -x/c, dx/da = x/a, dx/dx0 = x/x0. Before te (t > ts): x = a e^{-kt} unchanged.
+        double k = 0.3;
+        double a = 2;
+        double c = 0.5;
+        double x0 = 1;
+        double delta = 0.7;
+        CompiledModel cm = model(param("k", k, true) + param("cth", c, true) + param("x0", x0, true)
+                        + param("delta", delta, true),
+                event("reset", false, "<apply><lt/><ci>X</ci><ci>cth</ci></apply>", "<ci>delta</ci>", "X",
+                        "<ci>x0</ci>"));
+        double[] pDecl = cm.parameterValues();
+        List<String> theta = List.of("k", "a", "cth", "x0", "delta");
+        double ts = Math.log(a / c) / k;
+        double te = ts + delta;
+        double[] times = {5.0, 5.5, 6.5};
+        assertTrue(times[0] > ts && times[0] < te && times[1] > te && times[2] < te + Math.log(x0 / c) / k);
+        Run run = sensitivities(cm, pDecl, theta, Map.of("a", "X"), times);
+        int xi = cm.form().stateIds().indexOf("X");
+        double xb = a * Math.exp(-k * times[0]);
+        double[] before = {-xb * times[0], xb / a, 0, 0, 0};
+        for (int col = 0; col < 5; col++) {
+            assertEquals(before[col], run.s(0, col, xi), REL_CLOSED * xb, "before execution, d/d" + theta.get(col));
+        }
+        for (int r = 1; r < times.length; r++) {
+            double t = times[r];
+            double x = x0 * Math.exp(-k * (t - te));
+            double[] ds = {-x * (t - delta), x / a, -x / c, x / x0, k * x};
+            assertRel(x, run.y(r, xi), REL_CLOSED, "x at " + t);
+            for (int col = 0; col < 5; col++) {
+                assertRel(ds[col], run.s(r, col, xi), REL_CLOSED, "dx/d" + theta.get(col) + " at " + t);
+            }
+        }
+        assertMatchesCentralDifferences(cm, pDecl, theta, run, times);
+    }
+
+    @Test
+    void eventAssignedRateConstantBecomesStateLike() throws IOException {
+        // k is assigned by an event (so it is a state with k' = 0): x' = -k x, k(0) = k1, at t = t1: k = k2.
+        // Derived by hand, t > t1: x = a exp(-k1 t1 - k2 (t - t1)); dx/dk1 = -t1 x, dx/dk2 = -(t - t1) x,
+        // dx/dt1 = (k2 - k1) x; the state k has dk/dk2 = 1 after t1 and dk/dk1 = 1 before.
+        double k1 = 0.3;
+        double k2 = 0.8;
+        double t1 = 1.5;
+        double a = 2;
+        CompiledModel cm = model(param("k", k1, false) + param("k2", k2, true) + param("t1", t1, true),
+                event("switch", false, "<apply><geq/>" + TIME + "<ci>t1</ci></apply>", null, "k", "<ci>k2</ci>"));
+        double[] pDecl = cm.parameterValues();
+        List<String> theta = List.of("k", "k2", "t1");
+        double[] times = {1.0, 2.0, 4.0};
+        Run run = sensitivities(cm, pDecl, theta, Map.of("k", "k"), times);
+        int xi = cm.form().stateIds().indexOf("X");
+        int ki = cm.form().stateIds().indexOf("k");
+        assertTrue(ki >= 0, "k is a state of the ODE form");
+        for (int r = 0; r < times.length; r++) {
+            double t = times[r];
+            boolean after = t > t1;
+            double x = after ? a * Math.exp(-k1 * t1 - k2 * (t - t1)) : a * Math.exp(-k1 * t);
+            double[] ds = after ? new double[] {-t1 * x, -(t - t1) * x, (k2 - k1) * x} : new double[] {-t * x, 0, 0};
+            assertRel(x, run.y(r, xi), REL_CLOSED, "x at " + t);
+            for (int col = 0; col < 3; col++) {
+                assertEquals(ds[col], run.s(r, col, xi), REL_CLOSED * x, "dx/d" + theta.get(col) + " at " + t);
+            }
+            assertEquals(after ? 0.0 : 1.0, run.s(r, 0, ki), 1e-12, "dk/dk1");
+            assertEquals(after ? 1.0 : 0.0, run.s(r, 1, ki), 1e-12, "dk/dk2");
+        }
+        assertMatchesCentralDifferences(cm, pDecl, theta, run, times);
+    }
+
+    @Test
+    void simultaneousAndCascadedEvents() throws IOException {
+        // Three events at one instant t1: "bolus" (time >= t1: x += d), "copy" (time >= t1, values from the
+        // trigger time: y = x, the pre-bolus value) and "cascade" (x > thr, made true by the bolus: z = x, the
+        // post-bolus value). Derived by hand: y = a e^{-k t1}, z = a e^{-k t1} + d for t > t1, so
+        // dy/dk = -t1 y, dy/dt1 = -k y, dy/dd = 0, dy/da = e^{-k t1}; dz/dk = -t1 y, dz/dt1 = -k y, dz/dd = 1,
+        // dz/da = e^{-k t1}.
+        double k = 0.3;
+        double a = 2;
+        double d = 1.5;
+        double t1 = 2;
+        CompiledModel cm = model(param("k", k, true) + param("d", d, true) + param("t1", t1, true)
+                        + param("thr", 2.5, true) + param("Y", 0, false) + param("Z", 0, false),
+                event("bolus", false, "<apply><geq/>" + TIME + "<ci>t1</ci></apply>", null, "X",
+                        "<apply><plus/><ci>X</ci><ci>d</ci></apply>")
+                + event("copy", true, "<apply><geq/>" + TIME + "<ci>t1</ci></apply>", null, "Y", "<ci>X</ci>")
+                + event("cascade", false, "<apply><gt/><ci>X</ci><ci>thr</ci></apply>", null, "Z", "<ci>X</ci>"));
+        double[] pDecl = cm.parameterValues();
+        List<String> theta = List.of("k", "a", "d", "t1");
+        double[] times = {1.0, 3.0};
+        Run run = sensitivities(cm, pDecl, theta, Map.of("a", "X"), times);
+        int yi = cm.form().stateIds().indexOf("Y");
+        int zi = cm.form().stateIds().indexOf("Z");
+        double y = a * Math.exp(-k * t1);
+        assertRel(y, run.y(1, yi), REL_CLOSED, "y");
+        assertRel(y + d, run.y(1, zi), REL_CLOSED, "z");
+        double[] dy = {-t1 * y, Math.exp(-k * t1), 0, -k * y};
+        double[] dz = {-t1 * y, Math.exp(-k * t1), 1, -k * y};
+        for (int col = 0; col < 4; col++) {
+            assertEquals(dy[col], run.s(1, col, yi), REL_CLOSED * y, "dy/d" + theta.get(col));
+            assertEquals(dz[col], run.s(1, col, zi), REL_CLOSED * y, "dz/d" + theta.get(col));
+            assertEquals(0.0, run.s(0, col, yi), 0.0, "dy/d" + theta.get(col) + " before the events");
+        }
+        assertMatchesCentralDifferences(cm, pDecl, theta, run, times);
+    }
+
+    @Test
+    void modelWithDelayFunctionIsRefused() {
+        CompiledModel cm = ModelCompiler.compile(SbmlReader.read(SbmlSimulationTest.resource("delay.xml")));
+        int n = cm.stateCount();
+        Simulator sim = new Simulator(cm, BdfIntegrator.of(tight()));
+        IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> sim.simulateSensitivities(
+                new double[] {1}, cm, 0, new double[n], cm.parameterValues(), new int[0], new double[0],
+                new double[0], new double[n], new double[0]));
+        assertTrue(e.getMessage().contains("delay()"), e.getMessage());
+    }
+}
