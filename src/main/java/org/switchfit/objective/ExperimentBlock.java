@@ -73,6 +73,8 @@ final class ExperimentBlock implements ResidualBlock {
     private final List<org.switchfit.expr.Expr> timeSwitches;
     private final ModelOutputs stateOutputs;
     private final int[][] derivCols;
+    /** Models with events: Jacobian from sensitivities with event jumps (else finite differences). */
+    private final boolean exactEventGradients;
 
     ExperimentBlock(EstimationProblem problem, InitialDerivative initD, int experiment, SolverSettings settings,
                     SteadyState steady) {
@@ -160,9 +162,15 @@ final class ExperimentBlock implements ResidualBlock {
             }
             stateOutputs = ModelOutputs.of(model, names);
             simulator = new Simulator(model, integrator);
+            boolean negative = false;
+            for (int row : rows) {
+                negative |= problem.measurements().get(row).time() < 0;
+            }
+            exactEventGradients = model.form().delaySlots().isEmpty() && !negative;
         } else {
             stateOutputs = null;
             simulator = null;
+            exactEventGradients = false;
         }
     }
 
@@ -499,16 +507,23 @@ final class ExperimentBlock implements ResidualBlock {
     }
 
     /**
-     * Models with events: simulation with SBML event semantics ({@link Simulator}) and a Jacobian by central
-     * finite differences on θ (step {@link #FD_STEP} on the estimation scale). Partial: gradient accuracy is
-     * limited to about rtol / FD_STEP relative.
+     * Models with events: simulation with SBML event semantics ({@link Simulator}). The Jacobian comes from forward
+     * sensitivities carried across the events by their jump conditions ({@link Simulator#simulateSensitivities}),
+     * exact up to the integration tolerance. Models with {@code delay()} in their mathematics, and measurement
+     * times before 0, fall back to central finite differences on θ (step {@link #FD_STEP} on the estimation
+     * scale; accuracy about rtol / FD_STEP relative).
      */
     private void evaluateWithEvents(EvaluationContext ctx, double[] r, int offset, double[] jac) {
         double[] linear = ctx.linearValues();
-        simulateRows(ctx, linear, r, offset);
         if (jac == null) {
+            simulateRows(ctx, linear, r, offset);
             return;
         }
+        if (exactEventGradients) {
+            evaluateEventSensitivities(ctx, r, offset, jac);
+            return;
+        }
+        simulateRows(ctx, linear, r, offset);
         double[] rp = new double[r.length];
         double[] rm = new double[r.length];
         double[] lin = linear.clone();
@@ -527,15 +542,34 @@ final class ExperimentBlock implements ResidualBlock {
         }
     }
 
-    /** Central-difference step on the estimation scale for models with events. */
-    static final double FD_STEP = 1e-4;
-
-    private void simulateRows(EvaluationContext ctx, double[] linear, double[] r, int offset) {
+    /** Residuals and exact Jacobian of a model with events from sensitivities with jumps at the events. */
+    private void evaluateEventSensitivities(EvaluationContext ctx, double[] r, int offset, double[] jac) {
         Work w = work.get();
-        sim.declared(linear, w.pDecl);
-        double[] pe = new double[m];
-        model.initialValues(0.0, w.pDecl, w.y, pe);
-        System.arraycopy(pe, 0, w.pEff, 0, m);
+        int nc = w.nc;
+        double[] linear = ctx.linearValues();
+        double[] dLinear = new double[np];
+        for (int j = 0; j < np; j++) {
+            dLinear[j] = ctx.linearDerivative(j);
+        }
+        initial(w, sim, linear, dLinear, true, w.y, w.pEff, w.s, w.dPeff);
+        w.sys.setColumns(w.dPeff);
+        double[] times = measurementTimes();
+        double[] ys = new double[times.length * n];
+        double[] ss = new double[times.length * nc * n];
+        try {
+            simulator.simulateSensitivities(times, w.sys, 0.0, w.y, w.pEff, w.sensParams, w.s, w.dPeff, ys, ss);
+        } catch (IntegrationException e) {
+            throw new ObjectiveException("experiment '" + exp.id() + "': " + e.getMessage(), e);
+        }
+        for (int i = 0; i < rows.length; i++) {
+            System.arraycopy(ys, i * n, w.y, 0, n);
+            System.arraycopy(ss, i * nc * n, w.s, 0, nc * n);
+            row(ctx, w, i, problem.measurements().get(rows[i]), times[i], linear, dLinear, true, r, offset, jac);
+        }
+    }
+
+    /** Measurement times of the rows; steady-state measurements are refused for models with events. */
+    private double[] measurementTimes() {
         double[] times = new double[rows.length];
         for (int i = 0; i < rows.length; i++) {
             double tm = problem.measurements().get(rows[i]).time();
@@ -545,6 +579,19 @@ final class ExperimentBlock implements ResidualBlock {
             }
             times[i] = tm;
         }
+        return times;
+    }
+
+    /** Central-difference step on the estimation scale for models with events. */
+    static final double FD_STEP = 1e-4;
+
+    private void simulateRows(EvaluationContext ctx, double[] linear, double[] r, int offset) {
+        Work w = work.get();
+        sim.declared(linear, w.pDecl);
+        double[] pe = new double[m];
+        model.initialValues(0.0, w.pDecl, w.y, pe);
+        System.arraycopy(pe, 0, w.pEff, 0, m);
+        double[] times = measurementTimes();
         Trajectory tr;
         try {
             tr = simulator.simulate(times, w.pDecl, stateOutputs);

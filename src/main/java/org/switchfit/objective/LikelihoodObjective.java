@@ -59,8 +59,7 @@ public final class LikelihoodObjective implements Objective {
             extra = SwitchingBlocks.of(problem);
         }
         List<ResidualBlock> blocks = new ArrayList<>();
-        boolean events = problem.hasEvents();
-        InitialDerivative initD = events ? null : new InitialDerivative(problem.compiled().form());
+        InitialDerivative initD = new InitialDerivative(problem.compiled().form());
         for (int e = 0; e < problem.experiments().size(); e++) {
             blocks.add(new ExperimentBlock(problem, initD, e, settings, steady));
         }
