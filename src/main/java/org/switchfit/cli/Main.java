@@ -19,6 +19,7 @@ import picocli.CommandLine.Command;
             CheckCommand.class,
             FitCommand.class,
             BenchPetabCommand.class,
+            BenchFitsCommand.class,
             ReportCommand.class,
             ProfileCommand.class,
             DemoCommand.class,
