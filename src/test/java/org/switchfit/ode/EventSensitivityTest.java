@@ -259,6 +259,25 @@ class EventSensitivityTest {
     }
 
     @Test
+    void strictTriggerFiresAtTheLocatedRootInPlainSimulation() throws IOException {
+        // Regression (x < c located by BDF at rtol 1e-10 landed on x = c exactly, where the strict trigger is still
+        // false, and the reset waited for the next output time). Closed form as in stateTriggeredResetAtThreshold:
+        // t1 = ln(a/c)/k = 4.6210, x(4.7) = x0 e^{-k(4.7 - t1)}.
+        double k = 0.3;
+        double a = 2;
+        double c = 0.5;
+        double x0 = 1;
+        CompiledModel cm = model(param("k", k, true) + param("cth", c, true) + param("x0", x0, true),
+                event("reset", true, "<apply><lt/><ci>X</ci><ci>cth</ci></apply>", null, "X", "<ci>x0</ci>"));
+        double[] times = {4.5, 4.7};
+        Trajectory tr = new Simulator(cm, BdfIntegrator.of(tight())).simulate(times, cm.parameterValues(),
+                ModelOutputs.of(cm, List.of("X")));
+        double t1 = Math.log(a / c) / k;
+        assertRel(a * Math.exp(-k * 4.5), tr.value(0, 0), REL_CLOSED, "x(4.5)");
+        assertRel(x0 * Math.exp(-k * (4.7 - t1)), tr.value(1, 0), REL_CLOSED, "x(4.7)");
+    }
+
+    @Test
     void delayedResetMovesWithTriggerTimeAndDelay() throws IOException {
         // x' = -k x, x(0) = a; trigger x < c fires at ts = ln(a/c)/k, executes x = x0 at te = ts + delta.
         // Derived by hand, for te < t < next firing: x = x0 e^{-k(t-te)}; dx/dk = -x (t - delta),
