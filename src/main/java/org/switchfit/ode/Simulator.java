@@ -400,7 +400,7 @@ public final class Simulator {
         final double time;
         final double[] values;
         final long seq;
-        /** Sensitivity runs: d(execution time)/dθ (length nc) and, with values from trigger time, their θ-derivatives. */
+        /** Sensitivity runs: d(execution time)/dθ (length nc); with values from the trigger time, their dθ. */
         double[] dTime;
         double[] dValues;
 

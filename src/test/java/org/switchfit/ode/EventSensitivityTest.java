@@ -88,8 +88,7 @@ class EventSensitivityTest {
         return "<parameter id=\"" + id + "\" value=\"" + v + "\" constant=\"" + constant + "\"/>";
     }
 
-    /** States and sensitivities at the times; θ = the named declared parameters, each the initial value of the
-     * state given in {@code initialOf} (derivative 1) or of none. */
+    /** States and sensitivities at output times, {@code s(r, c, i) = dy_i/dθ_c} at times[r]. */
     private static final class Run {
         final double[] y;
         final double[] s;
@@ -116,8 +115,12 @@ class EventSensitivityTest {
         return SolverSettings.defaults().withTolerances(1e-10, 1e-14);
     }
 
-    private static Run sensitivities(CompiledModel cm, double[] pDecl, List<String> theta, Map<String, String> initialOf,
-                                     double[] times) {
+    /**
+     * States and sensitivities at the times; θ = the named declared parameters, each the initial value of the state
+     * named in {@code initialOf} (derivative 1) or of none.
+     */
+    private static Run sensitivities(CompiledModel cm, double[] pDecl, List<String> theta,
+                                     Map<String, String> initialOf, double[] times) {
         int n = cm.stateCount();
         int m = cm.parameterCount();
         int nc = theta.size();
