@@ -11,6 +11,8 @@ import java.util.List;
 import java.util.Map;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
+import org.junit.jupiter.params.ParameterizedTest;
+import org.junit.jupiter.params.provider.ValueSource;
 import org.switchfit.ode.bdf.BdfIntegrator;
 import org.switchfit.sbml.SbmlReader;
 
@@ -121,6 +123,11 @@ class EventSensitivityTest {
      */
     private static Run sensitivities(CompiledModel cm, double[] pDecl, List<String> theta,
                                      Map<String, String> initialOf, double[] times) {
+        return sensitivities(cm, pDecl, theta, initialOf, times, BdfIntegrator.of(tight()));
+    }
+
+    private static Run sensitivities(CompiledModel cm, double[] pDecl, List<String> theta,
+                                     Map<String, String> initialOf, double[] times, Integrator integrator) {
         int n = cm.stateCount();
         int m = cm.parameterCount();
         int nc = theta.size();
@@ -140,7 +147,7 @@ class EventSensitivityTest {
         }
         double[] y = new double[times.length * n];
         double[] s = new double[times.length * nc * n];
-        new Simulator(cm, BdfIntegrator.of(tight())).simulateSensitivities(times, cm, 0.0, y0, p, sp, s0, dP, y, s);
+        new Simulator(cm, integrator).simulateSensitivities(times, cm, 0.0, y0, p, sp, s0, dP, y, s);
         return new Run(y, s, n, nc);
     }
 
@@ -219,8 +226,9 @@ class EventSensitivityTest {
         assertMatchesCentralDifferences(cm, pDecl, theta, run, times);
     }
 
-    @Test
-    void stateTriggeredResetAtThreshold() throws IOException {
+    @ParameterizedTest
+    @ValueSource(strings = {"bdf", "dormand-prince"})
+    void stateTriggeredResetAtThreshold(String method) throws IOException {
         // x' = -k x, x(0) = a; when x < c: x = x0. Derived by hand: first firing t1 = ln(a/c)/k, then
         // x = x0 e^{-k(t-t1)}; second firing t2 = t1 + ln(x0/c)/k, then x = x0 e^{-k(t-t2)}.
         // Between t1 and t2: dx/dk = -x t (since k dt1/dk = -t1), dx/da = x/a, dx/dc = -x/c, dx/dx0 = x/x0.
@@ -236,7 +244,9 @@ class EventSensitivityTest {
         double t1 = Math.log(a / c) / k;
         double t2 = t1 + Math.log(x0 / c) / k;
         double[] times = {3.0, 5.0, 6.5, 8.0, 9.0};
-        Run run = sensitivities(cm, pDecl, theta, Map.of("a", "X"), times);
+        Integrator integrator = method.equals("bdf") ? BdfIntegrator.of(tight())
+                : new DormandPrinceIntegrator(tight());
+        Run run = sensitivities(cm, pDecl, theta, Map.of("a", "X"), times, integrator);
         int xi = cm.form().stateIds().indexOf("X");
         for (int r = 0; r < times.length; r++) {
             double t = times[r];
