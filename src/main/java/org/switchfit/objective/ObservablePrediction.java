@@ -30,8 +30,8 @@ import org.switchfit.util.UserInputException;
  * in that experiment, so the prediction is what that data row would be compared with at time t. Time
  * {@code +inf} predicts the steady state of the experiment.
  *
- * <p>Partial: models with events are rejected (their residual gradients are finite differences; a prediction
- * profile needs the exact gradient). Immutable and thread-safe (per-thread workspaces).
+ * <p>Partial: models with events are rejected (this class integrates sensitivities without event jumps; the
+ * residual gradients of such models do handle events). Immutable and thread-safe (per-thread workspaces).
  */
 public final class ObservablePrediction implements Prediction {
     private final EstimationProblem problem;
@@ -143,7 +143,7 @@ public final class ObservablePrediction implements Prediction {
         }
         if (problem.hasEvents()) {
             throw new UserInputException(where, "prediction '" + spec + "': prediction profiles of models with "
-                    + "events are not supported yet (no exact gradient); profile parameters only");
+                    + "events are not supported yet; profile parameters only");
         }
         int e = candidates.get(0);
         Measurement tmpl = firstMeasurement(problem, problem.experiments().get(e), o);
