@@ -7,6 +7,7 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 import java.util.Set;
+import org.switchfit.continuation.ActiveNetwork;
 import org.switchfit.continuation.ConservationLaws;
 import org.switchfit.continuation.ContinuationException;
 import org.switchfit.continuation.ReducedSystem;
@@ -47,12 +48,16 @@ final class SwitchModel {
     final ConservationLaws laws;
     final ReducedSystem reduced;
     final List<String> states;
+    /** The active part of the network the laws were computed on, or null for the whole stoichiometry. */
+    final ActiveNetwork network;
 
-    private SwitchModel(Path file, Model model, CompiledModel compiled, ConservationLaws laws) {
+    private SwitchModel(Path file, Model model, CompiledModel compiled, ConservationLaws laws,
+                        ActiveNetwork network) {
         this.file = file;
         this.model = model;
         this.compiled = compiled;
         this.laws = laws;
+        this.network = network;
         this.reduced = laws.reduce(compiled);
         this.states = compiled.form().stateIds();
     }
@@ -64,17 +69,26 @@ final class SwitchModel {
         long t1 = System.nanoTime();
         CompiledModel cm = ModelCompiler.compile(m);
         long t2 = System.nanoTime();
-        ConservationLaws laws = lawsOf(sbml, m, cm);
+        ConservationLaws laws = lawsOf(sbml, m, cm, null);
         long t3 = System.nanoTime();
         if (timing != null) {
             timing[0] = (t1 - t0) * 1e-9;
             timing[1] = (t2 - t1) * 1e-9;
             timing[2] = (t3 - t2) * 1e-9;
         }
-        return new SwitchModel(sbml, m, cm, laws);
+        return new SwitchModel(sbml, m, cm, laws, null);
     }
 
-    private static ConservationLaws lawsOf(Path f, Model m, CompiledModel cm) {
+    /**
+     * The same model with conservation laws of its active network ({@link ActiveNetwork}: inactive reactions
+     * dropped, states on the zero face and passive states held), so the reduced Jacobian has no direction that
+     * is singular at every point.
+     */
+    SwitchModel withNetwork(ActiveNetwork net) {
+        return new SwitchModel(file, model, compiled, lawsOf(file, model, compiled, net), net);
+    }
+
+    private static ConservationLaws lawsOf(Path f, Model m, CompiledModel cm, ActiveNetwork net) {
         OdeForm form = cm.form();
         List<String> ids = form.stateIds();
         int n = ids.size();
@@ -128,6 +142,9 @@ final class SwitchModel {
                     stoich[i][r] *= ratio;
                 }
             }
+        }
+        if (net != null) {
+            stoich = net.mask(stoich);
         }
         try {
             return ConservationLaws.of(stoich);

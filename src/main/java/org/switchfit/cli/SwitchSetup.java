@@ -4,6 +4,7 @@ import java.nio.file.Path;
 import java.util.LinkedHashMap;
 import java.util.Locale;
 import java.util.Map;
+import org.switchfit.continuation.ActiveNetwork;
 import org.switchfit.continuation.Branch;
 import org.switchfit.continuation.ContinuationException;
 import org.switchfit.continuation.ContinuationSettings;
@@ -18,6 +19,9 @@ import picocli.CommandLine.Parameters;
  * quantity and its range, overrides; and the steady state the analysis starts from. Not thread-safe.
  */
 final class SwitchSetup {
+
+    /** Seed of the sample points of {@link ActiveNetwork#find} (fixed: runs are reproducible). */
+    static final long NETWORK_SEED = 20261202L;
 
     @Parameters(index = "0", paramLabel = "MODEL.xml", description = "SBML model file")
     Path modelFile;
@@ -62,8 +66,22 @@ final class SwitchSetup {
         s.control = ControlQuantity.resolve(s.sm, vary, "--vary", ini[0], s.q, s.pEff);
         double model = s.control.toUser(s.q[s.control.index()]);
         s.startValue = model >= from && model <= to ? model : from;
-        s.q[s.control.index()] = s.control.toQ(s.startValue);
         long t0 = System.nanoTime();
+        if (s.control.index() < s.sm.reduced.originalParameterCount()) {
+            // A model parameter is varied: reduce by the laws of the active network (see ActiveNetwork). Totals
+            // and init: controls keep the stoichiometric laws, whose numbering they refer to.
+            double[] pr = s.pEff.clone();
+            pr[s.control.index()] = s.control.toQ(s.startValue);
+            ActiveNetwork net = ActiveNetwork.find(s.sm.compiled, pr, s.control.index(), s.control.toQ(from),
+                    s.control.toQ(to), ini[0], NETWORK_SEED);
+            if (!net.isWholeNetwork()) {
+                s.sm = s.sm.withNetwork(net);
+                s.q = s.sm.reduced.parameters(ini[1], ini[0]);
+            }
+        }
+        s.timing[2] += (System.nanoTime() - t0) * 1e-9;
+        s.q[s.control.index()] = s.control.toQ(s.startValue);
+        t0 = System.nanoTime();
         try {
             s.x = s.sm.steadyState(s.sm.reduced.reducedState(ini[0]), s.q, s.pEff);
         } catch (ContinuationException e) {
