@@ -149,7 +149,20 @@ public final class ConservationLaws {
      * reproducible) and keeps the basis with the fewest negative coefficients, then the smallest largest
      * |coefficient|, then the earliest tried. Stops at the first basis with no negative coefficient.
      */
-    private static ConservationLaws fromTransposed(BigInteger[][] a, int n, int r) {
+    private static ConservationLaws fromTransposed(BigInteger[][] full, int n, int rAll) {
+        // Reactions with an all-zero column (e.g. switched off by ActiveNetwork.mask) do not change the left null
+        // space; dropping them keeps the elimination proportional to the reactions that act.
+        List<BigInteger[]> keep = new ArrayList<>();
+        for (BigInteger[] row : full) {
+            for (BigInteger x : row) {
+                if (x.signum() != 0) {
+                    keep.add(row);
+                    break;
+                }
+            }
+        }
+        BigInteger[][] a = keep.toArray(new BigInteger[0][]);
+        int r = a.length;
         ConservationLaws best = null;
         long[] bestScore = null;
         java.util.SplittableRandom rng = new java.util.SplittableRandom(20261202L);
