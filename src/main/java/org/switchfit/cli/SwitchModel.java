@@ -69,7 +69,7 @@ final class SwitchModel {
         long t1 = System.nanoTime();
         CompiledModel cm = ModelCompiler.compile(m);
         long t2 = System.nanoTime();
-        ConservationLaws laws = lawsOf(sbml, m, cm, null);
+        ConservationLaws laws = lawsOf(sbml, m, cm, null, null);
         long t3 = System.nanoTime();
         if (timing != null) {
             timing[0] = (t1 - t0) * 1e-9;
@@ -82,13 +82,15 @@ final class SwitchModel {
     /**
      * The same model with conservation laws of its active network ({@link ActiveNetwork}: inactive reactions
      * dropped, states on the zero face and passive states held), so the reduced Jacobian has no direction that
-     * is singular at every point.
+     * is singular at every point. Each law eliminates its most abundant species in {@code abundance} (the start
+     * state), see {@link ConservationLaws#of(double[][], double[])}.
      */
-    SwitchModel withNetwork(ActiveNetwork net) {
-        return new SwitchModel(file, model, compiled, lawsOf(file, model, compiled, net), net);
+    SwitchModel withNetwork(ActiveNetwork net, double[] abundance) {
+        return new SwitchModel(file, model, compiled, lawsOf(file, model, compiled, net, abundance), net);
     }
 
-    private static ConservationLaws lawsOf(Path f, Model m, CompiledModel cm, ActiveNetwork net) {
+    private static ConservationLaws lawsOf(Path f, Model m, CompiledModel cm, ActiveNetwork net,
+                                           double[] abundance) {
         OdeForm form = cm.form();
         List<String> ids = form.stateIds();
         int n = ids.size();
@@ -147,7 +149,7 @@ final class SwitchModel {
             stoich = net.mask(stoich);
         }
         try {
-            return ConservationLaws.of(stoich);
+            return abundance == null ? ConservationLaws.of(stoich) : ConservationLaws.of(stoich, abundance);
         } catch (IllegalArgumentException e) {
             throw new UserInputException(SourceLocation.ofFile(f.toString()), "conservation laws could not be found "
                     + "(" + e.getMessage() + "); compartment sizes must have simple ratios (e.g. 1 and 0.25) for "

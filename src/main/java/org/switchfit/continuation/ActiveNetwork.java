@@ -46,14 +46,19 @@ import org.switchfit.ode.CompiledModel;
 public final class ActiveNetwork {
     private static final int SAMPLES = 3;
 
+    /** Relative size below which a Jacobian column counts as numerically zero (one ulp of 1). */
+    static final double NEGLIGIBLE = 0x1p-52;
+
     private final boolean[] activeReactions;
     private final boolean[] face;
     private final boolean[] passive;
+    private final boolean[] frozen;
 
-    private ActiveNetwork(boolean[] activeReactions, boolean[] face, boolean[] passive) {
+    private ActiveNetwork(boolean[] activeReactions, boolean[] face, boolean[] passive, boolean[] frozen) {
         this.activeReactions = activeReactions;
         this.face = face;
         this.passive = passive;
+        this.frozen = frozen;
     }
 
     /**
@@ -141,7 +146,49 @@ public final class ActiveNetwork {
             passive[j] = !face[j] && !influences[j] && (k == OdeForm.StateKind.SPECIES_AMOUNT
                     || k == OdeForm.StateKind.SPECIES_CONCENTRATION);
         }
-        return new ActiveNetwork(active, face, passive);
+        return new ActiveNetwork(active, face, passive, new boolean[n]);
+    }
+
+    /**
+     * Rule 4, numerically passive states at a point: the independent states of {@code red} whose column of the
+     * reduced Jacobian at (x, q) has no entry above {@link #NEGLIGIBLE} * max|J|. Such a species influences every
+     * rate of change by less than rounding of the largest one (typically a large pool that exchanges only with
+     * complexes present at ~1e-40 of it): its value moves only on time scales beyond double precision, and no
+     * Newton step can resolve it. Holding it at its value at the point ({@link #withFrozen}) is the only
+     * numerically meaningful choice; the branch is then one of quasi-steady states with those pools fixed.
+     *
+     * @return indices into the full state vector, increasing
+     */
+    public static int[] numericallyPassive(ReducedSystem red, double[] x, double[] q) {
+        int n = red.stateCount();
+        double[] j = new double[n * n];
+        red.jacobianY(0, x, q, j);
+        double max = 0;
+        for (double v : j) {
+            max = Math.max(max, Math.abs(v));
+        }
+        int[] ind = red.laws().independentSpecies();
+        int[] out = new int[n];
+        int c = 0;
+        for (int k = 0; k < n; k++) {
+            double col = 0;
+            for (int i = 0; i < n; i++) {
+                col = Math.max(col, Math.abs(j[i * n + k]));
+            }
+            if (!(col > NEGLIGIBLE * max)) {
+                out[c++] = ind[k];
+            }
+        }
+        return java.util.Arrays.copyOf(out, c);
+    }
+
+    /** A copy that also holds the given states (full-state indices) at their start values (rule 4). */
+    public ActiveNetwork withFrozen(int[] states) {
+        boolean[] fz = frozen.clone();
+        for (int i : states) {
+            fz[i] = true;
+        }
+        return new ActiveNetwork(activeReactions, face, passive, fz);
     }
 
     private static double[] onFace(double[] y, boolean[] face) {
@@ -169,9 +216,14 @@ public final class ActiveNetwork {
         return passive[i];
     }
 
-    /** Whether state i is held (rule 1 or 3). */
+    /** Whether state i is held for being numerically passive at the start point (rule 4). */
+    public boolean frozen(int i) {
+        return frozen[i];
+    }
+
+    /** Whether state i is held (rule 1, 3 or 4). */
     public boolean held(int i) {
-        return face[i] || passive[i];
+        return face[i] || passive[i] || frozen[i];
     }
 
     /** Number of inactive reactions. */
@@ -189,9 +241,14 @@ public final class ActiveNetwork {
         return count(passive, true);
     }
 
+    /** Number of states held by rule 4. */
+    public int frozenCount() {
+        return count(frozen, true);
+    }
+
     /** True when no rule removes anything. */
     public boolean isWholeNetwork() {
-        return inactiveReactionCount() == 0 && zeroFaceCount() == 0 && passiveCount() == 0;
+        return inactiveReactionCount() == 0 && zeroFaceCount() == 0 && passiveCount() == 0 && frozenCount() == 0;
     }
 
     private static int count(boolean[] a, boolean value) {

@@ -77,6 +77,41 @@ public final class ConservationLaws {
      * @throws IllegalArgumentException when an entry is not finite or not a rational with denominator at most 10^6
      */
     public static ConservationLaws of(double[][] stoich) {
+        return fromTransposed(transposed(stoich), stoich.length, stoich[0].length);
+    }
+
+    /**
+     * Laws of a stoichiometry matrix (as {@link #of(double[][])}) with the most abundant species of each law made
+     * dependent: the elimination runs over the species in order of increasing |abundance|, so the least abundant
+     * become pivots (independent states) and each law eliminates a large pool. This keeps the reduced Jacobian
+     * well scaled when a large pool exchanges only with tiny complexes (its own row and column would otherwise
+     * hold only terms proportional to those complexes, ~1e-40 in stiff signalling models at steady state).
+     *
+     * @param abundance one value per species, e.g. the start state
+     */
+    public static ConservationLaws of(double[][] stoich, double[] abundance) {
+        int n = stoich.length;
+        if (abundance.length != n) {
+            throw new IllegalArgumentException(String.format(Locale.ROOT,
+                    "%d abundances for %d species", abundance.length, n));
+        }
+        BigInteger[][] a = dropZeroColumns(transposed(stoich));
+        Integer[] idx = new Integer[n];
+        for (int i = 0; i < n; i++) {
+            idx[i] = i;
+        }
+        java.util.Arrays.sort(idx, (x, y) -> {
+            int c = Double.compare(Math.abs(abundance[x]), Math.abs(abundance[y]));
+            return c != 0 ? c : Integer.compare(x, y);
+        });
+        int[] order = new int[n];
+        for (int i = 0; i < n; i++) {
+            order[i] = idx[i];
+        }
+        return eliminate(a, n, a.length, order);
+    }
+
+    private static BigInteger[][] transposed(double[][] stoich) {
         int n = stoich.length;
         if (n == 0) {
             throw new IllegalArgumentException("stoichiometry matrix has no species rows");
@@ -102,7 +137,7 @@ public final class ConservationLaws {
                 a[j][i] = BigInteger.valueOf(num[i]).multiply(lcm.divide(BigInteger.valueOf(den[i])));
             }
         }
-        return fromTransposed(a, n, r);
+        return a;
     }
 
     /** Continued-fraction recovery of p/q with q <= 10^6 and double(p/q) within 2 ulp of x. */
@@ -150,18 +185,7 @@ public final class ConservationLaws {
      * |coefficient|, then the earliest tried. Stops at the first basis with no negative coefficient.
      */
     private static ConservationLaws fromTransposed(BigInteger[][] full, int n, int rAll) {
-        // Reactions with an all-zero column (e.g. switched off by ActiveNetwork.mask) do not change the left null
-        // space; dropping them keeps the elimination proportional to the reactions that act.
-        List<BigInteger[]> keep = new ArrayList<>();
-        for (BigInteger[] row : full) {
-            for (BigInteger x : row) {
-                if (x.signum() != 0) {
-                    keep.add(row);
-                    break;
-                }
-            }
-        }
-        BigInteger[][] a = keep.toArray(new BigInteger[0][]);
+        BigInteger[][] a = dropZeroColumns(full);
         int r = a.length;
         ConservationLaws best = null;
         long[] bestScore = null;
@@ -205,6 +229,23 @@ public final class ConservationLaws {
             }
         }
         return best;
+    }
+
+    /**
+     * Rows of N^T (reactions) that are all zero, e.g. switched off by {@link ActiveNetwork#mask}, do not change the
+     * left null space; dropping them keeps the elimination proportional to the reactions that act.
+     */
+    private static BigInteger[][] dropZeroColumns(BigInteger[][] full) {
+        List<BigInteger[]> keep = new ArrayList<>();
+        for (BigInteger[] row : full) {
+            for (BigInteger x : row) {
+                if (x.signum() != 0) {
+                    keep.add(row);
+                    break;
+                }
+            }
+        }
+        return keep.toArray(new BigInteger[0][]);
     }
 
     /** Gauss-Jordan on the species columns in the given order; laws for the non-pivot species. */

@@ -27,6 +27,9 @@ import org.switchfit.ode.OdeSystem;
 public record SteadyStateSolver(double residualTolerance, double stepTolerance, int maxNewtonSteps,
                                 int maxTransientSteps, double initialDt, int eigenvalueLimit) {
 
+    /** Largest pseudo-time step (units of t). */
+    private static final double MAX_DT = 1e12;
+
     /** Validates. */
     public SteadyStateSolver {
         if (!(residualTolerance > 0) || !(stepTolerance > 0) || maxNewtonSteps < 1 || maxTransientSteps < 0
@@ -65,7 +68,8 @@ public record SteadyStateSolver(double residualTolerance, double stepTolerance, 
         boolean ok = newton(sys, y, p, w, iters);
         if (!ok) {
             System.arraycopy(y0, 0, y, 0, n);
-            ok = pseudoTransient(sys, y, p, w, iters) && newton(sys, y, p, w, iters);
+            ok = pseudoTransient(sys, y, p, w, iters, Math.max(residualTolerance * 1e3, 1e-8))
+                    && newton(sys, y, p, w, iters);
         }
         sys.rhs(0, y, p, w.f);
         double res = maxAbs(w.f, n);
@@ -75,6 +79,24 @@ public record SteadyStateSolver(double residualTolerance, double stepTolerance, 
                     iters[0], res, residualTolerance));
         }
         return classify(sys, y, p, res, iters[0], eigenvalueLimit);
+    }
+
+    /**
+     * Follows the dynamics towards a steady state by pseudo-transient continuation only (no Newton polish, no
+     * convergence requirement) and returns the state reached: a best-effort starting point, for example to decide
+     * which directions are numerically resolvable before a full {@link #solve}.
+     */
+    public double[] relax(OdeSystem sys, double[] y0, double[] p) {
+        int n = sys.stateCount();
+        double[] y = y0.clone();
+        Work w = new Work(n, sys.jacobianPattern());
+        if (!pseudoTransient(sys, y, p, w, new int[1], 0.0)) {
+            sys.rhs(0, y, p, w.f);
+            if (!Double.isFinite(dot(w.f, n)) || !Double.isFinite(dot(y, n))) {
+                return y0.clone();
+            }
+        }
+        return y;
     }
 
     static SteadyState classify(OdeSystem sys, double[] y, double[] p, double res, int iters, int eigLimit) {
@@ -158,19 +180,24 @@ public record SteadyStateSolver(double residualTolerance, double stepTolerance, 
         return maxAbs(w.f, n) <= residualTolerance;
     }
 
-    /** Pseudo-transient continuation in place until |f| is small enough to hand over to Newton. */
-    private boolean pseudoTransient(OdeSystem sys, double[] y, double[] p, Work w, int[] iters) {
+    /**
+     * Pseudo-transient continuation in place until max|f| &lt;= handover (with dt &gt; 1e3), or, when handover is
+     * 0, until dt reaches its cap.
+     */
+    private boolean pseudoTransient(OdeSystem sys, double[] y, double[] p, Work w, int[] iters, double handover) {
         int n = y.length;
         double dt = initialDt;
         sys.rhs(0, y, p, w.f);
         double fNorm = Math.sqrt(dot(w.f, n));
-        double handover = Math.max(residualTolerance * 1e3, 1e-8);
         for (int k = 0; k < maxTransientSteps; k++) {
             if (!Double.isFinite(fNorm)) {
                 return false;
             }
             if (maxAbs(w.f, n) <= handover && dt > 1e3) {
                 return true;
+            }
+            if (handover == 0 && dt >= MAX_DT) {
+                return true; // relax(): implicit Euler with steps of 1e12 has reached the slowest resolvable modes
             }
             iters[0]++;
             sys.jacobianY(0, y, p, w.jac);
@@ -202,7 +229,7 @@ public record SteadyStateSolver(double residualTolerance, double stepTolerance, 
             // need many thousands of steps (measured on a 500-species signalling model).
             double ratio = fNorm / Math.max(newNorm, 1e-300);
             double grow = ratio >= 1 ? Math.max(ratio, 1.5) : ratio;
-            dt = Math.min(dt * Math.max(0.5, Math.min(grow, 10.0)), 1e12);
+            dt = Math.min(dt * Math.max(0.5, Math.min(grow, 10.0)), MAX_DT);
             fNorm = newNorm;
         }
         return maxAbs(w.f, n) <= handover;
