@@ -245,7 +245,7 @@ public final class PseudoArclength {
         if (!Spectrum.compute(jac, n, re, im)) {
             return new BranchPoint(u[n], y, -1, new double[0], new double[0], t[n], s);
         }
-        return new BranchPoint(u[n], y, Spectrum.unstableCount(re), re, im, t[n], s);
+        return new BranchPoint(u[n], y, Spectrum.unstableCount(re, jac, n), re, im, t[n], s);
     }
 
     private static void sysJacobian(EquilibriumProblem prob, double[] u, double[] jac) {

@@ -111,7 +111,7 @@ public record SteadyStateSolver(double residualTolerance, double stepTolerance, 
         if (!Spectrum.compute(jac, n, re, im)) {
             return new SteadyState(y, p, res, -1, new double[0], new double[0], iters);
         }
-        return new SteadyState(y, p, res, Spectrum.unstableCount(re), re, im, iters);
+        return new SteadyState(y, p, res, Spectrum.unstableCount(re, jac, n), re, im, iters);
     }
 
     private static final class Work {
