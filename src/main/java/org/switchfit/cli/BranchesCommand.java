@@ -82,17 +82,20 @@ public final class BranchesCommand implements Callable<Integer> {
         out.printf(Locale.ROOT, "continuation: %d reduced states, %s linear algebra, %.1f ms per point%n",
                 s.sm.reduced.stateCount(), SwitchSetup.usesSparseLu(s.sm.reduced) ? "sparse" : "dense",
                 b.size() > 0 ? (t2 - t1) * 1e-6 / b.size() : 0.0);
+        double[] res = fullResiduals(s, b, sc);
         if (s.sm.network != null) {
             org.switchfit.continuation.ActiveNetwork net = s.sm.network;
             out.printf(Locale.ROOT, "active network: %d of %d reactions cannot fire; states held: %d at zero, %d "
-                            + "passive, %d numerically passive; %d reduced states (max |f| of held states at the "
-                            + "start %.3g)%n", net.inactiveReactionCount(), s.sm.model.reactions().size(),
-                    net.zeroFaceCount(), net.passiveCount(), net.frozenCount(), s.sm.reduced.stateCount(),
-                    heldResidual(s, b, sc));
+                            + "passive, %d numerically passive; %d reduced states (max |f| of held states along "
+                            + "the branch %.3g)%n", net.inactiveReactionCount(), s.sm.model.reactions().size(),
+                    net.zeroFaceCount(), net.passiveCount(), net.frozenCount(), s.sm.reduced.stateCount(), res[1]);
         }
+        out.printf(Locale.ROOT, "check: max |f| of the full model over all states and branch points %.3g%n", res[0]);
         if (b.size() > 0 && b.point(0).unstableCount() < 0) {
-            out.println("stability not computed: the reduced system has " + s.sm.reduced.stateCount()
-                    + " states, above the eigenvalue limit of the continuation settings");
+            out.println(s.sm.reduced.stateCount() > scs.eigenvalueLimit()
+                    ? "stability not computed: the reduced system has " + s.sm.reduced.stateCount()
+                    + " states, above the eigenvalue limit of the continuation settings"
+                    : "stability not computed: the eigenvalue iteration did not converge");
         }
         out.flush();
         if (json != null) {
@@ -104,25 +107,29 @@ public final class BranchesCommand implements Callable<Integer> {
         return 0;
     }
 
-    /** max |f_i| over held states at the first branch point (0 when none are held). */
-    private static double heldResidual(SwitchSetup.Start s, Branch b, ScaledSystem sc) {
-        if (b.size() == 0) {
-            return 0;
-        }
+    /**
+     * Residual check of the full model along the branch: {max |f_i| over all states, over held states}, each
+     * maximised over the branch points (units of the model's rates of change).
+     */
+    private static double[] fullResiduals(SwitchSetup.Start s, Branch b, ScaledSystem sc) {
+        double all = 0;
+        double held = 0;
         double[] q = s.q.clone();
-        q[s.control.index()] = sc.unscaleControl(b.point(0).parameter());
-        double[] y = s.sm.reduced.fullState(sc.unscaleState(b.point(0).state()), q);
         double[] p = s.pEff.clone();
-        System.arraycopy(q, 0, p, 0, p.length);
-        double[] f = new double[y.length];
-        s.sm.compiled.rhs(0, y, p, f);
-        double m = 0;
-        for (int i = 0; i < y.length; i++) {
-            if (s.sm.network.held(i)) {
-                m = Math.max(m, Math.abs(f[i]));
+        for (BranchPoint bp : b.points()) {
+            q[s.control.index()] = sc.unscaleControl(bp.parameter());
+            double[] y = s.sm.reduced.fullState(sc.unscaleState(bp.state()), q);
+            System.arraycopy(q, 0, p, 0, p.length);
+            double[] f = new double[y.length];
+            s.sm.compiled.rhs(0, y, p, f);
+            for (int i = 0; i < y.length; i++) {
+                all = Math.max(all, Math.abs(f[i]));
+                if (s.sm.network != null && s.sm.network.held(i)) {
+                    held = Math.max(held, Math.abs(f[i]));
+                }
             }
         }
-        return m;
+        return new double[] {all, held};
     }
 
     private static String note(Branch b, BranchesFile.Special sp) {

@@ -22,28 +22,41 @@ final class Spectrum {
         if (n == 0) {
             return true;
         }
-        double[][] a = new double[n][n];
-        for (int i = 0; i < n; i++) {
-            System.arraycopy(jac, i * n, a[i], 0, n);
+        // The QR iteration (fixed iteration limit) occasionally fails on one of A, balanced A, A^T while succeeding
+        // on another; all three have the same eigenvalues, so try them in turn.
+        Complex[] ev = null;
+        for (int attempt = 0; attempt < 3 && ev == null; attempt++) {
+            double[][] a = new double[n][n];
+            for (int i = 0; i < n; i++) {
+                for (int j = 0; j < n; j++) {
+                    a[i][j] = attempt == 2 ? jac[j * n + i] : jac[i * n + j];
+                }
+            }
+            if (attempt != 1) {
+                balance(a, n);
+            }
+            flushNegligible(a, n);
+            try {
+                ev = new EigenDecompositionNonSymmetric(new Array2DRowRealMatrix(a, false)).getEigenvalues();
+            } catch (MathRuntimeException e) {
+                ev = null;
+            }
         }
-        balance(a, n);
-        Complex[] ev;
-        try {
-            ev = new EigenDecompositionNonSymmetric(new Array2DRowRealMatrix(a, false)).getEigenvalues();
-        } catch (MathRuntimeException e) {
+        if (ev == null) {
             return false;
         }
+        final Complex[] eig = ev;
         Integer[] order = new Integer[n];
         for (int i = 0; i < n; i++) {
             order[i] = i;
         }
         java.util.Arrays.sort(order, (x, y) -> {
-            int c = Double.compare(ev[y].getReal(), ev[x].getReal());
-            return c != 0 ? c : Double.compare(ev[y].getImaginary(), ev[x].getImaginary());
+            int c = Double.compare(eig[y].getReal(), eig[x].getReal());
+            return c != 0 ? c : Double.compare(eig[y].getImaginary(), eig[x].getImaginary());
         });
         for (int i = 0; i < n; i++) {
-            re[i] = ev[order[i]].getReal();
-            im[i] = ev[order[i]].getImaginary();
+            re[i] = eig[order[i]].getReal();
+            im[i] = eig[order[i]].getImaginary();
         }
         return true;
     }
@@ -93,6 +106,29 @@ final class Spectrum {
                     for (int j = 0; j < n; j++) {
                         a[j][i] *= f;
                     }
+                }
+            }
+        }
+    }
+
+    /**
+     * Sets entries below eps^2 max|a_ij| to zero (in place). The change is far below the backward error
+     * (about n eps max|a_ij|) of the QR iteration, so the computed eigenvalues are as valid as before, and it removes
+     * subnormal numbers, on which the iteration was seen to stop converging (scaled Jacobian of a 500-species
+     * model, entries down to 1e-322).
+     */
+    static void flushNegligible(double[][] a, int n) {
+        double max = 0;
+        for (double[] row : a) {
+            for (double v : row) {
+                max = Math.max(max, Math.abs(v));
+            }
+        }
+        double tiny = Math.ulp(1.0) * Math.ulp(1.0) * max;
+        for (double[] row : a) {
+            for (int j = 0; j < n; j++) {
+                if (Math.abs(row[j]) < tiny) {
+                    row[j] = 0;
                 }
             }
         }
