@@ -91,6 +91,19 @@ public final class BranchesCommand implements Callable<Integer> {
                     net.zeroFaceCount(), net.passiveCount(), net.frozenCount(), s.sm.reduced.stateCount(), res[1]);
         }
         out.printf(Locale.ROOT, "check: max |f| of the full model over all states and branch points %.3g%n", res[0]);
+        int withEig = 0;
+        int unstable = 0;
+        for (BranchPoint bp : b.points()) {
+            if (bp.unstableCount() >= 0) {
+                withEig++;
+                unstable += bp.unstableCount() > 0 ? 1 : 0;
+            }
+        }
+        if (withEig > 0 && withEig < b.size()) {
+            out.printf(Locale.ROOT, "stability: eigenvalues at %d of %d points (%d unstable); at the others the "
+                    + "eigenvalue iteration did not converge and the point is written with stable = false and no "
+                    + "eigenvalues%n", withEig, b.size(), unstable);
+        }
         if (b.size() > 0 && b.point(0).unstableCount() < 0) {
             out.println(s.sm.reduced.stateCount() > scs.eigenvalueLimit()
                     ? "stability not computed: the reduced system has " + s.sm.reduced.stateCount()
