@@ -104,7 +104,7 @@ final class CayleyArnoldi {
         for (int i = 0; i < k; i++) {
             order[i] = i;
         }
-        java.util.Arrays.sort(order, (x, y) -> Double.compare(mu[y].abs(), mu[x].abs()));
+        java.util.Arrays.sort(order, (x, y) -> Double.compare(mu[y].norm(), mu[x].norm()));
         double[] re = new double[k];
         double[] im = new double[k];
         double[] abs = new double[k];
@@ -116,13 +116,13 @@ final class CayleyArnoldi {
             double den = (ar - 1) * (ar - 1) + ai * ai;
             re[r] = sigma * (ar * ar - 1 + ai * ai) / den;
             im[r] = -2 * sigma * ai / den;
-            abs[r] = mu[i].abs();
+            abs[r] = mu[i].norm();
             FieldVector<Complex> y = ed.getEigenvector(i);
             double ynorm = 0;
             for (int t = 0; t < steps; t++) {
-                ynorm += y.getEntry(t).abs() * y.getEntry(t).abs();
+                ynorm += y.getEntry(t).norm() * y.getEntry(t).norm();
             }
-            res[r] = Math.abs(hLast) * y.getEntry(steps - 1).abs() / Math.sqrt(ynorm);
+            res[r] = Math.abs(hLast) * y.getEntry(steps - 1).norm() / Math.sqrt(ynorm);
         }
         return new Result(re, im, abs, res, steps);
     }
