@@ -22,7 +22,9 @@ import org.switchfit.ode.OdeSystem;
  * @param maxNewtonSteps     Newton iterations per attempt
  * @param maxTransientSteps  pseudo-transient steps before giving up
  * @param initialDt          first pseudo-time step (units of t)
- * @param eigenvalueLimit    eigenvalues (stability) are computed when the system has at most this many states
+ * @param eigenvalueLimit    all eigenvalues (stability) are computed when the system has at most this many states;
+ *                           above it a sparse Jacobian gets its dominant eigenvalues from {@code CayleyArnoldi};
+ *                           0 computes none
  */
 public record SteadyStateSolver(double residualTolerance, double stepTolerance, int maxNewtonSteps,
                                 int maxTransientSteps, double initialDt, int eigenvalueLimit) {
@@ -102,7 +104,16 @@ public record SteadyStateSolver(double residualTolerance, double stepTolerance, 
     static SteadyState classify(OdeSystem sys, double[] y, double[] p, double res, int iters, int eigLimit) {
         int n = sys.stateCount();
         if (n > eigLimit) {
-            return new SteadyState(y, p, res, -1, new double[0], new double[0], iters);
+            int[][] pattern = sys.jacobianPattern();
+            if (eigLimit <= 0 || !LinearSolvers.isSparse(n, pattern)) {
+                return new SteadyState(y, p, res, -1, new double[0], new double[0], iters);
+            }
+            double[] jac = new double[n * n];
+            sys.jacobianY(0, y, p, jac);
+            double[][] partial = PseudoArclength.dominantSpectrum(jac, n, pattern);
+            return partial == null ? new SteadyState(y, p, res, -1, new double[0], new double[0], iters)
+                    : new SteadyState(y, p, res, Spectrum.unstableCount(partial[0], jac, n), partial[0], partial[1],
+                    iters);
         }
         double[] jac = new double[n * n];
         sys.jacobianY(0, y, p, jac);
