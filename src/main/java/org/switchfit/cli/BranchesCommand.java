@@ -13,6 +13,7 @@ import org.switchfit.continuation.BranchPoint;
 import org.switchfit.continuation.ContinuationSettings;
 import org.switchfit.continuation.Fold;
 import org.switchfit.continuation.Hopf;
+import org.switchfit.continuation.ScaledSystem;
 import org.switchfit.report.BranchesFile;
 import org.switchfit.report.Json;
 import org.switchfit.util.AtomicFiles;
@@ -59,9 +60,15 @@ public final class BranchesCommand implements Callable<Integer> {
         SwitchSetup.Start s = setup.start();
         ContinuationSettings cs = SwitchSetup.settings(s.control, setup.from, setup.to).withMaxPoints(maxPoints);
         long t1 = System.nanoTime();
-        Branch b = setup.branch(s, cs);
+        // Continue in scaled unknowns (relative changes of states and control, see ScaledSystem): with states of
+        // 1e9 and a control near 1e-9 the unscaled arclength cannot resolve the branch.
+        int k = s.control.index();
+        ScaledSystem sc = ScaledSystem.around(s.sm.reduced, s.x, k, s.q[k], cs.lowerBound(), cs.upperBound());
+        ContinuationSettings scs = ContinuationSettings.of(sc.scaleControl(cs.lowerBound()),
+                sc.scaleControl(cs.upperBound())).withMaxPoints(maxPoints);
+        Branch b = setup.branch(sc, sc.scaleState(s.x), sc.scaleParameters(s.q), k, scs);
         long t2 = System.nanoTime();
-        BranchesFile file = toFile(s, b, setup.from, setup.to);
+        BranchesFile file = toFile(s, b, setup.from, setup.to, sc);
         PrintWriter out = spec.commandLine().getOut();
         for (BranchesFile.Special sp : file.folds()) {
             out.printf(Locale.ROOT, "%s: %s at %s = %.15g%s%n", sp.id(), sp.kind() == BranchesFile.Kind.FOLD
@@ -72,9 +79,36 @@ public final class BranchesCommand implements Callable<Integer> {
                 b.size(), s.control.label(), SwitchSetup.fmt(s.startValue), b.folds().size(), b.hopfs().size(),
                 b.startEnd(), b.finishEnd(), s.timing[0], s.timing[1], s.timing[2], s.sm.laws.lawCount(),
                 s.timing[3], (t2 - t1) * 1e-9);
+        out.printf(Locale.ROOT, "continuation: %d reduced states, %s linear algebra, %.1f ms per point%n",
+                s.sm.reduced.stateCount(), SwitchSetup.usesSparseLu(s.sm.reduced) ? "sparse" : "dense",
+                b.size() > 0 ? (t2 - t1) * 1e-6 / b.size() : 0.0);
+        double[] res = fullResiduals(s, b, sc);
+        if (s.sm.network != null) {
+            org.switchfit.continuation.ActiveNetwork net = s.sm.network;
+            out.printf(Locale.ROOT, "active network: %d of %d reactions cannot fire; states held: %d at zero, %d "
+                            + "passive, %d numerically passive; %d reduced states (max |f| of held states along "
+                            + "the branch %.3g)%n", net.inactiveReactionCount(), s.sm.model.reactions().size(),
+                    net.zeroFaceCount(), net.passiveCount(), net.frozenCount(), s.sm.reduced.stateCount(), res[1]);
+        }
+        out.printf(Locale.ROOT, "check: max |f| of the full model over all states and branch points %.3g%n", res[0]);
+        int withEig = 0;
+        int unstable = 0;
+        for (BranchPoint bp : b.points()) {
+            if (bp.unstableCount() >= 0) {
+                withEig++;
+                unstable += bp.unstableCount() > 0 ? 1 : 0;
+            }
+        }
+        if (withEig > 0 && withEig < b.size()) {
+            out.printf(Locale.ROOT, "stability: eigenvalues at %d of %d points (%d unstable); at the others the "
+                    + "eigenvalue iteration did not converge and the point is written with stable = false and no "
+                    + "eigenvalues%n", withEig, b.size(), unstable);
+        }
         if (b.size() > 0 && b.point(0).unstableCount() < 0) {
-            out.println("stability not computed: the reduced system has " + s.sm.reduced.stateCount()
-                    + " states, above the eigenvalue limit of the continuation settings");
+            out.println(s.sm.reduced.stateCount() > scs.eigenvalueLimit()
+                    ? "stability not computed: the reduced system has " + s.sm.reduced.stateCount()
+                    + " states, above the eigenvalue limit of the continuation settings"
+                    : "stability not computed: the eigenvalue iteration did not converge");
         }
         out.flush();
         if (json != null) {
@@ -86,6 +120,31 @@ public final class BranchesCommand implements Callable<Integer> {
         return 0;
     }
 
+    /**
+     * Residual check of the full model along the branch: {max |f_i| over all states, over held states}, each
+     * maximised over the branch points (units of the model's rates of change).
+     */
+    private static double[] fullResiduals(SwitchSetup.Start s, Branch b, ScaledSystem sc) {
+        double all = 0;
+        double held = 0;
+        double[] q = s.q.clone();
+        double[] p = s.pEff.clone();
+        for (BranchPoint bp : b.points()) {
+            q[s.control.index()] = sc.unscaleControl(bp.parameter());
+            double[] y = s.sm.reduced.fullState(sc.unscaleState(bp.state()), q);
+            System.arraycopy(q, 0, p, 0, p.length);
+            double[] f = new double[y.length];
+            s.sm.compiled.rhs(0, y, p, f);
+            for (int i = 0; i < y.length; i++) {
+                all = Math.max(all, Math.abs(f[i]));
+                if (s.sm.network != null && s.sm.network.held(i)) {
+                    held = Math.max(held, Math.abs(f[i]));
+                }
+            }
+        }
+        return new double[] {all, held};
+    }
+
     private static String note(Branch b, BranchesFile.Special sp) {
         if (sp.kind() == BranchesFile.Kind.FOLD) {
             int k = Integer.parseInt(sp.id().substring(4)) - 1;
@@ -95,23 +154,31 @@ public final class BranchesCommand implements Callable<Integer> {
         return String.format(Locale.ROOT, " (frequency %.6g)", b.hopfs().get(k).frequency());
     }
 
-    /** The JSON record of a traced branch, in user units of the control and full states. */
+    /** The JSON record of a branch traced in the unscaled reduced system. */
     static BranchesFile toFile(SwitchSetup.Start s, Branch b, double a, double bHi) {
+        return toFile(s, b, a, bHi, null);
+    }
+
+    /**
+     * The JSON record of a traced branch, in user units of the control and full states; {@code sc} is the scaling
+     * the branch was traced in, or null.
+     */
+    static BranchesFile toFile(SwitchSetup.Start s, Branch b, double a, double bHi, ScaledSystem sc) {
         List<String> ids = s.sm.states;
         int k = s.control.index();
         double[] q = s.q.clone();
         List<BranchesFile.Special> specials = new ArrayList<>();
         int i = 1;
         for (Fold f : b.folds()) {
-            q[k] = f.parameter();
-            specials.add(new BranchesFile.Special("fold" + i++, s.control.label(), s.control.toUser(f.parameter()),
-                    stateMap(ids, s.sm.reduced.fullState(f.state(), q)), BranchesFile.Kind.FOLD));
+            q[k] = lam(sc, f.parameter());
+            specials.add(new BranchesFile.Special("fold" + i++, s.control.label(), s.control.toUser(q[k]),
+                    stateMap(ids, s.sm.reduced.fullState(x(sc, f.state()), q)), BranchesFile.Kind.FOLD));
         }
         i = 1;
         for (Hopf h : b.hopfs()) {
-            q[k] = h.parameter();
-            specials.add(new BranchesFile.Special("hopf" + i++, s.control.label(), s.control.toUser(h.parameter()),
-                    stateMap(ids, s.sm.reduced.fullState(h.state(), q)), BranchesFile.Kind.HOPF));
+            q[k] = lam(sc, h.parameter());
+            specials.add(new BranchesFile.Special("hopf" + i++, s.control.label(), s.control.toUser(q[k]),
+                    stateMap(ids, s.sm.reduced.fullState(x(sc, h.state()), q)), BranchesFile.Kind.HOPF));
         }
         List<BranchesFile.Point> pts = new ArrayList<>();
         BranchPoint prev = null;
@@ -121,12 +188,20 @@ public final class BranchesCommand implements Callable<Integer> {
                 continue; // a one-sided start on a bound repeats the start point
             }
             prev = bp;
-            q[k] = bp.parameter();
-            pts.add(new BranchesFile.Point(s.control.toUser(bp.parameter()), s.sm.reduced.fullState(bp.state(), q),
+            q[k] = lam(sc, bp.parameter());
+            pts.add(new BranchesFile.Point(s.control.toUser(q[k]), s.sm.reduced.fullState(x(sc, bp.state()), q),
                     bp.stable(), bp.eigenReal(), bp.eigenImag()));
         }
         return new BranchesFile(s.control.label(), new double[] {a, bHi}, ids, specials,
                 List.of(new BranchesFile.Branch("branch1", pts)), List.of());
+    }
+
+    private static double lam(ScaledSystem sc, double v) {
+        return sc == null ? v : sc.unscaleControl(v);
+    }
+
+    private static double[] x(ScaledSystem sc, double[] z) {
+        return sc == null ? z : sc.unscaleState(z);
     }
 
     static Map<String, Double> stateMap(List<String> ids, double[] y) {

@@ -7,6 +7,7 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 import java.util.Set;
+import org.switchfit.continuation.ActiveNetwork;
 import org.switchfit.continuation.ConservationLaws;
 import org.switchfit.continuation.ContinuationException;
 import org.switchfit.continuation.ReducedSystem;
@@ -47,12 +48,16 @@ final class SwitchModel {
     final ConservationLaws laws;
     final ReducedSystem reduced;
     final List<String> states;
+    /** The active part of the network the laws were computed on, or null for the whole stoichiometry. */
+    final ActiveNetwork network;
 
-    private SwitchModel(Path file, Model model, CompiledModel compiled, ConservationLaws laws) {
+    private SwitchModel(Path file, Model model, CompiledModel compiled, ConservationLaws laws,
+                        ActiveNetwork network) {
         this.file = file;
         this.model = model;
         this.compiled = compiled;
         this.laws = laws;
+        this.network = network;
         this.reduced = laws.reduce(compiled);
         this.states = compiled.form().stateIds();
     }
@@ -64,17 +69,28 @@ final class SwitchModel {
         long t1 = System.nanoTime();
         CompiledModel cm = ModelCompiler.compile(m);
         long t2 = System.nanoTime();
-        ConservationLaws laws = lawsOf(sbml, m, cm);
+        ConservationLaws laws = lawsOf(sbml, m, cm, null, null);
         long t3 = System.nanoTime();
         if (timing != null) {
             timing[0] = (t1 - t0) * 1e-9;
             timing[1] = (t2 - t1) * 1e-9;
             timing[2] = (t3 - t2) * 1e-9;
         }
-        return new SwitchModel(sbml, m, cm, laws);
+        return new SwitchModel(sbml, m, cm, laws, null);
     }
 
-    private static ConservationLaws lawsOf(Path f, Model m, CompiledModel cm) {
+    /**
+     * The same model with conservation laws of its active network ({@link ActiveNetwork}: inactive reactions
+     * dropped, states on the zero face and passive states held), so the reduced Jacobian has no direction that
+     * is singular at every point. Each law eliminates its most abundant species in {@code abundance} (the start
+     * state), see {@link ConservationLaws#of(double[][], double[])}.
+     */
+    SwitchModel withNetwork(ActiveNetwork net, double[] abundance) {
+        return new SwitchModel(file, model, compiled, lawsOf(file, model, compiled, net, abundance), net);
+    }
+
+    private static ConservationLaws lawsOf(Path f, Model m, CompiledModel cm, ActiveNetwork net,
+                                           double[] abundance) {
         OdeForm form = cm.form();
         List<String> ids = form.stateIds();
         int n = ids.size();
@@ -129,8 +145,11 @@ final class SwitchModel {
                 }
             }
         }
+        if (net != null) {
+            stoich = net.mask(stoich);
+        }
         try {
-            return ConservationLaws.of(stoich);
+            return abundance == null ? ConservationLaws.of(stoich) : ConservationLaws.of(stoich, abundance);
         } catch (IllegalArgumentException e) {
             throw new UserInputException(SourceLocation.ofFile(f.toString()), "conservation laws could not be found "
                     + "(" + e.getMessage() + "); compartment sizes must have simple ratios (e.g. 1 and 0.25) for "

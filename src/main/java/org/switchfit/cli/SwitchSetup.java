@@ -4,10 +4,14 @@ import java.nio.file.Path;
 import java.util.LinkedHashMap;
 import java.util.Locale;
 import java.util.Map;
+import org.switchfit.continuation.ActiveNetwork;
 import org.switchfit.continuation.Branch;
 import org.switchfit.continuation.ContinuationException;
 import org.switchfit.continuation.ContinuationSettings;
 import org.switchfit.continuation.PseudoArclength;
+import org.switchfit.continuation.SteadyStateSolver;
+import org.switchfit.linalg.LuSolvers;
+import org.switchfit.ode.OdeSystem;
 import org.switchfit.util.SourceLocation;
 import org.switchfit.util.UserInputException;
 import picocli.CommandLine.Option;
@@ -18,6 +22,11 @@ import picocli.CommandLine.Parameters;
  * quantity and its range, overrides; and the steady state the analysis starts from. Not thread-safe.
  */
 final class SwitchSetup {
+
+    /** Seed of the sample points of {@link ActiveNetwork#find} (fixed: runs are reproducible). */
+    static final long NETWORK_SEED = 20261202L;
+    /** Rounds of rule 4 of {@link ActiveNetwork} (each recomputes the laws). */
+    private static final int MAX_FREEZE_ROUNDS = 4;
 
     @Parameters(index = "0", paramLabel = "MODEL.xml", description = "SBML model file")
     Path modelFile;
@@ -46,6 +55,8 @@ final class SwitchSetup {
         /** Reduced steady state at {@link #startValue}. */
         double[] x;
         double startValue;
+        /** Full state the steady-state search starts from. */
+        double[] startState;
         /** Seconds: parse, compile, conservation laws, steady state. */
         double[] timing = new double[4];
     }
@@ -58,14 +69,47 @@ final class SwitchSetup {
         double[] decl = s.sm.declared(sets);
         double[][] ini = s.sm.initial(decl);
         s.pEff = ini[1];
+        s.startState = ini[0];
         s.q = s.sm.reduced.parameters(ini[1], ini[0]);
         s.control = ControlQuantity.resolve(s.sm, vary, "--vary", ini[0], s.q, s.pEff);
         double model = s.control.toUser(s.q[s.control.index()]);
         s.startValue = model >= from && model <= to ? model : from;
-        s.q[s.control.index()] = s.control.toQ(s.startValue);
         long t0 = System.nanoTime();
+        if (s.control.index() < s.sm.reduced.originalParameterCount()) {
+            // A model parameter is varied: reduce by the laws of the active network (see ActiveNetwork). Totals
+            // and init: controls keep the stoichiometric laws, whose numbering they refer to.
+            double[] pr = s.pEff.clone();
+            pr[s.control.index()] = s.control.toQ(s.startValue);
+            ActiveNetwork net = ActiveNetwork.find(s.sm.compiled, pr, s.control.index(), s.control.toQ(from),
+                    s.control.toQ(to), ini[0], NETWORK_SEED);
+            double[] y = ini[0];
+            if (!net.isWholeNetwork()) {
+                s.sm = s.sm.withNetwork(net, y);
+                s.q = s.sm.reduced.parameters(ini[1], y);
+            }
+            s.timing[2] += (System.nanoTime() - t0) * 1e-9;
+            t0 = System.nanoTime();
+            // Rule 4 of ActiveNetwork: at the state the dynamics relax to, hold species whose influence is below
+            // rounding, and repeat (holding one pool can leave its exchange partners numerically passive).
+            for (int round = 0; round < MAX_FREEZE_ROUNDS && s.sm.reduced.stateCount() > 0; round++) {
+                s.q[s.control.index()] = s.control.toQ(s.startValue);
+                double[] xr = SteadyStateSolver.defaults().relax(s.sm.reduced, s.sm.reduced.reducedState(y), s.q);
+                y = s.sm.reduced.fullState(xr, s.q);
+                int[] weak = ActiveNetwork.numericallyPassive(s.sm.reduced, xr, s.q);
+                if (weak.length == 0) {
+                    break;
+                }
+                net = net.withFrozen(weak);
+                s.sm = s.sm.withNetwork(net, y);
+                s.q = s.sm.reduced.parameters(ini[1], y);
+            }
+            s.startState = y;
+        }
+        s.timing[2] += (System.nanoTime() - t0) * 1e-9;
+        s.q[s.control.index()] = s.control.toQ(s.startValue);
+        t0 = System.nanoTime();
         try {
-            s.x = s.sm.steadyState(s.sm.reduced.reducedState(ini[0]), s.q, s.pEff);
+            s.x = s.sm.steadyState(s.sm.reduced.reducedState(s.startState), s.q, s.pEff);
         } catch (ContinuationException e) {
             throw new UserInputException(SourceLocation.ofFile(modelFile.toString()), String.format(Locale.ROOT,
                     "no steady state found at %s = %.6g (%s); check the range --from/--to and the --set values, "
@@ -84,13 +128,23 @@ final class SwitchSetup {
 
     /** Both-direction branch from the start, with user-facing errors. */
     Branch branch(Start s, ContinuationSettings cs) {
+        return branch(s.sm.reduced, s.x, s.q, s.control.index(), cs);
+    }
+
+    /** Both-direction branch of a (scaled) system from (x, q) in parameter k, with user-facing errors. */
+    Branch branch(OdeSystem sys, double[] x, double[] q, int k, ContinuationSettings cs) {
         try {
-            return new PseudoArclength(cs).trace(s.sm.reduced, s.x, s.q, s.control.index());
+            return new PseudoArclength(cs).trace(sys, x, q, k);
         } catch (ContinuationException e) {
             throw new UserInputException(SourceLocation.ofFile(modelFile.toString()), String.format(Locale.ROOT,
                     "continuation in %s over [%.6g, %.6g] failed: %s; try a narrower range or other --set values",
                     vary, from, to, e.getMessage()));
         }
+    }
+
+    /** Whether the continuation's Newton and tangent solves use the sparse LU for this system's Jacobian. */
+    static boolean usesSparseLu(OdeSystem sys) {
+        return LuSolvers.useSparse(sys.stateCount(), sys.jacobianPattern());
     }
 
     static void checkRange(String lo, String hi, double a, double b) {

@@ -22,7 +22,7 @@ import org.switchfit.ode.OdeSystem;
  *
  * <p>Which species end up dependent depends on the column order of the elimination. To obtain laws with
  * non-negative coefficients where possible (moiety totals such as E + ES), up to 32 species orders are tried
- * (natural, reversed, seeded shuffles) and the basis with the fewest negative coefficients is kept; every
+ * (natural, reversed, seeded shuffles; natural and reversed only above 100 species) and the basis with the fewest negative coefficients is kept; every
  * candidate is an exact basis, so this only affects readability and the choice of reduced states.
  *
  * <p>Entries given as doubles must be rationals with denominator at most 10^6 (continued-fraction recovery to
@@ -32,6 +32,8 @@ import org.switchfit.ode.OdeSystem;
  */
 public final class ConservationLaws {
     private static final long MAX_DENOMINATOR = 1_000_000L;
+    /** Species count above which only two elimination orders are tried. */
+    private static final int LARGE_NETWORK = 100;
 
     private final int speciesCount;
     private final long[][] laws;
@@ -75,6 +77,41 @@ public final class ConservationLaws {
      * @throws IllegalArgumentException when an entry is not finite or not a rational with denominator at most 10^6
      */
     public static ConservationLaws of(double[][] stoich) {
+        return fromTransposed(transposed(stoich), stoich.length, stoich[0].length);
+    }
+
+    /**
+     * Laws of a stoichiometry matrix (as {@link #of(double[][])}) with the most abundant species of each law made
+     * dependent: the elimination runs over the species in order of increasing |abundance|, so the least abundant
+     * become pivots (independent states) and each law eliminates a large pool. This keeps the reduced Jacobian
+     * well scaled when a large pool exchanges only with tiny complexes (its own row and column would otherwise
+     * hold only terms proportional to those complexes, ~1e-40 in stiff signalling models at steady state).
+     *
+     * @param abundance one value per species, e.g. the start state
+     */
+    public static ConservationLaws of(double[][] stoich, double[] abundance) {
+        int n = stoich.length;
+        if (abundance.length != n) {
+            throw new IllegalArgumentException(String.format(Locale.ROOT,
+                    "%d abundances for %d species", abundance.length, n));
+        }
+        BigInteger[][] a = dropZeroColumns(transposed(stoich));
+        Integer[] idx = new Integer[n];
+        for (int i = 0; i < n; i++) {
+            idx[i] = i;
+        }
+        java.util.Arrays.sort(idx, (x, y) -> {
+            int c = Double.compare(Math.abs(abundance[x]), Math.abs(abundance[y]));
+            return c != 0 ? c : Integer.compare(x, y);
+        });
+        int[] order = new int[n];
+        for (int i = 0; i < n; i++) {
+            order[i] = idx[i];
+        }
+        return eliminate(a, n, a.length, order);
+    }
+
+    private static BigInteger[][] transposed(double[][] stoich) {
         int n = stoich.length;
         if (n == 0) {
             throw new IllegalArgumentException("stoichiometry matrix has no species rows");
@@ -100,7 +137,7 @@ public final class ConservationLaws {
                 a[j][i] = BigInteger.valueOf(num[i]).multiply(lcm.divide(BigInteger.valueOf(den[i])));
             }
         }
-        return fromTransposed(a, n, r);
+        return a;
     }
 
     /** Continued-fraction recovery of p/q with q <= 10^6 and double(p/q) within 2 ulp of x. */
@@ -147,11 +184,16 @@ public final class ConservationLaws {
      * reproducible) and keeps the basis with the fewest negative coefficients, then the smallest largest
      * |coefficient|, then the earliest tried. Stops at the first basis with no negative coefficient.
      */
-    private static ConservationLaws fromTransposed(BigInteger[][] a, int n, int r) {
+    private static ConservationLaws fromTransposed(BigInteger[][] full, int n, int rAll) {
+        BigInteger[][] a = dropZeroColumns(full);
+        int r = a.length;
         ConservationLaws best = null;
         long[] bestScore = null;
         java.util.SplittableRandom rng = new java.util.SplittableRandom(20261202L);
-        for (int attempt = 0; attempt < 32; attempt++) {
+        // Each attempt is a full BigInteger elimination (about 1 s for 500 species x 800 reactions), so large
+        // networks try the natural and reversed orders only.
+        int attempts = n > LARGE_NETWORK ? 2 : 32;
+        for (int attempt = 0; attempt < attempts; attempt++) {
             int[] order = new int[n];
             for (int i = 0; i < n; i++) {
                 order[i] = attempt == 1 ? n - 1 - i : i;
@@ -187,6 +229,23 @@ public final class ConservationLaws {
             }
         }
         return best;
+    }
+
+    /**
+     * Rows of N^T (reactions) that are all zero, e.g. switched off by {@link ActiveNetwork#mask}, do not change the
+     * left null space; dropping them keeps the elimination proportional to the reactions that act.
+     */
+    private static BigInteger[][] dropZeroColumns(BigInteger[][] full) {
+        List<BigInteger[]> keep = new ArrayList<>();
+        for (BigInteger[] row : full) {
+            for (BigInteger x : row) {
+                if (x.signum() != 0) {
+                    keep.add(row);
+                    break;
+                }
+            }
+        }
+        return keep.toArray(new BigInteger[0][]);
     }
 
     /** Gauss-Jordan on the species columns in the given order; laws for the non-pivot species. */

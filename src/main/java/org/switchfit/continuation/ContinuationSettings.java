@@ -18,8 +18,10 @@ import java.util.Locale;
  * @param maxPoints         maximum points per direction
  * @param tolerance         relative Newton step tolerance of the corrector and of fold/Hopf refinement
  * @param maxCorrectorSteps Newton iterations per corrector
- * @param eigenvalueLimit   eigenvalues (stability, Hopf detection) computed when the system has at most this many
- *                          states; above it points carry unstableCount -1 and no Hopf points are detected
+ * @param eigenvalueLimit   all eigenvalues (stability, Hopf detection) computed when the system has at most this
+ *                          many states; above it, for a sparse Jacobian, the converged dominant eigenvalues of its
+ *                          Cayley transform ({@code CayleyArnoldi}: every unstable eigenvalue, plus some stable
+ *                          ones) give the stability; for a dense one points carry unstableCount -1
  */
 public record ContinuationSettings(double lowerBound, double upperBound, double initialStep, double minStep,
                                    double maxStep, int maxPoints, double tolerance, int maxCorrectorSteps,

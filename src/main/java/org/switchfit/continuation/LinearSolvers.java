@@ -1,12 +1,15 @@
 package org.switchfit.continuation;
 
+import org.switchfit.linalg.DenseLu;
 import org.switchfit.linalg.LuSolver;
 import org.switchfit.linalg.LuSolvers;
 
 /**
  * Chooses the {@link LinearSolver} implementation: the single place that decides dense versus sparse. Sparse
  * factorisations come from {@code org.switchfit.linalg} ({@link LuSolvers}, which applies its own size and
- * density thresholds); dense ones are {@link DenseLuSolver}.
+ * density thresholds); dense ones are {@link org.switchfit.linalg.DenseLu} with the exact-zero pivot test (rel = 0,
+ * see {@link org.switchfit.linalg.DenseLu#withPivotThreshold}), because Newton iterations here run next to
+ * singular Jacobians at folds and judge convergence by residuals.
  */
 final class LinearSolvers {
     private LinearSolvers() {
@@ -14,12 +17,12 @@ final class LinearSolvers {
 
     /** A dense solver for systems of order n (supports transposed solves). */
     static LinearSolver dense(int n) {
-        return new DenseLuSolver();
+        return new Dense(n);
     }
 
     /** A dense solver (no structure known). */
     static LinearSolver forSize(int n) {
-        return new DenseLuSolver();
+        return new Dense(n);
     }
 
     /**
@@ -28,7 +31,7 @@ final class LinearSolvers {
      */
     static LinearSolver forPattern(int n, int[][] pattern) {
         if (pattern == null || !LuSolvers.useSparse(n, pattern)) {
-            return new DenseLuSolver();
+            return new Dense(n);
         }
         return new Sparse(LuSolvers.create(n, pattern));
     }
@@ -39,6 +42,39 @@ final class LinearSolvers {
      */
     static boolean isSparse(int n, int[][] jacobianPattern) {
         return jacobianPattern != null && LuSolvers.useSparse(n, jacobianPattern);
+    }
+
+    /** Adapter over {@link DenseLu} (exact-zero pivot test); a new workspace when the order changes. */
+    private static final class Dense implements LinearSolver {
+        private DenseLu lu;
+
+        Dense(int n) {
+            this.lu = DenseLu.withPivotThreshold(n, 0.0);
+        }
+
+        @Override
+        public boolean factor(double[] a, int n) {
+            if (n != lu.size()) {
+                lu = DenseLu.withPivotThreshold(n, 0.0);
+            }
+            return lu.factor(a);
+        }
+
+        @Override
+        public void solve(double[] b, double[] x) {
+            if (b != x) {
+                System.arraycopy(b, 0, x, 0, lu.size());
+            }
+            lu.solve(x);
+        }
+
+        @Override
+        public void solveTransposed(double[] b, double[] x) {
+            if (b != x) {
+                System.arraycopy(b, 0, x, 0, lu.size());
+            }
+            lu.solveTransposed(x);
+        }
     }
 
     /** Adapter over a linalg LU; no transposed solve. */

@@ -235,17 +235,75 @@ public final class PseudoArclength {
     private BranchPoint makePoint(EquilibriumProblem prob, double[] u, double[] t, double s) {
         int n = prob.n;
         double[] y = java.util.Arrays.copyOf(u, n);
-        if (n > settings.eigenvalueLimit()) {
-            return new BranchPoint(u[n], y, -1, new double[0], new double[0], t[n], s);
-        }
         double[] jac = new double[n * n];
+        if (n > settings.eigenvalueLimit()) {
+            int[][] pattern = prob.sys.jacobianPattern();
+            if (!LinearSolvers.isSparse(n, pattern)) {
+                return new BranchPoint(u[n], y, -1, new double[0], new double[0], t[n], s);
+            }
+            sysJacobian(prob, u, jac);
+            double[][] partial = dominantSpectrum(jac, n, pattern);
+            if (partial == null) {
+                return new BranchPoint(u[n], y, -1, new double[0], new double[0], t[n], s);
+            }
+            return new BranchPoint(u[n], y, Spectrum.unstableCount(partial[0], jac, n), partial[0], partial[1], t[n],
+                    s);
+        }
         sysJacobian(prob, u, jac);
         double[] re = new double[n];
         double[] im = new double[n];
         if (!Spectrum.compute(jac, n, re, im)) {
             return new BranchPoint(u[n], y, -1, new double[0], new double[0], t[n], s);
         }
-        return new BranchPoint(u[n], y, Spectrum.unstableCount(re), re, im, t[n], s);
+        return new BranchPoint(u[n], y, Spectrum.unstableCount(re, jac, n), re, im, t[n], s);
+    }
+
+    /** First Krylov dimension of {@link #dominantSpectrum} (doubled up to twice when not converged). */
+    private static final int ARNOLDI_STEPS = 40;
+
+    /**
+     * The converged dominant eigenvalues of the Cayley transform of a large sparse J ({@link CayleyArnoldi}, σ =
+     * mean |J_ii| over non-zero diagonal entries): every eigenvalue with positive real part is among them once the
+     * dominant one has converged. Returns {re, im} sorted by decreasing real part, or null when the dominant Ritz
+     * value has not converged (residual above 1e-8 |μ|).
+     */
+    static double[][] dominantSpectrum(double[] jac, int n, int[][] pattern) {
+        double sum = 0;
+        int cnt = 0;
+        for (int i = 0; i < n; i++) {
+            double d = Math.abs(jac[i * n + i]);
+            if (d > 0 && Double.isFinite(d)) {
+                sum += d;
+                cnt++;
+            }
+        }
+        double sigma = cnt > 0 ? sum / cnt : 1;
+        CayleyArnoldi.Result r = null;
+        for (int m = ARNOLDI_STEPS; r == null && m <= 4 * ARNOLDI_STEPS; m *= 2) {
+            r = CayleyArnoldi.compute(jac, n, pattern, sigma, Math.min(n, m));
+            if (r != null && (r.re().length == 0 || !(r.residual()[0] <= 1e-8 * r.muAbs()[0]))) {
+                r = m >= n ? r : null; // not converged: retry with a larger Krylov space
+            }
+        }
+        if (r == null || r.re().length == 0 || !(r.residual()[0] <= 1e-8 * r.muAbs()[0])) {
+            return null;
+        }
+        java.util.List<double[]> ok = new ArrayList<>();
+        for (int k = 0; k < r.re().length; k++) {
+            if (r.residual()[k] <= 1e-8 * r.muAbs()[k]) {
+                ok.add(new double[] {r.re()[k], r.im()[k]});
+            }
+        }
+        ok.sort((a, b) -> {
+            int c = Double.compare(b[0], a[0]);
+            return c != 0 ? c : Double.compare(b[1], a[1]);
+        });
+        double[][] out = new double[2][ok.size()];
+        for (int k = 0; k < ok.size(); k++) {
+            out[0][k] = ok.get(k)[0];
+            out[1][k] = ok.get(k)[1];
+        }
+        return out;
     }
 
     private static void sysJacobian(EquilibriumProblem prob, double[] u, double[] jac) {

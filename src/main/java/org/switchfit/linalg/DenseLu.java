@@ -8,29 +8,50 @@ package org.switchfit.linalg;
  * right-looking Doolittle elimination (Golub &amp; Van Loan, Matrix Computations, 4th ed., 2013, Alg. 3.4.1) in
  * k-i-j loop order so the inner loop runs over contiguous memory.
  *
- * <p>Singularity: a pivot with |u_kk| &lt;= {@link LinalgThresholds#SINGULAR_REL} * n * max|a_ij| counts as zero.
+ * <p>Singularity: a pivot with |u_kk| &lt;= rel * n * max|a_ij| counts as zero, with rel =
+ * {@link LinalgThresholds#SINGULAR_REL} by default ({@link #DenseLu(int)}). Newton iterations next to singular
+ * matrices (continuation through folds, where the Jacobian is singular at the fold itself and the bordered
+ * systems are regular but badly scaled) use rel = 0 ({@link #withPivotThreshold}): only exactly zero or
+ * non-finite pivots count as singular, and the caller judges the result by its residual.
  *
- * <p>Not thread-safe. After construction, {@link #factor}, {@link #factorIdentityMinus} and {@link #solve}
- * allocate nothing.
+ * <p>Not thread-safe. After construction, {@link #factor}, {@link #factorIdentityMinus}, {@link #solve} and
+ * {@link #solveTransposed} allocate nothing.
  */
 public final class DenseLu implements LuSolver {
 
     private final int n;
+    private final double singularRel;
     private final double[] lu;
     private final int[] perm;
     private final int[] swaps;
     private boolean singular = true;
     private int sign = 1;
 
-    /** Creates a workspace for n x n matrices. */
+    /** Creates a workspace for n x n matrices with the default pivot threshold. */
     public DenseLu(int n) {
+        this(n, LinalgThresholds.SINGULAR_REL);
+    }
+
+    private DenseLu(int n, double singularRel) {
         if (n < 0) {
             throw new IllegalArgumentException("dimension must be >= 0, got " + n);
         }
+        if (!(singularRel >= 0)) {
+            throw new IllegalArgumentException("pivot threshold must be >= 0, got " + singularRel);
+        }
         this.n = n;
+        this.singularRel = singularRel;
         this.lu = new double[n * n];
         this.perm = new int[n];
         this.swaps = new int[n];
+    }
+
+    /**
+     * A workspace for n x n matrices whose pivots count as zero when |u_kk| &lt;= rel * n * max|a_ij|
+     * (rel = 0: exactly zero pivots only).
+     */
+    public static DenseLu withPivotThreshold(int n, double rel) {
+        return new DenseLu(n, rel);
     }
 
     @Override
@@ -79,7 +100,7 @@ public final class DenseLu implements LuSolver {
             singular = true;
             return false;
         }
-        double tiny = LinalgThresholds.SINGULAR_REL * Math.max(n, 1) * maxAbs;
+        double tiny = singularRel * Math.max(n, 1) * maxAbs;
         for (int i = 0; i < n; i++) {
             perm[i] = i;
         }
@@ -159,6 +180,44 @@ public final class DenseLu implements LuSolver {
                 s -= lu[ri + j] * b[j];
             }
             b[i] = s / lu[ri + i];
+        }
+    }
+
+    /**
+     * Solves A^T x = b with the last factored A, in place. With P A = L U, A^T = U^T L^T P: solves U^T z = b,
+     * then L^T w = z, then x = P^T w.
+     *
+     * @param b right-hand side on entry (length n), solution on exit
+     * @throws IllegalStateException when no successful factorisation is held
+     */
+    public void solveTransposed(double[] b) {
+        if (singular) {
+            throw new IllegalStateException("no valid LU factorisation held (singular or not factored)");
+        }
+        final int n = this.n;
+        final double[] lu = this.lu;
+        for (int i = 0; i < n; i++) {
+            double s = b[i];
+            for (int j = 0; j < i; j++) {
+                s -= lu[j * n + i] * b[j];
+            }
+            b[i] = s / lu[i * n + i];
+        }
+        for (int i = n - 1; i >= 0; i--) {
+            double s = b[i];
+            for (int j = i + 1; j < n; j++) {
+                s -= lu[j * n + i] * b[j];
+            }
+            b[i] = s;
+        }
+        // x = P^T w: undo the row interchanges in reverse order.
+        for (int k = n - 1; k >= 0; k--) {
+            int p = swaps[k];
+            if (p != k) {
+                double t = b[k];
+                b[k] = b[p];
+                b[p] = t;
+            }
         }
     }
 
