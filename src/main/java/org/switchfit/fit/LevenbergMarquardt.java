@@ -1,6 +1,7 @@
 package org.switchfit.fit;
 
 import java.util.Locale;
+import org.switchfit.objective.NoiseScale;
 import org.switchfit.objective.Objective;
 import org.switchfit.objective.ObjectiveException;
 
@@ -29,6 +30,8 @@ import org.switchfit.objective.ObjectiveException;
 public final class LevenbergMarquardt {
 
     private static final double ACCEPT_RATIO = 1e-4;
+    static final String XSCALE = System.getProperty("lm.scale", "cur");
+    static final String XSEC = System.getProperty("lm.sec", "on");
     private static final double LAMBDA_MAX = 1e20;
     private static final double LAMBDA_MIN = 1e-20;
 
@@ -38,15 +41,18 @@ public final class LevenbergMarquardt {
     private final double costTolerance;
     private final double stepTolerance;
     private final double initialDamping;
+    private final boolean secant;
+    private final boolean noiseUpdate = !"off".equals(System.getProperty("lm.noise", "off"));
 
     private LevenbergMarquardt(int maxIterations, int maxEvaluations, double gradientTolerance,
-                               double costTolerance, double stepTolerance, double initialDamping) {
+                               double costTolerance, double stepTolerance, double initialDamping, boolean secant) {
         this.maxIterations = maxIterations;
         this.maxEvaluations = maxEvaluations;
         this.gradientTolerance = gradientTolerance;
         this.costTolerance = costTolerance;
         this.stepTolerance = stepTolerance;
         this.initialDamping = initialDamping;
+        this.secant = secant;
     }
 
     /**
@@ -56,19 +62,19 @@ public final class LevenbergMarquardt {
      * initial λ 1e-3.
      */
     public static LevenbergMarquardt defaults() {
-        return new LevenbergMarquardt(1000, 5000, 1e-10, 1e-14, 1e-10, 1e-3);
+        return new LevenbergMarquardt(1000, 5000, 1e-10, 1e-14, 1e-10, 1e-3, !"off".equals(XSEC));
     }
 
     /** Limit on trial steps (accepted and rejected), n &gt; 0. */
     public LevenbergMarquardt withMaxIterations(int n) {
         return new LevenbergMarquardt(positive(n, "maxIterations"), maxEvaluations, gradientTolerance,
-                costTolerance, stepTolerance, initialDamping);
+                costTolerance, stepTolerance, initialDamping, secant);
     }
 
     /** Limit on objective evaluations, n &gt; 0. */
     public LevenbergMarquardt withMaxEvaluations(int n) {
         return new LevenbergMarquardt(maxIterations, positive(n, "maxEvaluations"), gradientTolerance,
-                costTolerance, stepTolerance, initialDamping);
+                costTolerance, stepTolerance, initialDamping, secant);
     }
 
     /**
@@ -78,19 +84,19 @@ public final class LevenbergMarquardt {
      */
     public LevenbergMarquardt withGradientTolerance(double tol) {
         return new LevenbergMarquardt(maxIterations, maxEvaluations, nonNegative(tol, "gradientTolerance"),
-                costTolerance, stepTolerance, initialDamping);
+                costTolerance, stepTolerance, initialDamping, secant);
     }
 
     /** Relative tolerance on the actual and predicted reduction of ½|r|² in one accepted step. */
     public LevenbergMarquardt withCostTolerance(double tol) {
         return new LevenbergMarquardt(maxIterations, maxEvaluations, gradientTolerance,
-                nonNegative(tol, "costTolerance"), stepTolerance, initialDamping);
+                nonNegative(tol, "costTolerance"), stepTolerance, initialDamping, secant);
     }
 
     /** Relative tolerance on the length of an accepted step: |s| ≤ tol·(tol + |θ|). */
     public LevenbergMarquardt withStepTolerance(double tol) {
         return new LevenbergMarquardt(maxIterations, maxEvaluations, gradientTolerance, costTolerance,
-                nonNegative(tol, "stepTolerance"), initialDamping);
+                nonNegative(tol, "stepTolerance"), initialDamping, secant);
     }
 
     /** Initial λ relative to the column scaling D², λ &gt; 0. */
@@ -99,7 +105,17 @@ public final class LevenbergMarquardt {
             throw new IllegalArgumentException("initialDamping must be > 0, got " + lambda);
         }
         return new LevenbergMarquardt(maxIterations, maxEvaluations, gradientTolerance, costTolerance,
-                stepTolerance, lambda);
+                stepTolerance, lambda, secant);
+    }
+
+    /**
+     * Whether to use the augmented model {@code JᵀJ + S} with the secant approximation S of the second-order term
+     * ({@link SecantModel}) when it predicted the last step better than Gauss-Newton (the model switch of Dennis,
+     * Gay and Welsch 1981); false keeps plain Gauss-Newton models.
+     */
+    public LevenbergMarquardt withSecantModel(boolean on) {
+        return new LevenbergMarquardt(maxIterations, maxEvaluations, gradientTolerance, costTolerance,
+                stepTolerance, initialDamping, on);
     }
 
     /** The iteration limit. */
@@ -129,6 +145,7 @@ public final class LevenbergMarquardt {
         final int n;
         final int m;
         final int[] free;
+        final java.util.List<NoiseScale> scales;
         final double[] lo;
         final double[] hi;
         double[] x;
@@ -140,6 +157,7 @@ public final class LevenbergMarquardt {
         int jevals;
         int iters;
         boolean lastTrialProjected;
+        boolean lastTrialAugmented;
 
         Run(FitProblem problem, double[] start) {
             this.problem = problem;
@@ -160,6 +178,7 @@ public final class LevenbergMarquardt {
             lo = problem.lower();
             hi = problem.upper();
             x = problem.clamp(start);
+            scales = obj.noiseScales();
         }
 
         LocalFit solve() {
@@ -167,15 +186,20 @@ public final class LevenbergMarquardt {
             jac = new double[m * n];
             nll = evalStrict(x, r, jac);
             cost = halfSquare(r);
+            updateNoiseScales();
             int w0 = free.length;
             double[] d = new double[w0];
             double[] g = new double[n];
+            double[] gNew = new double[n];
+            double[] ySharp = new double[n];
             double lambda = initialDamping;
             double nu = 2.0;
             double[] rTrial = new double[m];
+            SecantModel sec = secant ? new SecantModel(n) : null;
+            boolean augmented = false;
             Termination why = null;
+            gradient(g, r, jac);
             while (why == null) {
-                gradient(g);
                 updateScaling(d);
                 if (cost == 0.0) {
                     why = Termination.ZERO_RESIDUAL;
@@ -201,7 +225,7 @@ public final class LevenbergMarquardt {
                         break;
                     }
                     iters++;
-                    double[] xt = trialPoint(work, d, lambda);
+                    double[] xt = trialPoint(work, d, lambda, g, augmented ? sec : null);
                     boolean projected = lastTrialProjected;
                     double[] s = new double[n];
                     double sNorm2 = 0;
@@ -209,7 +233,9 @@ public final class LevenbergMarquardt {
                         s[k] = xt[k] - x[k];
                         sNorm2 += s[k] * s[k];
                     }
-                    double pred = predictedReduction(s);
+                    double predGn = predictedReduction(s);
+                    double predAug = sec == null ? predGn : predGn - 0.5 * sec.quadratic(s);
+                    double pred = lastTrialAugmented ? predAug : predGn;
                     // The minimiser of the damped linear model gains nothing measurable (More 1978, predicted-
                     // reduction test; pred may round to <= 0 at the optimum): take that last step if it does not
                     // raise the cost, then stop.
@@ -240,8 +266,25 @@ public final class LevenbergMarquardt {
                     }
                     double oldCost = cost;
                     double xNorm = norm(x);
+                    double[] jOld = jac;
                     if (finite && rho > ACCEPT_RATIO && accept(xt)) {
                         accepted = true;
+                        gradient(gNew, r, jac);
+                        if (sec != null) {
+                            // Model switch of Dennis, Gay and Welsch (1981): next time use the model whose
+                            // predicted reduction came closer to the actual one.
+                            augmented = Math.abs(predAug - actual) < Math.abs(predGn - actual);
+                            gradient(ySharp, r, jOld);
+                            for (int k = 0; k < n; k++) {
+                                ySharp[k] = gNew[k] - ySharp[k];
+                                g[k] = gNew[k] - g[k];
+                            }
+                            sec.update(s, g, ySharp);
+                        }
+                        if (updateNoiseScales()) {
+                            gradient(gNew, r, jac);
+                        }
+                        System.arraycopy(gNew, 0, g, 0, n);
                         double t = 2 * rho - 1;
                         lambda = Math.max(LAMBDA_MIN, lambda * Math.max(1.0 / 3.0, 1 - t * t * t));
                         nu = 2;
@@ -263,7 +306,7 @@ public final class LevenbergMarquardt {
                     }
                 }
             }
-            gradient(g);
+            gradient(g, r, jac);
             double pgNorm = projectedGradientNorm(g);
             if (why != Termination.ZERO_RESIDUAL && scaledProjectedGradient(g, d) <= gradientTolerance) {
                 why = Termination.GRADIENT;
@@ -273,6 +316,70 @@ public final class LevenbergMarquardt {
                 active[k] = x[k] <= lo[k] ? -1 : (x[k] >= hi[k] ? 1 : 0);
             }
             return new LocalFit(x, nll, why, iters, evals, jevals, pgNorm, active);
+        }
+
+        /**
+         * Moves every free {@link NoiseScale} parameter to its conditional optimum σ² = Σ d_i² / N (clamped into
+         * its bounds; the NLL is convex in ln σ, so the clamped value is the box optimum) and rescales its residual
+         * and Jacobian rows accordingly, without a new evaluation: d_i / σ scales by σ_old / σ_new, the log rows
+         * become sqrt(r² + 2 ln(σ_new / σ_old)). Never raises the cost.
+         *
+         * @return true when any parameter moved
+         */
+        private boolean updateNoiseScales() {
+            if (!noiseUpdate || scales.isEmpty()) {
+                return false;
+            }
+            boolean moved = false;
+            for (NoiseScale ns : scales) {
+                int k = ns.parameter();
+                if (problem.isFixed(k)) {
+                    continue;
+                }
+                int[] dr = ns.dataRows();
+                int[] lr = ns.logRows();
+                double sOld = ns.sigma(x[k]);
+                double ssr = 0;
+                for (int i : dr) {
+                    double v = r[i] * sOld;
+                    ssr += v * v;
+                }
+                if (!(ssr > 0) || lr.length == 0 || !Double.isFinite(ssr)) {
+                    continue;
+                }
+                double tNew = Math.min(hi[k], Math.max(lo[k], ns.theta(Math.sqrt(ssr / lr.length))));
+                double sNew = ns.sigma(tNew);
+                double lnRatio = Math.log(sNew / sOld);
+                boolean real = Double.isFinite(tNew) && tNew != x[k];
+                for (int i : lr) {
+                    real &= r[i] * r[i] + 2 * lnRatio > 0;
+                }
+                if (!real) {
+                    continue;
+                }
+                double f = sOld / sNew;
+                double dl = ns.logDerivative(tNew);
+                for (int i : dr) {
+                    r[i] *= f;
+                    int base = i * n;
+                    for (int c = 0; c < n; c++) {
+                        jac[base + c] *= f;
+                    }
+                    jac[base + k] = -r[i] * dl;
+                }
+                for (int i : lr) {
+                    r[i] = Math.sqrt(r[i] * r[i] + 2 * lnRatio);
+                    jac[i * n + k] = dl / r[i];
+                }
+                x[k] = tNew;
+                moved = true;
+            }
+            if (moved) {
+                double c = halfSquare(r);
+                nll += c - cost;
+                cost = c;
+            }
+            return moved;
         }
 
         /**
@@ -324,7 +431,7 @@ public final class LevenbergMarquardt {
         }
 
         /** g = Jᵀ r over all parameters. */
-        private void gradient(double[] g) {
+        private void gradient(double[] g, double[] r, double[] jac) {
             java.util.Arrays.fill(g, 0.0);
             for (int i = 0; i < m; i++) {
                 double ri = r[i];
@@ -344,7 +451,7 @@ public final class LevenbergMarquardt {
                     s += v * v;
                 }
                 s = Math.sqrt(s);
-                d[f] = Math.max(d[f], s);
+                d[f] = XSCALE.equals("cur") ? s : Math.max(d[f], s);
             }
         }
 
@@ -369,7 +476,8 @@ public final class LevenbergMarquardt {
             double mx = 0;
             for (int f = 0; f < free.length; f++) {
                 int k = free[f];
-                double p = Math.abs(x[k] - Math.min(hi[k], Math.max(lo[k], x[k] - g[k])));
+                boolean held = (x[k] <= lo[k] && g[k] > 0) || (x[k] >= hi[k] && g[k] < 0);
+                double p = held ? 0.0 : Math.abs(g[k]);
                 if (p > 0) {
                     mx = Math.max(mx, d[f] > 0 ? p / (d[f] * rn) : Double.POSITIVE_INFINITY);
                 }
@@ -391,24 +499,54 @@ public final class LevenbergMarquardt {
             return java.util.Arrays.copyOf(tmp, c);
         }
 
-        private double[] trialPoint(int[] work, double[] d, double lambda) {
+        /**
+         * The projected trial point P(θ + δ) with δ from the damped model on the working set: Gauss-Newton by QR
+         * ({@link DampedLeastSquares#solve}), or, when {@code sec} is given, the augmented model
+         * {@code (J_WᵀJ_W + S_WW + λ D_W²) δ = -g_W} by Cholesky, falling back to Gauss-Newton when that matrix
+         * is not positive definite.
+         */
+        private double[] trialPoint(int[] work, double[] d, double lambda, double[] g, SecantModel sec) {
             int w = work.length;
-            double[] a = new double[m * w];
-            for (int i = 0; i < m; i++) {
-                for (int j = 0; j < w; j++) {
-                    a[i * w + j] = jac[i * n + free[work[j]]];
-                }
-            }
             double[] diag = new double[w];
             for (int j = 0; j < w; j++) {
                 double dj = d[work[j]];
                 diag[j] = dj > 0 ? dj : 1.0;
             }
-            double[] b = new double[m];
-            for (int i = 0; i < m; i++) {
-                b[i] = -r[i];
+            double[] delta = null;
+            if (sec != null) {
+                double[] hm = new double[w * w];
+                double[] rhs = new double[w];
+                for (int a = 0; a < w; a++) {
+                    int ka = free[work[a]];
+                    rhs[a] = -g[ka];
+                    for (int b = 0; b <= a; b++) {
+                        int kb = free[work[b]];
+                        double e = 0;
+                        for (int i = 0; i < m; i++) {
+                            e += jac[i * n + ka] * jac[i * n + kb];
+                        }
+                        e += sec.get(ka, kb);
+                        hm[a * w + b] = e;
+                        hm[b * w + a] = e;
+                    }
+                    hm[a * w + a] += lambda * diag[a] * diag[a];
+                }
+                delta = DampedLeastSquares.solveSymmetric(hm, w, rhs);
             }
-            double[] delta = DampedLeastSquares.solve(a, m, w, b, diag, lambda);
+            lastTrialAugmented = delta != null;
+            if (delta == null) {
+                double[] a = new double[m * w];
+                for (int i = 0; i < m; i++) {
+                    for (int j = 0; j < w; j++) {
+                        a[i * w + j] = jac[i * n + free[work[j]]];
+                    }
+                }
+                double[] b = new double[m];
+                for (int i = 0; i < m; i++) {
+                    b[i] = -r[i];
+                }
+                delta = DampedLeastSquares.solve(a, m, w, b, diag, lambda);
+            }
             double[] xt = x.clone();
             lastTrialProjected = false;
             for (int j = 0; j < w; j++) {
