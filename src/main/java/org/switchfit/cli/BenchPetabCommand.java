@@ -59,6 +59,18 @@ public final class BenchPetabCommand implements Callable<Integer> {
             description = "seed of the uniform start points of --timing (default: ${DEFAULT-VALUE})")
     long seed;
 
+    @Option(names = "--rtol", paramLabel = "TOL", description = "relative integration tolerance of --timing"
+            + " (default: " + TIMING_RTOL + ")")
+    Double rtol;
+
+    @Option(names = "--atol", paramLabel = "TOL", description = "absolute integration tolerance of --timing"
+            + " (default: " + TIMING_ATOL + ")")
+    Double atol;
+
+    @Option(names = "--cost-tolerance", paramLabel = "TOL", description = "LM relative cost-change tolerance of"
+            + " --timing (default: " + TIMING_COST_TOLERANCE + ")")
+    Double costTolerance;
+
     @Override
     public Integer call() throws IOException {
         if (!Files.isDirectory(dir)) {
@@ -98,7 +110,9 @@ public final class BenchPetabCommand implements Callable<Integer> {
                     r.put("status", ok ? "match" : "mismatch");
                 }
                 if (timingStarts > 0) {
-                    timing(yaml, timingStarts, seed, r);
+                    timing(yaml, timingStarts, seed, rtol == null ? TIMING_RTOL : rtol,
+                            atol == null ? TIMING_ATOL : atol,
+                            costTolerance == null ? TIMING_COST_TOLERANCE : costTolerance, r);
                     out.printf(Locale.ROOT, "%-32s timing (1 thread): residuals %.4g ms CPU (%.4g ms wall), residuals"
                             + "+Jacobian %.4g ms CPU (%.4g ms wall), ratio %.2f%n", name,
                             1e3 * (double) r.get("cpuSecondsResiduals"), 1e3 * (double) r.get("secondsResiduals"),
@@ -168,9 +182,10 @@ public final class BenchPetabCommand implements Callable<Integer> {
      * per-start wall and CPU time (ThreadMXBean, less disturbed by other jobs on a shared machine), iterations,
      * the number of starts that reach the NLL at the nominal values + {@link #REACH_TOLERANCE}, and the best NLL.
      */
-    static void timing(Path yaml, int starts, long seed, Map<String, Object> r) {
+    static void timing(Path yaml, int starts, long seed, double rtolT, double atolT, double costTol,
+                       Map<String, Object> r) {
         LikelihoodObjective obj = LikelihoodObjective.of(org.switchfit.problem.ProblemLoader.load(yaml),
-                SolverSettings.defaults().withTolerances(TIMING_RTOL, TIMING_ATOL));
+                SolverSettings.defaults().withTolerances(rtolT, atolT));
         java.lang.management.ThreadMXBean mx = java.lang.management.ManagementFactory.getThreadMXBean();
         int np = obj.parameterCount();
         int nr = obj.residualCount();
@@ -200,7 +215,7 @@ public final class BenchPetabCommand implements Callable<Integer> {
         org.switchfit.fit.Multistart ms = org.switchfit.fit.Multistart.defaults().withStarts(starts).withSeed(seed)
                 .withSampling(org.switchfit.fit.StartSampling.UNIFORM)
                 .withOptimizer(org.switchfit.fit.LevenbergMarquardt.defaults()
-                        .withCostTolerance(TIMING_COST_TOLERANCE));
+                        .withCostTolerance(costTol));
         double[] wall = new double[starts];
         double[] cpu = new double[starts];
         double[] iters = new double[starts];
@@ -229,6 +244,9 @@ public final class BenchPetabCommand implements Callable<Integer> {
         r.put("cpuSecondsResidualsAndJacobian", withJacCpu);
         r.put("jacobianCostRatio", withJacCpu / plainCpu);
         r.put("timingStarts", starts);
+        r.put("timingRtol", rtolT);
+        r.put("timingAtol", atolT);
+        r.put("timingCostTolerance", costTol);
         r.put("timingSeed", seed);
         r.put("secondsPerStartMean", mean(wall));
         r.put("secondsPerStartMedian", median(wall));

@@ -194,59 +194,6 @@ final class ExperimentBlock implements ResidualBlock {
         return lower > 0 ? Math.max(1.0, 1.0 - 2.0 * Math.log(lower)) : SIGMA_SHIFT;
     }
 
-    /**
-     * θ index j when the spread of row i is exactly the linear value of θ_j (normal noise, noise formula a single
-     * placeholder or global bound to θ_j), else -1.
-     */
-    private int sigmaTheta(Measurement me, ObservableDef od) {
-        if (od.noise() != ObservableDef.Noise.NORMAL || Double.isFinite(me.fixedSigma())
-                || od.sigma().op() != org.switchfit.expr.Op.PARAM || od.sigma().index() < m) {
-            return -1;
-        }
-        int k = od.sigma().index();
-        int oOff = problem.obsPlaceholderOffset();
-        int nOff = problem.noisePlaceholderOffset();
-        ValueSource src = k < oOff ? problem.globalSources().get(k - m)
-                : k < nOff ? me.obsParameters().get(k - oOff) : me.noiseParameters().get(k - nOff);
-        return src.isTheta() ? src.thetaIndex() : -1;
-    }
-
-    /**
-     * Collects the rows of this block whose σ is exactly θ_j (global indices, block at {@code offset}).
-     *
-     * @return false when θ_j enters this block in any other way (model parameter, observable parameter, part of a
-     *         noise formula that is not θ_j alone)
-     */
-    boolean noiseScaleRows(int j, int offset, List<Integer> data, List<Integer> log) {
-        if (colOf[j] >= 0) {
-            return false;
-        }
-        int nOff = problem.noisePlaceholderOffset();
-        for (int i = 0; i < rows.length; i++) {
-            Measurement me = problem.measurements().get(rows[i]);
-            ObservableDef od = problem.observables().get(me.observable());
-            for (ValueSource v : me.obsParameters()) {
-                if (v.isTheta() && v.thetaIndex() == j) {
-                    return false;
-                }
-            }
-            boolean inNoise = false;
-            for (ValueSource v : me.noiseParameters()) {
-                inNoise |= v.isTheta() && v.thetaIndex() == j;
-            }
-            boolean exact = sigmaVariable[i] && sigmaTheta(me, od) == j;
-            if (inNoise && (!exact || od.prediction().contains(e -> e.op() == org.switchfit.expr.Op.PARAM
-                    && e.index() >= nOff))) {
-                return false;
-            }
-            if (exact) {
-                data.add(offset + rowOffset[i]);
-                log.add(offset + rowOffset[i] + 1);
-            }
-        }
-        return true;
-    }
-
     /** σ when it is a constant for this row, else NaN. */
     private double constantSigma(Measurement me, ObservableDef od) {
         if (Double.isFinite(me.fixedSigma())) {

@@ -21,7 +21,6 @@ public final class LikelihoodObjective implements Objective {
     private final int size;
     private final double constant;
     private final int priorBlock;
-    private final List<NoiseScale> noiseScales;
 
     private LikelihoodObjective(EstimationProblem problem, List<ResidualBlock> blocks, int priorBlock) {
         this.problem = problem;
@@ -37,44 +36,6 @@ public final class LikelihoodObjective implements Objective {
         this.size = off;
         this.constant = c;
         this.priorBlock = priorBlock;
-        this.noiseScales = findNoiseScales();
-    }
-
-    /** Parameters that are pure noise spreads (see {@link NoiseScale}); none when callers added blocks. */
-    private List<NoiseScale> findNoiseScales() {
-        List<NoiseScale> out = new ArrayList<>();
-        if (blocks.size() != priorBlock + 1) {
-            return List.of();
-        }
-        for (int j = 0; j < problem.parameterCount(); j++) {
-            org.switchfit.problem.FreeParameter fp = problem.parameters().get(j);
-            if (fp.prior() != null) {
-                continue;
-            }
-            boolean global = false;
-            for (org.switchfit.problem.ValueSource v : problem.globalSources()) {
-                global |= v.isTheta() && v.thetaIndex() == j;
-            }
-            if (global) {
-                continue;
-            }
-            List<Integer> data = new ArrayList<>();
-            List<Integer> log = new ArrayList<>();
-            boolean ok = true;
-            for (int b = 0; b < priorBlock && ok; b++) {
-                ok = ((ExperimentBlock) blocks.get(b)).noiseScaleRows(j, offsets[b], data, log);
-            }
-            if (ok && !data.isEmpty()) {
-                out.add(new NoiseScale(j, fp, data.stream().mapToInt(Integer::intValue).toArray(),
-                        log.stream().mapToInt(Integer::intValue).toArray()));
-            }
-        }
-        return List.copyOf(out);
-    }
-
-    @Override
-    public List<NoiseScale> noiseScales() {
-        return noiseScales;
     }
 
     /**

@@ -28,12 +28,4 @@ public interface Objective {
      * @throws ObjectiveException when the model cannot be evaluated at θ (integration failure, non-finite values)
      */
     double evaluate(double[] theta, double[] residuals, double[] jacobian);
-
-    /**
-     * Parameters that are pure noise spreads ({@link NoiseScale}), which an optimizer may set to their conditional
-     * optimum in closed form. Default: none (always safe; wrappers that change residuals must keep the default).
-     */
-    default java.util.List<NoiseScale> noiseScales() {
-        return java.util.List.of();
-    }
 }
