@@ -32,6 +32,11 @@ import org.switchfit.objective.ObjectiveException;
  * {@code JᵀJ + S} (solved by Cholesky of {@code J_WᵀJ_W + S_WW + λ D_W²}) for the next step whenever it predicted
  * the reduction of the last accepted step better than Gauss-Newton did; otherwise the QR Gauss-Newton step.
  *
+ * <p>The cost-change stop (actual and predicted relative reductions below the tolerance, Moré 1978) is taken only
+ * when the undamped Gauss-Newton step on the working set would not gain more than the tolerance either: after many
+ * rejections λ can be so large that the damped step gains nothing far from any optimum, and such runs now end as
+ * {@link Termination#NO_PROGRESS} instead of claiming convergence.
+ *
  * <p>Stationarity is measured by the projected gradient {@code θ - P(θ - g)}, which vanishes at a local optimum
  * on the box even when g itself does not (optimum on a bound).
  *
@@ -166,6 +171,7 @@ public final class LevenbergMarquardt {
         int iters;
         boolean lastTrialProjected;
         boolean lastTrialAugmented;
+        double lastPotential;
 
         Run(FitProblem problem, double[] start) {
             this.problem = problem;
@@ -242,10 +248,11 @@ public final class LevenbergMarquardt {
                     double predGn = predictedReduction(s);
                     double predAug = sec == null ? predGn : predGn - 0.5 * sec.quadratic(s);
                     double pred = lastTrialAugmented ? predAug : predGn;
+                    lastPotential = Double.NaN;
                     // The minimiser of the damped linear model gains nothing measurable (More 1978, predicted-
                     // reduction test; pred may round to <= 0 at the optimum): take that last step if it does not
                     // raise the cost, then stop.
-                    boolean converging = !projected && pred <= costTolerance * cost;
+                    boolean converging = !projected && pred <= costTolerance * cost && !gainPossible(work, d);
                     if (!converging && (!(pred > 0) || sNorm2 == 0.0)) {
                         lambda *= nu;
                         nu *= 2;
@@ -272,6 +279,9 @@ public final class LevenbergMarquardt {
                     }
                     double oldCost = cost;
                     double xNorm = norm(x);
+                    if (Math.abs(actual) <= costTolerance * oldCost && pred <= costTolerance * oldCost) {
+                        lastPotential = potentialReduction(work, d);
+                    }
                     double[] jOld = jac;
                     if (finite && rho > ACCEPT_RATIO && accept(xt)) {
                         accepted = true;
@@ -292,13 +302,13 @@ public final class LevenbergMarquardt {
                         lambda = Math.max(LAMBDA_MIN, lambda * Math.max(1.0 / 3.0, 1 - t * t * t));
                         nu = 2;
                         if (Math.abs(actual) <= costTolerance * oldCost && pred <= costTolerance * oldCost
-                                && rho <= 2) {
+                                && rho <= 2 && !gainPossibleAt(oldCost, lastPotential)) {
                             why = Termination.COST_CHANGE;
                         } else if (rho > 0.25 && Math.sqrt(sNorm2) <= stepTolerance * (stepTolerance + xNorm)) {
                             why = Termination.STEP_SIZE;
                         }
                     } else if (finite && Math.abs(actual) <= costTolerance * cost
-                            && pred <= costTolerance * cost) {
+                            && pred <= costTolerance * cost && !gainPossible(work, d)) {
                         // The linear model promises no relative gain above the tolerance and the trial confirms
                         // it (More 1978, test on actual and predicted reduction, applied to rejected trials too).
                         why = Termination.COST_CHANGE;
@@ -497,6 +507,47 @@ public final class LevenbergMarquardt {
                 lastTrialProjected |= xt[k] != v;
             }
             return xt;
+        }
+
+        /**
+         * The reduction of ½|r|² the undamped Gauss-Newton model promises on the working set (λ = 1e-20 for
+         * rank-deficient J). The cost-change tests compare the reduction of the damped step with the tolerance;
+         * after many rejected steps λ can be so large that this step is tiny far from any optimum, so those tests
+         * stop only when this undamped reduction is below the tolerance too.
+         */
+        private double potentialReduction(int[] work, double[] d) {
+            int w = work.length;
+            if (w == 0) {
+                return 0.0;
+            }
+            double[] a = new double[m * w];
+            for (int i = 0; i < m; i++) {
+                for (int j = 0; j < w; j++) {
+                    a[i * w + j] = jac[i * n + free[work[j]]];
+                }
+            }
+            double[] diag = new double[w];
+            double[] b = new double[m];
+            for (int j = 0; j < w; j++) {
+                diag[j] = d[work[j]] > 0 ? d[work[j]] : 1.0;
+            }
+            for (int i = 0; i < m; i++) {
+                b[i] = -r[i];
+            }
+            double[] delta = DampedLeastSquares.solve(a, m, w, b, diag, LAMBDA_MIN);
+            double[] s = new double[n];
+            for (int j = 0; j < w; j++) {
+                s[free[work[j]]] = delta[j];
+            }
+            return predictedReduction(s);
+        }
+
+        private boolean gainPossible(int[] work, double[] d) {
+            return gainPossibleAt(cost, potentialReduction(work, d));
+        }
+
+        private boolean gainPossibleAt(double c, double potential) {
+            return potential > costTolerance * c;
         }
 
         /** ½|r|² - ½|r + J s|². */
