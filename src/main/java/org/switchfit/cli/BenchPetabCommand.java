@@ -52,8 +52,24 @@ public final class BenchPetabCommand implements Callable<Integer> {
     boolean noCheck;
 
     @Option(names = "--timing", paramLabel = "STARTS", defaultValue = "0",
-            description = "time objective evaluations and this many single LM starts (rtol 1e-8, after warm-up)")
+            description = "time objective evaluations and this many single LM starts on one thread (after warm-up)")
     int timingStarts;
+
+    @Option(names = "--seed", paramLabel = "N", defaultValue = "1",
+            description = "seed of the uniform start points of --timing (default: ${DEFAULT-VALUE})")
+    long seed;
+
+    @Option(names = "--rtol", paramLabel = "TOL", description = "relative integration tolerance of --timing"
+            + " (default: " + TIMING_RTOL + ")")
+    Double rtol;
+
+    @Option(names = "--atol", paramLabel = "TOL", description = "absolute integration tolerance of --timing"
+            + " (default: " + TIMING_ATOL + ")")
+    Double atol;
+
+    @Option(names = "--cost-tolerance", paramLabel = "TOL", description = "LM relative cost-change tolerance of"
+            + " --timing (default: " + TIMING_COST_TOLERANCE + ")")
+    Double costTolerance;
 
     @Override
     public Integer call() throws IOException {
@@ -94,12 +110,22 @@ public final class BenchPetabCommand implements Callable<Integer> {
                     r.put("status", ok ? "match" : "mismatch");
                 }
                 if (timingStarts > 0) {
-                    timing(yaml, timingStarts, r);
-                    out.printf(Locale.ROOT, "%-32s timing: residuals %.4g s, residuals+Jacobian %.4g s, ratio %.2f;"
-                            + " %d LM starts: mean %.4g s (median %.4g s), mean %.1f iterations, best NLL %.6g%n",
-                            name, r.get("secondsResiduals"), r.get("secondsResidualsAndJacobian"),
-                            r.get("jacobianCostRatio"), timingStarts, r.get("secondsPerStartMean"),
-                            r.get("secondsPerStartMedian"), r.get("iterationsPerStartMean"), r.get("bestNllTiming"));
+                    timing(yaml, timingStarts, seed, rtol == null ? TIMING_RTOL : rtol,
+                            atol == null ? TIMING_ATOL : atol,
+                            costTolerance == null ? TIMING_COST_TOLERANCE : costTolerance, r);
+                    out.printf(Locale.ROOT, "%-32s timing (1 thread): residuals %.4g ms CPU (%.4g ms wall), residuals"
+                            + "+Jacobian %.4g ms CPU (%.4g ms wall), ratio %.2f%n", name,
+                            1e3 * (double) r.get("cpuSecondsResiduals"), 1e3 * (double) r.get("secondsResiduals"),
+                            1e3 * (double) r.get("cpuSecondsResidualsAndJacobian"),
+                            1e3 * (double) r.get("secondsResidualsAndJacobian"), r.get("jacobianCostRatio"));
+                    out.printf(Locale.ROOT, "%-32s %d LM starts (uniform, seed %d): per start median %.4g s CPU"
+                            + " (%.4g s wall), mean %.4g s CPU (%.4g s wall); iterations median %.1f, mean %.1f;"
+                            + " %d reached nominal NLL %.6g + %.1f; best NLL %.6g; %d failed%n", name, timingStarts,
+                            seed, r.get("cpuSecondsPerStartMedian"), r.get("secondsPerStartMedian"),
+                            r.get("cpuSecondsPerStartMean"), r.get("secondsPerStartMean"),
+                            r.get("iterationsPerStartMedian"), r.get("iterationsPerStartMean"),
+                            r.get("startsReachingNominal"), r.get("nominalNll"), REACH_TOLERANCE,
+                            r.get("bestNllTiming"), r.get("startsFailed"));
                 }
                 if (!noGradient) {
                     double err = gradientError(yaml, r);
@@ -110,6 +136,9 @@ public final class BenchPetabCommand implements Callable<Integer> {
                 r.put("reason", e.getClass().getSimpleName() + ": " + e.getMessage());
             }
             results.add(r);
+            if (noCheck && noGradient && !r.containsKey("reason")) {
+                continue;
+            }
             out.printf(Locale.ROOT, "%-32s %-9s nll=%-16s matched=%s/%s maxRel=%s grad=%s %s%s%n", name,
                     r.get("status"), fmt(r.get("nllAtNominal")), r.get("matched"), r.get("measurements"),
                     fmt(r.get("maxRelDeviation")), fmt(r.get("gradientRelError")), fmt(r.get("seconds")),
@@ -131,56 +160,122 @@ public final class BenchPetabCommand implements Callable<Integer> {
     }
 
     /**
-     * Times, after 10 warm-up evaluations: mean of 20 residual evaluations, mean of 20 residual + Jacobian
-     * evaluations at the nominal point, and single LM starts from Latin-hypercube points within the bounds (seed 1),
-     * one thread, rtol 1e-8, LM cost tolerance 1e-10 (the fit command's default).
+     * Relative integration tolerance of the timing runs: the value of the reference SciPy script the per-start
+     * time is compared with (issue 3), so both integrate to the same accuracy. With the sensitivities inside the
+     * error test it gives residuals and Jacobian to about 1e-7 relative, so the NLL (about 1e2 on Boehm) is exact to
+     * about 1e-5, far below the 0.1 at which a start counts as reaching the best value.
      */
-    static void timing(Path yaml, int starts, Map<String, Object> r) {
+    static final double TIMING_RTOL = 1e-8;
+    /** Absolute integration tolerance of the timing runs (states of order 1e-4 and above keep rtol control). */
+    static final double TIMING_ATOL = 1e-12;
+    /**
+     * LM relative cost-change tolerance of the timing runs. At a cost ½|r|² of about 7e2 (Boehm: NLL 138 plus
+     * about 530 from the log-σ shifts) it stops once a step gains less than about 1e-5 in NLL: four orders below
+     * the 0.1 reach tolerance, and still above the NLL's integration error at rtol 1e-8, so the stop is not decided
+     * by noise. (The fit command's default, 1e-10, spends about 10 more iterations per start on Boehm.)
+     */
+    static final double TIMING_COST_TOLERANCE = 1e-8;
+    /** A start counts as reaching the nominal optimum when its NLL is at most nominal NLL + this. */
+    static final double REACH_TOLERANCE = 0.1;
+    /** Evaluations before any timing, so the JIT has compiled the hot paths (about 2 s on this machine). */
+    static final int WARMUP_EVALUATIONS = 200;
+    /** Timed evaluations per kind (residuals; residuals and Jacobian). */
+    static final int TIMED_EVALUATIONS = 100;
+
+    /**
+     * Times, on the calling thread only: after {@link #WARMUP_EVALUATIONS} warm-up evaluations, the mean wall and
+     * CPU time of residual evaluations (a plain simulation) and of residual + Jacobian evaluations at the nominal
+     * point; then single LM starts from points drawn uniformly within the bounds on the estimation scale
+     * ({@link org.switchfit.fit.StartSampling#UNIFORM}, the given seed), after one untimed warm-up start, with
+     * per-start wall and CPU time (ThreadMXBean, less disturbed by other jobs on a shared machine), iterations,
+     * the number of starts that reach the NLL at the nominal values + {@link #REACH_TOLERANCE}, and the best NLL.
+     */
+    static void timing(Path yaml, int starts, long seed, double rtolT, double atolT, double costTol,
+                       Map<String, Object> r) {
         LikelihoodObjective obj = LikelihoodObjective.of(org.switchfit.problem.ProblemLoader.load(yaml),
-                SolverSettings.defaults().withTolerances(1e-8, 1e-12));
+                SolverSettings.defaults().withTolerances(rtolT, atolT));
+        java.lang.management.ThreadMXBean mx = java.lang.management.ManagementFactory.getThreadMXBean();
         int np = obj.parameterCount();
         int nr = obj.residualCount();
         double[] th = obj.problem().nominalTheta();
         double[] res = new double[nr];
         double[] jac = new double[nr * np];
-        for (int i = 0; i < 10; i++) {
+        double nominalNll = obj.evaluate(th, res, null);
+        for (int i = 0; i < WARMUP_EVALUATIONS; i++) {
             obj.evaluate(th, res, jac);
-        }
-        long t0 = System.nanoTime();
-        for (int i = 0; i < 20; i++) {
             obj.evaluate(th, res, null);
         }
-        double plain = (System.nanoTime() - t0) * 1e-9 / 20;
+        long c0 = mx.getCurrentThreadCpuTime();
+        long t0 = System.nanoTime();
+        for (int i = 0; i < TIMED_EVALUATIONS; i++) {
+            obj.evaluate(th, res, null);
+        }
+        double plain = (System.nanoTime() - t0) * 1e-9 / TIMED_EVALUATIONS;
+        double plainCpu = (mx.getCurrentThreadCpuTime() - c0) * 1e-9 / TIMED_EVALUATIONS;
+        c0 = mx.getCurrentThreadCpuTime();
         t0 = System.nanoTime();
-        for (int i = 0; i < 20; i++) {
+        for (int i = 0; i < TIMED_EVALUATIONS; i++) {
             obj.evaluate(th, res, jac);
         }
-        double withJac = (System.nanoTime() - t0) * 1e-9 / 20;
+        double withJac = (System.nanoTime() - t0) * 1e-9 / TIMED_EVALUATIONS;
+        double withJacCpu = (mx.getCurrentThreadCpuTime() - c0) * 1e-9 / TIMED_EVALUATIONS;
         org.switchfit.fit.FitProblem fp = FitCommand.fitProblem(obj.problem(), obj);
-        org.switchfit.fit.Multistart ms = org.switchfit.fit.Multistart.defaults().withStarts(starts).withSeed(1)
-                .withOptimizer(org.switchfit.fit.LevenbergMarquardt.defaults().withCostTolerance(1e-10));
-        double[] secs = new double[starts];
-        double iters = 0;
+        org.switchfit.fit.Multistart ms = org.switchfit.fit.Multistart.defaults().withStarts(starts).withSeed(seed)
+                .withSampling(org.switchfit.fit.StartSampling.UNIFORM)
+                .withOptimizer(org.switchfit.fit.LevenbergMarquardt.defaults()
+                        .withCostTolerance(costTol));
+        double[] wall = new double[starts];
+        double[] cpu = new double[starts];
+        double[] iters = new double[starts];
         double best = Double.POSITIVE_INFINITY;
+        int reached = 0;
+        int failed = 0;
         ms.runStart(fp, null, 0);
         for (int i = 0; i < starts; i++) {
+            c0 = mx.getCurrentThreadCpuTime();
             long s0 = System.nanoTime();
             org.switchfit.fit.StartResult sr = ms.runStart(fp, null, i);
-            secs[i] = (System.nanoTime() - s0) * 1e-9;
-            iters += sr.iterations();
+            wall[i] = (System.nanoTime() - s0) * 1e-9;
+            cpu[i] = (mx.getCurrentThreadCpuTime() - c0) * 1e-9;
+            iters[i] = sr.iterations();
             if (Double.isFinite(sr.nll())) {
                 best = Math.min(best, sr.nll());
+                reached += sr.nll() <= nominalNll + REACH_TOLERANCE ? 1 : 0;
+            } else {
+                failed++;
             }
         }
-        double[] sorted = secs.clone();
-        Arrays.sort(sorted);
+        r.put("nominalNll", nominalNll);
         r.put("secondsResiduals", plain);
         r.put("secondsResidualsAndJacobian", withJac);
-        r.put("jacobianCostRatio", withJac / plain);
-        r.put("secondsPerStartMean", Arrays.stream(secs).average().orElse(Double.NaN));
-        r.put("secondsPerStartMedian", sorted[starts / 2]);
-        r.put("iterationsPerStartMean", iters / starts);
+        r.put("cpuSecondsResiduals", plainCpu);
+        r.put("cpuSecondsResidualsAndJacobian", withJacCpu);
+        r.put("jacobianCostRatio", withJacCpu / plainCpu);
+        r.put("timingStarts", starts);
+        r.put("timingRtol", rtolT);
+        r.put("timingAtol", atolT);
+        r.put("timingCostTolerance", costTol);
+        r.put("timingSeed", seed);
+        r.put("secondsPerStartMean", mean(wall));
+        r.put("secondsPerStartMedian", median(wall));
+        r.put("cpuSecondsPerStartMean", mean(cpu));
+        r.put("cpuSecondsPerStartMedian", median(cpu));
+        r.put("iterationsPerStartMean", mean(iters));
+        r.put("iterationsPerStartMedian", median(iters));
+        r.put("startsReachingNominal", reached);
+        r.put("startsFailed", failed);
         r.put("bestNllTiming", best);
+    }
+
+    private static double mean(double[] v) {
+        return Arrays.stream(v).average().orElse(Double.NaN);
+    }
+
+    private static double median(double[] v) {
+        double[] s = v.clone();
+        Arrays.sort(s);
+        int k = s.length;
+        return k == 0 ? Double.NaN : (k % 2 == 1 ? s[k / 2] : 0.5 * (s[k / 2 - 1] + s[k / 2]));
     }
 
     private static String fmt(Object o) {

@@ -86,4 +86,50 @@ final class DampedLeastSquares {
         }
         return x;
     }
+    /**
+     * Solves the symmetric system {@code H δ = b} by Cholesky factorisation (Golub and Van Loan, 4th ed., §4.2),
+     * for the augmented model of {@link SecantModel}, whose Hessian is not a Gram matrix and so has no QR form.
+     *
+     * @param h row-major w × w, symmetric (read; only the lower triangle is used)
+     * @param b length w (read)
+     * @return δ, or null when H is not (numerically) positive definite
+     */
+    static double[] solveSymmetric(double[] h, int w, double[] b) {
+        double[] c = new double[w * w];
+        for (int j = 0; j < w; j++) {
+            double d = h[j * w + j];
+            for (int k = 0; k < j; k++) {
+                d -= c[j * w + k] * c[j * w + k];
+            }
+            // A pivot below 1e-14 of the diagonal entry counts as singular (rounding level of the elimination).
+            if (!(d > 1e-14 * Math.abs(h[j * w + j]))) {
+                return null;
+            }
+            double ljj = Math.sqrt(d);
+            c[j * w + j] = ljj;
+            for (int i = j + 1; i < w; i++) {
+                double e = h[i * w + j];
+                for (int k = 0; k < j; k++) {
+                    e -= c[i * w + k] * c[j * w + k];
+                }
+                c[i * w + j] = e / ljj;
+            }
+        }
+        double[] x = b.clone();
+        for (int i = 0; i < w; i++) {
+            double e = x[i];
+            for (int k = 0; k < i; k++) {
+                e -= c[i * w + k] * x[k];
+            }
+            x[i] = e / c[i * w + i];
+        }
+        for (int i = w - 1; i >= 0; i--) {
+            double e = x[i];
+            for (int k = i + 1; k < w; k++) {
+                e -= c[k * w + i] * x[k];
+            }
+            x[i] = e / c[i * w + i];
+        }
+        return x;
+    }
 }

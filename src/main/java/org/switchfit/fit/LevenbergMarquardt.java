@@ -10,14 +10,32 @@ import org.switchfit.objective.ObjectiveException;
  * <p>Each iteration computes the gradient g = Jᵀr of the cost ½|r|², holds every free parameter that sits on a
  * bound with the gradient pushing outward (the binding set), and solves the damped Gauss-Newton subproblem
  * {@code min |J_W δ + r|² + λ |D_W δ|²} on the remaining working set W by Householder QR of the augmented matrix
- * {@code [J_W; √λ D_W]} (no normal equations, so ill-conditioned problems keep their accuracy). The trial point is
+ * {@code [J_W; √λ D_W]} (no normal equations, so ill-conditioned problems keep their accuracy; see below for the
+ * augmented model used on large-residual problems). The trial point is
  * the projection {@code P(θ + δ)} onto the box; the step is accepted when the actual reduction is at least 1e-4
- * of the reduction predicted by the linear model for the projected step. D is the non-decreasing column-norm
- * scaling of Moré (1978, "The Levenberg-Marquardt algorithm: implementation and theory", Lecture Notes in
- * Mathematics 630, doi:10.1007/BFb0067700); λ follows Nielsen's update (Nielsen 1999, "Damping parameter in
- * Marquardt's method", IMM-REP-1999-05, DTU): λ ← λ·max(1/3, 1-(2ρ-1)³) on success, λ ← λ·ν, ν ← 2ν on failure.
- * As λ grows the step tends to the scaled negative gradient restricted to W, whose projection is a descent
- * direction, so a non-stationary point always yields an acceptable step for large enough λ.
+ * of the reduction predicted by the model for the projected step. D holds the current Euclidean column norms of J
+ * (Marquardt's 1963 scaling, which makes the step invariant under rescaling of θ; Moré 1978, "The
+ * Levenberg-Marquardt algorithm: implementation and theory", Lecture Notes in Mathematics 630,
+ * doi:10.1007/BFb0067700, discusses both this and the non-decreasing variant). The non-decreasing variant is not
+ * used: when a start has tiny noise spreads the early column norms are orders of magnitude above the later ones,
+ * and keeping them froze the damping of those directions, so such starts crawled for hundreds of iterations
+ * (measured on the PEtab benchmark Boehm_JProteomeRes2014: 8 of 20 starts hit 1000 iterations, none with this
+ * scaling). λ follows Nielsen's update (Nielsen 1999, "Damping parameter in Marquardt's method", IMM-REP-1999-05,
+ * DTU): λ ← λ·max(1/3, 1-(2ρ-1)³) on success, λ ← λ·ν, ν ← 2ν on failure. As λ grows the step tends to the
+ * scaled negative gradient restricted to W, whose projection is a descent direction, so a non-stationary point
+ * always yields an acceptable step for large enough λ.
+ *
+ * <p>Large residuals: Gauss-Newton drops the second-order term Σ r_i ∇²r_i of the Hessian, which is not small
+ * when residuals stay large at the optimum (the log-σ residuals of estimated noise spreads never vanish), and then
+ * converges only linearly. By default the run also keeps the secant approximation S of that term
+ * ({@link SecantModel}, Dennis, Gay and Welsch 1981) and, as in their algorithm, uses the augmented model
+ * {@code JᵀJ + S} (solved by Cholesky of {@code J_WᵀJ_W + S_WW + λ D_W²}) for the next step whenever it predicted
+ * the reduction of the last accepted step better than Gauss-Newton did; otherwise the QR Gauss-Newton step.
+ *
+ * <p>The cost-change stop (actual and predicted relative reductions below the tolerance, Moré 1978) is taken only
+ * when the undamped Gauss-Newton step on the working set would not gain more than the tolerance either: after many
+ * rejections λ can be so large that the damped step gains nothing far from any optimum, and such runs now end as
+ * {@link Termination#NO_PROGRESS} instead of claiming convergence.
  *
  * <p>Stationarity is measured by the projected gradient {@code θ - P(θ - g)}, which vanishes at a local optimum
  * on the box even when g itself does not (optimum on a bound).
@@ -38,15 +56,17 @@ public final class LevenbergMarquardt {
     private final double costTolerance;
     private final double stepTolerance;
     private final double initialDamping;
+    private final boolean secant;
 
     private LevenbergMarquardt(int maxIterations, int maxEvaluations, double gradientTolerance,
-                               double costTolerance, double stepTolerance, double initialDamping) {
+                               double costTolerance, double stepTolerance, double initialDamping, boolean secant) {
         this.maxIterations = maxIterations;
         this.maxEvaluations = maxEvaluations;
         this.gradientTolerance = gradientTolerance;
         this.costTolerance = costTolerance;
         this.stepTolerance = stepTolerance;
         this.initialDamping = initialDamping;
+        this.secant = secant;
     }
 
     /**
@@ -56,41 +76,41 @@ public final class LevenbergMarquardt {
      * initial λ 1e-3.
      */
     public static LevenbergMarquardt defaults() {
-        return new LevenbergMarquardt(1000, 5000, 1e-10, 1e-14, 1e-10, 1e-3);
+        return new LevenbergMarquardt(1000, 5000, 1e-10, 1e-14, 1e-10, 1e-3, true);
     }
 
     /** Limit on trial steps (accepted and rejected), n &gt; 0. */
     public LevenbergMarquardt withMaxIterations(int n) {
         return new LevenbergMarquardt(positive(n, "maxIterations"), maxEvaluations, gradientTolerance,
-                costTolerance, stepTolerance, initialDamping);
+                costTolerance, stepTolerance, initialDamping, secant);
     }
 
     /** Limit on objective evaluations, n &gt; 0. */
     public LevenbergMarquardt withMaxEvaluations(int n) {
         return new LevenbergMarquardt(maxIterations, positive(n, "maxEvaluations"), gradientTolerance,
-                costTolerance, stepTolerance, initialDamping);
+                costTolerance, stepTolerance, initialDamping, secant);
     }
 
     /**
-     * Tolerance on the scaled projected gradient {@code max_k |pg_k| / (d_k |r|)}, pg = θ - P(θ - Jᵀr), d_k the
-     * column-norm scaling of parameter k: for interior parameters the cosine of the angle between r and column k
-     * of J, so the test does not depend on the units of θ (the gradient test of More 1978).
+     * Tolerance on the scaled projected gradient {@code max_k |g_k| / (d_k |r|)} over free parameters not held at
+     * a bound by the gradient (g = Jᵀr, d_k the norm of column k of J): the cosine of the angle between r and
+     * column k, so the test does not depend on the units of θ (the gradient test of More 1978).
      */
     public LevenbergMarquardt withGradientTolerance(double tol) {
         return new LevenbergMarquardt(maxIterations, maxEvaluations, nonNegative(tol, "gradientTolerance"),
-                costTolerance, stepTolerance, initialDamping);
+                costTolerance, stepTolerance, initialDamping, secant);
     }
 
     /** Relative tolerance on the actual and predicted reduction of ½|r|² in one accepted step. */
     public LevenbergMarquardt withCostTolerance(double tol) {
         return new LevenbergMarquardt(maxIterations, maxEvaluations, gradientTolerance,
-                nonNegative(tol, "costTolerance"), stepTolerance, initialDamping);
+                nonNegative(tol, "costTolerance"), stepTolerance, initialDamping, secant);
     }
 
     /** Relative tolerance on the length of an accepted step: |s| ≤ tol·(tol + |θ|). */
     public LevenbergMarquardt withStepTolerance(double tol) {
         return new LevenbergMarquardt(maxIterations, maxEvaluations, gradientTolerance, costTolerance,
-                nonNegative(tol, "stepTolerance"), initialDamping);
+                nonNegative(tol, "stepTolerance"), initialDamping, secant);
     }
 
     /** Initial λ relative to the column scaling D², λ &gt; 0. */
@@ -99,7 +119,17 @@ public final class LevenbergMarquardt {
             throw new IllegalArgumentException("initialDamping must be > 0, got " + lambda);
         }
         return new LevenbergMarquardt(maxIterations, maxEvaluations, gradientTolerance, costTolerance,
-                stepTolerance, lambda);
+                stepTolerance, lambda, secant);
+    }
+
+    /**
+     * Whether to use the augmented model {@code JᵀJ + S} with the secant approximation S of the second-order term
+     * ({@link SecantModel}) when it predicted the last step better than Gauss-Newton (the model switch of Dennis,
+     * Gay and Welsch 1981); false keeps plain Gauss-Newton models.
+     */
+    public LevenbergMarquardt withSecantModel(boolean on) {
+        return new LevenbergMarquardt(maxIterations, maxEvaluations, gradientTolerance, costTolerance,
+                stepTolerance, initialDamping, on);
     }
 
     /** The iteration limit. */
@@ -140,6 +170,8 @@ public final class LevenbergMarquardt {
         int jevals;
         int iters;
         boolean lastTrialProjected;
+        boolean lastTrialAugmented;
+        double lastPotential;
 
         Run(FitProblem problem, double[] start) {
             this.problem = problem;
@@ -170,12 +202,16 @@ public final class LevenbergMarquardt {
             int w0 = free.length;
             double[] d = new double[w0];
             double[] g = new double[n];
+            double[] gNew = new double[n];
+            double[] ySharp = new double[n];
             double lambda = initialDamping;
             double nu = 2.0;
             double[] rTrial = new double[m];
+            SecantModel sec = secant ? new SecantModel(n) : null;
+            boolean augmented = false;
             Termination why = null;
+            gradient(g, r, jac);
             while (why == null) {
-                gradient(g);
                 updateScaling(d);
                 if (cost == 0.0) {
                     why = Termination.ZERO_RESIDUAL;
@@ -201,7 +237,7 @@ public final class LevenbergMarquardt {
                         break;
                     }
                     iters++;
-                    double[] xt = trialPoint(work, d, lambda);
+                    double[] xt = trialPoint(work, d, lambda, g, augmented ? sec : null);
                     boolean projected = lastTrialProjected;
                     double[] s = new double[n];
                     double sNorm2 = 0;
@@ -209,11 +245,14 @@ public final class LevenbergMarquardt {
                         s[k] = xt[k] - x[k];
                         sNorm2 += s[k] * s[k];
                     }
-                    double pred = predictedReduction(s);
+                    double predGn = predictedReduction(s);
+                    double predAug = sec == null ? predGn : predGn - 0.5 * sec.quadratic(s);
+                    double pred = lastTrialAugmented ? predAug : predGn;
+                    lastPotential = Double.NaN;
                     // The minimiser of the damped linear model gains nothing measurable (More 1978, predicted-
                     // reduction test; pred may round to <= 0 at the optimum): take that last step if it does not
                     // raise the cost, then stop.
-                    boolean converging = !projected && pred <= costTolerance * cost;
+                    boolean converging = !projected && pred <= costTolerance * cost && !gainPossible(work, d);
                     if (!converging && (!(pred > 0) || sNorm2 == 0.0)) {
                         lambda *= nu;
                         nu *= 2;
@@ -240,19 +279,36 @@ public final class LevenbergMarquardt {
                     }
                     double oldCost = cost;
                     double xNorm = norm(x);
+                    if (Math.abs(actual) <= costTolerance * oldCost && pred <= costTolerance * oldCost) {
+                        lastPotential = potentialReduction(work, d);
+                    }
+                    double[] jOld = jac;
                     if (finite && rho > ACCEPT_RATIO && accept(xt)) {
                         accepted = true;
+                        gradient(gNew, r, jac);
+                        if (sec != null) {
+                            // Model switch of Dennis, Gay and Welsch (1981): next time use the model whose
+                            // predicted reduction came closer to the actual one.
+                            augmented = Math.abs(predAug - actual) < Math.abs(predGn - actual);
+                            gradient(ySharp, r, jOld);
+                            for (int k = 0; k < n; k++) {
+                                ySharp[k] = gNew[k] - ySharp[k];
+                                g[k] = gNew[k] - g[k];
+                            }
+                            sec.update(s, g, ySharp);
+                        }
+                        System.arraycopy(gNew, 0, g, 0, n);
                         double t = 2 * rho - 1;
                         lambda = Math.max(LAMBDA_MIN, lambda * Math.max(1.0 / 3.0, 1 - t * t * t));
                         nu = 2;
                         if (Math.abs(actual) <= costTolerance * oldCost && pred <= costTolerance * oldCost
-                                && rho <= 2) {
+                                && rho <= 2 && !gainPossibleAt(oldCost, lastPotential)) {
                             why = Termination.COST_CHANGE;
                         } else if (rho > 0.25 && Math.sqrt(sNorm2) <= stepTolerance * (stepTolerance + xNorm)) {
                             why = Termination.STEP_SIZE;
                         }
                     } else if (finite && Math.abs(actual) <= costTolerance * cost
-                            && pred <= costTolerance * cost) {
+                            && pred <= costTolerance * cost && !gainPossible(work, d)) {
                         // The linear model promises no relative gain above the tolerance and the trial confirms
                         // it (More 1978, test on actual and predicted reduction, applied to rejected trials too).
                         why = Termination.COST_CHANGE;
@@ -263,7 +319,7 @@ public final class LevenbergMarquardt {
                     }
                 }
             }
-            gradient(g);
+            gradient(g, r, jac);
             double pgNorm = projectedGradientNorm(g);
             if (why != Termination.ZERO_RESIDUAL && scaledProjectedGradient(g, d) <= gradientTolerance) {
                 why = Termination.GRADIENT;
@@ -324,7 +380,7 @@ public final class LevenbergMarquardt {
         }
 
         /** g = Jᵀ r over all parameters. */
-        private void gradient(double[] g) {
+        private void gradient(double[] g, double[] r, double[] jac) {
             java.util.Arrays.fill(g, 0.0);
             for (int i = 0; i < m; i++) {
                 double ri = r[i];
@@ -344,7 +400,7 @@ public final class LevenbergMarquardt {
                     s += v * v;
                 }
                 s = Math.sqrt(s);
-                d[f] = Math.max(d[f], s);
+                d[f] = s;
             }
         }
 
@@ -358,8 +414,10 @@ public final class LevenbergMarquardt {
         }
 
         /**
-         * Scale-free stationarity measure: max over free k of |pg_k| / (d_k |r|), the cosine between r and the
-         * k-th Jacobian column for interior parameters (the gradient test of More 1978).
+         * Scale-free stationarity measure: max over free k not held at a bound of |g_k| / (d_k |r|), the cosine
+         * between r and the k-th Jacobian column (the gradient test of More 1978). Components pushing into a
+         * bound count 0; the others count with |g_k|, not with the projected step θ - P(θ - g), whose size is
+         * capped by the distance to the bound and so could pass the test far from any optimum.
          */
         private double scaledProjectedGradient(double[] g, double[] d) {
             double rn = Math.sqrt(2 * cost);
@@ -369,7 +427,8 @@ public final class LevenbergMarquardt {
             double mx = 0;
             for (int f = 0; f < free.length; f++) {
                 int k = free[f];
-                double p = Math.abs(x[k] - Math.min(hi[k], Math.max(lo[k], x[k] - g[k])));
+                boolean held = (x[k] <= lo[k] && g[k] > 0) || (x[k] >= hi[k] && g[k] < 0);
+                double p = held ? 0.0 : Math.abs(g[k]);
                 if (p > 0) {
                     mx = Math.max(mx, d[f] > 0 ? p / (d[f] * rn) : Double.POSITIVE_INFINITY);
                 }
@@ -391,24 +450,54 @@ public final class LevenbergMarquardt {
             return java.util.Arrays.copyOf(tmp, c);
         }
 
-        private double[] trialPoint(int[] work, double[] d, double lambda) {
+        /**
+         * The projected trial point P(θ + δ) with δ from the damped model on the working set: Gauss-Newton by QR
+         * ({@link DampedLeastSquares#solve}), or, when {@code sec} is given, the augmented model
+         * {@code (J_WᵀJ_W + S_WW + λ D_W²) δ = -g_W} by Cholesky, falling back to Gauss-Newton when that matrix
+         * is not positive definite.
+         */
+        private double[] trialPoint(int[] work, double[] d, double lambda, double[] g, SecantModel sec) {
             int w = work.length;
-            double[] a = new double[m * w];
-            for (int i = 0; i < m; i++) {
-                for (int j = 0; j < w; j++) {
-                    a[i * w + j] = jac[i * n + free[work[j]]];
-                }
-            }
             double[] diag = new double[w];
             for (int j = 0; j < w; j++) {
                 double dj = d[work[j]];
                 diag[j] = dj > 0 ? dj : 1.0;
             }
-            double[] b = new double[m];
-            for (int i = 0; i < m; i++) {
-                b[i] = -r[i];
+            double[] delta = null;
+            if (sec != null) {
+                double[] hm = new double[w * w];
+                double[] rhs = new double[w];
+                for (int a = 0; a < w; a++) {
+                    int ka = free[work[a]];
+                    rhs[a] = -g[ka];
+                    for (int b = 0; b <= a; b++) {
+                        int kb = free[work[b]];
+                        double e = 0;
+                        for (int i = 0; i < m; i++) {
+                            e += jac[i * n + ka] * jac[i * n + kb];
+                        }
+                        e += sec.get(ka, kb);
+                        hm[a * w + b] = e;
+                        hm[b * w + a] = e;
+                    }
+                    hm[a * w + a] += lambda * diag[a] * diag[a];
+                }
+                delta = DampedLeastSquares.solveSymmetric(hm, w, rhs);
             }
-            double[] delta = DampedLeastSquares.solve(a, m, w, b, diag, lambda);
+            lastTrialAugmented = delta != null;
+            if (delta == null) {
+                double[] a = new double[m * w];
+                for (int i = 0; i < m; i++) {
+                    for (int j = 0; j < w; j++) {
+                        a[i * w + j] = jac[i * n + free[work[j]]];
+                    }
+                }
+                double[] b = new double[m];
+                for (int i = 0; i < m; i++) {
+                    b[i] = -r[i];
+                }
+                delta = DampedLeastSquares.solve(a, m, w, b, diag, lambda);
+            }
             double[] xt = x.clone();
             lastTrialProjected = false;
             for (int j = 0; j < w; j++) {
@@ -418,6 +507,47 @@ public final class LevenbergMarquardt {
                 lastTrialProjected |= xt[k] != v;
             }
             return xt;
+        }
+
+        /**
+         * The reduction of ½|r|² the undamped Gauss-Newton model promises on the working set (λ = 1e-20 for
+         * rank-deficient J). The cost-change tests compare the reduction of the damped step with the tolerance;
+         * after many rejected steps λ can be so large that this step is tiny far from any optimum, so those tests
+         * stop only when this undamped reduction is below the tolerance too.
+         */
+        private double potentialReduction(int[] work, double[] d) {
+            int w = work.length;
+            if (w == 0) {
+                return 0.0;
+            }
+            double[] a = new double[m * w];
+            for (int i = 0; i < m; i++) {
+                for (int j = 0; j < w; j++) {
+                    a[i * w + j] = jac[i * n + free[work[j]]];
+                }
+            }
+            double[] diag = new double[w];
+            double[] b = new double[m];
+            for (int j = 0; j < w; j++) {
+                diag[j] = d[work[j]] > 0 ? d[work[j]] : 1.0;
+            }
+            for (int i = 0; i < m; i++) {
+                b[i] = -r[i];
+            }
+            double[] delta = DampedLeastSquares.solve(a, m, w, b, diag, LAMBDA_MIN);
+            double[] s = new double[n];
+            for (int j = 0; j < w; j++) {
+                s[free[work[j]]] = delta[j];
+            }
+            return predictedReduction(s);
+        }
+
+        private boolean gainPossible(int[] work, double[] d) {
+            return gainPossibleAt(cost, potentialReduction(work, d));
+        }
+
+        private boolean gainPossibleAt(double c, double potential) {
+            return potential > costTolerance * c;
         }
 
         /** ½|r|² - ½|r + J s|². */

@@ -19,7 +19,12 @@ public enum StartSampling {
      * a Cranley-Patterson random shift modulo 1 drawn from stream (seed, -1) so different seeds give different
      * designs.
      */
-    SOBOL;
+    SOBOL,
+    /**
+     * Independent uniform draws: coordinate k of start i is uniform on [lower_k, upper_k] from stream (seed, i), so
+     * a start does not depend on how many starts are drawn.
+     */
+    UNIFORM;
 
     /**
      * Returns {@code count} start points (rows) for the free parameters of the problem; fixed parameters keep
@@ -37,7 +42,8 @@ public enum StartSampling {
                         problem.upper(k));
             }
         }
-        double[][] unit = this == SOBOL ? sobol(n, count, seed) : latin(n, count, seed);
+        double[][] unit = this == SOBOL ? sobol(n, count, seed)
+                : this == UNIFORM ? uniform(n, count, seed) : latin(n, count, seed);
         double[][] pts = new double[count][n];
         for (int i = 0; i < count; i++) {
             for (int k = 0; k < n; k++) {
@@ -71,6 +77,17 @@ public enum StartSampling {
             SplittableRandom own = RandomStreams.stream(seed, i);
             for (int k = 0; k < n; k++) {
                 u[i][k] = (u[i][k] + own.nextDouble()) / count;
+            }
+        }
+        return u;
+    }
+
+    private static double[][] uniform(int n, int count, long seed) {
+        double[][] u = new double[count][n];
+        for (int i = 0; i < count; i++) {
+            SplittableRandom own = RandomStreams.stream(seed, i);
+            for (int k = 0; k < n; k++) {
+                u[i][k] = own.nextDouble();
             }
         }
         return u;

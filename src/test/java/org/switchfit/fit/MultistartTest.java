@@ -213,6 +213,25 @@ class MultistartTest {
         }
     }
 
+    @Test
+    void uniformStartsAreInTheBoxAndDoNotDependOnTheStartCount() {
+        // StartSampling.UNIFORM draws start i from stream (seed, i) alone (by construction), so the first 5 of 12
+        // starts equal the 5 starts of a 5-start design, exactly.
+        FitProblem p = FitProblem.of(new CurveObjective(new double[] {0, 1}, new double[] {0, 1}, 1.0, 3,
+                (x, b, g) -> b[0] + b[1] * x + b[2]), new String[] {"a", "b", "c"}, new double[] {-5, 0, 10},
+                new double[] {5, 1, 11});
+        double[][] twelve = StartSampling.UNIFORM.sample(p, new double[3], 12, 3L);
+        double[][] five = StartSampling.UNIFORM.sample(p, new double[3], 5, 3L);
+        for (int i = 0; i < 5; i++) {
+            assertArrayEquals(five[i], twelve[i], 0.0);
+        }
+        for (double[] x : twelve) {
+            for (int k = 0; k < 3; k++) {
+                assertTrue(x[k] >= p.lower(k) && x[k] <= p.upper(k), java.util.Arrays.toString(x));
+            }
+        }
+    }
+
     static void assertSameStarts(List<StartResult> a, List<StartResult> b) {
         assertEquals(a.size(), b.size());
         for (int i = 0; i < a.size(); i++) {
