@@ -65,8 +65,6 @@ final class DemoRun {
     static final List<String> QUICK_PROFILES = List.of("k_stim");
     /** Name of the problem file written when the objective of this build cannot use all the data. */
     static final String PARTIAL_PROBLEM = "problem/stress_switch-fitted-data.yaml";
-    /** Where the profile command's own profiles.json (with diagnostics) is kept. */
-    static final String PROFILE_DIAGNOSTICS = "profiles-run.json";
 
     /** Run settings. */
     record Settings(Path model, Path problem, Path out, int starts, long seed, int threads, boolean quick) {
@@ -231,20 +229,12 @@ final class DemoRun {
         if (code != 0 || !dir.has(FitFile.PROFILES)) {
             throw new StageFailure("profile command exited with " + code + ": " + log.toString().strip());
         }
-        Path written = dir.pathOf(FitFile.PROFILES);
-        ProfilesJson run = Json.read(written, ProfilesJson.class);
-        r.profiles = toReportSchema(run);
-        try {
-            Files.move(written, s.out().resolve(PROFILE_DIAGNOSTICS), StandardCopyOption.REPLACE_EXISTING);
-        } catch (IOException e) {
-            throw new StageFailure("cannot keep " + written + " as " + PROFILE_DIAGNOSTICS + ": " + e.getMessage());
-        }
-        dir.write(FitFile.PROFILES, r.profiles);
+        r.profiles = dir.read(FitFile.PROFILES);
         StringBuilder b = new StringBuilder();
         for (ProfilesFile.Entry e : r.profiles.profiles()) {
             b.append(String.format(Locale.ROOT, "%n            %-10s %-9s [%s, %s] %s", e.id(),
-                    e.kind().name().toLowerCase(Locale.ROOT), e.lower() == null ? "-inf" : fmt(e.lower()),
-                    e.upper() == null ? "+inf" : fmt(e.upper()), e.classification()));
+                    e.kind().token(), e.lower() == null ? "-inf" : fmt(e.lower()),
+                    e.upper() == null ? "+inf" : fmt(e.upper()), e.classification().token()));
         }
         return String.format(Locale.ROOT, "%d profiles at level %.2f%s%s", r.profiles.profiles().size(),
                 r.profiles.level(), folds ? "" : "; fold-position profiles not available in this build", b);
@@ -373,26 +363,6 @@ final class DemoRun {
         }
         int j = Math.min(i + 1, v.length - 1);
         return new SweepFile.Run(d, v, y, List.of(new SweepFile.Jump(sr.jumpParameter(), y[i], y[j])));
-    }
-
-    /**
-     * The profile command's output restricted to the fields of the report schema ({@link ProfilesFile}); the
-     * command's full file, with its diagnostics, is kept as {@link #PROFILE_DIAGNOSTICS}. (At this build the
-     * report reader rejects the diagnostic fields as unknown properties.)
-     */
-    static ProfilesFile toReportSchema(ProfilesJson run) {
-        List<ProfilesFile.Entry> l = new ArrayList<>();
-        for (ProfilesJson.Entry e : run.profiles()) {
-            List<ProfilesFile.Point> pts = new ArrayList<>();
-            for (ProfilesJson.Point pt : e.points()) {
-                pts.add(new ProfilesFile.Point(pt.value(), pt.nll()));
-            }
-            l.add(new ProfilesFile.Entry(e.id(), ProfilesFile.Kind.valueOf(e.kind().toUpperCase(Locale.ROOT)),
-                    e.scale(), e.estimate(), e.lower(), e.upper(), e.thresholdNll(),
-                    ProfilesFile.Identifiability.valueOf(e.classification().replace('-', '_').toUpperCase(Locale.ROOT)),
-                    e.compensating(), pts));
-        }
-        return new ProfilesFile(run.level(), run.bestNll(), l);
     }
 
     /** Runs a command object through picocli with its output captured in {@code log}; returns the exit code. */

@@ -18,6 +18,7 @@ import picocli.CommandLine.Command;
             SuiteCommand.class,
             CheckCommand.class,
             FitCommand.class,
+            AuditCommand.class,
             BenchPetabCommand.class,
             ReportCommand.class,
             ProfileCommand.class,
