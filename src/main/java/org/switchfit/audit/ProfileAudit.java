@@ -83,8 +83,10 @@ final class ProfileAudit {
             Solved s = solve(e, z, q);
             double d = 2 * (s.nll - ref);
             boolean ok = d <= q + CROSSING_TOLERANCE;
+            boolean atBound = e.kind() == ProfilesFile.Kind.PARAMETER && !z.equals(outermost(e, upper));
             return new Claim(id, ok, String.format(Locale.ROOT, "open (%s): at %s %.8g, 2(NLL - NLL*) = %.6f%s, %s "
-                            + "threshold %.6f", side, "OPEN_AT_BOUND".equals(side) ? "the bound" : "the last point", z,
+                            + "threshold %.6f", side == null ? "side not recorded" : side, atBound ? "the bound"
+                            : "the last profile point", z,
                     d, s.note, ok ? "below the" : "ABOVE the", q), values(z, d, q));
         } catch (ObjectiveException | IllegalArgumentException ex) {
             return new Claim(id, false, "could not be re-derived: " + ex.getMessage(), Map.of());
@@ -100,14 +102,21 @@ final class ProfileAudit {
         return v;
     }
 
-    /** Where an open side is checked: the bound when the side ended there, else its outermost profile point. */
+    /**
+     * Where an open side is checked: the parameter's bound when the side ended there (or when the file does not say
+     * how it ended and holds no point on that side, as when the estimate sits on the bound), else the outermost
+     * profile point on that side.
+     */
     private Double openEnd(ProfilesFile.Entry e, boolean upper, String side) {
-        if (e.kind() == ProfilesFile.Kind.PARAMETER && "OPEN_AT_BOUND".equals(side)) {
-            int k = fp.indexOf(e.id());
-            if (k >= 0) {
-                return fp.scale(k).toLinear(upper ? fp.upper(k) : fp.lower(k));
-            }
+        Double z = outermost(e, upper);
+        int k = e.kind() == ProfilesFile.Kind.PARAMETER ? fp.indexOf(e.id()) : -1;
+        if (k >= 0 && ("OPEN_AT_BOUND".equals(side) || side == null && z == null)) {
+            return fp.scale(k).toLinear(upper ? fp.upper(k) : fp.lower(k));
         }
+        return z;
+    }
+
+    private static Double outermost(ProfilesFile.Entry e, boolean upper) {
         Double z = null;
         for (ProfilesFile.Point p : e.points()) {
             boolean beyond = upper ? p.value() > e.estimate() : p.value() < e.estimate();

@@ -30,6 +30,7 @@ import picocli.CommandLine.Spec;
  * the constrained re-optimisations per point. Writes nothing. Timings are not reproducible; the profiles are.
  */
 @Command(name = "bench-profiles", hidden = true, mixinStandardHelpOptions = true,
+        footer = {"", "Examples:", "  switchfit bench-profiles ../shared/benchmarks/problems/Boehm_JProteomeRes2014/Boehm_JProteomeRes2014.yaml --starts 10 --threads 2"},
         description = "Benchmark: fit (or load a fit directory) and profile all parameters; print timings.")
 public final class BenchProfilesCommand implements Callable<Integer> {
 

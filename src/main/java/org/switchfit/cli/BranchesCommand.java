@@ -30,6 +30,7 @@ import picocli.CommandLine.Spec;
  * {@code OdeForm}.
  */
 @Command(name = "branches", mixinStandardHelpOptions = true,
+        footer = {"", "Examples:", "  switchfit branches models/stress_switch.xml --vary stimulus --from 0 --to 4 --json branches.json", "  switchfit branches fits/mine/model_fitted.xml --vary stimulus --from 0 --to 4 --set k_rec=2"},
         description = "Trace the steady states of an SBML model against one control quantity and report its folds "
                 + "(switching points) and Hopf points.")
 public final class BranchesCommand implements Callable<Integer> {

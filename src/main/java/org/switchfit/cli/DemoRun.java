@@ -159,6 +159,8 @@ final class DemoRun {
         });
         Json.write(s.out().resolve("stages.json"), stagesJson());
         out.println("report: " + report.toAbsolutePath().normalize());
+        out.println("next:   ./switchfit audit " + s.out() + "    (a reviewer's check: re-derives every claim of the "
+                + "fit from the model and data on disk)");
         out.flush();
         return stages.stream().anyMatch(st -> st.status() == Status.FAILED) ? Main.EXIT_INTERNAL : 0;
     }
@@ -367,7 +369,7 @@ final class DemoRun {
 
     /** Runs a command object through picocli with its output captured in {@code log}; returns the exit code. */
     private static int command(Object cmd, StringWriter log, String... args) {
-        CommandLine cl = new CommandLine(cmd);
+        CommandLine cl = Main.configure(new CommandLine(cmd));
         PrintWriter w = new PrintWriter(log, true);
         cl.setOut(w);
         cl.setErr(w);

@@ -41,6 +41,7 @@ import picocli.CommandLine.Spec;
  * the same result; at the end {@code result.json}, {@code residuals.csv} and {@code model_fitted.xml} are written.
  */
 @Command(name = "fit", mixinStandardHelpOptions = true,
+        footer = {"", "Examples:", "  switchfit fit datasets/stress_switch.yaml --starts 20 --seed 1 --threads 2 --out fits/mine", "  switchfit fit datasets/stress_switch.yaml --starts 20 --seed 1 --out fits/mine --resume --log fit.log"},
         description = "Fit a problem (PEtab YAML or switchfit problem file) by multistart Levenberg-Marquardt.")
 public final class FitCommand implements Callable<Integer> {
 
@@ -64,9 +65,6 @@ public final class FitCommand implements Callable<Integer> {
 
     @Option(names = "--resume", description = "reuse the starts already finished in the output folder")
     boolean resume;
-
-    @Option(names = "--quiet", description = "no progress bar")
-    boolean quiet;
 
     @Option(names = "--nominal-start", description = "use the nominal parameter values as start 0")
     boolean nominalStart;
@@ -108,8 +106,8 @@ public final class FitCommand implements Callable<Integer> {
                 .withOptimizer(org.switchfit.fit.LevenbergMarquardt.defaults().withMaxIterations(maxIterations)
                         .withCostTolerance(costTolerance));
         double[] guess = nominalStart ? problem.nominalTheta() : null;
-        boolean bar = !quiet && System.console() != null;
-        PrintWriter err = spec.commandLine().getErr();
+        boolean bar = !OutputOptions.quiet(spec) && System.console() != null;
+        PrintWriter err = OutputOptions.progress(spec);
         int[] done = {finished.size()};
         double[] best = {Double.POSITIVE_INFINITY};
         for (StartResult r : finished) {
@@ -218,7 +216,7 @@ public final class FitCommand implements Callable<Integer> {
                     FittedTrajectories.DEFAULT_GRID);
             FitDirectory.of(out).write(FitFile.TRAJECTORIES, tf);
         } catch (RuntimeException e) {
-            System.err.println("note: fitted trajectories not written (" + e.getMessage() + ")");
+            spec.commandLine().getErr().println("note: fitted trajectories not written (" + e.getMessage() + ")");
         }
     }
 }

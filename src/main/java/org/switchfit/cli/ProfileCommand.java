@@ -35,6 +35,7 @@ import picocli.CommandLine.Spec;
  * profile next to its stored result.
  */
 @Command(name = "profile", mixinStandardHelpOptions = true,
+        footer = {"", "Examples:", "  switchfit profile fits/mine --threads 2", "  switchfit profile fits/mine --parameters k_stim,K_inh --folds --level 0.95"},
         description = "Profile likelihoods of the parameters, fold positions and predictions of a finished fit.")
 public final class ProfileCommand implements Callable<Integer> {
 
@@ -118,11 +119,12 @@ public final class ProfileCommand implements Callable<Integer> {
         ProfileRun run = new ProfileRun(fp, in.optimum(), pl);
         int[] done = {0};
         long t0 = System.nanoTime();
+        PrintWriter progress = OutputOptions.progress(spec);
         List<ProfilesFile.Stored> results = run.run(tasks, store, nThreads, s -> {
             done[0]++;
-            err.printf(Locale.ROOT, "[%d/%d] profile of %s %s finished: %s%n", done[0], tasks.size(),
+            progress.printf(Locale.ROOT, "[%d/%d] profile of %s %s finished: %s%n", done[0], tasks.size(),
                     s.entry().kind().token(), s.entry().id(), s.entry().classification().token());
-            err.flush();
+            progress.flush();
         });
         ProfilesFile file = assemble(in, fp, pl, results, foldStatus, seed);
         FitDirectory.of(fitDir).write(FitFile.PROFILES, file);

@@ -27,6 +27,7 @@ import picocli.CommandLine.Spec;
  * it bounds inside the box; written as {@link RegionFile} JSON.
  */
 @Command(name = "region", mixinStandardHelpOptions = true,
+        footer = {"", "Examples:", "  switchfit region models/stress_switch.xml --vary stimulus --from 0 --to 4 --and k_rec --from2 0.1 --to2 10"},
         description = "Trace the folds of an SBML model in two control quantities and report the cusps and the "
                 + "bistable region.")
 public final class RegionCommand implements Callable<Integer> {

@@ -32,6 +32,7 @@ import picocli.CommandLine.Spec;
  * {@link SweepFile} JSON and a CSV.
  */
 @Command(name = "sweep", mixinStandardHelpOptions = true,
+        footer = {"", "Examples:", "  switchfit sweep models/stress_switch.xml --vary stimulus --from 0 --to 4 --rate 0.005 --readout ZarnA"},
         description = "Simulate a slow ramp of a control quantity up and down and report where the response jumps.")
 public final class SweepCommand implements Callable<Integer> {
 
