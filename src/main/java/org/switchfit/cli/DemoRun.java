@@ -61,6 +61,8 @@ final class DemoRun {
     /** Ramp speed of the hysteresis sweep (stimulus units per minute) and its samples. */
     static final double SWEEP_RATE = 0.005;
     static final int SWEEP_SAMPLES = 401;
+    /** Duration of the phase-plane trajectories (minutes; about 10 relaxation times of the demo model). */
+    static final double PHASE_DURATION = 300;
     /** Parameters profiled in quick mode (the full run profiles all). */
     static final List<String> QUICK_PROFILES = List.of("k_stim");
     /** Name of the problem file written when the objective of this build cannot use all the data. */
@@ -146,6 +148,7 @@ final class DemoRun {
         stage("branches", () -> branches(dm, r));
         stage("region", () -> region(dm, r));
         stage("sweep", () -> sweep(dm, r));
+        stage("phase", () -> phasePlane(dm, r));
         Path report = s.out().resolve("report.html");
         Path overview = s.out().resolve("demo.html");
         stage("report", () -> {
@@ -352,6 +355,56 @@ final class DemoRun {
                 List.of(run(r.up, SweepFile.Direction.UP), run(r.down, SweepFile.Direction.DOWN))));
         return String.format(Locale.ROOT, "ramp at %.3g per min: jumps at stimulus %.4g (up) and %.4g (down)",
                 SWEEP_RATE, r.up.jumpParameter(), r.down.jumpParameter());
+    }
+
+    /**
+     * Phase-plane stage: the model reduced by its two conservation laws to the two independent species (exact, no
+     * state held), at the fitted parameters and the stimulus midway between the two folds (bistable there), with
+     * nullclines, steady states and trajectories from the window's corners and edge midpoints.
+     */
+    private String phasePlane(DemoModel dm, Results r) {
+        double[] p = r.at.p().clone();
+        int k = dm.index(DemoScenario.CONTROL);
+        double stim = p[k];
+        if (r.branch != null && r.branch.folds().size() >= 2) {
+            stim = 0.5 * (r.branch.folds().get(0).parameter() + r.branch.folds().get(1).parameter());
+        }
+        p[k] = stim;
+        double[] low = DemoScenario.lowState(dm, p);
+        double[] q = dm.reducedParameters(p, low);
+        int[] ind = dm.reduced.laws().independentSpecies();
+        if (ind.length != 2) {
+            throw new StageFailure("the model reduces to " + ind.length + " states, not 2: no phase plane");
+        }
+        double[] totals = dm.reduced.laws().totals(low);
+        double[][] range = new double[2][];
+        List<String> ids = new ArrayList<>();
+        for (int a = 0; a < 2; a++) {
+            double hi = 0;
+            for (int c = 0; c < totals.length; c++) {
+                long coef = dm.reduced.laws().coefficients(c)[ind[a]];
+                if (coef != 0) {
+                    hi = Math.max(hi, totals[c] / coef);
+                }
+            }
+            range[a] = new double[] {0, hi > 0 ? hi : 1};
+            ids.add(dm.states.get(ind[a]));
+        }
+        StringBuilder elim = new StringBuilder();
+        for (int c = 0; c < totals.length; c++) {
+            elim.append(String.format(Locale.ROOT, "%s%s follows from the conserved total %.4g", c == 0 ? "" : "; ",
+                    dm.states.get(dm.reduced.laws().dependentSpecies()[c]), totals[c]));
+        }
+        org.switchfit.report.PhasePlaneFile pp = org.switchfit.report.PhasePlanes.compute(dm.reduced, q,
+                dm.reduced.reducedState(low), ids, 0, 1, range[0], range[1], PHASE_DURATION, null)
+                .withNote(String.format(Locale.ROOT, "The model is reduced exactly by its conservation laws (%s); "
+                        + "%s = %.4g, midway between the two folds.", elim, DemoScenario.CONTROL, stim));
+        dir.write(FitFile.PHASE_PLANE, pp);
+        long stable = pp.steadyStates().stream().filter(org.switchfit.report.PhasePlaneFile.SteadyPoint::stable)
+                .count();
+        return String.format(Locale.ROOT, "%s vs %s at %s = %.4g: %d steady states (%d stable), %d trajectories",
+                ids.get(0), ids.get(1), DemoScenario.CONTROL, stim, pp.steadyStates().size(), stable,
+                pp.trajectories().size());
     }
 
     /** A ramp with its one jump; before/after are the readouts at the samples around the jump. */
