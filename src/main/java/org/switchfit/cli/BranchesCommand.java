@@ -87,6 +87,30 @@ public final class BranchesCommand implements Callable<Integer> {
         return 0;
     }
 
+    /**
+     * Traces the steady-state branch of an SBML model over a control range, as {@code switchfit branches} does
+     * (library entry point): conservation laws are found and eliminated, the steady state at the model's control
+     * value (or at {@code from}) is continued by pseudo-arclength both ways, folds and Hopf points are refined.
+     *
+     * @param model   SBML file
+     * @param control parameter or compartment id, {@code init:SPECIES} or {@code total:SPECIES}
+     * @param from    lower end of the range
+     * @param to      upper end of the range
+     * @param sets    overrides {@code id -> value} applied before the analysis (may be empty)
+     * @return the branch with its folds and Hopf points, in user units of the control, full states
+     * @throws org.switchfit.util.UserInputException for a bad model, control id or range, or a failed continuation
+     */
+    public static BranchesFile trace(Path model, String control, double from, double to, Map<String, String> sets) {
+        SwitchSetup setup = new SwitchSetup();
+        setup.modelFile = model;
+        setup.vary = control;
+        setup.from = from;
+        setup.to = to;
+        setup.sets = new LinkedHashMap<>(sets);
+        SwitchSetup.Start s = setup.start();
+        return toFile(s, setup.branch(s, SwitchSetup.settings(s.control, from, to)), from, to);
+    }
+
     private static String note(Branch b, BranchesFile.Special sp) {
         if (sp.kind() == BranchesFile.Kind.FOLD) {
             int k = Integer.parseInt(sp.id().substring(4)) - 1;

@@ -147,7 +147,15 @@ public final class FitCommand implements Callable<Integer> {
         return 0;
     }
 
-    static FitProblem fitProblem(EstimationProblem problem, LikelihoodObjective objective) {
+    /**
+     * The fit problem of a loaded problem (library entry point): the objective with the bounds and estimation scales
+     * of the problem file, all parameters free.
+     *
+     * @param problem   the problem, e.g. from {@code ProblemLoader.load(path)}
+     * @param objective its negative log-likelihood, e.g. {@code LikelihoodObjective.of(problem, settings)}
+     * @return the problem for {@code Multistart}, {@code LevenbergMarquardt} and {@code ProfileLikelihood}
+     */
+    public static FitProblem fitProblem(EstimationProblem problem, LikelihoodObjective objective) {
         int np = problem.parameterCount();
         String[] ids = new String[np];
         double[] lo = new double[np];
