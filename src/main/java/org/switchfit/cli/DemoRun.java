@@ -5,7 +5,6 @@ import java.io.PrintWriter;
 import java.io.StringWriter;
 import java.nio.file.Files;
 import java.nio.file.Path;
-import java.nio.file.StandardCopyOption;
 import java.util.ArrayList;
 import java.util.Comparator;
 import java.util.LinkedHashMap;
@@ -14,7 +13,6 @@ import java.util.Locale;
 import java.util.Map;
 import org.switchfit.continuation.BistableRegion;
 import org.switchfit.continuation.Branch;
-import org.switchfit.continuation.BranchPoint;
 import org.switchfit.continuation.ContinuationException;
 import org.switchfit.continuation.ContinuationSettings;
 import org.switchfit.continuation.Fold;
@@ -245,32 +243,28 @@ final class DemoRun {
                 r.profiles.level(), folds ? "" : "; fold-position profiles not available in this build", b);
     }
 
+    /**
+     * Branches stage: the branches command's own code ({@link SwitchSetup}, {@link BranchesCommand#toFile}) on the
+     * fitted model {@code model_fitted.xml} (the demo model with its nominal values when the fit did not finish),
+     * with the measured thresholds of the data set attached to the folds they measure.
+     */
     private String branches(DemoModel dm, Results r) {
-        double[] low = DemoScenario.lowState(dm, r.at.p());
-        r.branch = dm.branch(r.at.p(), low, DemoScenario.CONTROL, DemoScenario.STIMULUS_LOW,
-                DemoScenario.STIMULUS_HIGH);
-        double[] p0 = r.at.p().clone();
-        p0[dm.index(DemoScenario.CONTROL)] = DemoScenario.STIMULUS_LOW;
-        r.branchQ = dm.reducedParameters(p0, dm.settle(p0, low));
-        List<BranchesFile.Point> pts = new ArrayList<>();
-        for (BranchPoint bp : r.branch.points()) {
-            pts.add(new BranchesFile.Point(bp.parameter(), dm.reduced.fullState(bp.state(), r.branchQ), bp.stable(),
-                    bp.eigenReal(), bp.eigenImag()));
-        }
-        List<BranchesFile.Special> folds = new ArrayList<>();
+        Path fitted = dir.path().resolve("model_fitted.xml");
+        SwitchSetup setup = new SwitchSetup();
+        setup.modelFile = r.fit != null && Files.isRegularFile(fitted) ? fitted : s.model();
+        setup.vary = DemoScenario.CONTROL;
+        setup.from = DemoScenario.STIMULUS_LOW;
+        setup.to = DemoScenario.STIMULUS_HIGH;
+        SwitchSetup.Start st = setup.start();
+        r.branch = setup.branch(st, SwitchSetup.settings(st.control, setup.from, setup.to));
+        r.branchQ = st.q;
+        BranchesFile traced = BranchesCommand.toFile(st, r.branch, setup.from, setup.to);
         StringBuilder msg = new StringBuilder();
         Map<SwitchingThreshold.Direction, String> foldIds = new LinkedHashMap<>();
         for (int i = 0; i < r.branch.folds().size(); i++) {
             Fold f = r.branch.folds().get(i);
-            double[] y = dm.reduced.fullState(f.state(), r.branchQ);
-            Map<String, Double> st = new LinkedHashMap<>();
-            for (int k = 0; k < y.length; k++) {
-                st.put(dm.states.get(k), y[k]);
-            }
-            String id = "fold" + (i + 1);
-            folds.add(new BranchesFile.Special(id, DemoScenario.CONTROL, f.parameter(), st, BranchesFile.Kind.FOLD));
             foldIds.put(f.kind() == Fold.Kind.MAXIMUM ? SwitchingThreshold.Direction.UP
-                    : SwitchingThreshold.Direction.DOWN, id);
+                    : SwitchingThreshold.Direction.DOWN, traced.folds().get(i).id());
             msg.append(String.format(Locale.ROOT, "%s%.10g", msg.length() == 0 ? "" : ", ", f.parameter()));
         }
         List<BranchesFile.Threshold> th = new ArrayList<>();
@@ -279,11 +273,10 @@ final class DemoRun {
             th.add(new BranchesFile.Threshold("threshold" + (++n), t.value(), t.sigma(),
                     t.direction().name().toLowerCase(Locale.ROOT), foldIds.get(t.direction())));
         }
-        dir.write(FitFile.BRANCHES, new BranchesFile(DemoScenario.CONTROL,
-                new double[] {DemoScenario.STIMULUS_LOW, DemoScenario.STIMULUS_HIGH}, dm.states, folds,
-                List.of(new BranchesFile.Branch("from rest", pts)), th));
-        return String.format(Locale.ROOT, "%d points, %d folds%s%s", r.branch.size(), r.branch.folds().size(),
-                folds.isEmpty() ? "" : " at stimulus ", msg);
+        dir.write(FitFile.BRANCHES, new BranchesFile(traced.control(), traced.range(), traced.stateIds(),
+                traced.folds(), traced.branches(), th));
+        return String.format(Locale.ROOT, "%d points, %d folds%s%s (model %s)", r.branch.size(),
+                r.branch.folds().size(), msg.length() == 0 ? "" : " at stimulus ", msg, setup.modelFile);
     }
 
     private String region(DemoModel dm, Results r) {
