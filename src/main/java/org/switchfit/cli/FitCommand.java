@@ -122,6 +122,13 @@ public final class FitCommand implements Callable<Integer> {
             if (r.status() != StartStatus.FAILED) {
                 best[0] = Math.min(best[0], r.nll());
             }
+            PrintWriter log = OutputOptions.log(spec);
+            if (log != null) {
+                // The terminal's progress bar redraws one line; the log gets one line per finished start.
+                log.printf(Locale.ROOT, "start %d finished (%d/%d): %s, NLL %.10g, %d iterations%n", r.index(),
+                        done[0], starts, r.status(), r.nll(), r.iterations());
+                log.flush();
+            }
             if (bar) {
                 int width = 30;
                 int filled = (int) ((long) width * done[0] / starts);

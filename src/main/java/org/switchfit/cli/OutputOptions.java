@@ -54,6 +54,11 @@ final class OutputOptions {
         return o.logWriter != null ? o.logWriter : new PrintWriter(Writer.nullWriter());
     }
 
+    /** The open log of the command behind {@code spec}, or null (for progress that only the log should get). */
+    static PrintWriter log(CommandSpec spec) {
+        return of(spec).logWriter;
+    }
+
     /** Whether progress is shown on the terminal. */
     static boolean quiet(CommandSpec spec) {
         return of(spec).quiet;

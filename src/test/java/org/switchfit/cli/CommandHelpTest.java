@@ -81,7 +81,14 @@ class CommandHelpTest {
         ProfileCommandTest.Result bad = ProfileCommandTest.run("audit", dir.resolve("nowhere").toString(), "--log",
                 log.toString());
         assertEquals(2, bad.code());
+        Path yaml = DecayProblemFiles.write(dir.resolve("decay"), new double[] {2.1, 1.45, 1.12, 0.78},
+                new double[] {0, 1, 2, 3}, 0.1);
+        ProfileCommandTest.Result fit = ProfileCommandTest.run("fit", yaml.toString(), "--out",
+                dir.resolve("fit").toString(), "--starts", "2", "--log", log.toString());
+        assertEquals(0, fit.code(), fit.err());
         String text = Files.readString(log);
+        // The fit's progress (one line per start) reaches the log even without a terminal.
+        assertTrue(text.contains("start 0 finished (") && text.contains("start 1 finished ("), text);
         // The simulation table printed on the terminal is in the log too, and so is the error line of the second run.
         assertTrue(text.contains(ok.out().lines().findFirst().orElseThrow()), text);
         assertTrue(text.contains("switchfit simulate") && text.contains("switchfit audit"), text);
