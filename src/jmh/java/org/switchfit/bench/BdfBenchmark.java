@@ -16,6 +16,7 @@ import org.switchfit.ode.IntegrationSession;
 import org.switchfit.ode.OdeSystem;
 import org.switchfit.ode.SolverSettings;
 import org.switchfit.ode.bdf.BdfIntegrator;
+import org.switchfit.testsystems.StiffSystems;
 
 /**
  * Whole integrations with the BDF session: Robertson to t = 40 (with and without the 3 parameter sensitivities)
@@ -47,7 +48,7 @@ public class BdfBenchmark {
         bdf = new BdfIntegrator(SolverSettings.defaults().withTolerances(1e-8, 1e-14));
         switch (problem) {
             case "hires":
-                sys = StiffProblems.HIRES;
+                sys = StiffSystems.HIRES;
                 y0 = new double[] {1, 0, 0, 0, 0, 0, 0, 0.0057};
                 p = new double[0];
                 tEnd = 321.8122;
@@ -55,14 +56,14 @@ public class BdfBenchmark {
             case "bruss500":
             case "bruss500-sens":
                 bdf = new BdfIntegrator(SolverSettings.defaults().withTolerances(1e-6, 1e-8));
-                sys = StiffProblems.brusselator(250);
-                y0 = StiffProblems.brusselatorStart(250);
+                sys = StiffSystems.brusselator(250);
+                y0 = StiffSystems.brusselatorStart(250);
                 p = new double[] {1.0, 3.0, 1.0 / 50};
                 tEnd = 10.0;
                 sensParams = problem.endsWith("sens") ? new int[] {1} : null;
                 break;
             default:
-                sys = StiffProblems.ROBERTSON;
+                sys = StiffSystems.ROBERTSON;
                 y0 = new double[] {1, 0, 0};
                 p = new double[] {0.04, 3e7, 1e4};
                 tEnd = 40.0;

@@ -156,25 +156,21 @@ final class CheckRun {
         }
     }
 
-    /** Reference values in measurement order: by row when the tables line up, else by matching keys. */
+    /**
+     * Reference values in measurement order: by row when the tables line up, else by matching keys. The tables
+     * line up when they have the same number of rows and every row has the same observable (or one extended with
+     * '__...') and time, and the condition ids are the same or consistently renamed (a one-to-one map between the
+     * reference's ids and the condition table's, as in tables written by tools that number conditions).
+     */
     private double[] align(List<PetabMeasurement> ref) {
         List<Measurement> ms = problem.measurements();
         double[] out = new double[ms.size()];
         java.util.Arrays.fill(out, Double.NaN);
-        if (ref.size() == ms.size()) {
-            boolean same = true;
-            for (int i = 0; i < ms.size() && same; i++) {
-                Measurement me = ms.get(i);
-                String sim = problem.conditions().get(problem.experiments().get(me.experiment()).condition()).id();
-                same = sim.equals(ref.get(i).simulationConditionId()) && me.time() == ref.get(i).time();
+        if (ref.size() == ms.size() && linesUp(ms, ref)) {
+            for (int i = 0; i < ms.size(); i++) {
+                out[i] = ref.get(i).value();
             }
-            if (same) {
-                // Same rows in the same order (some published tables rename the observables): align by row.
-                for (int i = 0; i < ms.size(); i++) {
-                    out[i] = ref.get(i).value();
-                }
-                return out;
-            }
+            return out;
         }
         Map<String, List<PetabMeasurement>> byKey = new HashMap<>();
         for (PetabMeasurement r : ref) {
@@ -215,6 +211,24 @@ final class CheckRun {
                     + "(observableId, simulationConditionId, time); pass the simulated-data table of this problem");
         }
         return out;
+    }
+
+    private boolean linesUp(List<Measurement> ms, List<PetabMeasurement> ref) {
+        Map<String, String> oursToRef = new HashMap<>();
+        Map<String, String> refToOurs = new HashMap<>();
+        for (int i = 0; i < ms.size(); i++) {
+            Measurement me = ms.get(i);
+            PetabMeasurement r = ref.get(i);
+            String sim = problem.conditions().get(problem.experiments().get(me.experiment()).condition()).id();
+            String obs = problem.observables().get(me.observable()).id();
+            boolean sameObs = r.observableId().equals(obs) || r.observableId().startsWith(obs + "__");
+            if (!sameObs || me.time() != r.time()
+                    || !oursToRef.computeIfAbsent(sim, k -> r.simulationConditionId()).equals(r.simulationConditionId())
+                    || !refToOurs.computeIfAbsent(r.simulationConditionId(), k -> sim).equals(sim)) {
+                return false;
+            }
+        }
+        return true;
     }
 
     private static String key(String sim, double t) {

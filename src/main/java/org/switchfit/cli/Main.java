@@ -24,6 +24,7 @@ import picocli.CommandLine.Command;
             FitCommand.class,
             AuditCommand.class,
             BenchPetabCommand.class,
+            BenchFitsCommand.class,
             ReportCommand.class,
             ProfileCommand.class,
             DemoCommand.class,

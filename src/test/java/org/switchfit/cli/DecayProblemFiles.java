@@ -5,39 +5,14 @@ import java.io.UncheckedIOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.Locale;
+import org.switchfit.testsystems.DecaySbml;
 
 /** Writes a tiny PEtab problem: X' = -k X, X(0) = x0 (initial assignment), log-normal noise of known σ. */
 final class DecayProblemFiles {
     private DecayProblemFiles() {
     }
 
-    static final String MODEL = """
-            <?xml version="1.0" encoding="UTF-8"?>
-            <sbml xmlns="http://www.sbml.org/sbml/level3/version2/core" level="3" version="2">
-              <model id="decay">
-                <listOfCompartments><compartment id="c" size="1" constant="true" spatialDimensions="3"/>
-                </listOfCompartments>
-                <listOfSpecies><species id="X" compartment="c" initialConcentration="1"
-                  hasOnlySubstanceUnits="false" boundaryCondition="false" constant="false"/></listOfSpecies>
-                <listOfParameters>
-                  <parameter id="k" value="0.3" constant="true"/>
-                  <parameter id="x0" value="2" constant="true"/>
-                </listOfParameters>
-                <listOfInitialAssignments>
-                  <initialAssignment symbol="X"><math xmlns="http://www.w3.org/1998/Math/MathML"><ci>x0</ci></math>
-                  </initialAssignment>
-                </listOfInitialAssignments>
-                <listOfReactions>
-                  <reaction id="r" reversible="false">
-                    <listOfReactants><speciesReference species="X" stoichiometry="1" constant="true"/>
-                    </listOfReactants>
-                    <kineticLaw><math xmlns="http://www.w3.org/1998/Math/MathML">
-                      <apply><times/><ci>k</ci><ci>X</ci></apply></math></kineticLaw>
-                  </reaction>
-                </listOfReactions>
-              </model>
-            </sbml>
-            """;
+    static final String MODEL = DecaySbml.MODEL;
 
     /**
      * The same decay reparameterised by B = X(tStar): X(0) = B e^{k tStar}, so X(t) = B e^{-k (t - tStar)}.

@@ -3,6 +3,7 @@ package org.switchfit.report;
 import java.io.IOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import org.switchfit.testsystems.DecaySbml;
 
 /**
  * A small PEtab problem for tests: first-order decay X' = -k X, X(0) = x0 (solution x0 exp(-k t)), observables
@@ -14,33 +15,7 @@ public final class DecayProblem {
     }
 
     /** The SBML model. */
-    public static final String MODEL = """
-            <?xml version="1.0" encoding="UTF-8"?>
-            <sbml xmlns="http://www.sbml.org/sbml/level3/version2/core" level="3" version="2">
-              <model id="decay">
-                <listOfCompartments><compartment id="c" size="1" constant="true" spatialDimensions="3"/>
-                </listOfCompartments>
-                <listOfSpecies><species id="X" compartment="c" initialConcentration="1"
-                  hasOnlySubstanceUnits="false" boundaryCondition="false" constant="false"/></listOfSpecies>
-                <listOfParameters>
-                  <parameter id="k" value="0.3" constant="true"/>
-                  <parameter id="x0" value="2" constant="true"/>
-                </listOfParameters>
-                <listOfInitialAssignments>
-                  <initialAssignment symbol="X"><math xmlns="http://www.w3.org/1998/Math/MathML"><ci>x0</ci></math>
-                  </initialAssignment>
-                </listOfInitialAssignments>
-                <listOfReactions>
-                  <reaction id="r" reversible="false">
-                    <listOfReactants><speciesReference species="X" stoichiometry="1" constant="true"/>
-                    </listOfReactants>
-                    <kineticLaw><math xmlns="http://www.w3.org/1998/Math/MathML">
-                      <apply><times/><ci>k</ci><ci>X</ci></apply></math></kineticLaw>
-                  </reaction>
-                </listOfReactions>
-              </model>
-            </sbml>
-            """;
+    public static final String MODEL = DecaySbml.MODEL;
 
     /** Writes the problem files into {@code dir}; returns the YAML path. */
     public static Path write(Path dir) throws IOException {

@@ -1,15 +1,18 @@
-package org.switchfit.bench;
+package org.switchfit.testsystems;
 
 import org.switchfit.ode.OdeSystem;
 
-/** Classic stiff test problems with analytic Jacobians, for benchmarks. */
-final class StiffProblems {
+/**
+ * Classic stiff test problems with analytic Jacobians, shared by the integrator tests (test scope) and the JMH
+ * benchmarks (the {@code jmh} profile compiles this folder into the benchmark jar).
+ */
+public final class StiffSystems {
 
-    private StiffProblems() {
+    private StiffSystems() {
     }
 
     /** Robertson (1966) kinetics; p = {0.04, 3e7, 1e4}, y0 = (1, 0, 0). */
-    static final OdeSystem ROBERTSON = new OdeSystem() {
+    public static final OdeSystem ROBERTSON = new OdeSystem() {
         public int stateCount() {
             return 3;
         }
@@ -56,7 +59,7 @@ final class StiffProblems {
      * HIRES (Schaefer 1975, plant physiology; as in Hairer &amp; Wanner, Solving ODEs II, Sec. IV.10), 8 states, no
      * parameters; y0 = (1, 0, 0, 0, 0, 0, 0, 0.0057), t in [0, 321.8122].
      */
-    static final OdeSystem HIRES = new OdeSystem() {
+    public static final OdeSystem HIRES = new OdeSystem() {
         public int stateCount() {
             return 8;
         }
@@ -115,7 +118,7 @@ final class StiffProblems {
      * u_i' = A + u_i^2 v_i - (B + 1) u_i + c (u_{i-1} - 2 u_i + u_{i+1}), v_i' = B u_i - u_i^2 v_i + c (v_{i-1} - 2 v_i
      * + v_{i+1}), c = alpha (N + 1)^2, boundary u = 1, v = 3. Parameters p = {A, B, alpha}.
      */
-    static OdeSystem brusselator(int nPoints) {
+    public static OdeSystem brusselator(int nPoints) {
         int n = 2 * nPoints;
         int[][] pattern = new int[n][];
         for (int r = 0; r < n; r++) {
@@ -205,7 +208,7 @@ final class StiffProblems {
     }
 
     /** Initial state of {@link #brusselator}: u = 1 + sin(2 pi x_i), v = 3, x_i = i / (N + 1). */
-    static double[] brusselatorStart(int nPoints) {
+    public static double[] brusselatorStart(int nPoints) {
         double[] y = new double[2 * nPoints];
         for (int i = 0; i < nPoints; i++) {
             y[2 * i] = 1 + Math.sin(2 * Math.PI * (i + 1) / (nPoints + 1));
