@@ -37,7 +37,7 @@ class CommandHelpTest {
             }
             ProfileCommandTest.Result r = ProfileCommandTest.run(e.getKey(), "--help");
             assertEquals(0, r.code(), e.getKey());
-            int at = r.out().indexOf("Examples:");
+            int at = r.out().indexOf("Example");
             if (at < 0) {
                 problems.add(e.getKey() + ": no examples in --help");
                 continue;
