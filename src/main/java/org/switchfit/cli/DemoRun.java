@@ -17,7 +17,6 @@ import org.switchfit.continuation.ContinuationException;
 import org.switchfit.continuation.ContinuationSettings;
 import org.switchfit.continuation.Fold;
 import org.switchfit.continuation.FoldCurve;
-import org.switchfit.continuation.FoldCurves;
 import org.switchfit.continuation.HysteresisSweep;
 import org.switchfit.continuation.SweepResult;
 import org.switchfit.data.ProblemFileReader;
@@ -36,7 +35,6 @@ import org.switchfit.report.FitFile;
 import org.switchfit.report.FitSummary;
 import org.switchfit.report.Json;
 import org.switchfit.report.ProfilesFile;
-import org.switchfit.report.RegionFile;
 import org.switchfit.report.SweepFile;
 import org.switchfit.util.SourceLocation;
 import org.switchfit.util.UserInputException;
@@ -90,6 +88,9 @@ final class DemoRun {
         ParameterSet at;
         Branch branch;
         double[] branchQ;
+        /** The branches command's set-up and start on the model the continuation stages use. */
+        SwitchSetup setup;
+        SwitchSetup.Start start;
         BistableRegion region;
         double regionHigh;
         FoldCurve foldCurve;
@@ -258,6 +259,8 @@ final class DemoRun {
         SwitchSetup.Start st = setup.start();
         r.branch = setup.branch(st, SwitchSetup.settings(st.control, setup.from, setup.to));
         r.branchQ = st.q;
+        r.setup = setup;
+        r.start = st;
         BranchesFile traced = BranchesCommand.toFile(st, r.branch, setup.from, setup.to);
         StringBuilder msg = new StringBuilder();
         Map<SwitchingThreshold.Direction, String> foldIds = new LinkedHashMap<>();
@@ -279,56 +282,44 @@ final class DemoRun {
                 r.branch.folds().size(), msg.length() == 0 ? "" : " at stimulus ", msg, setup.modelFile);
     }
 
+    /**
+     * Region stage: the region command's computation ({@link RegionCommand#trace}) from the first fold of the
+     * branch, widening the range of the second parameter until the fold curve closes at a cusp inside the box
+     * (without a cusp the traced curve is one fold branch only, and the polygon it closes along the box edge is not
+     * the bistable region).
+     */
     private String region(DemoModel dm, Results r) {
-        if (r.branch == null || r.branch.folds().isEmpty()) {
+        if (r.branch == null || r.branch.folds().isEmpty() || r.start == null) {
             throw new StageFailure("no fold on the branch, so no bistable region to trace");
         }
-        int k2 = dm.index(REGION_PARAMETER);
-        ContinuationSettings cs = ContinuationSettings.of(DemoScenario.STIMULUS_LOW, DemoScenario.STIMULUS_HIGH)
-                .withSteps(0.01, 1e-9, s.quick() ? 0.1 : 0.04);
-        // Without a cusp in the box the traced curve is one fold branch only, and the polygon it closes along
-        // the box edge is not the bistable region; so widen the range of the second parameter until it closes.
+        SwitchSetup.Start st = r.start;
+        RegionCommand.Traced t = null;
         double high = REGION_HIGHS[0];
-        for (double h : REGION_HIGHS) {
-            high = h;
-            r.foldCurve = new FoldCurves(cs, REGION_LOW, high).trace(dm.reduced, r.branch.folds().get(0),
-                    r.branchQ, k2);
-            if (!r.foldCurve.cusps().isEmpty()) {
-                break;
+        try {
+            ControlQuantity c2 = ControlQuantity.resolve(st.sm, REGION_PARAMETER, "--and",
+                    st.sm.reduced.fullState(st.x, st.q), st.q, st.pEff);
+            ContinuationSettings cs = SwitchSetup.settings(st.control, r.setup.from, r.setup.to);
+            for (double h : REGION_HIGHS) {
+                high = h;
+                t = RegionCommand.trace(r.setup, st, r.branch, c2, REGION_LOW, high, cs);
+                if (!t.curve().cusps().isEmpty()) {
+                    break;
+                }
             }
+        } catch (UserInputException e) {
+            throw new StageFailure(e.getMessage());
         }
-        if (r.foldCurve.cusps().isEmpty()) {
-            r.foldCurve = null;
+        if (t == null || t.curve().cusps().isEmpty()) {
             throw new StageFailure(String.format(Locale.ROOT, "no cusp of the fold curve for %s in [%.3g, %.3g], so "
                     + "the bistable region is not closed there", REGION_PARAMETER, REGION_LOW, high));
         }
+        r.foldCurve = t.curve();
+        r.region = t.region();
         r.regionHigh = high;
-        r.region = BistableRegion.of(r.foldCurve, DemoScenario.STIMULUS_LOW, DemoScenario.STIMULUS_HIGH,
-                REGION_LOW, high);
-        int np = r.foldCurve.points().size();
-        double[] c1 = new double[np];
-        double[] c2 = new double[np];
-        for (int i = 0; i < np; i++) {
-            c1[i] = r.foldCurve.points().get(i).p1();
-            c2[i] = r.foldCurve.points().get(i).p2();
-        }
-        double[][] poly = r.region.polygon();
-        double[] b1 = new double[poly.length];
-        double[] b2 = new double[poly.length];
-        for (int i = 0; i < poly.length; i++) {
-            b1[i] = poly[i][0];
-            b2[i] = poly[i][1];
-        }
-        List<RegionFile.Cusp> cusps = new ArrayList<>();
-        for (FoldCurve.Cusp c : r.region.cusps()) {
-            cusps.add(new RegionFile.Cusp(c.p1(), c.p2()));
-        }
-        dir.write(FitFile.REGION, new RegionFile(DemoScenario.CONTROL, REGION_PARAMETER,
-                new double[] {DemoScenario.STIMULUS_LOW, DemoScenario.STIMULUS_HIGH},
-                new double[] {REGION_LOW, high}, List.of(new RegionFile.Curve(c1, c2)), cusps,
-                new RegionFile.Curve(b1, b2), r.region.closedByChord(), null));
-        return String.format(Locale.ROOT, "%d fold-curve points, %d cusp(s), area %.4g in (%s, %s)", np,
-                r.region.cusps().size(), r.region.area(), DemoScenario.CONTROL, REGION_PARAMETER);
+        dir.write(FitFile.REGION, t.file());
+        return String.format(Locale.ROOT, "%d fold-curve points, %d cusp(s), area %.4g in (%s, %s)",
+                r.foldCurve.points().size(), r.region.cusps().size(), r.region.area(), DemoScenario.CONTROL,
+                REGION_PARAMETER);
     }
 
     private String sweep(DemoModel dm, Results r) {
