@@ -17,8 +17,6 @@ import org.switchfit.continuation.ContinuationException;
 import org.switchfit.continuation.ContinuationSettings;
 import org.switchfit.continuation.Fold;
 import org.switchfit.continuation.FoldCurve;
-import org.switchfit.continuation.HysteresisSweep;
-import org.switchfit.continuation.SweepResult;
 import org.switchfit.data.ProblemFileReader;
 import org.switchfit.data.ProblemFileWriter;
 import org.switchfit.data.SwitchfitProblem;
@@ -26,8 +24,6 @@ import org.switchfit.data.SwitchingThreshold;
 import org.switchfit.objective.FoldPredictionSource;
 import org.switchfit.objective.LikelihoodObjective;
 import org.switchfit.ode.IntegrationException;
-import org.switchfit.ode.Integrators;
-import org.switchfit.ode.SolverSettings;
 import org.switchfit.problem.ProblemLoader;
 import org.switchfit.report.BranchesFile;
 import org.switchfit.report.FitDirectory;
@@ -94,8 +90,7 @@ final class DemoRun {
         BistableRegion region;
         double regionHigh;
         FoldCurve foldCurve;
-        SweepResult up;
-        SweepResult down;
+        SweepFile sweep;
     }
 
     /** A stage that could not complete; the message says why. */
@@ -322,23 +317,24 @@ final class DemoRun {
                 REGION_PARAMETER);
     }
 
+    /**
+     * Sweep stage: the sweep command's computation ({@link SweepCommand#sweep}) on the model of the branch stage,
+     * ZarnA followed, ramps between the ends of the branch range.
+     */
     private String sweep(DemoModel dm, Results r) {
-        HysteresisSweep hs = new HysteresisSweep(Integrators.create(SolverSettings.defaults()
-                .withTolerances(1e-8, 1e-10)), s.quick() ? 101 : SWEEP_SAMPLES);
-        double[] p = r.at.p();
-        int k = dm.index(DemoScenario.CONTROL);
-        double[] low = DemoScenario.lowState(dm, p);
-        double[] high = DemoScenario.highState(dm, p);
-        double[] q = dm.reducedParameters(p, low);
-        double[] c = dm.reducedReadout(dm.speciesReadout("ZarnA"), q);
-        r.up = hs.run(dm.reduced, dm.reduced.reducedState(low), q, k, DemoScenario.STIMULUS_LOW,
-                DemoScenario.STIMULUS_HIGH, SWEEP_RATE, c);
-        r.down = hs.run(dm.reduced, dm.reduced.reducedState(high), q, k, DemoScenario.STIMULUS_HIGH,
-                DemoScenario.STIMULUS_LOW, SWEEP_RATE, c);
-        dir.write(FitFile.SWEEP, new SweepFile(DemoScenario.CONTROL, "ZarnA", SWEEP_RATE,
-                List.of(run(r.up, SweepFile.Direction.UP), run(r.down, SweepFile.Direction.DOWN))));
+        if (r.start == null) {
+            throw new StageFailure("needs the branch stage's model and steady state");
+        }
+        try {
+            r.sweep = SweepCommand.sweep(r.setup, r.start, "ZarnA", SWEEP_RATE, s.quick() ? 101 : SWEEP_SAMPLES);
+        } catch (UserInputException e) {
+            throw new StageFailure(e.getMessage());
+        }
+        dir.write(FitFile.SWEEP, r.sweep);
+        SweepFile.Run up = r.sweep.runs().get(0);
+        SweepFile.Run down = r.sweep.runs().get(1);
         return String.format(Locale.ROOT, "ramp at %.3g per min: jumps at stimulus %.4g (up) and %.4g (down)",
-                SWEEP_RATE, r.up.jumpParameter(), r.down.jumpParameter());
+                SWEEP_RATE, up.jumps().get(0).value(), down.jumps().get(0).value());
     }
 
     /**
@@ -389,19 +385,6 @@ final class DemoRun {
         return String.format(Locale.ROOT, "%s vs %s at %s = %.4g: %d steady states (%d stable), %d trajectories",
                 ids.get(0), ids.get(1), DemoScenario.CONTROL, stim, pp.steadyStates().size(), stable,
                 pp.trajectories().size());
-    }
-
-    /** A ramp with its one jump; before/after are the readouts at the samples around the jump. */
-    private static SweepFile.Run run(SweepResult sr, SweepFile.Direction d) {
-        double[] v = sr.parameter();
-        double[] y = sr.readout();
-        int i = 0;
-        while (i + 1 < v.length && (d == SweepFile.Direction.UP ? v[i + 1] < sr.jumpParameter()
-                : v[i + 1] > sr.jumpParameter())) {
-            i++;
-        }
-        int j = Math.min(i + 1, v.length - 1);
-        return new SweepFile.Run(d, v, y, List.of(new SweepFile.Jump(sr.jumpParameter(), y[i], y[j])));
     }
 
     /** Runs a command object through picocli with its output captured in {@code log}; returns the exit code. */

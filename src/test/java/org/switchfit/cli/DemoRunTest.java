@@ -85,6 +85,12 @@ class DemoRunTest {
         double off = Math.min(br.folds().get(0).value(), br.folds().get(1).value());
         SweepFile sw = dir.read(FitFile.SWEEP);
         for (SweepFile.Run run : sw.runs()) {
+            // The response is the ZarnA concentration itself: between 0 and the conserved Zarn total (1 in the
+            // model file), with 1e-6 for the integration tolerance (a species eliminated by the reduction must
+            // have its conserved part added back).
+            for (double y : run.response()) {
+                assertTrue(y >= -1e-6 && y <= 1 + 1e-6, "ZarnA response " + y + " outside [0, 1]");
+            }
             double jump = run.jumps().get(0).value();
             assertTrue(run.direction() == SweepFile.Direction.UP ? jump > on : jump < off, run.direction() + " "
                     + jump + " vs folds " + off + ", " + on);
