@@ -26,6 +26,7 @@ import picocli.CommandLine.Spec;
  * summary, optionally JSON.
  */
 @Command(name = "bench-petab", hidden = true, mixinStandardHelpOptions = true,
+        footer = {"", "Examples:", "  switchfit bench-petab ../shared/benchmarks/problems --json target/petab.json", "  switchfit bench-petab ../shared/benchmarks/problems --problems Boehm_JProteomeRes2014 --timing 5"},
         description = "Check every PEtab problem in a folder against its reference simulations and check gradients.")
 public final class BenchPetabCommand implements Callable<Integer> {
     /** Relative agreement required between gradient and central finite differences. */

@@ -17,6 +17,7 @@ import org.switchfit.problem.EstimationProblem;
 import org.switchfit.problem.ProblemLoader;
 import org.switchfit.profile.Profile;
 import org.switchfit.profile.ProfileLikelihood;
+import org.switchfit.report.ProfilesFile;
 import org.switchfit.util.UserInputException;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Option;
@@ -29,6 +30,7 @@ import picocli.CommandLine.Spec;
  * the constrained re-optimisations per point. Writes nothing. Timings are not reproducible; the profiles are.
  */
 @Command(name = "bench-profiles", hidden = true, mixinStandardHelpOptions = true,
+        footer = {"", "Examples:", "  switchfit bench-profiles ../shared/benchmarks/problems/Boehm_JProteomeRes2014/Boehm_JProteomeRes2014.yaml --starts 10 --threads 2"},
         description = "Benchmark: fit (or load a fit directory) and profile all parameters; print timings.")
 public final class BenchProfilesCommand implements Callable<Integer> {
 
@@ -97,7 +99,7 @@ public final class BenchProfilesCommand implements Callable<Integer> {
         List<ProfileRun.Task> tasks = new ArrayList<>();
         for (int k = 0; k < fp.parameterCount(); k++) {
             if (!fp.isFixed(k)) {
-                tasks.add(new ProfileRun.Task("parameter", fp.id(k), k, null));
+                tasks.add(new ProfileRun.Task(ProfilesFile.Kind.PARAMETER, fp.id(k), k, null));
             }
         }
         List<Callable<Profile>> calls = new ArrayList<>();

@@ -31,6 +31,7 @@ import picocli.CommandLine.Spec;
  * {@code OdeForm}.
  */
 @Command(name = "branches", mixinStandardHelpOptions = true,
+        footer = {"", "Examples:", "  switchfit branches models/stress_switch.xml --vary stimulus --from 0 --to 4 --json branches.json", "  switchfit branches fits/mine/model_fitted.xml --vary stimulus --from 0 --to 4 --set k_rec=2"},
         description = "Trace the steady states of an SBML model against one control quantity and report its folds "
                 + "(switching points) and Hopf points.")
 public final class BranchesCommand implements Callable<Integer> {
@@ -60,13 +61,8 @@ public final class BranchesCommand implements Callable<Integer> {
         SwitchSetup.Start s = setup.start();
         ContinuationSettings cs = SwitchSetup.settings(s.control, setup.from, setup.to).withMaxPoints(maxPoints);
         long t1 = System.nanoTime();
-        // Continue in scaled unknowns (relative changes of states and control, see ScaledSystem): with states of
-        // 1e9 and a control near 1e-9 the unscaled arclength cannot resolve the branch.
-        int k = s.control.index();
-        ScaledSystem sc = ScaledSystem.around(s.sm.reduced, s.x, k, s.q[k], cs.lowerBound(), cs.upperBound());
-        ContinuationSettings scs = ContinuationSettings.of(sc.scaleControl(cs.lowerBound()),
-                sc.scaleControl(cs.upperBound())).withMaxPoints(maxPoints);
-        Branch b = setup.branch(sc, sc.scaleState(s.x), sc.scaleParameters(s.q), k, scs);
+        ScaledSystem sc = scaled(s, cs);
+        Branch b = traceScaled(setup, s, sc, cs);
         long t2 = System.nanoTime();
         BranchesFile file = toFile(s, b, setup.from, setup.to, sc);
         PrintWriter out = spec.commandLine().getOut();
@@ -118,6 +114,49 @@ public final class BranchesCommand implements Callable<Integer> {
             AtomicFiles.writeString(csv, toCsv(file));
         }
         return 0;
+    }
+
+    /**
+     * Traces the steady-state branch of an SBML model over a control range, as {@code switchfit branches} does
+     * (library entry point): conservation laws are found and eliminated, the steady state at the model's control
+     * value (or at {@code from}) is continued by pseudo-arclength both ways, folds and Hopf points are refined.
+     *
+     * @param model   SBML file
+     * @param control parameter or compartment id, {@code init:SPECIES} or {@code total:SPECIES}
+     * @param from    lower end of the range
+     * @param to      upper end of the range
+     * @param sets    overrides {@code id -> value} applied before the analysis (may be empty)
+     * @return the branch with its folds and Hopf points, in user units of the control, full states
+     * @throws org.switchfit.util.UserInputException for a bad model, control id or range, or a failed continuation
+     */
+    public static BranchesFile trace(Path model, String control, double from, double to, Map<String, String> sets) {
+        SwitchSetup setup = new SwitchSetup();
+        setup.modelFile = model;
+        setup.vary = control;
+        setup.from = from;
+        setup.to = to;
+        setup.sets = new LinkedHashMap<>(sets);
+        SwitchSetup.Start s = setup.start();
+        ContinuationSettings cs = SwitchSetup.settings(s.control, from, to);
+        ScaledSystem sc = scaled(s, cs);
+        return toFile(s, traceScaled(setup, s, sc, cs), from, to, sc);
+    }
+
+    /**
+     * The scaled unknowns the continuation runs in (relative changes of states and control, see ScaledSystem):
+     * with states of 1e9 and a control near 1e-9 the unscaled arclength cannot resolve the branch.
+     */
+    private static ScaledSystem scaled(SwitchSetup.Start s, ContinuationSettings cs) {
+        int k = s.control.index();
+        return ScaledSystem.around(s.sm.reduced, s.x, k, s.q[k], cs.lowerBound(), cs.upperBound());
+    }
+
+    /** The branch in scaled unknowns, with the settings' range and point limit. */
+    private static Branch traceScaled(SwitchSetup setup, SwitchSetup.Start s, ScaledSystem sc,
+                                      ContinuationSettings cs) {
+        ContinuationSettings scs = ContinuationSettings.of(sc.scaleControl(cs.lowerBound()),
+                sc.scaleControl(cs.upperBound())).withMaxPoints(cs.maxPoints());
+        return setup.branch(sc, sc.scaleState(s.x), sc.scaleParameters(s.q), s.control.index(), scs);
     }
 
     /**

@@ -20,6 +20,7 @@ import picocli.CommandLine.Spec;
  * reference exists), 3 when some simulated value differs from the reference.
  */
 @Command(name = "check", mixinStandardHelpOptions = true,
+        footer = {"", "Examples:", "  switchfit check datasets/stress_switch.yaml", "  switchfit check problem.yaml --json check.json --simulations simulated.tsv"},
         description = "Validate a problem (PEtab YAML or switchfit problem file), evaluate the negative "
                 + "log-likelihood at the nominal parameter values and compare simulations with the reference "
                 + "simulatedData table when there is one.")

@@ -19,6 +19,7 @@ import picocli.CommandLine.Spec;
  * {@code --regenerate-data} it only rewrites the data set.
  */
 @Command(name = "demo", mixinStandardHelpOptions = true,
+        footer = {"", "Examples:", "  switchfit demo", "  switchfit demo --quick --out fits/quick", "  switchfit demo --regenerate-data --seed 20261202"},
         description = "Run fit, profiles, branches, bistable region, hysteresis sweep and report on the bundled "
                 + "SYNTHETIC Zarn/Quel switch data set.")
 public final class DemoCommand implements Callable<Integer> {

@@ -4,7 +4,6 @@ import java.nio.file.Path;
 import java.util.List;
 import java.util.Locale;
 import org.switchfit.continuation.Branch;
-import org.switchfit.continuation.ConservationLaws;
 import org.switchfit.continuation.ContinuationSettings;
 import org.switchfit.continuation.PseudoArclength;
 import org.switchfit.continuation.ReducedSystem;
@@ -17,12 +16,10 @@ import org.switchfit.model.SpeciesRef;
 import org.switchfit.ode.CompiledModel;
 import org.switchfit.ode.Integrator;
 import org.switchfit.ode.Integrators;
-import org.switchfit.ode.ModelCompiler;
 import org.switchfit.ode.ModelOutputs;
 import org.switchfit.ode.Simulator;
 import org.switchfit.ode.SolverSettings;
 import org.switchfit.ode.Trajectory;
-import org.switchfit.sbml.SbmlReader;
 import org.switchfit.util.SourceLocation;
 import org.switchfit.util.UserInputException;
 
@@ -47,15 +44,18 @@ final class DemoModel {
     final CompiledModel compiled;
     final ReducedSystem reduced;
     final List<String> states;
+    /** The general model set-up of the switch-analysis commands, which this class specialises for the demo. */
+    final SwitchModel sm;
     private final Integrator integrator;
     private final Integrator settleIntegrator;
 
-    private DemoModel(Path file, Model model, CompiledModel compiled, ReducedSystem reduced) {
-        this.file = file;
-        this.model = model;
-        this.compiled = compiled;
-        this.reduced = reduced;
-        this.states = compiled.form().stateIds();
+    private DemoModel(SwitchModel sm) {
+        this.sm = sm;
+        this.file = sm.file;
+        this.model = sm.model;
+        this.compiled = sm.compiled;
+        this.reduced = sm.reduced;
+        this.states = sm.states;
         this.integrator = Integrators.create(SolverSettings.defaults().withMethod(SolverSettings.Method.BDF)
                 .withTolerances(RTOL, ATOL));
         // Relaxing only has to land in the attractor's Newton basin; the polish then solves f = 0 to rounding.
@@ -63,31 +63,27 @@ final class DemoModel {
                 .withTolerances(1e-7, 1e-10));
     }
 
-    /** Reads and compiles the SBML file. */
+    /**
+     * Reads and compiles the SBML file, with conservation laws and reduction as for the switch-analysis commands
+     * ({@link SwitchModel}); the demo needs every species to be a state with constant integer stoichiometry.
+     */
     static DemoModel load(Path sbml) {
-        Model m = SbmlReader.read(sbml);
-        CompiledModel cm = ModelCompiler.compile(m);
-        List<String> ids = cm.form().stateIds();
-        int[][] stoich = new int[ids.size()][m.reactions().size()];
-        for (int r = 0; r < m.reactions().size(); r++) {
-            Reaction rx = m.reactions().get(r);
-            add(stoich, ids, rx.reactants(), r, -1, sbml);
-            add(stoich, ids, rx.products(), r, +1, sbml);
+        SwitchModel sm = SwitchModel.load(sbml, null);
+        for (Reaction rx : sm.model.reactions()) {
+            check(rx.reactants(), sm, sbml);
+            check(rx.products(), sm, sbml);
         }
-        ConservationLaws laws = ConservationLaws.of(stoich);
-        return new DemoModel(sbml, m, cm, laws.reduce(cm));
+        return new DemoModel(sm);
     }
 
-    private static void add(int[][] stoich, List<String> ids, List<SpeciesRef> refs, int r, int sign, Path f) {
+    private static void check(List<SpeciesRef> refs, SwitchModel sm, Path f) {
         for (SpeciesRef s : refs) {
-            int i = ids.indexOf(s.species());
             double st = Double.isNaN(s.stoichiometry()) ? 1 : s.stoichiometry();
-            if (i < 0 || st != Math.rint(st) || s.stoichiometryMath() != null) {
+            if (!sm.states.contains(s.species()) || st != Math.rint(st) || s.stoichiometryMath() != null) {
                 throw new UserInputException(SourceLocation.ofFile(f.toString()), "species '" + s.species()
                         + "' needs a constant integer stoichiometry and must be a state for the demo; use the "
                         + "demo model models/stress_switch.xml");
             }
-            stoich[i][r] += sign * (int) st;
         }
     }
 
@@ -108,11 +104,7 @@ final class DemoModel {
 
     /** Copy of p with the species initial values replaced by the state y. */
     double[] withInitialState(double[] p, double[] y) {
-        double[] q = p.clone();
-        for (int i = 0; i < states.size(); i++) {
-            q[index(states.get(i))] = y[i];
-        }
-        return q;
+        return sm.withInitialState(p, y);
     }
 
     /** Initial state from the declared values p. */
@@ -152,21 +144,7 @@ final class DemoModel {
 
     /** Readout weights on the reduced state of the full-state readout c (chain rule through the laws). */
     double[] reducedReadout(double[] c, double[] q) {
-        int nr = reduced.stateCount();
-        double[] zero = q.clone();
-        for (int k = reduced.originalParameterCount(); k < zero.length; k++) {
-            zero[k] = 0;
-        }
-        double[] out = new double[nr];
-        for (int a = 0; a < nr; a++) {
-            double[] e = new double[nr];
-            e[a] = 1;
-            double[] y = reduced.fullState(e, zero);
-            for (int i = 0; i < y.length; i++) {
-                out[a] += c[i] * y[i];
-            }
-        }
-        return out;
+        return sm.reducedReadout(c, q);
     }
 
     /** Unit readout on one species. */

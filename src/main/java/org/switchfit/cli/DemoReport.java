@@ -21,6 +21,7 @@ import org.switchfit.report.HtmlReport;
 import org.switchfit.report.Palette;
 import org.switchfit.report.Plot;
 import org.switchfit.report.ProfilesFile;
+import org.switchfit.report.SweepFile;
 import org.switchfit.report.Series;
 import org.switchfit.report.Table;
 
@@ -86,10 +87,12 @@ final class DemoReport {
             rf.add(region(dm, r));
             h.figure(rf, "Region of (stimulus, " + DemoRun.REGION_PARAMETER + ") with two stable steady states.");
         }
-        if (r.up != null && r.down != null) {
+        if (r.sweep != null && r.sweep.runs().size() == 2) {
             Figure hf = Figure.of("hysteresis", "Hysteresis sweep").columns(1);
-            hf.add(Charts.hysteresis(r.up.parameter(), r.up.readout(), r.down.parameter(), r.down.readout(),
-                    "stimulus", "ZarnA"));
+            SweepFile.Run up = r.sweep.runs().get(0);
+            SweepFile.Run down = r.sweep.runs().get(1);
+            hf.add(Charts.hysteresis(up.values(), up.response(), down.values(), down.response(), "stimulus",
+                    r.sweep.readout()));
             h.figure(hf, String.format(Locale.ROOT, "Stimulus ramped at %.3g per min up from the low state and down "
                     + "from the high state.", DemoRun.SWEEP_RATE));
         }

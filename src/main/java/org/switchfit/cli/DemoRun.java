@@ -5,7 +5,6 @@ import java.io.PrintWriter;
 import java.io.StringWriter;
 import java.nio.file.Files;
 import java.nio.file.Path;
-import java.nio.file.StandardCopyOption;
 import java.util.ArrayList;
 import java.util.Comparator;
 import java.util.LinkedHashMap;
@@ -14,14 +13,10 @@ import java.util.Locale;
 import java.util.Map;
 import org.switchfit.continuation.BistableRegion;
 import org.switchfit.continuation.Branch;
-import org.switchfit.continuation.BranchPoint;
 import org.switchfit.continuation.ContinuationException;
 import org.switchfit.continuation.ContinuationSettings;
 import org.switchfit.continuation.Fold;
 import org.switchfit.continuation.FoldCurve;
-import org.switchfit.continuation.FoldCurves;
-import org.switchfit.continuation.HysteresisSweep;
-import org.switchfit.continuation.SweepResult;
 import org.switchfit.data.ProblemFileReader;
 import org.switchfit.data.ProblemFileWriter;
 import org.switchfit.data.SwitchfitProblem;
@@ -29,8 +24,6 @@ import org.switchfit.data.SwitchingThreshold;
 import org.switchfit.objective.FoldPredictionSource;
 import org.switchfit.objective.LikelihoodObjective;
 import org.switchfit.ode.IntegrationException;
-import org.switchfit.ode.Integrators;
-import org.switchfit.ode.SolverSettings;
 import org.switchfit.problem.ProblemLoader;
 import org.switchfit.report.BranchesFile;
 import org.switchfit.report.FitDirectory;
@@ -38,7 +31,6 @@ import org.switchfit.report.FitFile;
 import org.switchfit.report.FitSummary;
 import org.switchfit.report.Json;
 import org.switchfit.report.ProfilesFile;
-import org.switchfit.report.RegionFile;
 import org.switchfit.report.SweepFile;
 import org.switchfit.util.SourceLocation;
 import org.switchfit.util.UserInputException;
@@ -61,12 +53,12 @@ final class DemoRun {
     /** Ramp speed of the hysteresis sweep (stimulus units per minute) and its samples. */
     static final double SWEEP_RATE = 0.005;
     static final int SWEEP_SAMPLES = 401;
+    /** Duration of the phase-plane trajectories (minutes; about 10 relaxation times of the demo model). */
+    static final double PHASE_DURATION = 300;
     /** Parameters profiled in quick mode (the full run profiles all). */
     static final List<String> QUICK_PROFILES = List.of("k_stim");
     /** Name of the problem file written when the objective of this build cannot use all the data. */
     static final String PARTIAL_PROBLEM = "problem/stress_switch-fitted-data.yaml";
-    /** Where the profile command's own profiles.json (with diagnostics) is kept. */
-    static final String PROFILE_DIAGNOSTICS = "profiles-run.json";
 
     /** Run settings. */
     record Settings(Path model, Path problem, Path out, int starts, long seed, int threads, boolean quick) {
@@ -92,11 +84,13 @@ final class DemoRun {
         ParameterSet at;
         Branch branch;
         double[] branchQ;
+        /** The branches command's set-up and start on the model the continuation stages use. */
+        SwitchSetup setup;
+        SwitchSetup.Start start;
         BistableRegion region;
         double regionHigh;
         FoldCurve foldCurve;
-        SweepResult up;
-        SweepResult down;
+        SweepFile sweep;
     }
 
     /** A stage that could not complete; the message says why. */
@@ -148,6 +142,7 @@ final class DemoRun {
         stage("branches", () -> branches(dm, r));
         stage("region", () -> region(dm, r));
         stage("sweep", () -> sweep(dm, r));
+        stage("phase", () -> phasePlane(dm, r));
         Path report = s.out().resolve("report.html");
         Path overview = s.out().resolve("demo.html");
         stage("report", () -> {
@@ -161,6 +156,8 @@ final class DemoRun {
         });
         Json.write(s.out().resolve("stages.json"), stagesJson());
         out.println("report: " + report.toAbsolutePath().normalize());
+        out.println("next:   ./switchfit audit " + s.out() + "    (a reviewer's check: re-derives every claim of the "
+                + "fit from the model and data on disk)");
         out.flush();
         return stages.stream().anyMatch(st -> st.status() == Status.FAILED) ? Main.EXIT_INTERNAL : 0;
     }
@@ -231,51 +228,41 @@ final class DemoRun {
         if (code != 0 || !dir.has(FitFile.PROFILES)) {
             throw new StageFailure("profile command exited with " + code + ": " + log.toString().strip());
         }
-        Path written = dir.pathOf(FitFile.PROFILES);
-        ProfilesJson run = Json.read(written, ProfilesJson.class);
-        r.profiles = toReportSchema(run);
-        try {
-            Files.move(written, s.out().resolve(PROFILE_DIAGNOSTICS), StandardCopyOption.REPLACE_EXISTING);
-        } catch (IOException e) {
-            throw new StageFailure("cannot keep " + written + " as " + PROFILE_DIAGNOSTICS + ": " + e.getMessage());
-        }
-        dir.write(FitFile.PROFILES, r.profiles);
+        r.profiles = dir.read(FitFile.PROFILES);
         StringBuilder b = new StringBuilder();
         for (ProfilesFile.Entry e : r.profiles.profiles()) {
             b.append(String.format(Locale.ROOT, "%n            %-10s %-9s [%s, %s] %s", e.id(),
-                    e.kind().name().toLowerCase(Locale.ROOT), e.lower() == null ? "-inf" : fmt(e.lower()),
-                    e.upper() == null ? "+inf" : fmt(e.upper()), e.classification()));
+                    e.kind().token(), e.lower() == null ? "-inf" : fmt(e.lower()),
+                    e.upper() == null ? "+inf" : fmt(e.upper()), e.classification().token()));
         }
         return String.format(Locale.ROOT, "%d profiles at level %.2f%s%s", r.profiles.profiles().size(),
                 r.profiles.level(), folds ? "" : "; fold-position profiles not available in this build", b);
     }
 
+    /**
+     * Branches stage: the branches command's own code ({@link SwitchSetup}, {@link BranchesCommand#toFile}) on the
+     * fitted model {@code model_fitted.xml} (the demo model with its nominal values when the fit did not finish),
+     * with the measured thresholds of the data set attached to the folds they measure.
+     */
     private String branches(DemoModel dm, Results r) {
-        double[] low = DemoScenario.lowState(dm, r.at.p());
-        r.branch = dm.branch(r.at.p(), low, DemoScenario.CONTROL, DemoScenario.STIMULUS_LOW,
-                DemoScenario.STIMULUS_HIGH);
-        double[] p0 = r.at.p().clone();
-        p0[dm.index(DemoScenario.CONTROL)] = DemoScenario.STIMULUS_LOW;
-        r.branchQ = dm.reducedParameters(p0, dm.settle(p0, low));
-        List<BranchesFile.Point> pts = new ArrayList<>();
-        for (BranchPoint bp : r.branch.points()) {
-            pts.add(new BranchesFile.Point(bp.parameter(), dm.reduced.fullState(bp.state(), r.branchQ), bp.stable(),
-                    bp.eigenReal(), bp.eigenImag()));
-        }
-        List<BranchesFile.Special> folds = new ArrayList<>();
+        Path fitted = dir.path().resolve("model_fitted.xml");
+        SwitchSetup setup = new SwitchSetup();
+        setup.modelFile = r.fit != null && Files.isRegularFile(fitted) ? fitted : s.model();
+        setup.vary = DemoScenario.CONTROL;
+        setup.from = DemoScenario.STIMULUS_LOW;
+        setup.to = DemoScenario.STIMULUS_HIGH;
+        SwitchSetup.Start st = setup.start();
+        r.branch = setup.branch(st, SwitchSetup.settings(st.control, setup.from, setup.to));
+        r.branchQ = st.q;
+        r.setup = setup;
+        r.start = st;
+        BranchesFile traced = BranchesCommand.toFile(st, r.branch, setup.from, setup.to);
         StringBuilder msg = new StringBuilder();
         Map<SwitchingThreshold.Direction, String> foldIds = new LinkedHashMap<>();
         for (int i = 0; i < r.branch.folds().size(); i++) {
             Fold f = r.branch.folds().get(i);
-            double[] y = dm.reduced.fullState(f.state(), r.branchQ);
-            Map<String, Double> st = new LinkedHashMap<>();
-            for (int k = 0; k < y.length; k++) {
-                st.put(dm.states.get(k), y[k]);
-            }
-            String id = "fold" + (i + 1);
-            folds.add(new BranchesFile.Special(id, DemoScenario.CONTROL, f.parameter(), st, BranchesFile.Kind.FOLD));
             foldIds.put(f.kind() == Fold.Kind.MAXIMUM ? SwitchingThreshold.Direction.UP
-                    : SwitchingThreshold.Direction.DOWN, id);
+                    : SwitchingThreshold.Direction.DOWN, traced.folds().get(i).id());
             msg.append(String.format(Locale.ROOT, "%s%.10g", msg.length() == 0 ? "" : ", ", f.parameter()));
         }
         List<BranchesFile.Threshold> th = new ArrayList<>();
@@ -284,120 +271,125 @@ final class DemoRun {
             th.add(new BranchesFile.Threshold("threshold" + (++n), t.value(), t.sigma(),
                     t.direction().name().toLowerCase(Locale.ROOT), foldIds.get(t.direction())));
         }
-        dir.write(FitFile.BRANCHES, new BranchesFile(DemoScenario.CONTROL,
-                new double[] {DemoScenario.STIMULUS_LOW, DemoScenario.STIMULUS_HIGH}, dm.states, folds,
-                List.of(new BranchesFile.Branch("from rest", pts)), th));
-        return String.format(Locale.ROOT, "%d points, %d folds%s%s", r.branch.size(), r.branch.folds().size(),
-                folds.isEmpty() ? "" : " at stimulus ", msg);
-    }
-
-    private String region(DemoModel dm, Results r) {
-        if (r.branch == null || r.branch.folds().isEmpty()) {
-            throw new StageFailure("no fold on the branch, so no bistable region to trace");
-        }
-        int k2 = dm.index(REGION_PARAMETER);
-        ContinuationSettings cs = ContinuationSettings.of(DemoScenario.STIMULUS_LOW, DemoScenario.STIMULUS_HIGH)
-                .withSteps(0.01, 1e-9, s.quick() ? 0.1 : 0.04);
-        // Without a cusp in the box the traced curve is one fold branch only, and the polygon it closes along
-        // the box edge is not the bistable region; so widen the range of the second parameter until it closes.
-        double high = REGION_HIGHS[0];
-        for (double h : REGION_HIGHS) {
-            high = h;
-            r.foldCurve = new FoldCurves(cs, REGION_LOW, high).trace(dm.reduced, r.branch.folds().get(0),
-                    r.branchQ, k2);
-            if (!r.foldCurve.cusps().isEmpty()) {
-                break;
-            }
-        }
-        if (r.foldCurve.cusps().isEmpty()) {
-            r.foldCurve = null;
-            throw new StageFailure(String.format(Locale.ROOT, "no cusp of the fold curve for %s in [%.3g, %.3g], so "
-                    + "the bistable region is not closed there", REGION_PARAMETER, REGION_LOW, high));
-        }
-        r.regionHigh = high;
-        r.region = BistableRegion.of(r.foldCurve, DemoScenario.STIMULUS_LOW, DemoScenario.STIMULUS_HIGH,
-                REGION_LOW, high);
-        int np = r.foldCurve.points().size();
-        double[] c1 = new double[np];
-        double[] c2 = new double[np];
-        for (int i = 0; i < np; i++) {
-            c1[i] = r.foldCurve.points().get(i).p1();
-            c2[i] = r.foldCurve.points().get(i).p2();
-        }
-        double[][] poly = r.region.polygon();
-        double[] b1 = new double[poly.length];
-        double[] b2 = new double[poly.length];
-        for (int i = 0; i < poly.length; i++) {
-            b1[i] = poly[i][0];
-            b2[i] = poly[i][1];
-        }
-        List<RegionFile.Cusp> cusps = new ArrayList<>();
-        for (FoldCurve.Cusp c : r.region.cusps()) {
-            cusps.add(new RegionFile.Cusp(c.p1(), c.p2()));
-        }
-        dir.write(FitFile.REGION, new RegionFile(DemoScenario.CONTROL, REGION_PARAMETER,
-                new double[] {DemoScenario.STIMULUS_LOW, DemoScenario.STIMULUS_HIGH},
-                new double[] {REGION_LOW, high}, List.of(new RegionFile.Curve(c1, c2)), cusps,
-                new RegionFile.Curve(b1, b2), r.region.closedByChord(), null));
-        return String.format(Locale.ROOT, "%d fold-curve points, %d cusp(s), area %.4g in (%s, %s)", np,
-                r.region.cusps().size(), r.region.area(), DemoScenario.CONTROL, REGION_PARAMETER);
-    }
-
-    private String sweep(DemoModel dm, Results r) {
-        HysteresisSweep hs = new HysteresisSweep(Integrators.create(SolverSettings.defaults()
-                .withTolerances(1e-8, 1e-10)), s.quick() ? 101 : SWEEP_SAMPLES);
-        double[] p = r.at.p();
-        int k = dm.index(DemoScenario.CONTROL);
-        double[] low = DemoScenario.lowState(dm, p);
-        double[] high = DemoScenario.highState(dm, p);
-        double[] q = dm.reducedParameters(p, low);
-        double[] c = dm.reducedReadout(dm.speciesReadout("ZarnA"), q);
-        r.up = hs.run(dm.reduced, dm.reduced.reducedState(low), q, k, DemoScenario.STIMULUS_LOW,
-                DemoScenario.STIMULUS_HIGH, SWEEP_RATE, c);
-        r.down = hs.run(dm.reduced, dm.reduced.reducedState(high), q, k, DemoScenario.STIMULUS_HIGH,
-                DemoScenario.STIMULUS_LOW, SWEEP_RATE, c);
-        dir.write(FitFile.SWEEP, new SweepFile(DemoScenario.CONTROL, "ZarnA", SWEEP_RATE,
-                List.of(run(r.up, SweepFile.Direction.UP), run(r.down, SweepFile.Direction.DOWN))));
-        return String.format(Locale.ROOT, "ramp at %.3g per min: jumps at stimulus %.4g (up) and %.4g (down)",
-                SWEEP_RATE, r.up.jumpParameter(), r.down.jumpParameter());
-    }
-
-    /** A ramp with its one jump; before/after are the readouts at the samples around the jump. */
-    private static SweepFile.Run run(SweepResult sr, SweepFile.Direction d) {
-        double[] v = sr.parameter();
-        double[] y = sr.readout();
-        int i = 0;
-        while (i + 1 < v.length && (d == SweepFile.Direction.UP ? v[i + 1] < sr.jumpParameter()
-                : v[i + 1] > sr.jumpParameter())) {
-            i++;
-        }
-        int j = Math.min(i + 1, v.length - 1);
-        return new SweepFile.Run(d, v, y, List.of(new SweepFile.Jump(sr.jumpParameter(), y[i], y[j])));
+        dir.write(FitFile.BRANCHES, new BranchesFile(traced.control(), traced.range(), traced.stateIds(),
+                traced.folds(), traced.branches(), th));
+        return String.format(Locale.ROOT, "%d points, %d folds%s%s (model %s)", r.branch.size(),
+                r.branch.folds().size(), msg.length() == 0 ? "" : " at stimulus ", msg, setup.modelFile);
     }
 
     /**
-     * The profile command's output restricted to the fields of the report schema ({@link ProfilesFile}); the
-     * command's full file, with its diagnostics, is kept as {@link #PROFILE_DIAGNOSTICS}. (At this build the
-     * report reader rejects the diagnostic fields as unknown properties.)
+     * Region stage: the region command's computation ({@link RegionCommand#trace}) from the first fold of the
+     * branch, widening the range of the second parameter until the fold curve closes at a cusp inside the box
+     * (without a cusp the traced curve is one fold branch only, and the polygon it closes along the box edge is not
+     * the bistable region).
      */
-    static ProfilesFile toReportSchema(ProfilesJson run) {
-        List<ProfilesFile.Entry> l = new ArrayList<>();
-        for (ProfilesJson.Entry e : run.profiles()) {
-            List<ProfilesFile.Point> pts = new ArrayList<>();
-            for (ProfilesJson.Point pt : e.points()) {
-                pts.add(new ProfilesFile.Point(pt.value(), pt.nll()));
-            }
-            l.add(new ProfilesFile.Entry(e.id(), ProfilesFile.Kind.valueOf(e.kind().toUpperCase(Locale.ROOT)),
-                    e.scale(), e.estimate(), e.lower(), e.upper(), e.thresholdNll(),
-                    ProfilesFile.Identifiability.valueOf(e.classification().replace('-', '_').toUpperCase(Locale.ROOT)),
-                    e.compensating(), pts));
+    private String region(DemoModel dm, Results r) {
+        if (r.branch == null || r.branch.folds().isEmpty() || r.start == null) {
+            throw new StageFailure("no fold on the branch, so no bistable region to trace");
         }
-        return new ProfilesFile(run.level(), run.bestNll(), l);
+        SwitchSetup.Start st = r.start;
+        RegionCommand.Traced t = null;
+        double high = REGION_HIGHS[0];
+        try {
+            ControlQuantity c2 = ControlQuantity.resolve(st.sm, REGION_PARAMETER, "--and",
+                    st.sm.reduced.fullState(st.x, st.q), st.q, st.pEff);
+            ContinuationSettings cs = SwitchSetup.settings(st.control, r.setup.from, r.setup.to);
+            for (double h : REGION_HIGHS) {
+                high = h;
+                t = RegionCommand.trace(r.setup, st, r.branch, c2, REGION_LOW, high, cs);
+                if (!t.curve().cusps().isEmpty()) {
+                    break;
+                }
+            }
+        } catch (UserInputException e) {
+            throw new StageFailure(e.getMessage());
+        }
+        if (t == null || t.curve().cusps().isEmpty()) {
+            throw new StageFailure(String.format(Locale.ROOT, "no cusp of the fold curve for %s in [%.3g, %.3g], so "
+                    + "the bistable region is not closed there", REGION_PARAMETER, REGION_LOW, high));
+        }
+        r.foldCurve = t.curve();
+        r.region = t.region();
+        r.regionHigh = high;
+        dir.write(FitFile.REGION, t.file());
+        return String.format(Locale.ROOT, "%d fold-curve points, %d cusp(s), area %.4g in (%s, %s)",
+                r.foldCurve.points().size(), r.region.cusps().size(), r.region.area(), DemoScenario.CONTROL,
+                REGION_PARAMETER);
+    }
+
+    /**
+     * Sweep stage: the sweep command's computation ({@link SweepCommand#sweep}) on the model of the branch stage,
+     * ZarnA followed, ramps between the ends of the branch range.
+     */
+    private String sweep(DemoModel dm, Results r) {
+        if (r.start == null) {
+            throw new StageFailure("needs the branch stage's model and steady state");
+        }
+        try {
+            r.sweep = SweepCommand.sweep(r.setup, r.start, "ZarnA", SWEEP_RATE, s.quick() ? 101 : SWEEP_SAMPLES);
+        } catch (UserInputException e) {
+            throw new StageFailure(e.getMessage());
+        }
+        dir.write(FitFile.SWEEP, r.sweep);
+        SweepFile.Run up = r.sweep.runs().get(0);
+        SweepFile.Run down = r.sweep.runs().get(1);
+        return String.format(Locale.ROOT, "ramp at %.3g per min: jumps at stimulus %.4g (up) and %.4g (down)",
+                SWEEP_RATE, up.jumps().get(0).value(), down.jumps().get(0).value());
+    }
+
+    /**
+     * Phase-plane stage: the model reduced by its two conservation laws to the two independent species (exact, no
+     * state held), at the fitted parameters and the stimulus midway between the two folds (bistable there), with
+     * nullclines, steady states and trajectories from the window's corners and edge midpoints.
+     */
+    private String phasePlane(DemoModel dm, Results r) {
+        double[] p = r.at.p().clone();
+        int k = dm.index(DemoScenario.CONTROL);
+        double stim = p[k];
+        if (r.branch != null && r.branch.folds().size() >= 2) {
+            stim = 0.5 * (r.branch.folds().get(0).parameter() + r.branch.folds().get(1).parameter());
+        }
+        p[k] = stim;
+        double[] low = DemoScenario.lowState(dm, p);
+        double[] q = dm.reducedParameters(p, low);
+        int[] ind = dm.reduced.laws().independentSpecies();
+        if (ind.length != 2) {
+            throw new StageFailure("the model reduces to " + ind.length + " states, not 2: no phase plane");
+        }
+        double[] totals = dm.reduced.laws().totals(low);
+        double[][] range = new double[2][];
+        List<String> ids = new ArrayList<>();
+        for (int a = 0; a < 2; a++) {
+            double hi = 0;
+            for (int c = 0; c < totals.length; c++) {
+                long coef = dm.reduced.laws().coefficients(c)[ind[a]];
+                if (coef != 0) {
+                    hi = Math.max(hi, totals[c] / coef);
+                }
+            }
+            range[a] = new double[] {0, hi > 0 ? hi : 1};
+            ids.add(dm.states.get(ind[a]));
+        }
+        StringBuilder elim = new StringBuilder();
+        for (int c = 0; c < totals.length; c++) {
+            elim.append(String.format(Locale.ROOT, "%s%s follows from the conserved total %.4g", c == 0 ? "" : "; ",
+                    dm.states.get(dm.reduced.laws().dependentSpecies()[c]), totals[c]));
+        }
+        org.switchfit.report.PhasePlaneFile pp = org.switchfit.report.PhasePlanes.compute(dm.reduced, q,
+                dm.reduced.reducedState(low), ids, 0, 1, range[0], range[1], PHASE_DURATION, null)
+                .withNote(String.format(Locale.ROOT, "The model is reduced exactly by its conservation laws (%s); "
+                        + "%s = %.4g, midway between the two folds.", elim, DemoScenario.CONTROL, stim));
+        dir.write(FitFile.PHASE_PLANE, pp);
+        long stable = pp.steadyStates().stream().filter(org.switchfit.report.PhasePlaneFile.SteadyPoint::stable)
+                .count();
+        return String.format(Locale.ROOT, "%s vs %s at %s = %.4g: %d steady states (%d stable), %d trajectories",
+                ids.get(0), ids.get(1), DemoScenario.CONTROL, stim, pp.steadyStates().size(), stable,
+                pp.trajectories().size());
     }
 
     /** Runs a command object through picocli with its output captured in {@code log}; returns the exit code. */
     private static int command(Object cmd, StringWriter log, String... args) {
-        CommandLine cl = new CommandLine(cmd);
+        CommandLine cl = Main.configure(new CommandLine(cmd));
         PrintWriter w = new PrintWriter(log, true);
         cl.setOut(w);
         cl.setErr(w);

@@ -1,14 +1,8 @@
 package org.switchfit.cli;
 
-import java.io.IOException;
-import java.io.InputStream;
 import java.io.PrintWriter;
-import java.nio.file.Files;
 import java.nio.file.Path;
-import java.security.MessageDigest;
-import java.security.NoSuchAlgorithmException;
 import java.util.ArrayList;
-import java.util.HexFormat;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
@@ -22,13 +16,16 @@ import org.switchfit.fit.ParameterScale;
 import org.switchfit.fit.StartResult;
 import org.switchfit.fit.StartStatus;
 import org.switchfit.objective.LikelihoodObjective;
-import org.switchfit.ode.SolverSettings;
 import org.switchfit.problem.EstimationProblem;
 import org.switchfit.problem.FreeParameter;
 import org.switchfit.problem.Measurement;
 import org.switchfit.problem.ProblemLoader;
 import org.switchfit.report.Csv;
-import org.switchfit.report.Json;
+import org.switchfit.report.FitDirectory;
+import org.switchfit.report.FitFile;
+import org.switchfit.report.FitSummary;
+import org.switchfit.report.FittedTrajectories;
+import org.switchfit.report.TrajectoriesFile;
 import org.switchfit.report.ResultStore;
 import org.switchfit.sbml.SbmlWriter;
 import org.switchfit.util.SourceLocation;
@@ -44,6 +41,7 @@ import picocli.CommandLine.Spec;
  * the same result; at the end {@code result.json}, {@code residuals.csv} and {@code model_fitted.xml} are written.
  */
 @Command(name = "fit", mixinStandardHelpOptions = true,
+        footer = {"", "Examples:", "  switchfit fit datasets/stress_switch.yaml --starts 20 --seed 1 --threads 2 --out fits/mine", "  switchfit fit datasets/stress_switch.yaml --starts 20 --seed 1 --out fits/mine --resume --log fit.log"},
         description = "Fit a problem (PEtab YAML or switchfit problem file) by multistart Levenberg-Marquardt.")
 public final class FitCommand implements Callable<Integer> {
 
@@ -67,9 +65,6 @@ public final class FitCommand implements Callable<Integer> {
 
     @Option(names = "--resume", description = "reuse the starts already finished in the output folder")
     boolean resume;
-
-    @Option(names = "--quiet", description = "no progress bar")
-    boolean quiet;
 
     @Option(names = "--nominal-start", description = "use the nominal parameter values as start 0")
     boolean nominalStart;
@@ -111,8 +106,8 @@ public final class FitCommand implements Callable<Integer> {
                 .withOptimizer(org.switchfit.fit.LevenbergMarquardt.defaults().withMaxIterations(maxIterations)
                         .withCostTolerance(costTolerance));
         double[] guess = nominalStart ? problem.nominalTheta() : null;
-        boolean bar = !quiet && System.console() != null;
-        PrintWriter err = spec.commandLine().getErr();
+        boolean bar = !OutputOptions.quiet(spec) && System.console() != null;
+        PrintWriter err = OutputOptions.progress(spec);
         int[] done = {finished.size()};
         double[] best = {Double.POSITIVE_INFINITY};
         for (StartResult r : finished) {
@@ -126,6 +121,13 @@ public final class FitCommand implements Callable<Integer> {
             done[0]++;
             if (r.status() != StartStatus.FAILED) {
                 best[0] = Math.min(best[0], r.nll());
+            }
+            PrintWriter log = OutputOptions.log(spec);
+            if (log != null) {
+                // The terminal's progress bar redraws one line; the log gets one line per finished start.
+                log.printf(Locale.ROOT, "start %d finished (%d/%d): %s, NLL %.10g, %d iterations%n", r.index(),
+                        done[0], starts, r.status(), r.nll(), r.iterations());
+                log.flush();
             }
             if (bar) {
                 int width = 30;
@@ -152,7 +154,15 @@ public final class FitCommand implements Callable<Integer> {
         return 0;
     }
 
-    static FitProblem fitProblem(EstimationProblem problem, LikelihoodObjective objective) {
+    /**
+     * The fit problem of a loaded problem (library entry point): the objective with the bounds and estimation scales
+     * of the problem file, all parameters free.
+     *
+     * @param problem   the problem, e.g. from {@code ProblemLoader.load(path)}
+     * @param objective its negative log-likelihood, e.g. {@code LikelihoodObjective.of(problem, settings)}
+     * @return the problem for {@code Multistart}, {@code LevenbergMarquardt} and {@code ProfileLikelihood}
+     */
+    public static FitProblem fitProblem(EstimationProblem problem, LikelihoodObjective objective) {
         int np = problem.parameterCount();
         String[] ids = new String[np];
         double[] lo = new double[np];
@@ -174,59 +184,17 @@ public final class FitCommand implements Callable<Integer> {
 
     private void writeResults(EstimationProblem problem, LikelihoodObjective objective, FitResult result,
                               double wall) {
-        Map<String, Object> j = new LinkedHashMap<>();
-        j.put("problem", problemFile.toString());
-        j.put("bestNll", result.bestNll());
-        Map<String, Object> lin = new LinkedHashMap<>();
-        Map<String, Object> est = new LinkedHashMap<>();
-        Map<String, Object> scales = new LinkedHashMap<>();
-        double[] th = result.bestTheta();
-        for (int k = 0; k < problem.parameterCount(); k++) {
-            FreeParameter p = problem.parameters().get(k);
-            lin.put(p.id(), th == null ? null : p.toLinear(th[k]));
-            est.put(p.id(), th == null ? null : th[k]);
-            scales.put(p.id(), p.scale().token());
-        }
-        j.put("parameters", lin);
-        j.put("parametersEstimationScale", est);
-        j.put("scales", scales);
-        j.put("startsNearBest", result.startsNearBest());
-        j.put("nearBestTolerance", FitResult.NEAR_BEST_TOLERANCE);
-        j.put("failedStarts", result.failedCount());
-        List<Map<String, Object>> st = new ArrayList<>();
-        for (StartResult r : result.starts()) {
-            Map<String, Object> e = new LinkedHashMap<>();
-            e.put("index", r.index());
-            e.put("nll", r.nll());
-            e.put("status", r.status().name());
-            e.put("termination", r.termination() == null ? null : r.termination().name());
-            e.put("iterations", r.iterations());
-            e.put("evaluations", r.evaluations());
-            e.put("reason", r.reason());
-            st.add(e);
-        }
-        j.put("starts", st);
-        Map<String, Object> settings = new LinkedHashMap<>();
-        settings.put("starts", starts);
-        settings.put("seed", seed);
-        settings.put("rtol", rtol);
-        settings.put("atol", atol);
-        settings.put("nominalStart", nominalStart);
-        j.put("settings", settings);
-        j.put("wallSeconds", wall);
-        Map<String, Object> versions = new LinkedHashMap<>();
+        Map<String, String> versions = new LinkedHashMap<>();
         versions.put("switchfit", new Main.Version().getVersion()[0]);
         versions.put("java", System.getProperty("java.version"));
-        j.put("versions", versions);
-        List<Map<String, Object>> inputs = new ArrayList<>();
+        List<FitSummary.InputFile> inputs = new ArrayList<>();
         for (Path p : problem.inputFiles()) {
-            Map<String, Object> e = new LinkedHashMap<>();
-            e.put("file", p.toString());
-            e.put("sha256", sha256(p));
-            inputs.add(e);
+            inputs.add(FitSummary.InputFile.of(p));
         }
-        j.put("inputs", inputs);
-        Json.write(out.resolve("result.json"), j);
+        FitSummary summary = FitSummary.of(problem, result, new FitSummary.Settings(starts, seed, rtol, atol,
+                nominalStart, costTolerance, maxIterations), wall, versions, inputs);
+        FitDirectory.of(out).write(FitFile.RESULT, summary);
+        double[] th = result.bestTheta();
         if (th == null) {
             return;
         }
@@ -259,28 +227,11 @@ public final class FitCommand implements Callable<Integer> {
      */
     private void writeTrajectories(EstimationProblem problem, double[] th) {
         try {
-            org.switchfit.report.TrajectoriesFile tf = org.switchfit.report.FittedTrajectories.compute(problem, th,
-                    SimulateCommand.settings("bdf", rtol, atol), org.switchfit.report.FittedTrajectories.DEFAULT_GRID);
-            org.switchfit.report.FitDirectory.of(out).write(org.switchfit.report.FitFile.TRAJECTORIES, tf);
+            TrajectoriesFile tf = FittedTrajectories.compute(problem, th, SimulateCommand.settings("bdf", rtol, atol),
+                    FittedTrajectories.DEFAULT_GRID);
+            FitDirectory.of(out).write(FitFile.TRAJECTORIES, tf);
         } catch (RuntimeException e) {
-            System.err.println("note: fitted trajectories not written (" + e.getMessage() + ")");
-        }
-    }
-
-    static String sha256(Path p) {
-        try (InputStream in = Files.newInputStream(p)) {
-            MessageDigest md = MessageDigest.getInstance("SHA-256");
-            byte[] buf = new byte[1 << 16];
-            int k;
-            while ((k = in.read(buf)) > 0) {
-                md.update(buf, 0, k);
-            }
-            return HexFormat.of().formatHex(md.digest());
-        } catch (IOException e) {
-            throw new UserInputException(SourceLocation.ofFile(p.toString()), "cannot be read for its checksum ("
-                    + e.getMessage() + ")", e);
-        } catch (NoSuchAlgorithmException e) {
-            throw new IllegalStateException(e);
+            spec.commandLine().getErr().println("note: fitted trajectories not written (" + e.getMessage() + ")");
         }
     }
 }

@@ -1,6 +1,8 @@
 package org.switchfit.cli;
 
 import java.io.PrintWriter;
+import java.util.ArrayList;
+import java.util.List;
 import org.switchfit.util.UserInputException;
 import picocli.CommandLine;
 import picocli.CommandLine.Command;
@@ -10,6 +12,8 @@ import picocli.CommandLine.Command;
  * trace), 1 internal failure.
  */
 @Command(name = "switchfit", mixinStandardHelpOptions = true, versionProvider = Main.Version.class,
+        footer = {"", "Every command also takes --quiet (no progress output) and --log FILE (append all output to FILE).",
+            "", "Examples:", "  switchfit demo", "  switchfit audit fits/demo", "  switchfit fit --help"},
         description = "Fit ODE models of biochemical switches to timecourses and switching thresholds, "
                 + "trace their steady-state branches and folds, and report which parameters the data pin down.",
         subcommands = {
@@ -18,6 +22,7 @@ import picocli.CommandLine.Command;
             SuiteCommand.class,
             CheckCommand.class,
             FitCommand.class,
+            AuditCommand.class,
             BenchPetabCommand.class,
             BenchFitsCommand.class,
             ReportCommand.class,
@@ -34,10 +39,15 @@ public final class Main implements Runnable {
     public static final int EXIT_USER_ERROR = 2;
     /** Exit code for internal failures. */
     public static final int EXIT_INTERNAL = 1;
+    /** Width of help texts, wide enough that examples stay on one line. */
+    static final int HELP_WIDTH = 120;
+
+    @CommandLine.Spec
+    CommandLine.Model.CommandSpec spec;
 
     @Override
     public void run() {
-        CommandLine.usage(this, System.out);
+        spec.commandLine().usage(spec.commandLine().getOut());
     }
 
     /** Runs the CLI and exits the JVM with the command's exit code. */
@@ -47,19 +57,34 @@ public final class Main implements Runnable {
 
     /** Runs the CLI with the given streams and returns the exit code (used by tests). */
     public static int execute(String[] args, PrintWriter out, PrintWriter err) {
-        CommandLine cl = new CommandLine(new Main());
+        CommandLine cl = configure(new CommandLine(new Main()));
         cl.setOut(out);
         cl.setErr(err);
+        cl.setUsageHelpWidth(HELP_WIDTH);
+        List<OutputOptions> opened = new ArrayList<>();
+        cl.setExecutionStrategy(parseResult -> {
+            CommandLine.ParseResult last = parseResult;
+            while (last.hasSubcommand()) {
+                last = last.subcommand();
+            }
+            OutputOptions o = OutputOptions.of(last.commandSpec());
+            opened.add(o);
+            o.open(last.commandSpec().commandLine(), List.of(args));
+            return new CommandLine.RunLast().execute(parseResult);
+        });
         cl.setExecutionExceptionHandler((ex, commandLine, parseResult) -> {
             Throwable t = ex;
             while (t != null && !(t instanceof UserInputException) && t.getCause() != null && t.getCause() != t) {
                 t = t.getCause();
             }
+            OutputOptions o = OutputOptions.of(commandLine.getCommandSpec());
             if (t instanceof UserInputException) {
                 err.println("error: " + t.getMessage());
+                o.logLine("error: " + t.getMessage());
                 return EXIT_USER_ERROR;
             }
             err.println("internal error: " + ex);
+            o.logLine("internal error: " + ex);
             if (System.getenv("SWITCHFIT_DEBUG") != null) {
                 ex.printStackTrace(err);
             } else {
@@ -72,7 +97,29 @@ public final class Main implements Runnable {
                     + ex.getCommandLine().getCommandName() + " --help')");
             return EXIT_USER_ERROR;
         });
-        return cl.execute(args);
+        try {
+            return cl.execute(args);
+        } finally {
+            opened.forEach(OutputOptions::close); // after the error handler, which writes to the log as well
+        }
+    }
+
+    /**
+     * Adds the options every command shares ({@code --quiet}, {@code --log}, see {@link OutputOptions}) to
+     * {@code cl}'s subcommands (or to {@code cl} itself when it has none); returns {@code cl}.
+     */
+    static CommandLine configure(CommandLine cl) {
+        if (cl.getSubcommands().isEmpty()) {
+            if (!cl.getCommandSpec().mixins().containsKey(OutputOptions.MIXIN)
+                    && !cl.getCommandName().equals("help")) {
+                cl.addMixin(OutputOptions.MIXIN, new OutputOptions());
+            }
+            return cl;
+        }
+        for (CommandLine sub : cl.getSubcommands().values()) {
+            configure(sub);
+        }
+        return cl;
     }
 
     /** Reads the version from the jar manifest, falling back to the development version. */

@@ -16,7 +16,9 @@ import org.switchfit.objective.SteadyState;
 import org.switchfit.profile.JacobianRankCheck;
 import org.switchfit.profile.ProfileLikelihood;
 import org.switchfit.profile.RankReport;
-import org.switchfit.report.Json;
+import org.switchfit.report.FitDirectory;
+import org.switchfit.report.FitFile;
+import org.switchfit.report.ProfilesFile;
 import org.switchfit.report.ResultStore;
 import org.switchfit.util.SourceLocation;
 import org.switchfit.util.UserInputException;
@@ -33,6 +35,7 @@ import picocli.CommandLine.Spec;
  * profile next to its stored result.
  */
 @Command(name = "profile", mixinStandardHelpOptions = true,
+        footer = {"", "Examples:", "  switchfit profile fits/mine --threads 2", "  switchfit profile fits/mine --parameters k_stim,K_inh --folds --level 0.95"},
         description = "Profile likelihoods of the parameters, fold positions and predictions of a finished fit.")
 public final class ProfileCommand implements Callable<Integer> {
 
@@ -101,12 +104,12 @@ public final class ProfileCommand implements Callable<Integer> {
                         + "profiled");
             } else {
                 LinkedHashMap<String, Prediction> fm = src.get().foldPredictions(in.objective());
-                foldTasks = ProfileRun.predictionTasks("fold", fm);
+                foldTasks = ProfileRun.predictionTasks(ProfilesFile.Kind.FOLD, fm);
                 foldStatus = fm.size() + " fold positions profiled";
             }
         }
         tasks.addAll(foldTasks);
-        tasks.addAll(ProfileRun.predictionTasks("prediction", preds));
+        tasks.addAll(ProfileRun.predictionTasks(ProfilesFile.Kind.PREDICTION, preds));
         ResultStore store = new ResultStore(fitDir.resolve("profiles"));
         if (!store.keys().isEmpty() && !resume) {
             throw new UserInputException(SourceLocation.ofFile(store.dir().toString()), "already holds finished "
@@ -116,14 +119,15 @@ public final class ProfileCommand implements Callable<Integer> {
         ProfileRun run = new ProfileRun(fp, in.optimum(), pl);
         int[] done = {0};
         long t0 = System.nanoTime();
-        List<ProfilesJson.Stored> results = run.run(tasks, store, nThreads, s -> {
+        PrintWriter progress = OutputOptions.progress(spec);
+        List<ProfilesFile.Stored> results = run.run(tasks, store, nThreads, s -> {
             done[0]++;
-            err.printf(Locale.ROOT, "[%d/%d] profile of %s %s finished: %s%n", done[0], tasks.size(),
-                    s.entry().kind(), s.entry().id(), s.entry().classification());
-            err.flush();
+            progress.printf(Locale.ROOT, "[%d/%d] profile of %s %s finished: %s%n", done[0], tasks.size(),
+                    s.entry().kind().token(), s.entry().id(), s.entry().classification().token());
+            progress.flush();
         });
-        ProfilesJson file = assemble(in, fp, pl, results, foldStatus, seed);
-        Json.write(fitDir.resolve("profiles.json"), file);
+        ProfilesFile file = assemble(in, fp, pl, results, foldStatus, seed);
+        FitDirectory.of(fitDir).write(FitFile.PROFILES, file);
         for (int i = 0; i < tasks.size(); i++) {
             ProfileRun.writeCsv(store.dir().resolve(tasks.get(i).key() + ".csv"), results.get(i), file.bestNll());
         }
@@ -136,7 +140,7 @@ public final class ProfileCommand implements Callable<Integer> {
         if (parameters == null || parameters.isEmpty()) {
             for (int k = 0; k < fp.parameterCount(); k++) {
                 if (!fp.isFixed(k)) {
-                    tasks.add(new ProfileRun.Task("parameter", fp.id(k), k, null));
+                    tasks.add(new ProfileRun.Task(ProfilesFile.Kind.PARAMETER, fp.id(k), k, null));
                 }
             }
             return tasks;
@@ -147,40 +151,40 @@ public final class ProfileCommand implements Callable<Integer> {
                 throw new UserInputException(null, "--parameters: '" + id + "' is not an estimated parameter of the "
                         + "fit (estimated: " + SimulateCommand.abbreviate(List.of(fp.ids())) + ")");
             }
-            tasks.add(new ProfileRun.Task("parameter", fp.id(k), k, null));
+            tasks.add(new ProfileRun.Task(ProfilesFile.Kind.PARAMETER, fp.id(k), k, null));
         }
         return tasks;
     }
 
     /** Builds profiles.json: thresholds, the better-optimum flag and the structural rank check. */
-    static ProfilesJson assemble(FitDirectoryInput in, FitProblem fp, ProfileLikelihood pl,
-                                 List<ProfilesJson.Stored> results, String foldStatus, long seed) {
+    static ProfilesFile assemble(FitDirectoryInput in, FitProblem fp, ProfileLikelihood pl,
+                                 List<ProfilesFile.Stored> results, String foldStatus, long seed) {
         int dof = Math.max(1, fp.freeCount());
-        ProfilesJson.Thresholds th = new ProfilesJson.Thresholds(pl.threshold(1), pl.threshold(dof), dof);
+        ProfilesFile.Thresholds th = new ProfilesFile.Thresholds(pl.threshold(1), pl.threshold(dof), dof);
         double best = in.nllAtOptimum();
         double found = best;
         boolean better = false;
-        List<ProfilesJson.Entry> entries = new ArrayList<>();
-        for (ProfilesJson.Stored s : results) {
+        List<ProfilesFile.Entry> entries = new ArrayList<>();
+        for (ProfilesFile.Stored s : results) {
             entries.add(s.entry());
             better |= s.entry().betterOptimumFound();
-            for (ProfilesJson.Point p : s.entry().points()) {
+            for (ProfilesFile.Point p : s.entry().points()) {
                 if (p.nll() < found) {
                     found = p.nll();
                 }
             }
         }
-        return new ProfilesJson(pl.level(), best, th, better, found, foldStatus, rankCheck(fp, in.optimum(), seed),
+        return new ProfilesFile(pl.level(), best, th, better, found, foldStatus, rankCheck(fp, in.optimum(), seed),
                 entries);
     }
 
-    static ProfilesJson.RankCheck rankCheck(FitProblem fp, double[] optimum, long seed) {
+    static ProfilesFile.RankCheck rankCheck(FitProblem fp, double[] optimum, long seed) {
         JacobianRankCheck rc = JacobianRankCheck.defaults();
         RankReport at;
         try {
             at = rc.atPoint(fp, optimum);
         } catch (RuntimeException e) {
-            return new ProfilesJson.RankCheck(null, List.of(), "rank check at the optimum failed: " + e.getMessage());
+            return new ProfilesFile.RankCheck(null, List.of(), "rank check at the optimum failed: " + e.getMessage());
         }
         List<RankReport> random = new ArrayList<>();
         String msg = "";
@@ -189,19 +193,19 @@ public final class ProfileCommand implements Callable<Integer> {
         } catch (RuntimeException e) {
             msg = "rank check at random points failed: " + e.getMessage();
         }
-        return new ProfilesJson.RankCheck(at, random, msg);
+        return new ProfilesFile.RankCheck(at, random, msg);
     }
 
-    private void printSummary(PrintWriter out, PrintWriter err, ProfilesJson f, double seconds) {
+    private void printSummary(PrintWriter out, PrintWriter err, ProfilesFile f, double seconds) {
         out.printf(Locale.ROOT, "%-12s %-28s %14s %14s %14s  %s%n", "kind", "id", "estimate", "lower", "upper",
                 "class");
-        for (ProfilesJson.Entry e : f.profiles()) {
-            out.printf(Locale.ROOT, "%-12s %-28s %14.6g %14s %14s  %s%s%n", e.kind(), e.id(), e.estimate(),
+        for (ProfilesFile.Entry e : f.profiles()) {
+            out.printf(Locale.ROOT, "%-12s %-28s %14.6g %14s %14s  %s%s%n", e.kind().token(), e.id(), e.estimate(),
                     e.lower() == null ? "open" : String.format(Locale.ROOT, "%.6g", e.lower()),
-                    e.upper() == null ? "open" : String.format(Locale.ROOT, "%.6g", e.upper()), e.classification(),
+                    e.upper() == null ? "open" : String.format(Locale.ROOT, "%.6g", e.upper()), e.classification().token(),
                     e.bounds() == null ? "" : " (" + e.bounds() + ")");
         }
-        ProfilesJson.RankCheck rc = f.rankCheck();
+        ProfilesFile.RankCheck rc = f.rankCheck();
         if (rc.atOptimum() != null) {
             out.printf(Locale.ROOT, "Jacobian rank at the optimum: %d of %d%n", rc.atOptimum().rank(),
                     rc.atOptimum().freeCount());

@@ -19,6 +19,7 @@ import org.switchfit.profile.Profile;
 import org.switchfit.profile.ProfileLikelihood;
 import org.switchfit.profile.ProfilePoint;
 import org.switchfit.report.Csv;
+import org.switchfit.report.ProfilesFile;
 import org.switchfit.report.ResultStore;
 import org.switchfit.util.SourceLocation;
 import org.switchfit.util.UserInputException;
@@ -26,13 +27,13 @@ import org.switchfit.util.UserInputException;
 /**
  * Runs a list of profile tasks (parameters, fold positions, predictions) in parallel, one task per profile, storing
  * each finished profile atomically in a {@link ResultStore} so an interrupted run resumes, and converts profiles to
- * the {@link ProfilesJson} entries (linear scale). Results do not depend on the thread count: each profile is a pure
+ * the {@link ProfilesFile} entries (linear scale). Results do not depend on the thread count: each profile is a pure
  * function of the problem, the optimum and its target.
  */
 final class ProfileRun {
 
     /** One profiled quantity. */
-    record Task(String kind, String id, int parameterIndex, Prediction prediction) {
+    record Task(ProfilesFile.Kind kind, String id, int parameterIndex, Prediction prediction) {
 
         /** Result-store key: kind, sanitised id and a checksum of the id (ids may hold any character). */
         String key() {
@@ -42,7 +43,7 @@ final class ProfileRun {
             }
             CRC32 crc = new CRC32();
             crc.update(id.getBytes(StandardCharsets.UTF_8));
-            return String.format(Locale.ROOT, "%s-%s-%08x", kind, clean, crc.getValue());
+            return String.format(Locale.ROOT, "%s-%s-%08x", kind.token(), clean, crc.getValue());
         }
     }
 
@@ -63,14 +64,14 @@ final class ProfileRun {
      * @param onFinished told about each newly finished result (serialised), may be null
      * @throws UserInputException when the store holds results of another confidence level
      */
-    List<ProfilesJson.Stored> run(List<Task> tasks, ResultStore store, int threads,
-                                  Consumer<ProfilesJson.Stored> onFinished) {
-        List<ProfilesJson.Stored> out = new ArrayList<>();
-        List<Callable<ProfilesJson.Stored>> todo = new ArrayList<>();
+    List<ProfilesFile.Stored> run(List<Task> tasks, ResultStore store, int threads,
+                                  Consumer<ProfilesFile.Stored> onFinished) {
+        List<ProfilesFile.Stored> out = new ArrayList<>();
+        List<Callable<ProfilesFile.Stored>> todo = new ArrayList<>();
         List<Integer> todoIndex = new ArrayList<>();
         for (int i = 0; i < tasks.size(); i++) {
             Task t = tasks.get(i);
-            ProfilesJson.Stored s = store == null ? null : store.get(t.key(), ProfilesJson.Stored.class).orElse(null);
+            ProfilesFile.Stored s = store == null ? null : store.get(t.key(), ProfilesFile.Stored.class).orElse(null);
             if (s != null && s.level() != likelihood.level()) {
                 throw new UserInputException(SourceLocation.ofFile(store.dir().resolve(t.key() + ".json").toString()),
                         String.format(Locale.ROOT, "was computed at level %s, not %s; use --level %s to resume it, "
@@ -83,7 +84,7 @@ final class ProfileRun {
                 todoIndex.add(i);
             }
         }
-        List<ProfilesJson.Stored> done = LocalTaskExecutor.ofThreads(threads).runAll(todo, (i, s) -> {
+        List<ProfilesFile.Stored> done = LocalTaskExecutor.ofThreads(threads).runAll(todo, (i, s) -> {
             if (store != null) {
                 store.put(tasks.get(todoIndex.get(i)).key(), s);
             }
@@ -112,14 +113,14 @@ final class ProfileRun {
     }
 
     /** Converts a profile to its stored form (linear scale). */
-    ProfilesJson.Stored stored(Task t, Profile p) {
+    ProfilesFile.Stored stored(Task t, Profile p) {
         boolean param = t.parameterIndex() >= 0;
         int k = t.parameterIndex();
         double q1 = likelihood.threshold(1);
-        List<ProfilesJson.Point> pts = new ArrayList<>();
+        List<ProfilesFile.Point> pts = new ArrayList<>();
         List<double[]> thetas = new ArrayList<>();
         for (ProfilePoint pp : p.points()) {
-            pts.add(new ProfilesJson.Point(linear(param, k, pp.value()), pp.nll()));
+            pts.add(new ProfilesFile.Point(linear(param, k, pp.value()), pp.nll()));
             double[] th = pp.theta();
             double[] lin = new double[th.length];
             for (int j = 0; j < th.length; j++) {
@@ -130,10 +131,10 @@ final class ProfileRun {
         ConfidenceInterval ci = p.pointwise();
         ConfidenceInterval cs = p.simultaneous();
         List<String> comp = new ArrayList<>();
-        List<ProfilesJson.Compensation> comps = new ArrayList<>();
+        List<ProfilesFile.Compensation> comps = new ArrayList<>();
         for (Compensation c : p.compensations()) {
             comp.add(c.parameterId());
-            comps.add(new ProfilesJson.Compensation(c.parameterId(), c.slope(), c.min(), c.max()));
+            comps.add(new ProfilesFile.Compensation(c.parameterId(), c.slope(), c.min(), c.max()));
         }
         Double lo = end(param, k, ci.lower());
         Double hi = end(param, k, ci.upper());
@@ -148,11 +149,11 @@ final class ProfileRun {
             case "ln" -> "log";
             default -> scale;
         };
-        ProfilesJson.Entry e = new ProfilesJson.Entry(t.id(), t.kind(), scale,
+        ProfilesFile.Entry e = new ProfilesFile.Entry(t.id(), t.kind(), scale,
                 linear(param, k, p.optimumValue()), lo, hi, end(param, k, cs.lower()), end(param, k, cs.upper()),
-                p.optimumNll() + q1 / 2, className(p.identifiability()), bounds, comp, comps, p.optimumNll(),
+                p.optimumNll() + q1 / 2, identifiability(p.identifiability()), bounds, comp, comps, p.optimumNll(),
                 p.betterOptimumFound(), p.lowerSide().name(), p.upperSide().name(), p.solves(), p.message(), pts);
-        return new ProfilesJson.Stored(likelihood.level(), e, List.of(problem.ids()), thetas);
+        return new ProfilesFile.Stored(likelihood.level(), e, List.of(problem.ids()), thetas);
     }
 
     private double linear(boolean param, int k, double v) {
@@ -163,20 +164,25 @@ final class ProfileRun {
         return Double.isFinite(v) ? linear(param, k, v) : null;
     }
 
-    static String className(Identifiability c) {
+    static ProfilesFile.Identifiability identifiability(Identifiability c) {
         return switch (c) {
-            case IDENTIFIABLE -> "identifiable";
-            case PRACTICALLY_NONIDENTIFIABLE -> "practically-nonidentifiable";
-            case STRUCTURALLY_NONIDENTIFIABLE -> "structurally-nonidentifiable";
+            case IDENTIFIABLE -> ProfilesFile.Identifiability.IDENTIFIABLE;
+            case PRACTICALLY_NONIDENTIFIABLE -> ProfilesFile.Identifiability.PRACTICALLY_NONIDENTIFIABLE;
+            case STRUCTURALLY_NONIDENTIFIABLE -> ProfilesFile.Identifiability.STRUCTURALLY_NONIDENTIFIABLE;
         };
     }
 
+    /** The class name as written in profiles.json ({@code identifiable}, {@code practically-nonidentifiable}, ...). */
+    static String className(Identifiability c) {
+        return identifiability(c).token();
+    }
+
     /** Writes the CSV of one stored profile: value, nll, Δχ², then each parameter's linear value per point. */
-    static void writeCsv(Path file, ProfilesJson.Stored s, double bestNll) {
+    static void writeCsv(Path file, ProfilesFile.Stored s, double bestNll) {
         List<String> head = new ArrayList<>(List.of("value", "nll", "delta_chi2"));
         head.addAll(s.parameterIds());
         Csv csv = new Csv(head.toArray(new String[0]));
-        List<ProfilesJson.Point> pts = s.entry().points();
+        List<ProfilesFile.Point> pts = s.entry().points();
         for (int i = 0; i < pts.size(); i++) {
             Object[] row = new Object[3 + s.parameterIds().size()];
             row[0] = pts.get(i).value();
@@ -192,7 +198,7 @@ final class ProfileRun {
     }
 
     /** One task per named prediction, in map order. */
-    static List<Task> predictionTasks(String kind, Map<String, Prediction> predictions) {
+    static List<Task> predictionTasks(ProfilesFile.Kind kind, Map<String, Prediction> predictions) {
         List<Task> out = new ArrayList<>();
         for (Map.Entry<String, Prediction> e : predictions.entrySet()) {
             out.add(new Task(kind, e.getKey(), -1, e.getValue()));

@@ -27,6 +27,7 @@ import picocli.CommandLine.Spec;
  * it bounds inside the box; written as {@link RegionFile} JSON.
  */
 @Command(name = "region", mixinStandardHelpOptions = true,
+        footer = {"", "Examples:", "  switchfit region models/stress_switch.xml --vary stimulus --from 0 --to 4 --and k_rec --from2 0.1 --to2 10"},
         description = "Trace the folds of an SBML model in two control quantities and report the cusps and the "
                 + "bistable region.")
 public final class RegionCommand implements Callable<Integer> {
@@ -75,6 +76,40 @@ public final class RegionCommand implements Callable<Integer> {
                             + "--from/--to or choose another --and value (run 'switchfit branches' to see the folds)",
                     setup.vary, SwitchSetup.fmt(setup.from), SwitchSetup.fmt(setup.to), second, SwitchSetup.fmt(v2)));
         }
+        Traced t = trace(setup, s0, b, c2, from2, to2, cs);
+        RegionFile file = t.file();
+        FoldCurve curve = t.curve();
+        BistableRegion region = t.region();
+        ControlQuantity c1 = s0.control;
+        PrintWriter out = spec.commandLine().getOut();
+        for (RegionFile.Cusp c : file.cusps()) {
+            out.printf(Locale.ROOT, "cusp at %s = %.12g, %s = %.12g%n", c1.label(), c.p1(), c2.label(), c.p2());
+        }
+        out.printf(Locale.ROOT, "%d fold-curve points (ends: %s, %s), %d cusp(s), bistable area %.6g in "
+                        + "(%s, %s)%s%n", curve.points().size(), curve.startEnd(), curve.finishEnd(), file.cusps().size(),
+                Math.abs(region.area() * c1.scale() * c2.scale()), c1.label(), c2.label(),
+                region.closedByChord() ? " (polygon closed by a chord)" : "");
+        out.flush();
+        if (json != null) {
+            Json.write(json, file);
+        }
+        return 0;
+    }
+
+    /** A traced fold curve, its bistable region and the file record of both (user units). */
+    record Traced(FoldCurve curve, BistableRegion region, RegionFile file) {
+    }
+
+    /**
+     * The fold curve in (control of {@code s0}, {@code c2}) started from the first fold of {@code b}, the bistable
+     * region it bounds in the box, and its {@code region.json} record: the command's computation, also used by the
+     * demo.
+     *
+     * @throws UserInputException when the fold-curve continuation fails
+     */
+    static Traced trace(SwitchSetup setup, SwitchSetup.Start s0, Branch b, ControlQuantity c2, double from2,
+                        double to2, ContinuationSettings cs) {
+        String second = c2.label();
         double q2a = c2.toQ(from2);
         double q2b = c2.toQ(to2);
         double lo2 = Math.min(q2a, q2b);
@@ -110,18 +145,6 @@ public final class RegionCommand implements Callable<Integer> {
         RegionFile file = new RegionFile(c1.label(), c2.label(), new double[] {setup.from, setup.to},
                 new double[] {from2, to2}, List.of(new RegionFile.Curve(x1, x2)), cusps,
                 new RegionFile.Curve(y1, y2), region.closedByChord(), null);
-        PrintWriter out = spec.commandLine().getOut();
-        for (RegionFile.Cusp c : cusps) {
-            out.printf(Locale.ROOT, "cusp at %s = %.12g, %s = %.12g%n", c1.label(), c.p1(), c2.label(), c.p2());
-        }
-        out.printf(Locale.ROOT, "%d fold-curve points (ends: %s, %s), %d cusp(s), bistable area %.6g in "
-                        + "(%s, %s)%s%n", x1.length, curve.startEnd(), curve.finishEnd(), cusps.size(),
-                Math.abs(region.area() * c1.scale() * c2.scale()), c1.label(), c2.label(),
-                region.closedByChord() ? " (polygon closed by a chord)" : "");
-        out.flush();
-        if (json != null) {
-            Json.write(json, file);
-        }
-        return 0;
+        return new Traced(curve, region, file);
     }
 }

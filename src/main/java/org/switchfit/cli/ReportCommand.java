@@ -18,6 +18,7 @@ import picocli.CommandLine.Spec;
  * recomputing anything (see {@link FitReport} for the sections and the files each needs).
  */
 @Command(name = "report", mixinStandardHelpOptions = true,
+        footer = {"", "Examples:", "  switchfit report fits/demo", "  switchfit report fits/mine --out mine.html"},
         description = "Write one self-contained HTML report of a fit directory from the files in it.")
 public final class ReportCommand implements Callable<Integer> {
 

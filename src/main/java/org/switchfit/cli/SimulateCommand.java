@@ -29,6 +29,7 @@ import picocli.CommandLine.Spec;
 
 /** {@code switchfit simulate}: one time course of an SBML model, written as CSV. */
 @Command(name = "simulate", mixinStandardHelpOptions = true,
+        footer = {"", "Examples:", "  switchfit simulate models/stress_switch.xml --times 0:1:120 --set stimulus=3 --out step3.csv", "  switchfit simulate models/stress_switch.xml --times 0,10,60 --method dp"},
         description = "Simulate an SBML model and write a CSV time course (time, then one column per species: "
                 + "concentration, or amount for hasOnlySubstanceUnits species).")
 public final class SimulateCommand implements Callable<Integer> {

@@ -53,6 +53,7 @@ import picocli.CommandLine.Spec;
  * tolerances: |sim - expected| &lt;= absolute + relative * |expected| per value.
  */
 @Command(name = "suite", mixinStandardHelpOptions = true,
+        footer = {"", "Examples:", "  switchfit suite ../shared/conformance/sbml-semantic --cases 1-200 --json target/suite.json", "  switchfit suite CASES_DIR --min-pass 0.95 --log suite.log"},
         description = "Run SBML Test Suite semantic cases from DIR and compare with their expected results.")
 public final class SuiteCommand implements Callable<Integer> {
     /** Wall-clock limit per case. */

@@ -32,6 +32,7 @@ import picocli.CommandLine.Spec;
  * {@link SweepFile} JSON and a CSV.
  */
 @Command(name = "sweep", mixinStandardHelpOptions = true,
+        footer = {"", "Examples:", "  switchfit sweep models/stress_switch.xml --vary stimulus --from 0 --to 4 --rate 0.005 --readout ZarnA"},
         description = "Simulate a slow ramp of a control quantity up and down and report where the response jumps.")
 public final class SweepCommand implements Callable<Integer> {
 
@@ -66,60 +67,23 @@ public final class SweepCommand implements Callable<Integer> {
         if (samples < 3) {
             throw new UserInputException(null, "--samples " + samples + ": need at least 3");
         }
-        // start the analysis at A: the up ramp begins there
-        double[] range = {setup.from, setup.to};
-        SwitchSetup.Start s = setup.start();
-        SwitchModel sm = s.sm;
-        String ro = readout == null ? sm.states.get(0) : readout.strip();
-        int ri = sm.states.indexOf(ro);
-        if (ri < 0) {
-            throw new UserInputException(SourceLocation.ofFile(setup.modelFile.toString()), String.format(
-                    Locale.ROOT, "--readout %s: the model has no state '%s'%s; states include: %s", ro, ro,
-                    SwitchModel.didYouMean(ro, sm.states), SimulateCommand.abbreviate(sm.states)));
-        }
-        ControlQuantity c = s.control;
-        int k = c.index();
-        double[] full = new double[sm.states.size()];
-        full[ri] = 1;
-        double[] w = sm.reducedReadout(full, s.q);
-        double qa = c.toQ(range[0]);
-        double qb = c.toQ(range[1]);
-        double qRate = rate / Math.abs(c.scale());
-        HysteresisSweep hs = new HysteresisSweep(Integrators.create(SolverSettings.defaults()
-                .withMethod(SolverSettings.Method.BDF).withTolerances(1e-8, 1e-10)), samples);
-        SweepResult up;
-        SweepResult down;
-        try {
-            double[] xa = s.x;
-            if (s.startValue != range[0]) {
-                double[] q = s.q.clone();
-                q[k] = qa;
-                xa = sm.steadyState(s.x, q, s.pEff);
-            }
-            up = hs.run(sm.reduced, xa, s.q, k, qa, qb, qRate, w);
-            double[] xb = endState(s, xa, qa, qb);
-            down = hs.run(sm.reduced, xb, s.q, k, qb, qa, qRate, w);
-        } catch (ContinuationException | IntegrationException e) {
-            throw new UserInputException(SourceLocation.ofFile(setup.modelFile.toString()), "sweep of "
-                    + setup.vary + " failed: " + e.getMessage() + "; try a smaller --rate, a narrower range or "
-                    + "other --set values");
-        }
-        List<SweepFile.Run> runs = List.of(run(SweepFile.Direction.UP, up, s, ri),
-                run(SweepFile.Direction.DOWN, down, s, ri));
-        SweepFile file = new SweepFile(c.label(), ro, rate, runs);
+        SweepFile file = sweep(setup, setup.start(), readout, rate, samples);
+        String ro = file.readout();
+        String label = file.parameter();
+        List<SweepFile.Run> runs = file.runs();
         PrintWriter out = spec.commandLine().getOut();
         for (SweepFile.Run r : runs) {
             SweepFile.Jump j = r.jumps().get(0);
             out.printf(Locale.ROOT, "%s ramp at %s per time unit: steepest change of %s at %s = %.8g (%.6g -> "
                     + "%.6g)%n", r.direction() == SweepFile.Direction.UP ? "up" : "down", SwitchSetup.fmt(rate), ro,
-                    c.label(), j.value(), j.before(), j.after());
+                    label, j.value(), j.before(), j.after());
         }
         out.flush();
         if (json != null) {
             Json.write(json, file);
         }
         if (csv != null) {
-            StringBuilder sb = new StringBuilder("direction,").append(org.switchfit.report.Csv.field(c.label()))
+            StringBuilder sb = new StringBuilder("direction,").append(org.switchfit.report.Csv.field(label))
                     .append(',').append(org.switchfit.report.Csv.field(ro)).append('\n');
             for (SweepFile.Run r : runs) {
                 double[] v = r.values();
@@ -135,7 +99,7 @@ public final class SweepCommand implements Callable<Integer> {
     }
 
     /** Reduced steady state at qb on the branch continued from (xa, qa); the plain steady state if that fails. */
-    private double[] endState(SwitchSetup.Start s, double[] xa, double qa, double qb) {
+    private static double[] endState(SwitchSetup setup, SwitchSetup.Start s, double[] xa, double qa, double qb) {
         double[] q = s.q.clone();
         q[s.control.index()] = qa;
         try {
@@ -175,5 +139,58 @@ public final class SweepCommand implements Callable<Integer> {
         }
         int after = Math.min(i + 1, lam.length - 1);
         return new SweepFile.Run(d, v, y, List.of(new SweepFile.Jump(c.toUser(jq), y[i], y[after])));
+    }
+
+    /**
+     * Ramps the control of {@code s} up from {@code setup.from} to {@code setup.to} and back down at {@code rate}
+     * (control units per model time unit) and returns the {@code sweep.json} record with the readout state in
+     * full (the conserved part of a species eliminated by the reduction added back): the command's computation,
+     * also used by the demo.
+     *
+     * @param readout state followed (null: the first state)
+     * @throws UserInputException for an unknown readout or a failed integration
+     */
+    static SweepFile sweep(SwitchSetup setup, SwitchSetup.Start s, String readout, double rate, int samples) {
+        // start the analysis at A: the up ramp begins there
+        double[] range = {setup.from, setup.to};
+        SwitchModel sm = s.sm;
+        String ro = readout == null ? sm.states.get(0) : readout.strip();
+        int ri = sm.states.indexOf(ro);
+        if (ri < 0) {
+            throw new UserInputException(SourceLocation.ofFile(setup.modelFile.toString()), String.format(
+                    Locale.ROOT, "--readout %s: the model has no state '%s'%s; states include: %s", ro, ro,
+                    SwitchModel.didYouMean(ro, sm.states), SimulateCommand.abbreviate(sm.states)));
+        }
+        ControlQuantity c = s.control;
+        int k = c.index();
+        double[] full = new double[sm.states.size()];
+        full[ri] = 1;
+        double[] w = sm.reducedReadout(full, s.q);
+        double qa = c.toQ(range[0]);
+        double qb = c.toQ(range[1]);
+        double qRate = rate / Math.abs(c.scale());
+        HysteresisSweep hs = new HysteresisSweep(Integrators.create(SolverSettings.defaults()
+                .withMethod(SolverSettings.Method.BDF).withTolerances(1e-8, 1e-10)), samples);
+        SweepResult up;
+        SweepResult down;
+        try {
+            double[] xa = s.x;
+            if (s.startValue != range[0]) {
+                double[] q = s.q.clone();
+                q[k] = qa;
+                xa = sm.steadyState(s.x, q, s.pEff);
+            }
+            up = hs.run(sm.reduced, xa, s.q, k, qa, qb, qRate, w);
+            double[] xb = endState(setup, s, xa, qa, qb);
+            down = hs.run(sm.reduced, xb, s.q, k, qb, qa, qRate, w);
+        } catch (ContinuationException | IntegrationException e) {
+            throw new UserInputException(SourceLocation.ofFile(setup.modelFile.toString()), "sweep of "
+                    + setup.vary + " failed: " + e.getMessage() + "; try a smaller --rate, a narrower range or "
+                    + "other --set values");
+        }
+        List<SweepFile.Run> runs = List.of(run(SweepFile.Direction.UP, up, s, ri),
+                run(SweepFile.Direction.DOWN, down, s, ri));
+        SweepFile file = new SweepFile(c.label(), ro, rate, runs);
+        return file;
     }
 }

@@ -237,7 +237,8 @@ final class SwitchModel {
         return out;
     }
 
-    private double[] withInitialState(double[] p, double[] y) {
+    /** Copy of the (effective) parameters p with the species initial values replaced by the full state y. */
+    double[] withInitialState(double[] p, double[] y) {
         double[] q = p.clone();
         for (int i = 0; i < states.size(); i++) {
             int k = compiled.parameterIndex(states.get(i));

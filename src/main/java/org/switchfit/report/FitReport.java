@@ -164,7 +164,7 @@ public final class FitReport {
             String held = pp.heldStates().isEmpty() ? "" : " Other states held at " + kv(pp.heldStates()) + ".";
             r.figure(FitReportFigures.phase(pp), "Nullclines of " + pp.xState() + " and " + pp.yState()
                     + " at the fitted parameters, steady states (filled: stable, hollow: unstable) and "
-                    + "trajectories (dotted)." + held);
+                    + "trajectories (dotted)." + held + (pp.note() == null ? "" : " " + pp.note()));
         } else {
             missing(r, dir, FitFile.PHASE_PLANE);
         }

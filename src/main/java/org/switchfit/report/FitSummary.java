@@ -1,6 +1,13 @@
 package org.switchfit.report;
 
 import com.fasterxml.jackson.annotation.JsonInclude;
+import java.io.IOException;
+import java.io.InputStream;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.security.MessageDigest;
+import java.security.NoSuchAlgorithmException;
+import java.util.HexFormat;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
@@ -9,6 +16,8 @@ import org.switchfit.fit.FitResult;
 import org.switchfit.fit.StartResult;
 import org.switchfit.problem.EstimationProblem;
 import org.switchfit.problem.FreeParameter;
+import org.switchfit.util.SourceLocation;
+import org.switchfit.util.UserInputException;
 
 /**
  * Content of {@code result.json}, written by {@code switchfit fit}: the best parameter vector, the outcome of every
@@ -145,5 +154,36 @@ public record FitSummary(String problem, double bestNll, Map<String, Double> par
      * @param sha256 lower-case hexadecimal SHA-256 of its bytes
      */
     public record InputFile(String file, String sha256) {
+
+        /**
+         * The file as named by {@code path} with the SHA-256 (FIPS 180-4) of its current bytes.
+         *
+         * @throws UserInputException when the file cannot be read
+         */
+        public static InputFile of(Path path) {
+            return new InputFile(path.toString(), sha256(path));
+        }
+
+        /**
+         * Lower-case hexadecimal SHA-256 of the file's bytes.
+         *
+         * @throws UserInputException when the file cannot be read
+         */
+        public static String sha256(Path path) {
+            try (InputStream in = Files.newInputStream(path)) {
+                MessageDigest md = MessageDigest.getInstance("SHA-256");
+                byte[] buf = new byte[1 << 16];
+                int k;
+                while ((k = in.read(buf)) > 0) {
+                    md.update(buf, 0, k);
+                }
+                return HexFormat.of().formatHex(md.digest());
+            } catch (IOException e) {
+                throw new UserInputException(SourceLocation.ofFile(path.toString()), "cannot be read for its "
+                        + "checksum (" + e.getMessage() + "); check that it exists and is readable", e);
+            } catch (NoSuchAlgorithmException e) {
+                throw new IllegalStateException("SHA-256 is required of every Java runtime", e);
+            }
+        }
     }
 }

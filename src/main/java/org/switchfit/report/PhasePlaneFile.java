@@ -17,10 +17,24 @@ import java.util.Map;
  * @param steadyStates steady states found in the window
  * @param trajectories trajectories from a few starting points
  * @param heldStates  values of the other states, by id (empty for two-state models)
+ * @param note        what else the reader needs to know (control value, how eliminated states follow), or null
  */
 public record PhasePlaneFile(String xState, String yState, double[] xRange, double[] yRange, Curve xNullcline,
                              Curve yNullcline, List<SteadyPoint> steadyStates, List<Curve> trajectories,
-                             Map<String, Double> heldStates) {
+                             Map<String, Double> heldStates, String note) {
+
+    /** A file without a note. */
+    public PhasePlaneFile(String xState, String yState, double[] xRange, double[] yRange, Curve xNullcline,
+                          Curve yNullcline, List<SteadyPoint> steadyStates, List<Curve> trajectories,
+                          Map<String, Double> heldStates) {
+        this(xState, yState, xRange, yRange, xNullcline, yNullcline, steadyStates, trajectories, heldStates, null);
+    }
+
+    /** The same plane with {@code text} as its note. */
+    public PhasePlaneFile withNote(String text) {
+        return new PhasePlaneFile(xState, yState, xRange, yRange, xNullcline, yNullcline, steadyStates, trajectories,
+                heldStates, text);
+    }
 
     /** Validates and copies. */
     public PhasePlaneFile {

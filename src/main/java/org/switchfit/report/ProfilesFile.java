@@ -77,7 +77,12 @@ public record ProfilesFile(double level, double bestNll, Thresholds thresholds, 
         /** The control-parameter value of a fold (saddle-node) of the fitted model. */
         @JsonProperty("fold") FOLD,
         /** A model prediction (prediction profile). */
-        @JsonProperty("prediction") PREDICTION
+        @JsonProperty("prediction") PREDICTION;
+
+        /** The name as written in the file ({@code parameter}, {@code fold}, {@code prediction}). */
+        public String token() {
+            return name().toLowerCase(java.util.Locale.ROOT);
+        }
     }
 
     /** Identifiability class after Raue et al. 2009. */
@@ -87,7 +92,12 @@ public record ProfilesFile(double level, double bestNll, Thresholds thresholds, 
         /** The profile is open on at least one side but not flat. */
         @JsonProperty("practically-nonidentifiable") PRACTICALLY_NONIDENTIFIABLE,
         /** The profile is flat: the data do not constrain the quantity at all. */
-        @JsonProperty("structurally-nonidentifiable") STRUCTURALLY_NONIDENTIFIABLE
+        @JsonProperty("structurally-nonidentifiable") STRUCTURALLY_NONIDENTIFIABLE;
+
+        /** The name as written in the file, e.g. {@code practically-nonidentifiable}. */
+        public String token() {
+            return name().toLowerCase(java.util.Locale.ROOT).replace('_', '-');
+        }
     }
 
     /**
@@ -151,5 +161,23 @@ public record ProfilesFile(double level, double bestNll, Thresholds thresholds, 
      * @param nll   minimised negative log-likelihood with the quantity fixed there (NaN when the point failed)
      */
     public record Point(double value, double nll) {
+    }
+
+    /**
+     * One finished profile as kept in {@code FITDIR/profiles/KEY.json} (for resuming, the CSV and the audit): the
+     * entry, the level it was computed at, and the re-optimised parameters of each point (linear scale, in the order
+     * of {@code parameterIds}), one row per entry point.
+     *
+     * @param level           confidence level the profile was computed at
+     * @param entry           the profile
+     * @param parameterIds    ids of the estimated parameters
+     * @param pointParameters linear parameter values per point, parallel to {@code entry.points()}
+     */
+    public record Stored(double level, Entry entry, List<String> parameterIds, List<double[]> pointParameters) {
+        /** Copies the lists (null becomes empty). */
+        public Stored {
+            parameterIds = parameterIds == null ? List.of() : List.copyOf(parameterIds);
+            pointParameters = pointParameters == null ? List.of() : List.copyOf(pointParameters);
+        }
     }
 }

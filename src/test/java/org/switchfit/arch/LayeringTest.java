@@ -35,7 +35,8 @@ class LayeringTest {
             Map.entry("fit", Set.of("objective", "problem", "util")),
             Map.entry("profile", Set.of("fit", "objective", "problem", "continuation", "util", "linalg")),
             Map.entry("report", Set.of("profile", "fit", "objective", "problem", "continuation", "ode", "data",
-                    "model", "expr", "sbml", "linalg", "util")));
+                    "model", "expr", "sbml", "linalg", "util")),
+            Map.entry("audit", Set.of("report", "profile", "fit", "objective", "problem", "data", "util")));
 
     private static final Pattern IMPORT = Pattern.compile("^import\\s+(?:static\\s+)?org\\.switchfit\\.(\\w+)\\.",
             Pattern.MULTILINE);

@@ -20,6 +20,7 @@ import org.switchfit.report.BranchesFile;
 import org.switchfit.report.FitDirectory;
 import org.switchfit.report.FitFile;
 import org.switchfit.report.FitSummary;
+import org.switchfit.report.PhasePlaneFile;
 import org.switchfit.report.ProfilesFile;
 import org.switchfit.report.RegionFile;
 import org.switchfit.report.SweepFile;
@@ -51,7 +52,7 @@ class DemoRunTest {
         for (JsonNode s : stages) {
             status.put(s.get("name").asText(), s.get("status").asText());
         }
-        assertEquals(List.of("data", "fit", "profiles", "branches", "region", "sweep", "report"),
+        assertEquals(List.of("data", "fit", "profiles", "branches", "region", "sweep", "phase", "report"),
                 List.copyOf(status.keySet()));
         for (Map.Entry<String, String> s : status.entrySet()) {
             assertEquals("DONE", s.getValue(), s.getKey() + ": " + o);
@@ -84,6 +85,12 @@ class DemoRunTest {
         double off = Math.min(br.folds().get(0).value(), br.folds().get(1).value());
         SweepFile sw = dir.read(FitFile.SWEEP);
         for (SweepFile.Run run : sw.runs()) {
+            // The response is the ZarnA concentration itself: between 0 and the conserved Zarn total (1 in the
+            // model file), with 1e-6 for the integration tolerance (a species eliminated by the reduction must
+            // have its conserved part added back).
+            for (double y : run.response()) {
+                assertTrue(y >= -1e-6 && y <= 1 + 1e-6, "ZarnA response " + y + " outside [0, 1]");
+            }
             double jump = run.jumps().get(0).value();
             assertTrue(run.direction() == SweepFile.Direction.UP ? jump > on : jump < off, run.direction() + " "
                     + jump + " vs folds " + off + ", " + on);
@@ -99,6 +106,14 @@ class DemoRunTest {
         BistableRegion region = new BistableRegion(v, List.of(), false);
         assertTrue(region.contains(0.5 * (on + off), kRec));
         assertFalse(region.contains(0.5 * off, kRec));
+
+        // Phase plane midway between the folds of a bistable two-state system: two stable steady states and the
+        // saddle between them (common practice: stable nodes alternate with saddles along the S-shaped curve), and
+        // every steady state lies in the window of the conserved totals.
+        PhasePlaneFile pp = dir.read(FitFile.PHASE_PLANE);
+        assertEquals(3, pp.steadyStates().size(), pp.steadyStates().toString());
+        assertEquals(2, pp.steadyStates().stream().filter(PhasePlaneFile.SteadyPoint::stable).count());
+        assertTrue(pp.heldStates().isEmpty(), "exact reduction: no state held");
 
         String html = Files.readString(out.resolve("report.html"), StandardCharsets.UTF_8);
         assertTrue(html.contains("<svg"));
