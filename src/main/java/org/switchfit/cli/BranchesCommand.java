@@ -101,7 +101,7 @@ public final class BranchesCommand implements Callable<Integer> {
                     + "eigenvalues%n", withEig, b.size(), unstable);
         }
         if (b.size() > 0 && b.point(0).unstableCount() < 0) {
-            out.println(s.sm.reduced.stateCount() > scs.eigenvalueLimit()
+            out.println(s.sm.reduced.stateCount() > cs.eigenvalueLimit()
                     ? "stability not computed: the reduced system has " + s.sm.reduced.stateCount()
                     + " states, above the eigenvalue limit of the continuation settings"
                     : "stability not computed: the eigenvalue iteration did not converge");
