@@ -39,8 +39,8 @@ import picocli.CommandLine;
 /**
  * The stages of {@code switchfit demo}, each a method calling the library or another command's Java entry point:
  * data, fit ({@link FitCommand}), profiles ({@link ProfileCommand}), branches, bistable region and hysteresis
- * sweep (continuation package, written as fit-directory files), report ({@link ReportCommand} plus the demo
- * overview page). A stage whose code is not in this build says so (status {@link Status#NOT_AVAILABLE}); a stage
+ * sweep (the code of {@link BranchesCommand}, {@link RegionCommand} and {@link SweepCommand} on the fitted model,
+ * written as fit-directory files), phase plane, report ({@link ReportCommand} plus the demo overview page). A stage whose code is not in this build says so (status {@link Status#NOT_AVAILABLE}); a stage
  * that fails is recorded as {@link Status#FAILED} with its message and the run goes on with what exists. Prints
  * one line per stage. Not thread-safe.
  */
