@@ -15,6 +15,7 @@ import org.switchfit.continuation.Fold;
 import org.switchfit.continuation.Hopf;
 import org.switchfit.continuation.ScaledSystem;
 import org.switchfit.report.BranchesFile;
+import org.switchfit.report.ContinuationFiles;
 import org.switchfit.report.Json;
 import org.switchfit.util.AtomicFiles;
 import org.switchfit.util.UserInputException;
@@ -97,7 +98,7 @@ public final class BranchesCommand implements Callable<Integer> {
         }
         if (withEig > 0 && withEig < b.size()) {
             out.printf(Locale.ROOT, "stability: eigenvalues at %d of %d points (%d unstable); at the others the "
-                    + "eigenvalue iteration did not converge and the point is written with stable = false and no "
+                    + "eigenvalue iteration did not converge and the point is written with stable = null (unknown) and no "
                     + "eigenvalues%n", withEig, b.size(), unstable);
         }
         if (b.size() > 0 && b.point(0).unstableCount() < 0) {
@@ -229,7 +230,7 @@ public final class BranchesCommand implements Callable<Integer> {
             prev = bp;
             q[k] = lam(sc, bp.parameter());
             pts.add(new BranchesFile.Point(s.control.toUser(q[k]), s.sm.reduced.fullState(x(sc, bp.state()), q),
-                    bp.stable(), bp.eigenReal(), bp.eigenImag()));
+                    ContinuationFiles.stability(bp), bp.eigenReal(), bp.eigenImag()));
         }
         return new BranchesFile(s.control.label(), new double[] {a, bHi}, ids, specials,
                 List.of(new BranchesFile.Branch("branch1", pts)), List.of());
@@ -262,7 +263,7 @@ public final class BranchesCommand implements Callable<Integer> {
             int i = 0;
             for (BranchesFile.Point p : br.points()) {
                 sb.append(br.id()).append(',').append(i++).append(',').append(p.value()).append(',')
-                        .append(p.stable());
+                        .append(p.stable() == null ? "" : p.stable());
                 for (double v : p.states()) {
                     sb.append(',').append(v);
                 }

@@ -80,11 +80,12 @@ public record BranchesFile(String control, double[] range, List<String> stateIds
      *
      * @param value     control parameter value
      * @param states    steady state, in {@code stateIds} order
-     * @param stable    whether all eigenvalues of the Jacobian have negative real part
+     * @param stable    whether all eigenvalues of the Jacobian have negative real part; null when they could not be
+     *                  computed (stability unknown)
      * @param eigenReal real parts of the eigenvalues (may be empty when not computed)
      * @param eigenImag imaginary parts, same length as eigenReal
      */
-    public record Point(double value, double[] states, boolean stable, double[] eigenReal, double[] eigenImag) {
+    public record Point(double value, double[] states, Boolean stable, double[] eigenReal, double[] eigenImag) {
         /** Validates and copies. */
         public Point {
             states = FileArrays.copy(states, "states");

@@ -47,7 +47,7 @@ public final class ContinuationFiles {
             Branch br = branches.get(b);
             List<BranchesFile.Point> pts = new ArrayList<>();
             for (BranchPoint bp : br.points()) {
-                pts.add(new BranchesFile.Point(bp.parameter(), f.apply(bp.state()), bp.stable(), bp.eigenReal(),
+                pts.add(new BranchesFile.Point(bp.parameter(), f.apply(bp.state()), stability(bp), bp.eigenReal(),
                         bp.eigenImag()));
             }
             out.add(new BranchesFile.Branch("branch" + (b + 1), pts));
@@ -142,5 +142,10 @@ public final class ContinuationFiles {
             m.put(ids.get(i), y[i]);
         }
         return m;
+    }
+
+    /** A branch point's stability for the file: null when its eigenvalues were not computed. */
+    public static Boolean stability(BranchPoint bp) {
+        return bp.unstableCount() < 0 ? null : bp.stable();
     }
 }

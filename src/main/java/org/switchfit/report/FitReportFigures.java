@@ -106,7 +106,7 @@ final class FitReportFigures {
                     x[i] = pt.value();
                     double[] states = pt.states();
                     y[i] = s < states.length ? states[s] : Double.NaN;
-                    st[i] = pt.stable();
+                    st[i] = Boolean.TRUE.equals(pt.stable());
                     if (Double.isFinite(y[i])) {
                         yMin = Math.min(yMin, y[i]);
                     }

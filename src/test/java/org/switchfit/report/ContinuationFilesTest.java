@@ -94,4 +94,18 @@ class ContinuationFilesTest {
         assertTrue(r.closedByChord());
         assertEquals(new RegionFile.Cusp(0.5, 0), r.fitted());
     }
+
+    /** A point whose eigenvalues were not computed is written with unknown stability, not as unstable. */
+    @Test
+    void stabilityUnknownWhenEigenvaluesMissing() throws Exception {
+        org.switchfit.continuation.BranchPoint unknown = new org.switchfit.continuation.BranchPoint(0.5,
+                new double[] {1}, -1, new double[0], new double[0], 1, 0);
+        org.switchfit.continuation.BranchPoint stable = new org.switchfit.continuation.BranchPoint(0.5,
+                new double[] {1}, 0, new double[] {-1}, new double[] {0}, 1, 0);
+        assertEquals(null, ContinuationFiles.stability(unknown));
+        assertEquals(Boolean.TRUE, ContinuationFiles.stability(stable));
+        BranchesFile.Point pt = new BranchesFile.Point(0.5, new double[] {1}, null, null, null);
+        String json = Json.toJson(pt);
+        assertTrue(json.contains("\"stable\":null") || json.contains("\"stable\" : null"), json);
+    }
 }
