@@ -98,8 +98,8 @@ public final class BranchesCommand implements Callable<Integer> {
         }
         if (withEig > 0 && withEig < b.size()) {
             out.printf(Locale.ROOT, "stability: eigenvalues at %d of %d points (%d unstable); at the others the "
-                    + "eigenvalue iteration did not converge and the point is written with stable = null (unknown) and no "
-                    + "eigenvalues%n", withEig, b.size(), unstable);
+                    + "eigenvalue iteration did not converge and the point is written with stable = null (unknown) "
+                    + "and no eigenvalues%n", withEig, b.size(), unstable);
         }
         if (b.size() > 0 && b.point(0).unstableCount() < 0) {
             out.println(s.sm.reduced.stateCount() > cs.eigenvalueLimit()
