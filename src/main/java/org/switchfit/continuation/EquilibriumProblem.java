@@ -66,9 +66,16 @@ final class EquilibriumProblem implements CurveProblem {
      */
     @Override
     public int[][] pattern() {
-        int[][] jp = sys.jacobianPattern();
-        if (jp == null || linearAlgebra == LinearAlgebra.DENSE) {
+        int[][] jp = linearAlgebra == LinearAlgebra.DENSE ? null : sys.jacobianPattern();
+        if (jp == null) {
             return null;
+        }
+        long nnz = 0;
+        for (int[] row : jp) {
+            nnz += row.length;
+        }
+        if (nnz >= (long) n * n) {
+            return null; // no structure known (the default pattern claims a dense Jacobian)
         }
         int[][] out = new int[n][];
         for (int i = 0; i < n; i++) {

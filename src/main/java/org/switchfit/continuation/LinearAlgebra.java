@@ -14,6 +14,7 @@ public enum LinearAlgebra {
     AUTO,
     /** Dense LU with partial pivoting. */
     DENSE,
-    /** Sparse LU on the Jacobian's structural pattern, whatever its size; dense when the system gives no pattern. */
+    /** Sparse LU on the Jacobian's structural pattern, whatever its size; dense when the system's pattern is
+     * structurally full (no structure known). */
     SPARSE
 }
