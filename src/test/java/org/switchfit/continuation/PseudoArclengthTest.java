@@ -225,6 +225,10 @@ class PseudoArclengthTest {
         assertFalse(PseudoArclength.usesSparseLu(sys, dense));
         assertFalse(PseudoArclength.usesSparseLu(sys, base), "AUTO below the size threshold is dense");
         assertFalse(PseudoArclength.usesSparseLu(chain(n, false), sparse), "no pattern: dense");
+        assertTrue(new CurveCorrector(new EquilibriumProblem(sys, new double[1], 0, LinearAlgebra.SPARSE), 1e-11, 8)
+                .isSparse(), "the corrector factors the bordered matrix with the sparse LU");
+        assertFalse(new CurveCorrector(new EquilibriumProblem(sys, new double[1], 0, LinearAlgebra.DENSE), 1e-11, 8)
+                .isSparse());
         double[] y0 = new double[n];
         java.util.Arrays.fill(y0, -1.0);
         Branch bs = new PseudoArclength(sparse).trace(sys, y0, new double[] {-0.8}, 0);
