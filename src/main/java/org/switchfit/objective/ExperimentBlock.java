@@ -2,7 +2,6 @@ package org.switchfit.objective;
 
 import java.util.Arrays;
 import java.util.Locale;
-import org.switchfit.data.ParameterScale;
 import org.switchfit.ode.IntegrationException;
 import org.switchfit.ode.SolverSettings;
 import org.switchfit.problem.EstimationProblem;
@@ -17,24 +16,13 @@ import org.switchfit.util.UserInputException;
  * sensitivities dy/dθ, simulated by {@link ExperimentSimulation} (initial-assignment derivatives, optional
  * pre-equilibration, staggered BDF sensitivities, sensitivities across events).
  *
- * <p>Residuals per measurement (transformed data m' and prediction h' for log/log10 observables): normal noise
- * {@code r = (m' - h') / σ}; Laplace {@code r = sign(m' - h') sqrt(2 |m' - h'| / b)}. When σ depends on θ (or on
- * the state) a second residual {@code sqrt(2 log σ + C)} carries the normalisation, C = {@link #SIGMA_SHIFT}; its
- * square is exact, so the returned NLL is exact. Constant normalisations ({@code 0.5 log(2πσ²)}, {@code log 2b},
- * the log-data Jacobian {@code log m'} or {@code log(m' ln 10)}, as PEtab v1 defines the likelihood) go into
- * {@link #constant()}.
+ * <p>Residuals per measurement by {@link NoiseResidual} (normal or Laplace noise on the observable's scale, a
+ * second residual {@code sqrt(2 log σ + C)} when σ depends on θ or the state). C is
+ * {@link NoiseResidual#SIGMA_SHIFT}, except when σ is directly an estimated parameter with a positive lower bound
+ * L: then {@code C = max(1, 1 - 2 log L)} (real on the whole box, and a smaller constant keeps the cost, and so the
+ * optimizer's relative stopping tests, close to the NLL).
  */
 final class ExperimentBlock implements ResidualBlock {
-    /**
-     * Default C in {@code sqrt(2 log σ + C)}: makes the residual real for σ &gt; exp(-C/2) ≈ 2e-22; smaller σ raise
-     * an {@link ObjectiveException}. When σ is directly an estimated parameter with a positive lower bound L,
-     * {@code C = max(1, 1 - 2 log L)} instead (real on the whole box, and a smaller constant keeps the cost, and so
-     * the optimizer's relative stopping tests, close to the NLL).
-     */
-    static final double SIGMA_SHIFT = 100.0;
-    private static final double LN10 = Math.log(10.0);
-    private static final double LOG_2PI = Math.log(2.0 * Math.PI);
-
     private final EstimationProblem problem;
     private final SimulationExperiment exp;
     private final int n;
@@ -74,18 +62,15 @@ final class ExperimentBlock implements ResidualBlock {
             double s = constantSigma(me, od);
             fixedSigma[i] = s;
             sigmaVariable[i] = Double.isNaN(s);
-            off += sigmaVariable[i] ? 2 : 1;
-            c += transformConstant(od.transformation(), me.value());
+            off += NoiseResidual.size(sigmaVariable[i]);
             if (sigmaVariable[i]) {
                 shift[i] = sigmaShift(me, od);
-                c += (od.noise() == ObservableDef.Noise.LAPLACE ? Math.log(2.0) : 0.5 * LOG_2PI) - 0.5 * shift[i];
             } else if (!(s > 0)) {
                 throw new UserInputException(me.location(), String.format(Locale.ROOT,
                         "noise spread of observable '%s' evaluates to %s; it must be positive: correct the noise "
                         + "formula or the noiseParameters", od.id(), s));
-            } else {
-                c += od.noise() == ObservableDef.Noise.LAPLACE ? Math.log(2.0 * s) : 0.5 * LOG_2PI + Math.log(s);
             }
+            c = NoiseResidual.addConstant(c, od, me.value(), sigmaVariable[i], s, shift[i]);
         }
         size = off;
         constant = c;
@@ -108,21 +93,10 @@ final class ExperimentBlock implements ResidualBlock {
         work = ThreadLocal.withInitial(Work::new);
     }
 
-    static double transformConstant(ParameterScale t, double value) {
-        switch (t) {
-            case LOG:
-                return Math.log(value);
-            case LOG10:
-                return Math.log(value * LN10);
-            default:
-                return 0.0;
-        }
-    }
-
-    /** C for a row with variable σ (see {@link #SIGMA_SHIFT}). */
+    /** C for a row with variable σ (see the class comment). */
     private double sigmaShift(Measurement me, ObservableDef od) {
         if (od.sigma().op() != org.switchfit.expr.Op.PARAM || od.sigma().index() < m) {
-            return SIGMA_SHIFT;
+            return NoiseResidual.SIGMA_SHIFT;
         }
         int k = od.sigma().index();
         int oOff = problem.obsPlaceholderOffset();
@@ -130,10 +104,10 @@ final class ExperimentBlock implements ResidualBlock {
         ValueSource src = k < oOff ? problem.globalSources().get(k - m)
                 : k < nOff ? me.obsParameters().get(k - oOff) : me.noiseParameters().get(k - nOff);
         if (!src.isTheta()) {
-            return SIGMA_SHIFT;
+            return NoiseResidual.SIGMA_SHIFT;
         }
         double lower = problem.parameters().get(src.thetaIndex()).lower();
-        return lower > 0 ? Math.max(1.0, 1.0 - 2.0 * Math.log(lower)) : SIGMA_SHIFT;
+        return lower > 0 ? Math.max(1.0, 1.0 - 2.0 * Math.log(lower)) : NoiseResidual.SIGMA_SHIFT;
     }
 
     /** σ when it is a constant for this row, else NaN. */
@@ -238,68 +212,16 @@ final class ExperimentBlock implements ResidualBlock {
             Arrays.fill(w.gradS, 0.0);
             simulation.chain(st, me, o, t, dLinear, sens, w.gradH, w.gradS);
         }
-        double hm = h;
-        double mv = me.value();
-        double dhm = 1.0;
-        switch (od.transformation()) {
-            case LOG:
-                hm = Math.log(h);
-                mv = Math.log(mv);
-                dhm = 1.0 / h;
-                break;
-            case LOG10:
-                hm = Math.log10(h);
-                mv = Math.log10(mv);
-                dhm = 1.0 / (h * LN10);
-                break;
-            default:
-                break;
-        }
-        if (!Double.isFinite(hm) || !(sigma > 0) || !Double.isFinite(sigma)) {
+        int status = NoiseResidual.write(od, h, me.value(), sigma, sigmaVariable[i], shift[i], w.gradH, w.gradS, np,
+                r, offset + rowOffset[i], jac);
+        if (status == NoiseResidual.UNUSABLE) {
             throw new ObjectiveException(String.format(Locale.ROOT, "experiment '%s', observable '%s' at t = %.6g:"
                     + " prediction %s or noise spread %s is not usable (%s)", exp.id(), od.id(), t, h, sigma,
                     me.location()));
         }
-        int ro = offset + rowOffset[i];
-        double d = mv - hm;
-        double res;
-        double dResDhm;
-        double dResDs;
-        if (od.noise() == ObservableDef.Noise.LAPLACE) {
-            double u = 2.0 * Math.abs(d) / sigma;
-            double su = Math.sqrt(u);
-            res = Math.copySign(su, d);
-            // d res / d hm = -1 / (sigma su), d res / d sigma = -res / (2 sigma); 0 at d = 0 (not differentiable)
-            dResDhm = su > 0 ? -1.0 / (sigma * su) : 0.0;
-            dResDs = -res / (2.0 * sigma);
-        } else {
-            res = d / sigma;
-            dResDhm = -1.0 / sigma;
-            dResDs = -res / sigma;
-        }
-        r[ro] = res;
-        double rs = 0.0;
-        if (sigmaVariable[i]) {
-            double arg = 2.0 * Math.log(sigma) + shift[i];
-            if (!(arg > 0)) {
-                throw new ObjectiveException(String.format(Locale.ROOT, "experiment '%s', observable '%s': noise "
-                        + "spread %.3g is below exp(-%.1f)", exp.id(), od.id(), sigma, shift[i] / 2));
-            }
-            rs = Math.sqrt(arg);
-            r[ro + 1] = rs;
-        }
-        if (jac != null) {
-            int base = ro * np;
-            for (int j = 0; j < np; j++) {
-                jac[base + j] = dResDhm * dhm * w.gradH[j] + (sigmaVariable[i] ? dResDs * w.gradS[j] : 0.0);
-            }
-            if (sigmaVariable[i]) {
-                int b2 = (ro + 1) * np;
-                double f = 1.0 / (rs * sigma);
-                for (int j = 0; j < np; j++) {
-                    jac[b2 + j] = f * w.gradS[j];
-                }
-            }
+        if (status == NoiseResidual.SIGMA_BELOW_SHIFT) {
+            throw new ObjectiveException(String.format(Locale.ROOT, "experiment '%s', observable '%s': noise "
+                    + "spread %.3g is below exp(-%.1f)", exp.id(), od.id(), sigma, shift[i] / 2));
         }
     }
 
