@@ -15,6 +15,7 @@ import org.switchfit.fit.StartResult;
 import org.switchfit.objective.LikelihoodObjective;
 import org.switchfit.problem.EstimationProblem;
 import org.switchfit.problem.ProblemLoader;
+import org.switchfit.testsystems.PetabFiles;
 import org.switchfit.util.UserInputException;
 import picocli.CommandLine;
 
@@ -56,9 +57,9 @@ class FitSolverOptionsTest {
 
     @Test
     void startStoreRefusesWithoutResumeAndContinuesWithIt() {
-        // X' = -k X decay (DecayProblemFiles): a 3-start run, then a resumed 3-start run over the same folder must
+        // X' = -k X decay (PetabFiles.writeDecay): a 3-start run, then a resumed 3-start run over the same folder must
         // reuse all three stored starts and give the same best NLL (reproducible from the seed).
-        EstimationProblem p = ProblemLoader.load(DecayProblemFiles.write(dir.resolve("problem"),
+        EstimationProblem p = ProblemLoader.load(PetabFiles.writeDecay(dir.resolve("problem"),
                 new double[] {2.0, 1.5, 1.1}, new double[] {0, 1, 2}, 0.1));
         FitSolverOptions solver = new FitSolverOptions();
         solver.rtol = 1e-8;

@@ -17,6 +17,8 @@ import org.switchfit.problem.EstimationProblem;
 import org.switchfit.problem.ProblemLoader;
 import org.switchfit.profile.Profile;
 import org.switchfit.profile.ProfileLikelihood;
+import org.switchfit.testsystems.DecaySbml;
+import org.switchfit.testsystems.PetabFiles;
 
 /**
  * A prediction profile (Kreutz et al. 2012, doi:10.1186/1752-0509-6-120) is the parameter profile of the
@@ -49,10 +51,10 @@ class PredictionProfileTest {
 
     @Test
     void predictionProfileEqualsProfileOfReparameterisedModel() {
-        EstimationProblem p1 = ProblemLoader.load(DecayProblemFiles.write(dir.resolve("a"), DecayProblemFiles.MODEL,
+        EstimationProblem p1 = ProblemLoader.load(PetabFiles.writeDecay(dir.resolve("a"), DecaySbml.MODEL,
                 "x0", M, T, SIGMA, "lin"));
-        EstimationProblem p2 = ProblemLoader.load(DecayProblemFiles.write(dir.resolve("b"),
-                DecayProblemFiles.reparameterisedModel(T_STAR), "B", M, T, SIGMA, "lin"));
+        EstimationProblem p2 = ProblemLoader.load(PetabFiles.writeDecay(dir.resolve("b"),
+                DecaySbml.reparameterised(T_STAR), "B", M, T, SIGMA, "lin"));
         FitProblem f1 = fitProblem(p1);
         FitProblem f2 = fitProblem(p2);
         LocalFit o1 = LevenbergMarquardt.defaults().minimize(f1, p1.nominalTheta());

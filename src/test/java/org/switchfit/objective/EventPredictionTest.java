@@ -11,6 +11,7 @@ import org.switchfit.ode.SolverSettings;
 import org.switchfit.problem.EstimationProblem;
 import org.switchfit.problem.ProblemLoader;
 import org.switchfit.testsystems.DecaySbml;
+import org.switchfit.testsystems.PetabFiles;
 import org.switchfit.util.UserInputException;
 
 /**

@@ -58,6 +58,17 @@ public final class DecaySbml {
     public static final String RESET = withEvents(parameter("cth", 0.5, true) + parameter("xr", 1.0, true),
             event("reset", true, "<apply><lt/><ci>X</ci><ci>cth</ci></apply>", null, "X", "<ci>xr</ci>"));
 
+    /**
+     * The decay reparameterised by B = X(tStar): parameter x0 replaced by B (value 2) and X(0) = B e^{k tStar}, so
+     * X(t) = B e^{-k (t - tStar)}.
+     */
+    public static String reparameterised(double tStar) {
+        return MODEL.replace("<parameter id=\"x0\" value=\"2\" constant=\"true\"/>",
+                        "<parameter id=\"B\" value=\"2\" constant=\"true\"/>")
+                .replace("<ci>x0</ci>", "<apply><times/><ci>B</ci><apply><exp/><apply><times/><ci>k</ci><cn>"
+                        + tStar + "</cn></apply></apply></apply>");
+    }
+
     /** {@link #MODEL} with extra {@code <parameter>} elements (after x0) and {@code <event>} elements. */
     public static String withEvents(String parameters, String events) {
         return withEvents(parameters, events, true);
