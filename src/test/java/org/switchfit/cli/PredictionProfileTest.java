@@ -78,4 +78,45 @@ class PredictionProfileTest {
         double est = pred.optimumValue();
         assertTrue(Math.abs((hi - est) - (est - lo)) > 1e-3 * (hi - lo), "asymmetric interval expected");
     }
+
+    /**
+     * The same identity on a model with an event ({@link DecaySbml#BOLUS}: at t1 = 2, X += d, d = 1.5; k linear and
+     * x0 on log10 scale estimated, d and t1 fixed at their SBML values): X(t*) = x0 e^{-k t*} + d e^{-k(t* - t1)}
+     * for t* &gt; t1, so the reparameterisation B = X(t*) has X(0) = x0 = (B - d e^{-k(t* - t1)}) e^{k t*} (derived
+     * by hand). The prediction now integrates sensitivities across the event; the bolus time does not depend on
+     * θ, so the jump is exact and the tolerance argument above applies unchanged.
+     */
+    @Test
+    void predictionProfileOfAModelWithAnEventEqualsProfileOfReparameterisedModel() {
+        double[] t = {0, 1, 1.5, 3, 4, 6};
+        double[] m = {2.1, 1.45, 1.3, 1.88, 1.46, 0.75};
+        String initial = "<apply><times/><apply><minus/><ci>B</ci><apply><times/><ci>d</ci><apply><exp/><apply>"
+                + "<times/><apply><minus/><ci>k</ci></apply><apply><minus/><cn>" + T_STAR + "</cn><ci>t1</ci>"
+                + "</apply></apply></apply></apply></apply><apply><exp/><apply><times/><ci>k</ci><cn>" + T_STAR
+                + "</cn></apply></apply></apply>";
+        String reparameterised = DecaySbml.BOLUS
+                .replace("<parameter id=\"x0\" value=\"2\" constant=\"true\"/>",
+                        "<parameter id=\"B\" value=\"1\" constant=\"true\"/>")
+                .replace("<ci>x0</ci>", initial);
+        EstimationProblem p1 = ProblemLoader.load(PetabFiles.writeDecay(dir.resolve("a"), DecaySbml.BOLUS, "x0", m, t,
+                SIGMA, "lin"));
+        EstimationProblem p2 = ProblemLoader.load(PetabFiles.writeDecay(dir.resolve("b"), reparameterised, "B", m, t,
+                SIGMA, "lin"));
+        FitProblem f1 = fitProblem(p1);
+        FitProblem f2 = fitProblem(p2);
+        LocalFit o1 = LevenbergMarquardt.defaults().minimize(f1, p1.nominalTheta());
+        LocalFit o2 = LevenbergMarquardt.defaults().minimize(f2, p2.nominalTheta());
+        assertEquals(o1.nll(), o2.nll(), 1e-9 * Math.abs(o1.nll()), "same optimum NLL");
+        ProfileLikelihood pl = ProfileLikelihood.defaults();
+        ObservablePrediction g = ObservablePrediction.of(p1, TIGHT, SteadyState.defaults(), "obs@" + T_STAR);
+        Profile pred = pl.profilePrediction(f1, o1.theta(), g, g.name(), Double.NEGATIVE_INFINITY,
+                Double.POSITIVE_INFINITY);
+        Profile param = pl.profileParameter(f2, o2.theta(), f2.indexOf("B"));
+        assertTrue(pred.pointwise().closed(), pred.lowerSide() + "/" + pred.upperSide() + " " + pred.message());
+        assertTrue(param.pointwise().closed(), param.lowerSide() + "/" + param.upperSide() + " " + param.message());
+        double lo = param.pointwise().lowerLinear();
+        double hi = param.pointwise().upperLinear();
+        assertEquals(lo, pred.pointwise().lowerLinear(), 1e-6 * lo, "lower end");
+        assertEquals(hi, pred.pointwise().upperLinear(), 1e-6 * hi, "upper end");
+    }
 }
