@@ -55,25 +55,9 @@ class PredictionProfileTest {
                 "x0", M, T, SIGMA, "lin"));
         EstimationProblem p2 = ProblemLoader.load(PetabFiles.writeDecay(dir.resolve("b"),
                 DecaySbml.reparameterised(T_STAR), "B", M, T, SIGMA, "lin"));
-        FitProblem f1 = fitProblem(p1);
-        FitProblem f2 = fitProblem(p2);
-        LocalFit o1 = LevenbergMarquardt.defaults().minimize(f1, p1.nominalTheta());
-        LocalFit o2 = LevenbergMarquardt.defaults().minimize(f2, p2.nominalTheta());
-        // Same likelihood, two parameterisations: same optimum NLL (relative 1e-9: integration error only).
-        assertEquals(o1.nll(), o2.nll(), 1e-9 * Math.abs(o1.nll()));
-        ProfileLikelihood pl = ProfileLikelihood.defaults();
-        ObservablePrediction g = ObservablePrediction.of(p1, TIGHT, SteadyState.defaults(), "obs@" + T_STAR);
-        Profile pred = pl.profilePrediction(f1, o1.theta(), g, g.name(), Double.NEGATIVE_INFINITY,
-                Double.POSITIVE_INFINITY);
-        Profile param = pl.profileParameter(f2, o2.theta(), f2.indexOf("B"));
-        assertTrue(pred.pointwise().closed(), pred.lowerSide() + "/" + pred.upperSide() + " " + pred.message());
-        assertTrue(param.pointwise().closed(), param.lowerSide() + "/" + param.upperSide() + " " + param.message());
-        double lo = param.pointwise().lowerLinear();
-        double hi = param.pointwise().upperLinear();
-        assertEquals(lo, pred.pointwise().lowerLinear(), 1e-6 * lo, "lower end");
-        assertEquals(hi, pred.pointwise().upperLinear(), 1e-6 * hi, "upper end");
-        assertEquals(param.simultaneous().lowerLinear(), pred.simultaneous().lowerLinear(), 1e-6 * lo);
-        assertEquals(param.simultaneous().upperLinear(), pred.simultaneous().upperLinear(), 1e-6 * hi);
+        Profile pred = assertPredictionProfileEqualsParameterProfile(p1, p2);
+        double lo = pred.pointwise().lowerLinear();
+        double hi = pred.pointwise().upperLinear();
         // Not symmetric around the estimate: the profile is not quadratic (no delta-method shortcut was taken).
         double est = pred.optimumValue();
         assertTrue(Math.abs((hi - est) - (est - lo)) > 1e-3 * (hi - lo), "asymmetric interval expected");
@@ -102,6 +86,15 @@ class PredictionProfileTest {
                 SIGMA, "lin"));
         EstimationProblem p2 = ProblemLoader.load(PetabFiles.writeDecay(dir.resolve("b"), reparameterised, "B", m, t,
                 SIGMA, "lin"));
+        assertPredictionProfileEqualsParameterProfile(p1, p2);
+    }
+
+    /**
+     * Fits both problems, profiles the prediction obs@T_STAR of p1 and the parameter B of p2, and asserts the same
+     * optimum NLL (relative 1e-9: integration error only) and the same pointwise and simultaneous intervals
+     * (relative 1e-6, see the class comment); returns the prediction profile.
+     */
+    private static Profile assertPredictionProfileEqualsParameterProfile(EstimationProblem p1, EstimationProblem p2) {
         FitProblem f1 = fitProblem(p1);
         FitProblem f2 = fitProblem(p2);
         LocalFit o1 = LevenbergMarquardt.defaults().minimize(f1, p1.nominalTheta());
@@ -118,5 +111,8 @@ class PredictionProfileTest {
         double hi = param.pointwise().upperLinear();
         assertEquals(lo, pred.pointwise().lowerLinear(), 1e-6 * lo, "lower end");
         assertEquals(hi, pred.pointwise().upperLinear(), 1e-6 * hi, "upper end");
+        assertEquals(param.simultaneous().lowerLinear(), pred.simultaneous().lowerLinear(), 1e-6 * lo);
+        assertEquals(param.simultaneous().upperLinear(), pred.simultaneous().upperLinear(), 1e-6 * hi);
+        return pred;
     }
 }
