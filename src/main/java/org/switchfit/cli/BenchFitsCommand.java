@@ -85,6 +85,11 @@ public final class BenchFitsCommand implements Callable<Integer> {
             description = "iterations per start (default: ${DEFAULT-VALUE})")
     int maxIterations;
 
+    @Option(names = "--cost-tolerance", defaultValue = "1e-10",
+            description = "stop when an LM step changes the cost by less than this fraction (default: "
+                    + "${DEFAULT-VALUE}, as `fit`; at rtol 1e-8 objective values carry noise of about 1e-10 relative)")
+    double costTolerance;
+
     @Override
     public Integer call() throws IOException {
         if (!Files.isDirectory(dir)) {
@@ -134,6 +139,7 @@ public final class BenchFitsCommand implements Callable<Integer> {
         all.put("starts", starts);
         all.put("seed", seed);
         all.put("threads", threads);
+        all.put("costTolerance", costTolerance);
         all.put("maxParameters", maxParameters);
         all.put("reached", reached);
         all.put("fitted", fitted);
@@ -161,7 +167,8 @@ public final class BenchFitsCommand implements Callable<Integer> {
             finished.addAll(store.readAll(StartResult.class).values());
         }
         Multistart ms = Multistart.defaults().withStarts(starts).withSeed(seed)
-                .withOptimizer(LevenbergMarquardt.defaults().withMaxIterations(maxIterations));
+                .withOptimizer(LevenbergMarquardt.defaults().withMaxIterations(maxIterations)
+                        .withCostTolerance(costTolerance));
         long t0 = System.nanoTime();
         FitResult result = ms.run(fp, null, LocalTaskExecutor.ofThreads(threads),
                 s -> store.put(ResultStore.indexKey("start", s.index()), s), finished);
