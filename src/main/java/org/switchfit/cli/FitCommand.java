@@ -71,12 +71,6 @@ public final class FitCommand implements Callable<Integer> {
     @Mixin
     FitSolverOptions solver;
 
-    /** Unlike {@code bench-fits} ({@link BenchFitsCommand#COST_TOLERANCE}), the fit stops at a 1e-10 change. */
-    @Option(names = "--cost-tolerance", defaultValue = "1e-10",
-            description = "stop when an LM step changes the cost by less than this fraction (default: "
-                    + "${DEFAULT-VALUE}; objective values are only accurate to about the integration rtol)")
-    double costTolerance;
-
     @Override
     public Integer call() {
         if (starts < 1 || threads < 1) {
@@ -90,7 +84,7 @@ public final class FitCommand implements Callable<Integer> {
                 SourceLocation.ofFile(out.toString()), "already holds finished starts; add --resume to continue that "
                 + "run, or choose another --out folder"));
         List<StartResult> finished = store.finished();
-        Multistart ms = solver.multistart(starts, seed, costTolerance);
+        Multistart ms = solver.multistart(starts, seed);
         double[] guess = nominalStart ? problem.nominalTheta() : null;
         boolean bar = !OutputOptions.quiet(spec) && System.console() != null;
         PrintWriter err = OutputOptions.progress(spec);
@@ -177,7 +171,7 @@ public final class FitCommand implements Callable<Integer> {
             inputs.add(FitSummary.InputFile.of(p));
         }
         FitSummary summary = FitSummary.of(problem, result, new FitSummary.Settings(starts, seed, solver.rtol,
-                solver.atol, nominalStart, costTolerance, solver.maxIterations), wall, versions, inputs);
+                solver.atol, nominalStart, solver.costTolerance, solver.maxIterations), wall, versions, inputs);
         FitDirectory.of(out).write(FitFile.RESULT, summary);
         double[] th = result.bestTheta();
         if (th == null) {
