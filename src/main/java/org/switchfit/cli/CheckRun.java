@@ -160,10 +160,12 @@ final class CheckRun {
      * Reference values in measurement order: by row when the tables line up, else by matching keys. The tables
      * line up when they have the same number of rows and every row has the same observable (or one extended with
      * '__...') and time, and the condition ids are the same or consistently renamed (a one-to-one map between the
-     * reference's ids and the condition table's, as in tables written by tools that number conditions).
+     * reference's ids and the condition table's, as in tables written by tools that number conditions; an id the
+     * condition table defines always means that condition).
      */
     private double[] align(List<PetabMeasurement> ref) {
         List<Measurement> ms = problem.measurements();
+        ref = resolveObservables(ref);
         double[] out = new double[ms.size()];
         java.util.Arrays.fill(out, Double.NaN);
         if (ref.size() == ms.size() && linesUp(ms, ref)) {
@@ -216,19 +218,62 @@ final class CheckRun {
     private boolean linesUp(List<Measurement> ms, List<PetabMeasurement> ref) {
         Map<String, String> oursToRef = new HashMap<>();
         Map<String, String> refToOurs = new HashMap<>();
+        java.util.Set<String> known = new java.util.HashSet<>();
+        for (var c : problem.conditions()) {
+            known.add(c.id());
+        }
         for (int i = 0; i < ms.size(); i++) {
             Measurement me = ms.get(i);
             PetabMeasurement r = ref.get(i);
             String sim = problem.conditions().get(problem.experiments().get(me.experiment()).condition()).id();
             String obs = problem.observables().get(me.observable()).id();
             boolean sameObs = r.observableId().equals(obs) || r.observableId().startsWith(obs + "__");
-            if (!sameObs || me.time() != r.time()
+            // a condition id the problem defines names that condition: only ids foreign to the condition table
+            // can be renamings (otherwise a table listing the same rows in another order would line up with
+            // two conditions swapped)
+            boolean foreignOrSame = r.simulationConditionId().equals(sim) || !known.contains(r.simulationConditionId());
+            if (!sameObs || !foreignOrSame || me.time() != r.time()
                     || !oursToRef.computeIfAbsent(sim, k -> r.simulationConditionId()).equals(r.simulationConditionId())
                     || !refToOurs.computeIfAbsent(r.simulationConditionId(), k -> sim).equals(sim)) {
                 return false;
             }
         }
         return true;
+    }
+
+    /**
+     * The reference rows with observable ids written as the problem's where the reference shortens them: an id
+     * the observable table lacks stands for the one observable whose id ends with '_' + that id (reference tables
+     * written by some tools drop a prefix such as {@code observable_}); ids with no such unique observable are kept.
+     */
+    private List<PetabMeasurement> resolveObservables(List<PetabMeasurement> ref) {
+        java.util.Set<String> ids = new java.util.HashSet<>();
+        for (var o : problem.observables()) {
+            ids.add(o.id());
+        }
+        Map<String, String> resolved = new HashMap<>();
+        List<PetabMeasurement> out = new ArrayList<>(ref.size());
+        for (PetabMeasurement r : ref) {
+            String id = resolved.computeIfAbsent(r.observableId(), k -> {
+                if (ids.contains(k)) {
+                    return k;
+                }
+                String hit = null;
+                for (String o : ids) {
+                    if (o.endsWith("_" + k)) {
+                        if (hit != null) {
+                            return k;
+                        }
+                        hit = o;
+                    }
+                }
+                return hit == null ? k : hit;
+            });
+            out.add(id.equals(r.observableId()) ? r : new PetabMeasurement(id, r.simulationConditionId(),
+                    r.preequilibrationConditionId(), r.value(), r.time(), r.observableParameters(),
+                    r.noiseParameters(), r.datasetId(), r.replicateId(), r.location()));
+        }
+        return out;
     }
 
     private static String key(String sim, double t) {

@@ -62,6 +62,41 @@ class FitCheckCommandTest {
         assertEquals(CheckCommand.EXIT_MISMATCH, code, out.toString());
     }
 
+    /**
+     * Decay X' = -k X (k = 0.3, X(0) = x0) in two conditions x0 = 1 and x0 = 2, measured at t = 1; closed form
+     * X(1) = x0 e^{-0.3} (derived by hand). The reference lists the conditions in the other order and names the
+     * observable without its prefix, as reference tables of some tools do: matched by keys, not by row.
+     */
+    @Test
+    void referenceInAnotherRowOrderAndWithShortObservableIdsIsMatchedByKeys() throws Exception {
+        Path yaml = org.switchfit.testsystems.PetabFiles.write(dir.resolve("two"),
+                org.switchfit.testsystems.DecaySbml.MODEL,
+                "parameterId | parameterScale | lowerBound | upperBound | nominalValue | estimate\n"
+                        + "k | lin | 0.01 | 2 | 0.3 | 1",
+                "conditionId | x0\nlow | 1.0\nhigh | 2.0",
+                "observableId | observableFormula | noiseFormula | observableTransformation | noiseDistribution\n"
+                        + "observable_X | X | 0.1 | lin | normal",
+                "observableId | simulationConditionId | measurement | time\n"
+                        + "observable_X | low | 0.7 | 1\nobservable_X | high | 1.5 | 1");
+        Path ref = dir.resolve("ref.tsv");
+        Files.writeString(ref, "observableId\tsimulationConditionId\tsimulation\ttime\n"
+                + "X\thigh\t" + 2 * Math.exp(-0.3) + "\t1\n"
+                + "X\tlow\t" + Math.exp(-0.3) + "\t1\n");
+        Path json = dir.resolve("check.json");
+        StringWriter out = new StringWriter();
+        StringWriter err = new StringWriter();
+        int code = run(out, err, "check", yaml.toString(), "--reference", ref.toString(), "--json", json.toString());
+        assertEquals(0, code, out + "\n" + err);
+        assertEquals(2, new ObjectMapper().readTree(json.toFile()).get("matched").asInt(), out.toString());
+        // full ids, other order: the two conditions must not be taken for a renaming of each other
+        Files.writeString(ref, "observableId\tsimulationConditionId\tsimulation\ttime\n"
+                + "observable_X\thigh\t" + 2 * Math.exp(-0.3) + "\t1\n"
+                + "observable_X\tlow\t" + Math.exp(-0.3) + "\t1\n");
+        code = run(out, err, "check", yaml.toString(), "--reference", ref.toString(), "--json", json.toString());
+        assertEquals(0, code, out + "\n" + err);
+        assertEquals(2, new ObjectMapper().readTree(json.toFile()).get("matched").asInt(), out.toString());
+    }
+
     @Test
     void badProblemGivesOneLineAndExitCode2() throws Exception {
         Path bad = dir.resolve("p.yaml");
