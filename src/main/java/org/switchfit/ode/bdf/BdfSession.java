@@ -141,6 +141,10 @@ public final class BdfSession implements IntegrationSession {
     private final double[] sensWork;
     private final double[] jac;
     private final double[] jacP;
+    /** df/dp columns of the sensitivity parameters: {@code jacPCols[c * n + i] = df_i/dp_k(c)}. */
+    private final double[] jacPCols;
+    /** Values of J on its structural pattern, in the order of {@code colIndex}. */
+    private final double[] jacValues;
     private final int[] rowStart;
     private final int[] colIndex;
     private final LuSolver lu;
@@ -237,10 +241,12 @@ public final class BdfSession implements IntegrationSession {
         this.tempS = new double[nsn];
         this.sensWork = new double[nsn];
         this.jac = new double[n * n];
-        this.jacP = new double[needJacP ? n * m : 0];
+        this.jacP = new double[needJacP ? sys.jacobianPColumnsWork() : 0];
+        this.jacPCols = new double[needJacP ? nsn : 0];
         SystemStructure structure = SystemStructure.of(sys);
         this.rowStart = structure.rowStart;
         this.colIndex = structure.colIndex;
+        this.jacValues = new double[ns > 0 ? colIndex.length : 0];
         this.lu = structure.plan.newSolver();
         this.roots = roots;
         this.nr = roots == null ? 0 : roots.count();
@@ -775,21 +781,30 @@ public final class BdfSession implements IntegrationSession {
         sys.jacobianY(t, yAt, p, jac);
         statJac++;
         if (needJacP) {
-            sys.jacobianP(t, yAt, p, jacP);
+            sys.jacobianPColumns(t, yAt, p, sensParams, jacPCols, jacP);
+        }
+        // Gather J on its pattern once, so the products J s_c of all columns read contiguous values.
+        for (int i = 0; i < n; i++) {
+            int rowOff = i * n;
+            for (int e = rowStart[i]; e < rowStart[i + 1]; e++) {
+                jacValues[e] = jac[rowOff + colIndex[e]];
+            }
         }
     }
 
     /** out[c*n + i] = (J s_c)_i + df_i/dp_k(c), using the structural pattern for J s. */
     private void sensRhs(double[] s, double[] out) {
+        double[] jv = jacValues;
+        int[] ci = colIndex;
+        int[] rs = rowStart;
         for (int c = 0; c < ns; c++) {
             int off = c * n;
-            int k = sensParams[c];
+            boolean param = sensParams[c] >= 0;
             for (int i = 0; i < n; i++) {
-                double sum = k >= 0 ? jacP[i * m + k] : 0.0;
-                int rowOff = i * n;
-                for (int e = rowStart[i]; e < rowStart[i + 1]; e++) {
-                    int j = colIndex[e];
-                    sum += jac[rowOff + j] * s[off + j];
+                double sum = param ? jacPCols[off + i] : 0.0;
+                int end = rs[i + 1];
+                for (int e = rs[i]; e < end; e++) {
+                    sum += jv[e] * s[off + ci[e]];
                 }
                 out[off + i] = sum;
             }
