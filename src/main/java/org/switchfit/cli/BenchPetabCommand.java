@@ -56,6 +56,11 @@ public final class BenchPetabCommand implements Callable<Integer> {
             description = "time objective evaluations and this many single LM starts on one thread (after warm-up)")
     int timingStarts;
 
+    @Option(names = "--timing-evaluations", paramLabel = "N", defaultValue = "" + TIMED_EVALUATIONS,
+            description = "timed evaluations per kind of --timing (default: ${DEFAULT-VALUE}); the warm-up is twice"
+                    + " as many (slow problems: a few suffice)")
+    int timedEvaluations;
+
     @Option(names = "--seed", paramLabel = "N", defaultValue = "1",
             description = "seed of the uniform start points of --timing (default: ${DEFAULT-VALUE})")
     long seed;
@@ -113,7 +118,8 @@ public final class BenchPetabCommand implements Callable<Integer> {
                 if (timingStarts > 0) {
                     timing(yaml, timingStarts, seed, rtol == null ? TIMING_RTOL : rtol,
                             atol == null ? TIMING_ATOL : atol,
-                            costTolerance == null ? TIMING_COST_TOLERANCE : costTolerance, r);
+                            costTolerance == null ? TIMING_COST_TOLERANCE : costTolerance,
+                            Math.max(1, timedEvaluations), r);
                     out.printf(Locale.ROOT, "%-32s timing (1 thread): residuals %.4g ms CPU (%.4g ms wall), residuals"
                             + "+Jacobian %.4g ms CPU (%.4g ms wall), ratio %.2f%n", name,
                             1e3 * (double) r.get("cpuSecondsResiduals"), 1e3 * (double) r.get("secondsResiduals"),
@@ -184,15 +190,15 @@ public final class BenchPetabCommand implements Callable<Integer> {
     static final int TIMED_EVALUATIONS = 100;
 
     /**
-     * Times, on the calling thread only: after {@link #WARMUP_EVALUATIONS} warm-up evaluations, the mean wall and
-     * CPU time of residual evaluations (a plain simulation) and of residual + Jacobian evaluations at the nominal
-     * point; then single LM starts from points drawn uniformly within the bounds on the estimation scale
+     * Times, on the calling thread only: after 2 x {@code timed} warm-up evaluations ({@link #WARMUP_EVALUATIONS}
+     * by default), the mean wall and CPU time of {@code timed} residual evaluations (a plain simulation) and of
+     * {@code timed} residual + Jacobian evaluations at the nominal point; then single LM starts from points drawn uniformly within the bounds on the estimation scale
      * ({@link org.switchfit.fit.StartSampling#UNIFORM}, the given seed), after one untimed warm-up start, with
      * per-start wall and CPU time (ThreadMXBean, less disturbed by other jobs on a shared machine), iterations,
      * the number of starts that reach the NLL at the nominal values + {@link #REACH_TOLERANCE}, and the best NLL.
      */
     static void timing(Path yaml, int starts, long seed, double rtolT, double atolT, double costTol,
-                       Map<String, Object> r) {
+                       int timed, Map<String, Object> r) {
         LikelihoodObjective obj = LikelihoodObjective.of(org.switchfit.problem.ProblemLoader.load(yaml),
                 SolverSettings.defaults().withTolerances(rtolT, atolT));
         java.lang.management.ThreadMXBean mx = java.lang.management.ManagementFactory.getThreadMXBean();
@@ -202,24 +208,25 @@ public final class BenchPetabCommand implements Callable<Integer> {
         double[] res = new double[nr];
         double[] jac = new double[nr * np];
         double nominalNll = obj.evaluate(th, res, null);
-        for (int i = 0; i < WARMUP_EVALUATIONS; i++) {
+        int warmup = WARMUP_EVALUATIONS * timed / TIMED_EVALUATIONS;
+        for (int i = 0; i < warmup; i++) {
             obj.evaluate(th, res, jac);
             obj.evaluate(th, res, null);
         }
         long c0 = mx.getCurrentThreadCpuTime();
         long t0 = System.nanoTime();
-        for (int i = 0; i < TIMED_EVALUATIONS; i++) {
+        for (int i = 0; i < timed; i++) {
             obj.evaluate(th, res, null);
         }
-        double plain = (System.nanoTime() - t0) * 1e-9 / TIMED_EVALUATIONS;
-        double plainCpu = (mx.getCurrentThreadCpuTime() - c0) * 1e-9 / TIMED_EVALUATIONS;
+        double plain = (System.nanoTime() - t0) * 1e-9 / timed;
+        double plainCpu = (mx.getCurrentThreadCpuTime() - c0) * 1e-9 / timed;
         c0 = mx.getCurrentThreadCpuTime();
         t0 = System.nanoTime();
-        for (int i = 0; i < TIMED_EVALUATIONS; i++) {
+        for (int i = 0; i < timed; i++) {
             obj.evaluate(th, res, jac);
         }
-        double withJac = (System.nanoTime() - t0) * 1e-9 / TIMED_EVALUATIONS;
-        double withJacCpu = (mx.getCurrentThreadCpuTime() - c0) * 1e-9 / TIMED_EVALUATIONS;
+        double withJac = (System.nanoTime() - t0) * 1e-9 / timed;
+        double withJacCpu = (mx.getCurrentThreadCpuTime() - c0) * 1e-9 / timed;
         org.switchfit.fit.FitProblem fp = FitCommand.fitProblem(obj.problem(), obj);
         org.switchfit.fit.Multistart ms = org.switchfit.fit.Multistart.defaults().withStarts(starts).withSeed(seed)
                 .withSampling(org.switchfit.fit.StartSampling.UNIFORM)
@@ -253,6 +260,8 @@ public final class BenchPetabCommand implements Callable<Integer> {
         r.put("cpuSecondsResidualsAndJacobian", withJacCpu);
         r.put("jacobianCostRatio", withJacCpu / plainCpu);
         r.put("timingStarts", starts);
+        r.put("timedEvaluations", timed);
+        r.put("warmupEvaluations", warmup);
         r.put("timingRtol", rtolT);
         r.put("timingAtol", atolT);
         r.put("timingCostTolerance", costTol);

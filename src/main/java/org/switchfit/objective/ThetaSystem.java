@@ -18,6 +18,8 @@ final class ThetaSystem implements OdeSystem {
     final int[][] colIndex;
     final double[][] colValue;
     final int[] colLength;
+    /** True once scratch holds zeros off the structural non-zeros of ∂f/∂p. */
+    private boolean scratchCleared;
 
     ThetaSystem(CompiledModel model, int nc) {
         this.model = model;
@@ -85,6 +87,48 @@ final class ThetaSystem implements OdeSystem {
                 jacP[out + m + c] = s;
             }
         }
+    }
+
+    /**
+     * Only the requested columns: the model's ∂f/∂p is evaluated on its non-zeros into the per-thread scratch
+     * (cleared once, then only the same structural entries are overwritten), without the dense copy.
+     */
+    @Override
+    public void jacobianPColumns(double t, double[] y, double[] p, int[] cols, double[] out, double[] work) {
+        if (scratchCleared) {
+            model.jacobianPNonzeros(t, y, p, scratch);
+        } else {
+            model.jacobianP(t, y, p, scratch);
+            scratchCleared = true;
+        }
+        for (int c = 0; c < cols.length; c++) {
+            int k = cols[c];
+            int off = c * n;
+            if (k < 0) {
+                java.util.Arrays.fill(out, off, off + n, 0.0);
+            } else if (k < m) {
+                for (int i = 0; i < n; i++) {
+                    out[off + i] = scratch[i * m + k];
+                }
+            } else {
+                int[] idx = colIndex[k - m];
+                double[] val = colValue[k - m];
+                int len = colLength[k - m];
+                for (int i = 0; i < n; i++) {
+                    int row = i * m;
+                    double sum = 0.0;
+                    for (int e = 0; e < len; e++) {
+                        sum += scratch[row + idx[e]] * val[e];
+                    }
+                    out[off + i] = sum;
+                }
+            }
+        }
+    }
+
+    @Override
+    public int jacobianPColumnsWork() {
+        return 0;
     }
 
     @Override

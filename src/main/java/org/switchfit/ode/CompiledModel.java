@@ -119,6 +119,19 @@ public final class CompiledModel implements OdeSystem {
         j.eval(t, y, p, jac);
     }
 
+    /**
+     * Like {@link #jacobianP} but writes only the structurally non-zero entries of ∂f/∂p; every other entry of
+     * {@code jac} is left as it is. Callers that keep one array per thread zero it once (for example with a first
+     * {@link #jacobianP} call) and then skip the n x m clearing on every later call.
+     */
+    public void jacobianPNonzeros(double t, double[] y, double[] p, double[] jac) {
+        CompiledBlock j = jacP;
+        if (j == null) {
+            j = compileJacobians()[1];
+        }
+        j.eval(t, y, p, jac);
+    }
+
     @Override
     public int[][] jacobianPattern() {
         int[][] c = new int[n][];

@@ -31,6 +31,33 @@ public interface OdeSystem {
     void jacobianP(double t, double[] y, double[] p, double[] jacP);
 
     /**
+     * Writes selected columns of ∂f/∂p: {@code out[c * n + i] = ∂f_i/∂p_k} with {@code k = cols[c]}, and zeros for
+     * {@code k = -1}. The default evaluates the whole {@link #jacobianP} into {@code work} and copies the columns;
+     * systems that can produce a few columns without the dense n x m matrix override it (and may ignore work).
+     *
+     * @param cols parameter index per column, in [-1, m)
+     * @param out  receives the columns (length &gt;= cols.length * n)
+     * @param work scratch of length &gt;= {@link #jacobianPColumnsWork()} (content undefined on exit)
+     */
+    default void jacobianPColumns(double t, double[] y, double[] p, int[] cols, double[] out, double[] work) {
+        int n = stateCount();
+        int m = parameterCount();
+        jacobianP(t, y, p, work);
+        for (int c = 0; c < cols.length; c++) {
+            int k = cols[c];
+            int off = c * n;
+            for (int i = 0; i < n; i++) {
+                out[off + i] = k >= 0 ? work[i * m + k] : 0.0;
+            }
+        }
+    }
+
+    /** Length of the scratch {@link #jacobianPColumns} needs: n * m for the default, 0 when overridden without. */
+    default int jacobianPColumnsWork() {
+        return stateCount() * parameterCount();
+    }
+
+    /**
      * Structural non-zero pattern of ∂f/∂y: {@code pattern[i]} lists, in increasing order, the columns j for which
      * ∂f_i/∂y_j may be non-zero. The default claims a dense Jacobian.
      */
