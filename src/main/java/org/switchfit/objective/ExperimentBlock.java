@@ -73,7 +73,10 @@ final class ExperimentBlock implements ResidualBlock {
     private final List<org.switchfit.expr.Expr> timeSwitches;
     private final ModelOutputs stateOutputs;
     private final int[][] derivCols;
-    /** Models with events: Jacobian from sensitivities with event jumps (else finite differences). */
+    /**
+     * Models with events or right-hand-side switches (simulator path): Jacobian from sensitivities with jumps
+     * (else finite differences).
+     */
     private final boolean exactEventGradients;
 
     ExperimentBlock(EstimationProblem problem, InitialDerivative initD, int experiment, SolverSettings settings,
@@ -147,7 +150,7 @@ final class ExperimentBlock implements ResidualBlock {
         }
         work = ThreadLocal.withInitial(Work::new);
         timeSwitches = timeSwitches(model);
-        if (problem.hasEvents()) {
+        if (problem.hasEvents() || switchesOnTheSimulatorPath()) {
             if (pre != null) {
                 throw new UserInputException(problem.measurements().get(rows[0]).location(), "pre-equilibration of"
                         + " a model with events is not supported; remove the preequilibrationConditionId");
@@ -172,6 +175,25 @@ final class ExperimentBlock implements ResidualBlock {
             simulator = null;
             exactEventGradients = false;
         }
+    }
+
+    /**
+     * Whether a model without events but with right-hand-side switches (piecewise conditions on time or states,
+     * {@link CompiledModel#rhsSwitchCount}) runs on the simulator path, whose sensitivities take the jump of a
+     * θ-dependent switching time: yes unless the experiment needs pre-equilibration or a steady-state measurement,
+     * which that path lacks (then the direct path below stops at the time-only switches it can compute in advance,
+     * {@link #timeSwitches}, without the jump).
+     */
+    private boolean switchesOnTheSimulatorPath() {
+        if (model.rhsSwitchCount() == 0 || pre != null) {
+            return false;
+        }
+        for (int row : rows) {
+            if (problem.measurements().get(row).time() == Double.POSITIVE_INFINITY) {
+                return false;
+            }
+        }
+        return true;
     }
 
     static double transformConstant(ParameterScale t, double value) {
@@ -507,8 +529,9 @@ final class ExperimentBlock implements ResidualBlock {
     }
 
     /**
-     * Models with events: simulation with SBML event semantics ({@link Simulator}). The Jacobian comes from forward
-     * sensitivities carried across the events by their jump conditions ({@link Simulator#simulateSensitivities}),
+     * Models with events or right-hand-side switches: simulation with SBML event semantics ({@link Simulator}),
+     * stopping at the switches. The Jacobian comes from forward sensitivities carried across the events and the
+     * θ-dependent switching times by their jump conditions ({@link Simulator#simulateSensitivities}),
      * exact up to the integration tolerance. Models with {@code delay()} in their mathematics, measurement times
      * before 0, and evaluations whose sensitivity integration fails while the states alone integrate fall back to
      * central finite differences on θ (step {@link #FD_STEP} on the estimation scale; accuracy about

@@ -21,6 +21,10 @@ import org.switchfit.model.BoundEvent;
 public final class Simulator {
     /** Maximum number of event executions at one time point before giving up (cycles of events). */
     static final int MAX_EVENTS_PER_INSTANT = 10_000;
+    /** Consecutive closely spaced switch stops taken as a sliding mode (see {@code Run.watchChattering}). */
+    static final int CHATTER_STOPS = 100;
+    /** Spacing of switch stops, relative to max(1, |t|), below which they count as closely spaced. */
+    static final double CHATTER_SPACING = 1e-9;
     /** Seed of the random order among simultaneous events of equal priority (fixed: runs are reproducible). */
     static final long TIE_BREAK_SEED = 20261202L;
 
@@ -166,6 +170,37 @@ public final class Simulator {
         @Override
         public void evaluate(double t, double[] y, double[] p, double[] g) {
             inner.evaluate(t, empty == null ? y : empty, p, g);
+        }
+    }
+
+    /**
+     * The model's root functions (events, then right-hand-side switches) with switches that chatter masked: a
+     * masked switch reads +1. One per run (the mask belongs to it); allocation-free.
+     */
+    private static final class SwitchRoots implements RootFunctions {
+        private final RootFunctions inner;
+        private final int ne;
+        final boolean[] masked;
+
+        SwitchRoots(RootFunctions inner, int ne) {
+            this.inner = inner;
+            this.ne = ne;
+            this.masked = new boolean[inner.count() - ne];
+        }
+
+        @Override
+        public int count() {
+            return inner.count();
+        }
+
+        @Override
+        public void evaluate(double t, double[] y, double[] p, double[] g) {
+            inner.evaluate(t, y, p, g);
+            for (int k = 0; k < masked.length; k++) {
+                if (masked[k]) {
+                    g[ne + k] = 1.0;
+                }
+            }
         }
     }
 
@@ -437,6 +472,11 @@ public final class Simulator {
         double[] gNow;
         /** Sensitivity state, or null for a plain simulation. */
         final Sens sens;
+        /** Number of right-hand-side switches (root indices ne..ne+ns) and their root functions (null: none). */
+        final int ns = model.rhsSwitchCount();
+        SwitchRoots switchRoots;
+        double lastSwitchTime = Double.NEGATIVE_INFINITY;
+        int rapidSwitches;
 
         Run(double[] pDeclared, double t0, DelayRecord hist) {
             t = t0;
@@ -474,7 +514,12 @@ public final class Simulator {
                 trig[e] = events.get(e).initialValue();
             }
             RootFunctions rf = ne > 0 ? new PaddedRoots(model.switchingFunctions(), n) : null;
-            session = constantStates()
+            boolean frozen = constantStates();
+            if (ns > 0 && !frozen) {
+                switchRoots = new SwitchRoots(model.rootFunctions(), ne);
+                rf = switchRoots;
+            }
+            session = frozen
                     ? new FrozenSession(n == 0 ? new double[1] : y, p, rf, t0)
                     : integrator.start(n == 0 ? new Padded(model) : sys, t0, n == 0 ? new double[1] : y, p, rf,
                             sensParams, s0);
@@ -514,12 +559,69 @@ public final class Simulator {
                     hist.record(t, y);
                 }
                 boolean atRoot = session.stoppedAtRoot();
-                if (ne > 0 && handleEvents(atRoot, atRoot ? session.rootsFound() : null)) {
+                int[] found = atRoot ? session.rootsFound() : null;
+                boolean switched = false;
+                if (atRoot && switchRoots != null) {
+                    int[] eventRoots = eventRoots(found);
+                    switched = eventRoots.length < found.length;
+                    if (switched) {
+                        if (sens != null) {
+                            sens.switchJump(this, found);
+                        }
+                        watchChattering(found);
+                    }
+                    found = eventRoots;
+                    atRoot = eventRoots.length > 0;
+                }
+                boolean changed = ne > 0 && handleEvents(atRoot, atRoot ? found : null);
+                if (changed || switched) {
                     session.reset(n == 0 ? scratch : y, sensOut());
-                    if (hist != null) {
+                    if (changed && hist != null) {
                         hist.record(t, y);
                     }
                 }
+            }
+        }
+
+        /** The event indices (below ne) among the roots found. */
+        private int[] eventRoots(int[] found) {
+            int c = 0;
+            for (int k : found) {
+                c += k < ne ? 1 : 0;
+            }
+            if (c == found.length) {
+                return found;
+            }
+            int[] ev = new int[c];
+            c = 0;
+            for (int k : found) {
+                if (k < ne) {
+                    ev[c++] = k;
+                }
+            }
+            return ev;
+        }
+
+        /**
+         * Guards against a sliding mode (the flow pushes the state back across the switch from both sides, so roots
+         * follow each other at ever smaller spacing): after {@link #CHATTER_STOPS} consecutive switch stops closer
+         * than {@link #CHATTER_SPACING} (relative to max(1, |t|)) to the previous one, the switches involved stop
+         * being roots and the integration steps across them, as it does for conditions that are no switches.
+         */
+        private void watchChattering(int[] found) {
+            if (t - lastSwitchTime <= CHATTER_SPACING * Math.max(1.0, Math.abs(t))) {
+                rapidSwitches++;
+            } else {
+                rapidSwitches = 0;
+            }
+            lastSwitchTime = t;
+            if (rapidSwitches >= CHATTER_STOPS) {
+                for (int k : found) {
+                    if (k >= ne) {
+                        switchRoots.masked[k - ne] = true;
+                    }
+                }
+                rapidSwitches = 0;
             }
         }
 
@@ -691,6 +793,10 @@ public final class Simulator {
         final double[] ent;
         final double[] tmp;
         final EventDerivatives ed;
+        /** Right-hand-side switches: all switching values, parameters with forced modes, f on either side. */
+        final double[] gAll;
+        final double[] pModes;
+        final double[] fMinus;
         boolean dReady;
 
         Sens(int nc, double[] s0, double[] dP) {
@@ -704,6 +810,65 @@ public final class Simulator {
             this.ed = model.eventDerivatives();
             this.ent = new double[ed.entryCount()];
             this.tmp = new double[nc];
+            int ns = model.rhsSwitchCount();
+            this.gAll = new double[model.form().events().size() + ns];
+            this.pModes = new double[ns == 0 ? 0 : model.parameterCount() + ns];
+            this.fMinus = new double[ns == 0 ? 0 : n];
+        }
+
+        /**
+         * Jump of the sensitivities where right-hand-side switches change value at a time t*(θ) (the integration
+         * stopped at their root, the state is continuous): {@code s⁺ = s⁻ + (f⁻ - f⁺) τᵀ}, the conditions of
+         * {@link #simulateSensitivities} with h = y, τ = d t* / dθ from the switching function g of the first switch
+         * found: {@code τ = -(∂g/∂y s⁻ + ∂g/∂p dp/dθ) / (∂g/∂y f⁻ + ∂g/∂t)}. f⁻ and f⁺ are the right-hand side at
+         * the stop with the switching conditions forced to their old and new values (at the located root the
+         * condition itself is ambiguous); the new value is the side of g's sign at the stop, where the root
+         * locator leaves it. Switches at the same instant with another τ share the first one's (as for events).
+         *
+         * @param found root indices of the stop (events below ne, switches from ne on)
+         */
+        void switchJump(Run r, int[] found) {
+            int n = r.n;
+            int ne = r.ne;
+            int m = model.parameterCount();
+            model.rootFunctions().evaluate(r.t, r.y, r.p, gAll);
+            System.arraycopy(r.p, 0, pModes, 0, m);
+            for (int k = 0; k < r.ns; k++) {
+                pModes[m + k] = gAll[ne + k] >= 0 ? 1.0 : -1.0;
+            }
+            model.rhsForced(r.t, r.y, pModes, f);
+            int first = -1;
+            for (int k : found) {
+                if (k >= ne) {
+                    pModes[m + k - ne] = -pModes[m + k - ne];
+                    if (first < 0) {
+                        first = k - ne;
+                    }
+                }
+            }
+            model.rhsForced(r.t, r.y, pModes, fMinus);
+            int row = ed.rhsSwitchRow(first);
+            ed.evaluate(r.t, r.y, r.p, ent);
+            ed.total(row, ent, s, dP, null, nc, tmp);
+            boolean numZero = true;
+            for (int c = 0; c < nc; c++) {
+                numZero &= tmp[c] == 0.0;
+            }
+            if (numZero) {
+                return;
+            }
+            double den = ed.alongFlow(row, ent, fMinus);
+            if (!(Math.abs(den) > 0) || !Double.isFinite(den)) {
+                throw new IntegrationException(r.t, "the condition " + model.rhsSwitchConditions().get(first)
+                        + " of the right-hand side changes where it is tangent to the solution (d g/dt = " + den
+                        + "); its switching time has no derivative with respect to the parameters");
+            }
+            for (int c = 0; c < nc; c++) {
+                double tau = -tmp[c] / den;
+                for (int i = 0; i < n; i++) {
+                    s[c * n + i] += (fMinus[i] - f[i]) * tau;
+                }
+            }
         }
 
         /** Fixes τ for the instant: from the first root whose event fires, else from a due delayed execution. */
