@@ -31,6 +31,7 @@ public final class CompiledModel implements OdeSystem {
     private final List<Expr> switchingExprs;
     private final List<Expr> rhsConditions;
     private final List<Expr> rhsSwitchingExprs;
+    private final boolean[] rhsTimeOnly;
     private final CompiledBlock allSwitching;
     private final int[][] pattern;
     private volatile CompiledBlock forcedRhs;
@@ -51,6 +52,7 @@ public final class CompiledModel implements OdeSystem {
             rsw.add(ModelCompiler.switching(c));
         }
         this.rhsSwitchingExprs = List.copyOf(rsw);
+        this.rhsTimeOnly = RhsSwitches.timeOnly(rt, rhsConditions);
         List<Block> blocks = new ArrayList<>(List.of(rt.prune(), localsBlock, form.initial(), sw));
         if (!rsw.isEmpty()) {
             List<Expr> all = new ArrayList<>(switchingFunctions);
@@ -236,6 +238,11 @@ public final class CompiledModel implements OdeSystem {
      */
     public int rhsSwitchCount() {
         return rhsConditions.size();
+    }
+
+    /** Whether right-hand-side switch k depends on time only (not on states): its time is known in advance. */
+    boolean rhsSwitchOnTimeOnly(int k) {
+        return rhsTimeOnly[k];
     }
 
     /** The conditions of the right-hand-side switches (for messages and tests). */

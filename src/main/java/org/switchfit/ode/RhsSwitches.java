@@ -61,6 +61,27 @@ final class RhsSwitches {
         });
     }
 
+    /**
+     * Whether each condition depends on time only (no states, directly or through locals, and no delay): its
+     * switching time can be found before integrating.
+     */
+    static boolean[] timeOnly(Block rt, List<Expr> conditions) {
+        int nl = rt.localCount();
+        boolean[] stateful = new boolean[nl];
+        for (int l = 0; l < nl; l++) {
+            stateful[l] = onStates(rt.local(l), stateful);
+        }
+        boolean[] out = new boolean[conditions.size()];
+        for (int k = 0; k < out.length; k++) {
+            out[k] = !onStates(conditions.get(k), stateful);
+        }
+        return out;
+    }
+
+    private static boolean onStates(Expr e, boolean[] stateful) {
+        return e.contains(x -> x.op() == Op.STATE || x.op() == Op.DELAY || x.op() == Op.LOCAL && stateful[x.index()]);
+    }
+
     private static boolean varies(Expr e, boolean[] varying) {
         return e.contains(x -> x.op() == Op.TIME || x.op() == Op.STATE || x.op() == Op.DELAY
                 || x.op() == Op.LOCAL && varying[x.index()]);

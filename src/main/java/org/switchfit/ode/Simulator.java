@@ -23,6 +23,8 @@ public final class Simulator {
     static final int MAX_EVENTS_PER_INSTANT = 10_000;
     /** Consecutive closely spaced switch stops taken as a sliding mode (see {@code Run.watchChattering}). */
     static final int CHATTER_STOPS = 100;
+    /** Samples per advance when looking ahead for the time of a switch on time only. */
+    static final int TIME_SWITCH_SAMPLES = 16;
     /** Spacing of switch stops, relative to max(1, |t|), below which they count as closely spaced. */
     static final double CHATTER_SPACING = 1e-9;
     /** Seed of the random order among simultaneous events of equal priority (fixed: runs are reproducible). */
@@ -477,6 +479,13 @@ public final class Simulator {
         SwitchRoots switchRoots;
         double lastSwitchTime = Double.NEGATIVE_INFINITY;
         int rapidSwitches;
+        /** Switches on time only (their times are found ahead, {@link #nextTimeSwitch}); scratch and bracket. */
+        final boolean[] timeOnly = new boolean[ns];
+        boolean timeOnlySwitches;
+        double[] gA;
+        double[] gB;
+        double sliverLo;
+        double sliverHi;
 
         Run(double[] pDeclared, double t0, DelayRecord hist) {
             t = t0;
@@ -518,6 +527,12 @@ public final class Simulator {
             if (ns > 0 && !frozen) {
                 switchRoots = new SwitchRoots(model.rootFunctions(), ne);
                 rf = switchRoots;
+                for (int k = 0; k < ns; k++) {
+                    timeOnly[k] = model.rhsSwitchOnTimeOnly(k);
+                    timeOnlySwitches |= timeOnly[k];
+                }
+                gA = new double[ne + ns];
+                gB = new double[ne + ns];
             }
             session = frozen
                     ? new FrozenSession(n == 0 ? new double[1] : y, p, rf, t0)
@@ -554,9 +569,18 @@ public final class Simulator {
                 if (hist != null && target > t + chunk) {
                     target = t + chunk;
                 }
+                boolean armed = false;
+                if (timeOnlySwitches && nextTimeSwitch(target) && session.stopAt(sliverLo)) {
+                    target = sliverLo;
+                    armed = true;
+                }
                 t = session.advance(target, n == 0 ? scratch : y, sensOut());
                 if (hist != null) {
                     hist.record(t, y);
+                }
+                if (armed && !session.stoppedAtRoot() && t == sliverLo) {
+                    stepOverTimeSwitch();
+                    continue;
                 }
                 boolean atRoot = session.stoppedAtRoot();
                 int[] found = atRoot ? session.rootsFound() : null;
@@ -580,6 +604,90 @@ public final class Simulator {
                         hist.record(t, y);
                     }
                 }
+            }
+        }
+
+        /**
+         * Finds the earliest sign change in (t, target] of a switching function that depends on time only, by
+         * sampling 16 points and bisecting to the bracket width of the {@link IntegrationSession} root contract;
+         * the bracket goes to [sliverLo, sliverHi] (old values hold at sliverLo, new ones at sliverHi).
+         *
+         * @return whether one was found
+         */
+        private boolean nextTimeSwitch(double target) {
+            if (!(target > t)) {
+                return false;
+            }
+            switchRoots.evaluate(t, y, p, gA);
+            double a = t;
+            for (int i = 1; i <= TIME_SWITCH_SAMPLES; i++) {
+                double b = i == TIME_SWITCH_SAMPLES ? target : t + (target - t) * i / TIME_SWITCH_SAMPLES;
+                switchRoots.evaluate(b, y, p, gB);
+                if (timeSwitchChanged()) {
+                    double lo = a;
+                    double hi = b;
+                    while (true) {
+                        double scale = Math.max(Math.abs(hi), 1.0);
+                        if (hi - lo <= 4 * Math.ulp(scale) + 1e-12 * scale) {
+                            break;
+                        }
+                        double mid = 0.5 * (lo + hi);
+                        switchRoots.evaluate(mid, y, p, gB);
+                        if (timeSwitchChanged()) {
+                            hi = mid;
+                        } else {
+                            lo = mid;
+                            System.arraycopy(gB, 0, gA, 0, gA.length);
+                        }
+                    }
+                    sliverLo = lo;
+                    sliverHi = hi;
+                    return true;
+                }
+                a = b;
+                System.arraycopy(gB, 0, gA, 0, gA.length);
+            }
+            return false;
+        }
+
+        /** Whether a time-only switch differs in sign between gA and gB. */
+        private boolean timeSwitchChanged() {
+            for (int k = 0; k < ns; k++) {
+                if (timeOnly[k] && (gA[ne + k] >= 0) != (gB[ne + k] >= 0)) {
+                    return true;
+                }
+            }
+            return false;
+        }
+
+        /**
+         * At sliverLo, the old side of a time switch: moves to sliverHi (the state changes by at most the sliver
+         * width times |f|, about 1e-12 relative), applies the sensitivity jump and restarts there, so no step of the
+         * integrator ever straddles the switch.
+         */
+        private void stepOverTimeSwitch() {
+            switchRoots.evaluate(sliverLo, y, p, gA);
+            switchRoots.evaluate(sliverHi, y, p, gB);
+            int c = 0;
+            for (int k = 0; k < ns; k++) {
+                if ((gA[ne + k] >= 0) != (gB[ne + k] >= 0)) {
+                    c++;
+                }
+            }
+            int[] found = new int[c];
+            c = 0;
+            for (int k = 0; k < ns; k++) {
+                if ((gA[ne + k] >= 0) != (gB[ne + k] >= 0)) {
+                    found[c++] = ne + k;
+                }
+            }
+            t = sliverHi;
+            if (sens != null && found.length > 0) {
+                sens.switchJump(this, found);
+            }
+            session.restartAt(t, n == 0 ? scratch : y, sensOut());
+            if (ne > 0 && handleEvents(false, null)) {
+                session.reset(n == 0 ? scratch : y, sensOut());
             }
         }
 
