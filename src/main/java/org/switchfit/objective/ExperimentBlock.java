@@ -641,7 +641,9 @@ final class ExperimentBlock implements ResidualBlock {
      * local: they switch the right-hand side at a time computable in advance (piecewise inputs). The integration
      * stops and restarts there instead of stepping across the discontinuity. Sensitivities are carried across
      * unchanged, which is exact when the switch time does not depend on θ (partial otherwise: the jump term of a
-     * θ-dependent switch time is not added).
+     * θ-dependent switch time is not added). Used only by experiments that stay on this direct path (with
+     * pre-equilibration or steady-state measurements); the others run on the simulator path, which adds the jump
+     * ({@link #switchesOnTheSimulatorPath}).
      */
     private static List<org.switchfit.expr.Expr> timeSwitches(CompiledModel model) {
         List<org.switchfit.expr.Expr> out = new ArrayList<>();

@@ -11,8 +11,9 @@ import org.switchfit.expr.Expr;
 import org.switchfit.model.OdeForm;
 
 /**
- * A model compiled to bytecode: the ODE right-hand side with its Jacobians, initial values, runtime locals and
- * event switching functions. Immutable and thread-safe; the hot methods allocate nothing.
+ * A model compiled to bytecode: the ODE right-hand side with its Jacobians, initial values, runtime locals, event
+ * switching functions and the switching functions of piecewise conditions in the right-hand side
+ * ({@link #rhsSwitchCount}). Immutable and thread-safe; the hot methods allocate nothing.
  *
  * <p>Parameter vector p: the layout of {@link OdeForm} (declared values of compartments, species, parameters,
  * species references with ids, local parameters {@code reactionId.paramId}); {@link #parameterIndex} maps names.

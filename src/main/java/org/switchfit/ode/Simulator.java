@@ -11,7 +11,12 @@ import org.switchfit.model.BoundEvent;
  * events (trigger from false to true, initialValue, delay, priority, persistence, useValuesFromTriggerTime,
  * cascades of simultaneous events; SBML Level 3 Version 2, section 4.12), and outputs at requested times. Events
  * are located through the switching functions of {@link ModelCompiler}; the integration restarts after every
- * event execution. Immutable; {@link #simulate} may run concurrently from several threads.
+ * event execution. Piecewise conditions of the right-hand side on time or states ({@link
+ * CompiledModel#rhsSwitchCount}) are switching functions too: the integration stops and restarts where they change
+ * value, so no step straddles a discontinuity of f (conditions on time only are found ahead and stepped over when
+ * the session supports stop times, {@link IntegrationSession#stopAt}); a switch that chatters (a sliding mode) stops
+ * being a root after {@link #CHATTER_STOPS} closely spaced stops. Immutable; {@link #simulate} may run concurrently
+ * from several threads.
  *
  * <p>Order of simultaneous events: highest priority first (priority evaluated when choosing; events without
  * priority come after those with one); ties between equal explicit priorities are broken at random with a fixed
@@ -83,6 +88,8 @@ public final class Simulator {
      * Events with a delay execute at t_ex = t_ev + d(θ) with {@code dt_ex/dθ = τ + dd/dθ}, d differentiated at
      * the trigger time; values used from the trigger time are differentiated there. Quantities assigned by events
      * (parameters included) are states of the ODE form, so their sensitivities jump like those of species.
+     * Right-hand-side switches are the case h = y: {@code s⁺ = s⁻ + (f⁻ - f⁺) τ}, with g the switch's switching
+     * function and f⁻, f⁺ evaluated with its condition forced to the old and new value.
      *
      * <p>Limits, stated: when two different switching functions have roots at the same instant, τ of the
      * first (lowest event index) whose event fires is used for the whole instant (the trigger time is not
@@ -905,6 +912,7 @@ public final class Simulator {
         final double[] gAll;
         final double[] pModes;
         final double[] fMinus;
+        final RootFunctions allRoots;
         boolean dReady;
 
         Sens(int nc, double[] s0, double[] dP) {
@@ -922,6 +930,7 @@ public final class Simulator {
             this.gAll = new double[model.form().events().size() + ns];
             this.pModes = new double[ns == 0 ? 0 : model.parameterCount() + ns];
             this.fMinus = new double[ns == 0 ? 0 : n];
+            this.allRoots = model.rootFunctions();
         }
 
         /**
@@ -939,7 +948,7 @@ public final class Simulator {
             int n = r.n;
             int ne = r.ne;
             int m = model.parameterCount();
-            model.rootFunctions().evaluate(r.t, r.y, r.p, gAll);
+            allRoots.evaluate(r.t, r.y, r.p, gAll);
             System.arraycopy(r.p, 0, pModes, 0, m);
             for (int k = 0; k < r.ns; k++) {
                 pModes[m + k] = gAll[ne + k] >= 0 ? 1.0 : -1.0;
