@@ -41,7 +41,7 @@ public interface IntegrationSession {
     void reset(double[] y, double[] s);
 
     /**
-     * Asks the session not to step past time t during the next {@link #advance} (a discontinuity of the
+     * Asks the session not to step past time t until it reaches it (a discontinuity of the
      * right-hand side at t, known in advance); advancing to t then lands on t exactly.
      *
      * @return whether the session honours stop times (the default does not: it returns false)

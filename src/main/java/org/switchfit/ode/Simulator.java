@@ -58,6 +58,7 @@ public final class Simulator {
                 org.switchfit.expr.MathRuntime.setDelayHistory(hist);
             }
             Run run = new Run(pDeclared, Math.min(0.0, times.length == 0 ? 0.0 : times[0]), hist);
+            run.tEnd = times.length == 0 ? run.t : times[times.length - 1];
             for (int r = 0; r < times.length; r++) {
                 run.advanceTo(times[r]);
                 outputs.evaluate(run.t, run.y, run.p, values[r]);
@@ -120,6 +121,7 @@ public final class Simulator {
         int n = model.stateCount();
         int nc = sensParams.length;
         Run run = new Run(t0, y0, p, sys, sensParams, s0, dP);
+        run.tEnd = times.length == 0 ? t0 : times[times.length - 1];
         for (int r = 0; r < times.length; r++) {
             run.advanceTo(times[r]);
             System.arraycopy(run.y, 0, yOut, r * n, n);
@@ -491,8 +493,11 @@ public final class Simulator {
         boolean timeOnlySwitches;
         double[] gA;
         double[] gB;
-        double sliverLo;
+        /** Bracket of the next switch on time only (valid while haveSliver and sliverLo &gt;= t); last output time. */
+        double sliverLo = Double.NaN;
         double sliverHi;
+        boolean haveSliver;
+        double tEnd = Double.POSITIVE_INFINITY;
 
         Run(double[] pDeclared, double t0, DelayRecord hist) {
             t = t0;
@@ -577,7 +582,14 @@ public final class Simulator {
                     target = t + chunk;
                 }
                 boolean armed = false;
-                if (timeOnlySwitches && nextTimeSwitch(target) && session.stopAt(sliverLo)) {
+                if (timeOnlySwitches && !(sliverLo >= t)) {
+                    // look ahead past the target too: the stop time must be set before a step can cross
+                    haveSliver = nextTimeSwitch(t, target) || target < tEnd && nextTimeSwitch(target, tEnd);
+                    if (!haveSliver) {
+                        sliverLo = tEnd;
+                    }
+                }
+                if (haveSliver && sliverLo >= t && session.stopAt(sliverLo) && sliverLo <= target) {
                     target = sliverLo;
                     armed = true;
                 }
@@ -615,20 +627,20 @@ public final class Simulator {
         }
 
         /**
-         * Finds the earliest sign change in (t, target] of a switching function that depends on time only, by
+         * Finds the earliest sign change in (from, target] of a switching function that depends on time only, by
          * sampling 16 points and bisecting to the bracket width of the {@link IntegrationSession} root contract;
          * the bracket goes to [sliverLo, sliverHi] (old values hold at sliverLo, new ones at sliverHi).
          *
          * @return whether one was found
          */
-        private boolean nextTimeSwitch(double target) {
-            if (!(target > t)) {
+        private boolean nextTimeSwitch(double from, double target) {
+            if (!(target > from)) {
                 return false;
             }
-            switchRoots.evaluate(t, y, p, gA);
-            double a = t;
+            switchRoots.evaluate(from, y, p, gA);
+            double a = from;
             for (int i = 1; i <= TIME_SWITCH_SAMPLES; i++) {
-                double b = i == TIME_SWITCH_SAMPLES ? target : t + (target - t) * i / TIME_SWITCH_SAMPLES;
+                double b = i == TIME_SWITCH_SAMPLES ? target : from + (target - from) * i / TIME_SWITCH_SAMPLES;
                 switchRoots.evaluate(b, y, p, gB);
                 if (timeSwitchChanged()) {
                     double lo = a;
@@ -689,6 +701,8 @@ public final class Simulator {
                 }
             }
             t = sliverHi;
+            haveSliver = false;
+            sliverLo = Double.NaN;
             if (sens != null && found.length > 0) {
                 sens.switchJump(this, found);
             }

@@ -327,6 +327,9 @@ public final class BdfSession implements IntegrationSession {
 
     @Override
     public boolean stopAt(double t) {
+        if (t < tn) {
+            return false;
+        }
         setStopTime(t);
         return true;
     }
