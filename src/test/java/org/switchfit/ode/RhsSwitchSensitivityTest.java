@@ -1,6 +1,8 @@
 package org.switchfit.ode;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertThrows;
+import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.io.IOException;
 import java.nio.file.Files;
@@ -206,6 +208,36 @@ class RhsSwitchSensitivityTest {
             }
         }
         assertMatchesCentralDifferences(cm, theta, s, times);
+    }
+
+    @Test
+    void slidingModeEndsLikeAnIntegrationWithoutTheSwitch() throws IOException {
+        // x' = -1 while x > 0, else +1; x(0) = 1: x = 1 - t until t = 1 (derived by hand), then a sliding mode
+        // (the flow points into x = 0 from both sides), which the switch roots must not turn into an endless
+        // sequence of stops. BDF at rtol 1e-6 exhausts its step budget in the chattering, as it did before switch
+        // roots existed (measured with the simulate command on the parent commit: the same error at t = 1.00043).
+        String xml = """
+                <?xml version="1.0" encoding="UTF-8"?>
+                <sbml xmlns="http://www.sbml.org/sbml/level3/version2/core" level="3" version="2">
+                  <model id="slide">
+                    <listOfParameters><parameter id="x" value="1" constant="false"/></listOfParameters>
+                    <listOfRules><rateRule variable="x"><math xmlns="http://www.w3.org/1998/Math/MathML">
+                      <piecewise><piece><cn>-1</cn><apply><gt/><ci>x</ci><cn>0</cn></apply></piece>
+                      <otherwise><cn>1</cn></otherwise></piecewise></math></rateRule></listOfRules>
+                  </model>
+                </sbml>
+                """;
+        Path f = dir.resolve("slide.xml");
+        Files.writeString(f, xml);
+        CompiledModel cm = ModelCompiler.compile(SbmlReader.read(f));
+        assertEquals(1, cm.rhsSwitchCount());
+        Simulator sim = new Simulator(cm, BdfIntegrator.of(SolverSettings.defaults().withTolerances(1e-6, 1e-8)));
+        ModelOutputs out = ModelOutputs.of(cm, List.of("x"));
+        // before the sliding mode: x = 1 - t; 1e-8 absolute is 100 rtol on values of order 1 (common practice)
+        assertEquals(0.5, sim.simulate(new double[] {0.5}, cm.parameterValues(), out).value(0, 0), 1e-8);
+        IntegrationException e = assertThrows(IntegrationException.class,
+                () -> sim.simulate(new double[] {0.5, 2.0}, cm.parameterValues(), out));
+        assertTrue(e.getMessage().contains("steps in one advance call"), e.getMessage());
     }
 
     @Test
