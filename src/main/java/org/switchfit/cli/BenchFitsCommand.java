@@ -13,18 +13,15 @@ import java.util.concurrent.Callable;
 import java.util.stream.Stream;
 import org.switchfit.fit.FitProblem;
 import org.switchfit.fit.FitResult;
-import org.switchfit.fit.LevenbergMarquardt;
-import org.switchfit.fit.LocalTaskExecutor;
-import org.switchfit.fit.Multistart;
 import org.switchfit.fit.StartResult;
 import org.switchfit.fit.StartStatus;
 import org.switchfit.objective.LikelihoodObjective;
 import org.switchfit.problem.EstimationProblem;
 import org.switchfit.problem.ProblemLoader;
 import org.switchfit.report.Json;
-import org.switchfit.report.ResultStore;
 import org.switchfit.util.UserInputException;
 import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
 import picocli.CommandLine.Parameters;
 import picocli.CommandLine.Spec;
@@ -75,15 +72,8 @@ public final class BenchFitsCommand implements Callable<Integer> {
     @Option(names = "--resume", description = "reuse starts already finished in the output folder")
     boolean resume;
 
-    @Option(names = "--rtol", defaultValue = "1e-8", description = "relative tolerance (default: ${DEFAULT-VALUE})")
-    double rtol;
-
-    @Option(names = "--atol", defaultValue = "1e-12", description = "absolute tolerance (default: ${DEFAULT-VALUE})")
-    double atol;
-
-    @Option(names = "--max-iterations", defaultValue = "1000",
-            description = "iterations per start (default: ${DEFAULT-VALUE})")
-    int maxIterations;
+    @Mixin
+    FitSolverOptions solver;
 
     @Override
     public Integer call() throws IOException {
@@ -134,6 +124,7 @@ public final class BenchFitsCommand implements Callable<Integer> {
         all.put("starts", starts);
         all.put("seed", seed);
         all.put("threads", threads);
+        all.put("costTolerance", solver.costTolerance);
         all.put("maxParameters", maxParameters);
         all.put("reached", reached);
         all.put("fitted", fitted);
@@ -148,23 +139,15 @@ public final class BenchFitsCommand implements Callable<Integer> {
         if (problem.parameterCount() > maxParameters) {
             return null;
         }
-        LikelihoodObjective objective = LikelihoodObjective.of(problem, SimulateCommand.settings("bdf", rtol, atol));
+        LikelihoodObjective objective = LikelihoodObjective.of(problem, solver.settings());
         double nominal = objective.evaluate(problem.nominalTheta(), new double[objective.residualCount()], null);
         FitProblem fp = FitCommand.fitProblem(problem, objective);
-        ResultStore store = new ResultStore(out.resolve(name).resolve("starts"));
-        List<StartResult> finished = new ArrayList<>();
-        if (!store.keys().isEmpty()) {
-            if (!resume) {
-                throw new UserInputException(null, "'" + out.resolve(name) + "' already holds finished starts; add "
-                        + "--resume or choose another --out folder");
-            }
-            finished.addAll(store.readAll(StartResult.class).values());
-        }
-        Multistart ms = Multistart.defaults().withStarts(starts).withSeed(seed)
-                .withOptimizer(LevenbergMarquardt.defaults().withMaxIterations(maxIterations));
+        StartStore store = new StartStore(out.resolve(name).resolve("starts"), resume, () -> new UserInputException(
+                null, "'" + out.resolve(name) + "' already holds finished starts; add --resume or choose another --out "
+                + "folder"));
+        List<StartResult> finished = store.finished();
         long t0 = System.nanoTime();
-        FitResult result = ms.run(fp, null, LocalTaskExecutor.ofThreads(threads),
-                s -> store.put(ResultStore.indexKey("start", s.index()), s), finished);
+        FitResult result = store.run(solver.multistart(starts, seed), fp, null, threads, null);
         double wall = (System.nanoTime() - t0) * 1e-9;
         int ok = 0;
         int reachedStarts = 0;

@@ -20,6 +20,7 @@ import org.switchfit.profile.ProfileLikelihood;
 import org.switchfit.report.ProfilesFile;
 import org.switchfit.util.UserInputException;
 import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
 import picocli.CommandLine.Parameters;
 import picocli.CommandLine.Spec;
@@ -50,11 +51,8 @@ public final class BenchProfilesCommand implements Callable<Integer> {
     @Option(names = "--threads", defaultValue = "0", description = "threads (default: all cores)")
     int threads;
 
-    @Option(names = "--rtol", defaultValue = "1e-8", description = "relative tolerance (default: ${DEFAULT-VALUE})")
-    double rtol;
-
-    @Option(names = "--atol", defaultValue = "1e-12", description = "absolute tolerance (default: ${DEFAULT-VALUE})")
-    double atol;
+    @Mixin
+    ToleranceOptions tolerances;
 
     @Option(names = "--pointwise-only", description = "trace profiles to the pointwise threshold only")
     boolean pointwiseOnly;
@@ -78,7 +76,7 @@ public final class BenchProfilesCommand implements Callable<Integer> {
             out.printf(Locale.ROOT, "loaded fit %s: NLL %.10g%n", input, nll);
         } else {
             EstimationProblem problem = ProblemLoader.load(input);
-            SolverSettings settings = SimulateCommand.settings("bdf", rtol, atol);
+            SolverSettings settings = tolerances.settings();
             LikelihoodObjective objective = LikelihoodObjective.of(problem, settings);
             fp = FitCommand.fitProblem(problem, objective);
             FitResult fr = Multistart.defaults().withStarts(starts).withSeed(seed)

@@ -13,6 +13,7 @@ import org.switchfit.continuation.BranchPoint;
 import org.switchfit.continuation.ContinuationSettings;
 import org.switchfit.continuation.Fold;
 import org.switchfit.continuation.Hopf;
+import org.switchfit.continuation.LinearAlgebra;
 import org.switchfit.continuation.ScaledSystem;
 import org.switchfit.report.BranchesFile;
 import org.switchfit.report.ContinuationFiles;
@@ -53,6 +54,26 @@ public final class BranchesCommand implements Callable<Integer> {
             description = "point limit per direction (default: ${DEFAULT-VALUE})")
     int maxPoints;
 
+    @Option(names = "--lu", defaultValue = "auto", paramLabel = "KIND", converter = LuKindConverter.class,
+            description = "LU factorisation of the continuation's Newton and tangent systems: auto (sparse when "
+                    + "the bordered Jacobian has order >= 100 and under 10 % non-zeros), dense or sparse "
+                    + "(default: ${DEFAULT-VALUE})")
+    LinearAlgebra lu = LinearAlgebra.AUTO;
+
+    /** Parses auto, dense, sparse (any case). */
+    static final class LuKindConverter implements picocli.CommandLine.ITypeConverter<LinearAlgebra> {
+        @Override
+        public LinearAlgebra convert(String value) {
+            for (LinearAlgebra k : LinearAlgebra.values()) {
+                if (k.name().equalsIgnoreCase(value.strip())) {
+                    return k;
+                }
+            }
+            throw new picocli.CommandLine.TypeConversionException("'" + value + "' is not one of auto, dense, "
+                    + "sparse");
+        }
+    }
+
     @Override
     public Integer call() {
         if (maxPoints < 2) {
@@ -60,7 +81,8 @@ public final class BranchesCommand implements Callable<Integer> {
         }
         long t0 = System.nanoTime();
         SwitchSetup.Start s = setup.start();
-        ContinuationSettings cs = SwitchSetup.settings(s.control, setup.from, setup.to).withMaxPoints(maxPoints);
+        ContinuationSettings cs = SwitchSetup.settings(s.control, setup.from, setup.to).withMaxPoints(maxPoints)
+                .withLinearAlgebra(lu);
         long t1 = System.nanoTime();
         ScaledSystem sc = scaled(s, cs);
         Branch b = traceScaled(setup, s, sc, cs);
@@ -72,34 +94,40 @@ public final class BranchesCommand implements Callable<Integer> {
                     ? "fold" : "Hopf point", sp.parameter(), sp.value(), note(b, sp));
         }
         out.printf(Locale.ROOT, "%d points from %s = %s, %d fold(s), %d Hopf point(s); ends: %s, %s; "
-                        + "load %.2f s, compile %.2f s, laws %.2f s (%d), steady state %.2f s, continuation %.2f s%n",
+                        + "load %.2f s, compile %.2f s, laws %.2f s (%d), active network %.2f s, steady state %.2f s, "
+                        + "continuation %.2f s%n",
                 b.size(), s.control.label(), SwitchSetup.fmt(s.startValue), b.folds().size(), b.hopfs().size(),
                 b.startEnd(), b.finishEnd(), s.timing[0], s.timing[1], s.timing[2], s.sm.laws.lawCount(),
-                s.timing[3], (t2 - t1) * 1e-9);
+                s.timing[4], s.timing[3], (t2 - t1) * 1e-9);
         out.printf(Locale.ROOT, "continuation: %d reduced states, %s linear algebra, %.1f ms per point%n",
-                s.sm.reduced.stateCount(), SwitchSetup.usesSparseLu(s.sm.reduced) ? "sparse" : "dense",
+                s.sm.reduced.stateCount(), SwitchSetup.usesSparseLu(sc, cs) ? "sparse" : "dense",
                 b.size() > 0 ? (t2 - t1) * 1e-6 / b.size() : 0.0);
         double[] res = fullResiduals(s, b, sc);
         if (s.sm.network != null) {
             org.switchfit.continuation.ActiveNetwork net = s.sm.network;
             out.printf(Locale.ROOT, "active network: %d of %d reactions cannot fire; states held: %d at zero, %d "
-                            + "passive, %d numerically passive; %d reduced states (max |f| of held states along "
-                            + "the branch %.3g)%n", net.inactiveReactionCount(), s.sm.model.reactions().size(),
-                    net.zeroFaceCount(), net.passiveCount(), net.frozenCount(), s.sm.reduced.stateCount(), res[1]);
+                            + "passive, %d numerically passive, %d spanning numerically singular directions; %d "
+                            + "reduced states (max |f| of held states along the branch %.3g)%n",
+                    net.inactiveReactionCount(), s.sm.model.reactions().size(), net.zeroFaceCount(),
+                    net.passiveCount(), net.frozenCount(), net.singularCount(), s.sm.reduced.stateCount(), res[1]);
         }
         out.printf(Locale.ROOT, "check: max |f| of the full model over all states and branch points %.3g%n", res[0]);
         int withEig = 0;
+        int partial = 0;
         int unstable = 0;
         for (BranchPoint bp : b.points()) {
             if (bp.unstableCount() >= 0) {
                 withEig++;
+                partial += bp.eigenReal().length < s.sm.reduced.stateCount() ? 1 : 0;
                 unstable += bp.unstableCount() > 0 ? 1 : 0;
             }
         }
-        if (withEig > 0 && withEig < b.size()) {
-            out.printf(Locale.ROOT, "stability: eigenvalues at %d of %d points (%d unstable); at the others the "
-                    + "eigenvalue iteration did not converge and the point is written with stable = null (unknown) "
-                    + "and no eigenvalues%n", withEig, b.size(), unstable);
+        if (withEig > 0) {
+            out.printf(Locale.ROOT, "stability: known at %d of %d points (%d unstable); %d from all eigenvalues, %d "
+                    + "from the dominant eigenvalues of the Cayley transform (written with those eigenvalues "
+                    + "only)%s%n", withEig, b.size(), unstable, withEig - partial, partial, withEig < b.size()
+                    ? "; at the others no eigenvalue method converged and the point is written with stable = null "
+                    + "(unknown)" : "");
         }
         if (b.size() > 0 && b.point(0).unstableCount() < 0) {
             out.println(s.sm.reduced.stateCount() > cs.eigenvalueLimit()
@@ -156,7 +184,8 @@ public final class BranchesCommand implements Callable<Integer> {
     private static Branch traceScaled(SwitchSetup setup, SwitchSetup.Start s, ScaledSystem sc,
                                       ContinuationSettings cs) {
         ContinuationSettings scs = ContinuationSettings.of(sc.scaleControl(cs.lowerBound()),
-                sc.scaleControl(cs.upperBound())).withMaxPoints(cs.maxPoints());
+                sc.scaleControl(cs.upperBound())).withMaxPoints(cs.maxPoints())
+                .withLinearAlgebra(cs.linearAlgebra());
         return setup.branch(sc, sc.scaleState(s.x), sc.scaleParameters(s.q), s.control.index(), scs);
     }
 

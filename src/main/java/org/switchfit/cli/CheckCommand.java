@@ -10,6 +10,7 @@ import org.switchfit.ode.SolverSettings;
 import org.switchfit.report.Json;
 import org.switchfit.util.AtomicFiles;
 import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
 import picocli.CommandLine.Parameters;
 import picocli.CommandLine.Spec;
@@ -45,15 +46,12 @@ public final class CheckCommand implements Callable<Integer> {
             description = "reference simulation table (default: simulatedData*.tsv beside the problem file)")
     Path reference;
 
-    @Option(names = "--rtol", defaultValue = "1e-8", description = "relative tolerance (default: ${DEFAULT-VALUE})")
-    double rtol;
-
-    @Option(names = "--atol", defaultValue = "1e-12", description = "absolute tolerance (default: ${DEFAULT-VALUE})")
-    double atol;
+    @Mixin
+    ToleranceOptions tolerances;
 
     @Override
     public Integer call() {
-        SolverSettings settings = SimulateCommand.settings("bdf", rtol, atol);
+        SolverSettings settings = tolerances.settings();
         CheckRun run = new CheckRun(problem, reference, settings);
         PrintWriter out = spec.commandLine().getOut();
         Map<String, Object> j = run.json;

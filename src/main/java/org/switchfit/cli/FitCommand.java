@@ -10,7 +10,6 @@ import java.util.Map;
 import java.util.concurrent.Callable;
 import org.switchfit.fit.FitProblem;
 import org.switchfit.fit.FitResult;
-import org.switchfit.fit.LocalTaskExecutor;
 import org.switchfit.fit.Multistart;
 import org.switchfit.fit.ParameterScale;
 import org.switchfit.fit.StartResult;
@@ -26,11 +25,11 @@ import org.switchfit.report.FitFile;
 import org.switchfit.report.FitSummary;
 import org.switchfit.report.FittedTrajectories;
 import org.switchfit.report.TrajectoriesFile;
-import org.switchfit.report.ResultStore;
 import org.switchfit.sbml.SbmlWriter;
 import org.switchfit.util.SourceLocation;
 import org.switchfit.util.UserInputException;
 import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
 import picocli.CommandLine.Parameters;
 import picocli.CommandLine.Spec;
@@ -69,20 +68,8 @@ public final class FitCommand implements Callable<Integer> {
     @Option(names = "--nominal-start", description = "use the nominal parameter values as start 0")
     boolean nominalStart;
 
-    @Option(names = "--rtol", defaultValue = "1e-8", description = "relative tolerance (default: ${DEFAULT-VALUE})")
-    double rtol;
-
-    @Option(names = "--atol", defaultValue = "1e-12", description = "absolute tolerance (default: ${DEFAULT-VALUE})")
-    double atol;
-
-    @Option(names = "--max-iterations", defaultValue = "1000",
-            description = "iterations per start (default: ${DEFAULT-VALUE})")
-    int maxIterations;
-
-    @Option(names = "--cost-tolerance", defaultValue = "1e-10",
-            description = "stop when an LM step changes the cost by less than this fraction (default: "
-                    + "${DEFAULT-VALUE}; objective values are only accurate to about the integration rtol)")
-    double costTolerance;
+    @Mixin
+    FitSolverOptions solver;
 
     @Override
     public Integer call() {
@@ -91,20 +78,13 @@ public final class FitCommand implements Callable<Integer> {
                     + threads);
         }
         EstimationProblem problem = ProblemLoader.load(problemFile);
-        LikelihoodObjective objective = LikelihoodObjective.of(problem, SimulateCommand.settings("bdf", rtol, atol));
+        LikelihoodObjective objective = LikelihoodObjective.of(problem, solver.settings());
         FitProblem fp = fitProblem(problem, objective);
-        ResultStore store = new ResultStore(out.resolve("starts"));
-        List<StartResult> finished = new ArrayList<>();
-        if (!store.keys().isEmpty()) {
-            if (!resume) {
-                throw new UserInputException(SourceLocation.ofFile(out.toString()), "already holds finished starts; "
-                        + "add --resume to continue that run, or choose another --out folder");
-            }
-            finished.addAll(store.readAll(StartResult.class).values());
-        }
-        Multistart ms = Multistart.defaults().withStarts(starts).withSeed(seed)
-                .withOptimizer(org.switchfit.fit.LevenbergMarquardt.defaults().withMaxIterations(maxIterations)
-                        .withCostTolerance(costTolerance));
+        StartStore store = new StartStore(out.resolve("starts"), resume, () -> new UserInputException(
+                SourceLocation.ofFile(out.toString()), "already holds finished starts; add --resume to continue that "
+                + "run, or choose another --out folder"));
+        List<StartResult> finished = store.finished();
+        Multistart ms = solver.multistart(starts, seed);
         double[] guess = nominalStart ? problem.nominalTheta() : null;
         boolean bar = !OutputOptions.quiet(spec) && System.console() != null;
         PrintWriter err = OutputOptions.progress(spec);
@@ -116,8 +96,7 @@ public final class FitCommand implements Callable<Integer> {
             }
         }
         long t0 = System.nanoTime();
-        FitResult result = ms.run(fp, guess, LocalTaskExecutor.ofThreads(threads), r -> {
-            store.put(ResultStore.indexKey("start", r.index()), r);
+        FitResult result = store.run(ms, fp, guess, threads, r -> {
             done[0]++;
             if (r.status() != StartStatus.FAILED) {
                 best[0] = Math.min(best[0], r.nll());
@@ -136,7 +115,7 @@ public final class FitCommand implements Callable<Integer> {
                         " ".repeat(width - filled), done[0], starts, best[0]);
                 err.flush();
             }
-        }, finished);
+        });
         if (bar) {
             err.println();
         }
@@ -191,8 +170,8 @@ public final class FitCommand implements Callable<Integer> {
         for (Path p : problem.inputFiles()) {
             inputs.add(FitSummary.InputFile.of(p));
         }
-        FitSummary summary = FitSummary.of(problem, result, new FitSummary.Settings(starts, seed, rtol, atol,
-                nominalStart, costTolerance, maxIterations), wall, versions, inputs);
+        FitSummary summary = FitSummary.of(problem, result, new FitSummary.Settings(starts, seed, solver.rtol,
+                solver.atol, nominalStart, solver.costTolerance, solver.maxIterations), wall, versions, inputs);
         FitDirectory.of(out).write(FitFile.RESULT, summary);
         double[] th = result.bestTheta();
         if (th == null) {
@@ -227,7 +206,7 @@ public final class FitCommand implements Callable<Integer> {
      */
     private void writeTrajectories(EstimationProblem problem, double[] th) {
         try {
-            TrajectoriesFile tf = FittedTrajectories.compute(problem, th, SimulateCommand.settings("bdf", rtol, atol),
+            TrajectoriesFile tf = FittedTrajectories.compute(problem, th, solver.settings(),
                     FittedTrajectories.DEFAULT_GRID);
             FitDirectory.of(out).write(FitFile.TRAJECTORIES, tf);
         } catch (RuntimeException e) {

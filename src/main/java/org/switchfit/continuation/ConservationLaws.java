@@ -11,9 +11,14 @@ import org.switchfit.ode.OdeSystem;
  * Conservation laws of a reaction network, found exactly from its stoichiometry matrix N (n species x r
  * reactions, {@code f(y) = N v(y)}): the left null space {@code {l : l^T N = 0}} computed over the integers.
  *
- * <p>Method: fraction-free Gauss-Jordan elimination of N^T with BigInteger arithmetic, every row divided by the
- * gcd of its entries after each elimination step so numbers stay small (Bareiss 1968, Math. Comp. 22:565-578,
- * doi:10.1090/S0025-5718-1968-0226829-0, for the fraction-free idea). The reduced row echelon form gives one basis
+ * <p>Method: fraction-free Gauss-Jordan elimination of N^T over the integers, every row divided by the gcd of its
+ * entries after each elimination step so numbers stay small (Bareiss 1968, Math. Comp. 22:565-578,
+ * doi:10.1090/S0025-5718-1968-0226829-0, for the fraction-free idea). The elimination runs in {@code long}
+ * arithmetic with overflow-checked operations ({@link Math#multiplyExact}); when any intermediate value would
+ * leave the {@code long} range it is repeated from the start in BigInteger arithmetic. Both make the same pivot
+ * choices and the same gcd divisions on the same integers, so the result is identical and exact either way;
+ * stoichiometric entries are small and the gcd division keeps them so, and a 500 x 827 network takes well under a
+ * second in {@code long} (the BigInteger run took several seconds). The reduced row echelon form gives one basis
  * vector per non-pivot species f: coefficient on f positive, zero on the other non-pivot species, arbitrary on
  * pivot species; each vector is divided by the gcd of its entries. The non-pivot species are the <em>dependent</em>
  * ones (eliminated by {@link #reduce}); pivot species are independent. Because l_f has zeros on the other
@@ -68,7 +73,7 @@ public final class ConservationLaws {
                 a[j][i] = BigInteger.valueOf(stoich[i][j]);
             }
         }
-        return fromTransposed(a, n, r);
+        return fromTransposed(a, n, false);
     }
 
     /**
@@ -77,7 +82,16 @@ public final class ConservationLaws {
      * @throws IllegalArgumentException when an entry is not finite or not a rational with denominator at most 10^6
      */
     public static ConservationLaws of(double[][] stoich) {
-        return fromTransposed(transposed(stoich), stoich.length, stoich[0].length);
+        return fromTransposed(transposed(stoich), stoich.length, false);
+    }
+
+    /**
+     * {@link #of(double[][])} or {@link #of(double[][], double[])} (when abundance is non-null) computed by the
+     * BigInteger elimination only, without the {@code long} path: the reference for tests.
+     */
+    static ConservationLaws ofBigIntegerOnly(double[][] stoich, double[] abundance) {
+        return abundance == null ? fromTransposed(transposed(stoich), stoich.length, true)
+                : byAbundance(stoich, abundance, true);
     }
 
     /**
@@ -90,6 +104,10 @@ public final class ConservationLaws {
      * @param abundance one value per species, e.g. the start state
      */
     public static ConservationLaws of(double[][] stoich, double[] abundance) {
+        return byAbundance(stoich, abundance, false);
+    }
+
+    private static ConservationLaws byAbundance(double[][] stoich, double[] abundance, boolean bigOnly) {
         int n = stoich.length;
         if (abundance.length != n) {
             throw new IllegalArgumentException(String.format(Locale.ROOT,
@@ -108,7 +126,7 @@ public final class ConservationLaws {
         for (int i = 0; i < n; i++) {
             order[i] = idx[i];
         }
-        return eliminate(a, n, a.length, order);
+        return eliminate(a, n, a.length, order, bigOnly);
     }
 
     private static BigInteger[][] transposed(double[][] stoich) {
@@ -130,11 +148,15 @@ public final class ConservationLaws {
                 long[] q = rational(stoich[i][j], i, j);
                 num[i] = q[0];
                 den[i] = q[1];
-                BigInteger d = BigInteger.valueOf(q[1]);
-                lcm = lcm.divide(lcm.gcd(d)).multiply(d);
+                if (q[1] != 1) {
+                    BigInteger d = BigInteger.valueOf(q[1]);
+                    lcm = lcm.divide(lcm.gcd(d)).multiply(d);
+                }
             }
+            boolean integral = lcm.equals(BigInteger.ONE);
             for (int i = 0; i < n; i++) {
-                a[j][i] = BigInteger.valueOf(num[i]).multiply(lcm.divide(BigInteger.valueOf(den[i])));
+                a[j][i] = integral ? BigInteger.valueOf(num[i])
+                        : BigInteger.valueOf(num[i]).multiply(lcm.divide(BigInteger.valueOf(den[i])));
             }
         }
         return a;
@@ -184,14 +206,13 @@ public final class ConservationLaws {
      * reproducible) and keeps the basis with the fewest negative coefficients, then the smallest largest
      * |coefficient|, then the earliest tried. Stops at the first basis with no negative coefficient.
      */
-    private static ConservationLaws fromTransposed(BigInteger[][] full, int n, int rAll) {
+    private static ConservationLaws fromTransposed(BigInteger[][] full, int n, boolean bigOnly) {
         BigInteger[][] a = dropZeroColumns(full);
         int r = a.length;
         ConservationLaws best = null;
         long[] bestScore = null;
         java.util.SplittableRandom rng = new java.util.SplittableRandom(20261202L);
-        // Each attempt is a full BigInteger elimination (about 1 s for 500 species x 800 reactions), so large
-        // networks try the natural and reversed orders only.
+        // Each attempt is a full elimination, so large networks try the natural and reversed orders only.
         int attempts = n > LARGE_NETWORK ? 2 : 32;
         for (int attempt = 0; attempt < attempts; attempt++) {
             int[] order = new int[n];
@@ -206,11 +227,7 @@ public final class ConservationLaws {
                     order[j] = t;
                 }
             }
-            BigInteger[][] copy = new BigInteger[r][];
-            for (int i = 0; i < r; i++) {
-                copy[i] = a[i].clone();
-            }
-            ConservationLaws cand = eliminate(copy, n, r, order);
+            ConservationLaws cand = eliminate(a, n, r, order, bigOnly);
             long neg = 0;
             long max = 0;
             for (long[] l : cand.laws) {
@@ -248,8 +265,115 @@ public final class ConservationLaws {
         return keep.toArray(new BigInteger[0][]);
     }
 
-    /** Gauss-Jordan on the species columns in the given order; laws for the non-pivot species. */
-    private static ConservationLaws eliminate(BigInteger[][] a, int n, int r, int[] order) {
+    /**
+     * Gauss-Jordan on the species columns in the given order; laws for the non-pivot species. Runs in {@code long}
+     * arithmetic and falls back to {@link #eliminateBig} on overflow (same result, see the class comment). Does not
+     * modify {@code a}.
+     */
+    private static ConservationLaws eliminate(BigInteger[][] a, int n, int r, int[] order, boolean bigOnly) {
+        long[][] small = bigOnly ? null : toLong(a, n, r);
+        if (small != null) {
+            try {
+                return eliminateLong(small, n, r, order);
+            } catch (ArithmeticException overflow) {
+                // fall through to the exact BigInteger path
+            }
+        }
+        BigInteger[][] copy = new BigInteger[r][];
+        for (int i = 0; i < r; i++) {
+            copy[i] = a[i].clone();
+        }
+        return eliminateBig(copy, n, r, order);
+    }
+
+    /** The matrix as longs, or null when an entry does not fit. */
+    private static long[][] toLong(BigInteger[][] a, int n, int r) {
+        long[][] out = new long[r][n];
+        for (int i = 0; i < r; i++) {
+            for (int k = 0; k < n; k++) {
+                if (a[i][k].bitLength() > 62) {
+                    return null;
+                }
+                out[i][k] = a[i][k].longValue();
+            }
+        }
+        return out;
+    }
+
+    /**
+     * {@link #eliminateBig} in overflow-checked {@code long} arithmetic (in place on {@code a}); the pivot row's
+     * non-zero columns are listed once per pivot, so sparse rows cost in proportion to their non-zeros.
+     *
+     * @throws ArithmeticException when an intermediate value leaves the {@code long} range
+     */
+    static ConservationLaws eliminateLong(long[][] a, int n, int r, int[] order) {
+        int[] pivotCol = new int[Math.min(r, n)];
+        int[] nz = new int[n];
+        int rank = 0;
+        for (int oc = 0; oc < n && rank < r; oc++) {
+            int c = order[oc];
+            int p = -1;
+            long best = 0;
+            for (int i = rank; i < r; i++) {
+                long v = a[i][c];
+                if (v != 0) {
+                    long av = Math.absExact(v);
+                    if (p < 0 || av < best) {
+                        p = i;
+                        best = av;
+                    }
+                }
+            }
+            if (p < 0) {
+                continue;
+            }
+            long[] t = a[p];
+            a[p] = a[rank];
+            a[rank] = t;
+            long[] pr = a[rank];
+            int nnz = 0;
+            for (int k = 0; k < n; k++) {
+                if (pr[k] != 0) {
+                    nz[nnz++] = k;
+                }
+            }
+            long piv = pr[c];
+            for (int i = 0; i < r; i++) {
+                long f = a[i][c];
+                if (i == rank || f == 0) {
+                    continue;
+                }
+                long[] row = a[i];
+                if (piv != 1) {
+                    for (int k = 0; k < n; k++) {
+                        if (row[k] != 0) {
+                            row[k] = Math.multiplyExact(row[k], piv);
+                        }
+                    }
+                }
+                for (int q = 0; q < nnz; q++) {
+                    int k = nz[q];
+                    row[k] = Math.subtractExact(row[k], Math.multiplyExact(pr[k], f));
+                }
+                normalize(row);
+            }
+            normalize(pr);
+            pivotCol[rank++] = c;
+        }
+        BigInteger[][] big = new BigInteger[rank][n];
+        for (int k = 0; k < rank; k++) {
+            for (int i = 0; i < n; i++) {
+                big[k][i] = BigInteger.valueOf(a[k][i]);
+            }
+        }
+        return laws(big, n, rank, pivotCol);
+    }
+
+    /**
+     * The reference elimination, all in BigInteger arithmetic (in place on {@code a}): used on overflow of the
+     * {@code long} path, and by tests as the oracle for it.
+     */
+    static ConservationLaws eliminateBig(BigInteger[][] a, int n, int r, int[] order) {
         int[] pivotCol = new int[Math.min(r, n)];
         int rank = 0;
         for (int oc = 0; oc < n && rank < r; oc++) {
@@ -282,9 +406,19 @@ public final class ConservationLaws {
             normalize(pr);
             pivotCol[rank++] = c;
         }
+        return laws(a, n, rank, pivotCol);
+    }
+
+    /** Laws from the reduced row echelon form: rows 0..rank-1 of a, pivot k in column pivotCol[k]. */
+    private static ConservationLaws laws(BigInteger[][] a, int n, int rank, int[] pivotCol) {
         boolean[] isPivot = new boolean[n];
         for (int k = 0; k < rank; k++) {
             isPivot[pivotCol[k]] = true;
+        }
+        BigInteger lcm = BigInteger.ONE;
+        for (int k = 0; k < rank; k++) {
+            BigInteger d = a[k][pivotCol[k]].abs();
+            lcm = lcm.divide(lcm.gcd(d)).multiply(d);
         }
         List<long[]> lawList = new ArrayList<>();
         int[] dep = new int[n - rank];
@@ -298,11 +432,6 @@ public final class ConservationLaws {
             }
             dep[nd++] = c;
             // x_c = L, x_{pivot k} = -a[k][c] * L / a[k][pivot k], L = lcm of pivots.
-            BigInteger lcm = BigInteger.ONE;
-            for (int k = 0; k < rank; k++) {
-                BigInteger d = a[k][pivotCol[k]].abs();
-                lcm = lcm.divide(lcm.gcd(d)).multiply(d);
-            }
             BigInteger[] v = new BigInteger[n];
             Arrays.fill(v, BigInteger.ZERO);
             v[c] = lcm;
@@ -317,6 +446,32 @@ public final class ConservationLaws {
             lawList.add(l);
         }
         return new ConservationLaws(n, lawList.toArray(new long[0][]), dep, ind);
+    }
+
+    private static void normalize(long[] row) {
+        long g = 0;
+        for (long x : row) {
+            if (x != 0) {
+                g = gcd(g, Math.absExact(x));
+                if (g == 1) {
+                    return;
+                }
+            }
+        }
+        if (g > 1) {
+            for (int k = 0; k < row.length; k++) {
+                row[k] /= g;
+            }
+        }
+    }
+
+    private static long gcd(long a, long b) {
+        while (b != 0) {
+            long t = a % b;
+            a = b;
+            b = t;
+        }
+        return a;
     }
 
     private static void normalize(BigInteger[] row) {

@@ -22,10 +22,11 @@ import java.util.Locale;
  *                          many states; above it, for a sparse Jacobian, the converged dominant eigenvalues of its
  *                          Cayley transform ({@code CayleyArnoldi}: every unstable eigenvalue, plus some stable
  *                          ones) give the stability; for a dense one points carry unstableCount -1
+ * @param linearAlgebra     LU of the bordered corrector and tangent systems ({@link LinearAlgebra})
  */
 public record ContinuationSettings(double lowerBound, double upperBound, double initialStep, double minStep,
                                    double maxStep, int maxPoints, double tolerance, int maxCorrectorSteps,
-                                   int eigenvalueLimit) {
+                                   int eigenvalueLimit, LinearAlgebra linearAlgebra) {
 
     /** Validates. */
     public ContinuationSettings {
@@ -42,40 +43,51 @@ public record ContinuationSettings(double lowerBound, double upperBound, double 
                     "need maxPoints >= 2 (got %d), maxCorrectorSteps >= 1 (got %d), tolerance > 0 (got %.3g)",
                     maxPoints, maxCorrectorSteps, tolerance));
         }
+        if (linearAlgebra == null) {
+            throw new IllegalArgumentException("linearAlgebra must not be null (use LinearAlgebra.AUTO)");
+        }
     }
 
     /**
      * Bounds [lo, hi] with steps scaled to the range: initial 1/100, min 1e-9, max 1/20 of (hi - lo + 1); 2000
      * points, tolerance 1e-11, 8 corrector iterations; eigenvalues up to 100 states (a full eigenvalue
      * computation costs about 0.06 s at n = 100, 0.5 s at 200 and 5 s at 500 on the 2-core test machine, per
-     * point; raise the limit with {@link #withEigenvalueLimit} when stability of larger systems is needed).
+     * point; raise the limit with {@link #withEigenvalueLimit} when stability of larger systems is needed);
+     * {@link LinearAlgebra#AUTO}.
      */
     public static ContinuationSettings of(double lo, double hi) {
         double scale = hi - lo + 1;
-        return new ContinuationSettings(lo, hi, scale / 100, scale * 1e-9, scale / 20, 2000, 1e-11, 8, 100);
+        return new ContinuationSettings(lo, hi, scale / 100, scale * 1e-9, scale / 20, 2000, 1e-11, 8, 100,
+                LinearAlgebra.AUTO);
     }
 
     /** Copy with other steps. */
     public ContinuationSettings withSteps(double initial, double min, double max) {
         return new ContinuationSettings(lowerBound, upperBound, initial, min, max, maxPoints, tolerance,
-                maxCorrectorSteps, eigenvalueLimit);
+                maxCorrectorSteps, eigenvalueLimit, linearAlgebra);
     }
 
     /** Copy with another point limit. */
     public ContinuationSettings withMaxPoints(int points) {
         return new ContinuationSettings(lowerBound, upperBound, initialStep, minStep, maxStep, points, tolerance,
-                maxCorrectorSteps, eigenvalueLimit);
+                maxCorrectorSteps, eigenvalueLimit, linearAlgebra);
     }
 
     /** Copy with other bounds. */
     public ContinuationSettings withBounds(double lo, double hi) {
         return new ContinuationSettings(lo, hi, initialStep, minStep, maxStep, maxPoints, tolerance,
-                maxCorrectorSteps, eigenvalueLimit);
+                maxCorrectorSteps, eigenvalueLimit, linearAlgebra);
     }
 
     /** Copy with another eigenvalue limit. */
     public ContinuationSettings withEigenvalueLimit(int limit) {
         return new ContinuationSettings(lowerBound, upperBound, initialStep, minStep, maxStep, maxPoints, tolerance,
-                maxCorrectorSteps, limit);
+                maxCorrectorSteps, limit, linearAlgebra);
+    }
+
+    /** Copy with another choice of LU for the bordered systems. */
+    public ContinuationSettings withLinearAlgebra(LinearAlgebra choice) {
+        return new ContinuationSettings(lowerBound, upperBound, initialStep, minStep, maxStep, maxPoints, tolerance,
+                maxCorrectorSteps, eigenvalueLimit, choice);
     }
 }

@@ -34,7 +34,10 @@ final class CurveCorrector {
             int[][] bordered = new int[n1][];
             System.arraycopy(rows, 0, bordered, 0, nEq);
             bordered[nEq] = LinearSolvers.denseRow(0, n1);
-            this.lu = LinearSolvers.forPattern(n1, bordered);
+            // A problem that returns a pattern asks for the sparse LU (EquilibriumProblem applies the choice of
+            // LinearAlgebra; others keep the size and density thresholds).
+            this.lu = problem instanceof EquilibriumProblem ? LinearSolvers.sparse(n1, bordered)
+                    : LinearSolvers.forPattern(n1, bordered);
         }
         this.tolerance = tolerance;
         this.maxIterations = maxIterations;
@@ -42,6 +45,11 @@ final class CurveCorrector {
 
     int size() {
         return n1;
+    }
+
+    /** Whether the bordered systems are factored by the sparse LU. */
+    boolean isSparse() {
+        return lu instanceof LinearSolvers.SparseAdapter;
     }
 
     CurveProblem problem() {

@@ -9,12 +9,18 @@ final class EquilibriumProblem implements CurveProblem {
     final int m;
     final int control;
     final double[] p;
+    final LinearAlgebra linearAlgebra;
     private final double[] y;
     private final double[] jy;
     private final double[] jp;
 
     EquilibriumProblem(OdeSystem sys, double[] p, int control) {
+        this(sys, p, control, LinearAlgebra.AUTO);
+    }
+
+    EquilibriumProblem(OdeSystem sys, double[] p, int control, LinearAlgebra linearAlgebra) {
         this.sys = sys;
+        this.linearAlgebra = linearAlgebra;
         this.n = sys.stateCount();
         this.m = sys.parameterCount();
         this.control = control;
@@ -53,15 +59,30 @@ final class EquilibriumProblem implements CurveProblem {
         }
     }
 
+    /**
+     * Row pattern of {@code [J, f_λ]} (J's pattern plus the last column) when the bordered systems are to use the
+     * sparse LU ({@link LinearAlgebra}: always for SPARSE, for AUTO when the bordered matrix passes
+     * {@link LinearSolvers#isSparseBordered}), else null (dense).
+     */
     @Override
     public int[][] pattern() {
-        int[][] jp = sys.jacobianPattern();
-        if (!LinearSolvers.isSparse(n, jp)) {
+        int[][] jp = linearAlgebra == LinearAlgebra.DENSE ? null : sys.jacobianPattern();
+        if (jp == null) {
             return null;
+        }
+        long nnz = 0;
+        for (int[] row : jp) {
+            nnz += row.length;
+        }
+        if (nnz >= (long) n * n) {
+            return null; // no structure known (the default pattern claims a dense Jacobian)
         }
         int[][] out = new int[n][];
         for (int i = 0; i < n; i++) {
             out[i] = LinearSolvers.union(jp[i], 0, null, 0, n);
+        }
+        if (linearAlgebra == LinearAlgebra.AUTO && !LinearSolvers.isSparseBordered(n, out)) {
+            return null;
         }
         return out;
     }

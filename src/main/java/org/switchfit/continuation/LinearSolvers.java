@@ -33,7 +33,27 @@ final class LinearSolvers {
         if (pattern == null || !LuSolvers.useSparse(n, pattern)) {
             return new Dense(n);
         }
-        return new Sparse(LuSolvers.create(n, pattern));
+        return new SparseAdapter(LuSolvers.create(n, pattern));
+    }
+
+    /**
+     * A sparse LU for n x n matrices with this row pattern whatever the size thresholds say (an explicit choice,
+     * {@link LinearAlgebra#SPARSE}); same adapter as {@link #forPattern}.
+     */
+    static LinearSolver sparse(int n, int[][] pattern) {
+        return new SparseAdapter(new org.switchfit.linalg.SparseLu(n, pattern));
+    }
+
+    /**
+     * Whether the bordered matrix {@code [A; dense row]} of order n + 1, where {@code rows} gives the pattern of
+     * the first n rows (n + 1 columns), passes the sparse thresholds of {@link LuSolvers#useSparse}: the decision
+     * is taken on the matrix that is actually factored, its dense last row included.
+     */
+    static boolean isSparseBordered(int n, int[][] rows) {
+        int[][] bordered = new int[n + 1][];
+        System.arraycopy(rows, 0, bordered, 0, n);
+        bordered[n] = denseRow(0, n + 1);
+        return LuSolvers.useSparse(n + 1, bordered);
     }
 
     /**
@@ -78,10 +98,10 @@ final class LinearSolvers {
     }
 
     /** Adapter over a linalg LU; no transposed solve. */
-    private static final class Sparse implements LinearSolver {
+    static final class SparseAdapter implements LinearSolver {
         private final LuSolver lu;
 
-        Sparse(LuSolver lu) {
+        SparseAdapter(LuSolver lu) {
             this.lu = lu;
         }
 

@@ -109,7 +109,7 @@ public final class PseudoArclength {
         SteadyStateSolver ss = SteadyStateSolver.defaults();
         SteadyState start = new SteadyStateSolver(ss.residualTolerance(), ss.stepTolerance(), ss.maxNewtonSteps(),
                 ss.maxTransientSteps(), ss.initialDt(), 0).solve(sys, y0, p);
-        EquilibriumProblem prob = new EquilibriumProblem(sys, p, control);
+        EquilibriumProblem prob = new EquilibriumProblem(sys, p, control, settings.linearAlgebra());
         CurveCorrector cc = new CurveCorrector(prob, settings.tolerance(), settings.maxCorrectorSteps());
         int n1 = n + 1;
         double[] u = new double[n1];
@@ -236,26 +236,45 @@ public final class PseudoArclength {
         int n = prob.n;
         double[] y = java.util.Arrays.copyOf(u, n);
         double[] jac = new double[n * n];
+        int[][] pattern = prob.sys.jacobianPattern();
         if (n > settings.eigenvalueLimit()) {
-            int[][] pattern = prob.sys.jacobianPattern();
             if (!LinearSolvers.isSparse(n, pattern)) {
                 return new BranchPoint(u[n], y, -1, new double[0], new double[0], t[n], s);
             }
             sysJacobian(prob, u, jac);
-            double[][] partial = dominantSpectrum(jac, n, pattern);
-            if (partial == null) {
-                return new BranchPoint(u[n], y, -1, new double[0], new double[0], t[n], s);
-            }
-            return new BranchPoint(u[n], y, Spectrum.unstableCount(partial[0], jac, n), partial[0], partial[1], t[n],
-                    s);
+            return dominantPoint(jac, n, pattern, u, y, t, s);
         }
         sysJacobian(prob, u, jac);
         double[] re = new double[n];
         double[] im = new double[n];
         if (!Spectrum.compute(jac, n, re, im)) {
-            return new BranchPoint(u[n], y, -1, new double[0], new double[0], t[n], s);
+            // The dense QR iteration failed to converge: the stability verdict can still come from the dominant
+            // eigenvalues of the Cayley transform, which include every eigenvalue with positive real part.
+            return dominantPoint(jac, n, pattern, u, y, t, s);
         }
         return new BranchPoint(u[n], y, Spectrum.unstableCount(re, jac, n), re, im, t[n], s);
+    }
+
+    /**
+     * A point whose stability comes from {@link #dominantSpectrum} (the converged eigenvalues only), or with
+     * unstableCount -1 (unknown) when Arnoldi did not converge.
+     */
+    private static BranchPoint dominantPoint(double[] jac, int n, int[][] pattern, double[] u, double[] y,
+                                             double[] t, double s) {
+        double[][] partial = dominantSpectrum(jac, n, pattern);
+        if (partial == null) {
+            return new BranchPoint(u[n], y, -1, new double[0], new double[0], t[n], s);
+        }
+        return new BranchPoint(u[n], y, Spectrum.unstableCount(partial[0], jac, n), partial[0], partial[1], t[n], s);
+    }
+
+    /**
+     * Whether the bordered systems of {@link #trace} on this system use the sparse LU with these settings (see
+     * {@link LinearAlgebra}).
+     */
+    public static boolean usesSparseLu(OdeSystem sys, ContinuationSettings settings) {
+        return new EquilibriumProblem(sys, new double[sys.parameterCount()], 0, settings.linearAlgebra())
+                .pattern() != null;
     }
 
     /** First Krylov dimension of {@link #dominantSpectrum} (doubled up to twice when not converged). */

@@ -4,10 +4,12 @@ import org.hipparchus.complex.Complex;
 import org.hipparchus.exception.MathRuntimeException;
 import org.hipparchus.linear.Array2DRowRealMatrix;
 import org.hipparchus.linear.EigenDecompositionNonSymmetric;
+import org.switchfit.linalg.DenseEigenvalues;
 
 /**
- * Eigenvalues of a dense Jacobian (Hessenberg reduction and shifted QR, via Hipparchus), sorted by decreasing
- * real part, ties by decreasing imaginary part. Per-run use only (allocates).
+ * Eigenvalues of a dense Jacobian (Hessenberg reduction and shifted QR, via Hipparchus; when that does not
+ * converge, the independent implementation {@link DenseEigenvalues}), sorted by decreasing real part, ties by
+ * decreasing imaginary part. Per-run use only (allocates).
  */
 final class Spectrum {
     private Spectrum() {
@@ -16,7 +18,7 @@ final class Spectrum {
     /**
      * Writes the eigenvalues of the n x n row-major matrix into re, im.
      *
-     * @return false when the QR iteration did not converge
+     * @return false when neither QR iteration converged
      */
     static boolean compute(double[] jac, int n, double[] re, double[] im) {
         if (n == 0) {
@@ -43,7 +45,27 @@ final class Spectrum {
             }
         }
         if (ev == null) {
-            return false;
+            // A second implementation of the QR iteration (different shift and deflation details) on the balanced
+            // matrix; its convergence on strongly graded matrices is independent of the first one's.
+            double[][] b = new double[n][n];
+            for (int i = 0; i < n; i++) {
+                System.arraycopy(jac, i * n, b[i], 0, n);
+            }
+            balance(b, n);
+            flushNegligible(b, n);
+            double[] flat = new double[n * n];
+            for (int i = 0; i < n; i++) {
+                System.arraycopy(b[i], 0, flat, i * n, n);
+            }
+            double[] r = new double[n];
+            double[] c = new double[n];
+            if (!DenseEigenvalues.compute(flat, n, r, c)) {
+                return false;
+            }
+            ev = new Complex[n];
+            for (int i = 0; i < n; i++) {
+                ev[i] = new Complex(r[i], c[i]);
+            }
         }
         final Complex[] eig = ev;
         Integer[] order = new Integer[n];

@@ -26,14 +26,12 @@ import org.switchfit.util.UserInputException;
  * {@code dx/dθ = -J_r^{-1} (∂F/∂(p_eff, T)) d(p_eff, T)/dθ} (see {@link SwitchingModel#stateSensitivity}), chained
  * through the observable and noise formulas.
  *
- * <p><b>Noise.</b> As in {@link ExperimentBlock}: normal {@code r = (m' - h') / σ} or Laplace, on the
- * observable's scale (lin/log/log10); σ from the point when given, else the observable's noise formula; a
- * θ-dependent σ adds the residual {@code sqrt(2 log σ + C)}. Failures raise {@link ObjectiveException}. Immutable
+ * <p><b>Noise.</b> {@link NoiseResidual}, as in {@link ExperimentBlock}: normal {@code r = (m' - h') / σ} or
+ * Laplace, on the observable's scale (lin/log/log10); σ from the point when given, else the observable's noise
+ * formula; a θ-dependent σ adds the residual {@code sqrt(2 log σ + C)}, C = {@link NoiseResidual#SIGMA_SHIFT}. Failures raise {@link ObjectiveException}. Immutable
  * and thread-safe (per-evaluation arrays only).
  */
 final class DoseResponseBlock implements ResidualBlock {
-    private static final double LN10 = Math.log(10.0);
-    private static final double LOG_2PI = Math.log(2.0 * Math.PI);
     private static final int STEPS_PER_RANGE = 200;
 
     private final SwitchingModel sm;
@@ -99,18 +97,12 @@ final class DoseResponseBlock implements ResidualBlock {
             fixedSigma[i] = Double.isFinite(p.sigma()) ? p.sigma() : Double.NaN;
             variable[i] = Double.isNaN(fixedSigma[i]);
             rowOffset[i] = off;
-            off += variable[i] ? 2 : 1;
-            c += ExperimentBlock.transformConstant(od.transformation(), p.value());
-            if (variable[i]) {
-                c += (od.noise() == ObservableDef.Noise.LAPLACE ? Math.log(2.0) : 0.5 * LOG_2PI)
-                        - 0.5 * ExperimentBlock.SIGMA_SHIFT;
-            } else if (!(fixedSigma[i] > 0)) {
+            off += NoiseResidual.size(variable[i]);
+            if (!variable[i] && !(fixedSigma[i] > 0)) {
                 throw UserInputException.of(p.location(), "sigma %s is not positive; give a positive sigma",
                         p.sigma());
-            } else {
-                c += od.noise() == ObservableDef.Noise.LAPLACE ? Math.log(2.0 * fixedSigma[i])
-                        : 0.5 * LOG_2PI + Math.log(fixedSigma[i]);
             }
+            c = NoiseResidual.addConstant(c, od, p.value(), variable[i], fixedSigma[i], NoiseResidual.SIGMA_SHIFT);
         }
         size = off;
         constant = c;
@@ -225,58 +217,15 @@ final class DoseResponseBlock implements ResidualBlock {
                 }
             }
         }
-        double hm = hv;
-        double mv = values[i];
-        double dhm = 1.0;
-        if (od.transformation() == ParameterScale.LOG) {
-            hm = Math.log(hv);
-            mv = Math.log(mv);
-            dhm = 1.0 / hv;
-        } else if (od.transformation() == ParameterScale.LOG10) {
-            hm = Math.log10(hv);
-            mv = Math.log10(mv);
-            dhm = 1.0 / (hv * LN10);
-        }
-        if (!Double.isFinite(hm) || !(sigma > 0) || !Double.isFinite(sigma)) {
+        int status = NoiseResidual.write(od, hv, values[i], sigma, variable[i], NoiseResidual.SIGMA_SHIFT, gradH,
+                gradS, np, r, offset + rowOffset[i], jac);
+        if (status == NoiseResidual.UNUSABLE) {
             throw new ObjectiveException(String.format(Locale.ROOT, "%s, observable '%s' at dose %.6g: prediction %s"
                     + " or noise spread %s is not usable", label, od.id(), doses[i], hv, sigma));
         }
-        int ro = offset + rowOffset[i];
-        double dd = mv - hm;
-        double res;
-        double dResDhm;
-        double dResDs;
-        if (od.noise() == ObservableDef.Noise.LAPLACE) {
-            double su = Math.sqrt(2.0 * Math.abs(dd) / sigma);
-            res = Math.copySign(su, dd);
-            dResDhm = su > 0 ? -1.0 / (sigma * su) : 0.0;
-            dResDs = -res / (2.0 * sigma);
-        } else {
-            res = dd / sigma;
-            dResDhm = -1.0 / sigma;
-            dResDs = -res / sigma;
-        }
-        r[ro] = res;
-        double rs = 0;
-        if (variable[i]) {
-            double arg = 2.0 * Math.log(sigma) + ExperimentBlock.SIGMA_SHIFT;
-            if (!(arg > 0)) {
-                throw new ObjectiveException(String.format(Locale.ROOT, "%s: noise spread %.3g is too small", label,
-                        sigma));
-            }
-            rs = Math.sqrt(arg);
-            r[ro + 1] = rs;
-        }
-        if (jac != null) {
-            for (int j = 0; j < np; j++) {
-                jac[ro * np + j] = dResDhm * dhm * gradH[j] + (variable[i] ? dResDs * gradS[j] : 0.0);
-            }
-            if (variable[i]) {
-                double f = 1.0 / (rs * sigma);
-                for (int j = 0; j < np; j++) {
-                    jac[(ro + 1) * np + j] = f * gradS[j];
-                }
-            }
+        if (status == NoiseResidual.SIGMA_BELOW_SHIFT) {
+            throw new ObjectiveException(String.format(Locale.ROOT, "%s: noise spread %.3g is too small", label,
+                    sigma));
         }
         Arrays.fill(out, 0.0);
     }

@@ -14,9 +14,10 @@ import org.junit.jupiter.api.BeforeAll;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 import org.switchfit.report.Json;
+import org.switchfit.testsystems.PetabFiles;
 
 /**
- * The audit command on small fit directories produced here: the decay problem of {@link DecayProblemFiles}
+ * The audit command on small fit directories produced here: the decay problem of {@link PetabFiles#writeDecay}
  * (X' = -k X, log-normal noise of known σ = 0.1), fitted, profiled (parameters and one prediction), then audited;
  * then the same after editing one data value, and after moving the recorded optimum.
  *
@@ -46,7 +47,7 @@ class AuditCommandTest {
     }
 
     private static Path fit(String name) {
-        Path yaml = DecayProblemFiles.write(dir.resolve(name).resolve("problem"), M, T, SIGMA);
+        Path yaml = PetabFiles.writeDecay(dir.resolve(name).resolve("problem"), M, T, SIGMA);
         Path out = dir.resolve(name).resolve("fit");
         ProfileCommandTest.Result f = ProfileCommandTest.run("fit", yaml.toString(), "--out", out.toString(),
                 "--starts", "3", "--threads", "1", "--rtol", "1e-10", "--atol", "1e-14", "--quiet");

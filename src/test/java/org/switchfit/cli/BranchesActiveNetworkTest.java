@@ -33,7 +33,8 @@ class BranchesActiveNetworkTest {
             "--json", json.toString()}, new PrintWriter(out, true), new PrintWriter(err, true));
         assertEquals(0, code, err.toString());
         assertTrue(out.toString().contains("active network: 6 of 8 reactions cannot fire; states held: 3 at zero, "
-                + "2 passive, 0 numerically passive; 1 reduced states"), out.toString());
+                + "2 passive, 0 numerically passive, 0 spanning numerically singular directions; 1 reduced states"),
+                out.toString());
         BranchesFile f = Json.read(json, BranchesFile.class);
         List<BranchesFile.Point> pts = f.branches().get(0).points();
         assertTrue(pts.size() >= 3);

@@ -12,6 +12,8 @@ import java.util.List;
 import java.util.Map;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
+import org.switchfit.testsystems.DecaySbml;
+import org.switchfit.testsystems.PetabFiles;
 import picocli.CommandLine;
 
 /**
@@ -74,14 +76,14 @@ class CommandHelpTest {
     void logReceivesOutputAndErrors() throws IOException {
         Path log = dir.resolve("logs").resolve("run.log");
         Path model = dir.resolve("model.xml");
-        Files.writeString(model, DecayProblemFiles.MODEL);
+        Files.writeString(model, DecaySbml.MODEL);
         ProfileCommandTest.Result ok = ProfileCommandTest.run("simulate", model.toString(), "--times", "0,1,2",
                 "--log", log.toString(), "--quiet");
         assertEquals(0, ok.code(), ok.err());
         ProfileCommandTest.Result bad = ProfileCommandTest.run("audit", dir.resolve("nowhere").toString(), "--log",
                 log.toString());
         assertEquals(2, bad.code());
-        Path yaml = DecayProblemFiles.write(dir.resolve("decay"), new double[] {2.1, 1.45, 1.12, 0.78},
+        Path yaml = PetabFiles.writeDecay(dir.resolve("decay"), new double[] {2.1, 1.45, 1.12, 0.78},
                 new double[] {0, 1, 2, 3}, 0.1);
         ProfileCommandTest.Result fit = ProfileCommandTest.run("fit", yaml.toString(), "--out",
                 dir.resolve("fit").toString(), "--starts", "2", "--log", log.toString());

@@ -21,11 +21,12 @@ import org.switchfit.profile.ConfidenceInterval;
 import org.switchfit.profile.Profile;
 import org.switchfit.profile.ProfileLikelihood;
 import org.switchfit.report.BranchesFile;
+import org.switchfit.testsystems.PetabFiles;
 
 /**
  * The library example of README.md ("Using switchfit as a library") runs as written: the README block must contain
  * the body of {@link #example} line for line, and the body runs here on small inputs (the decay problem of
- * {@link DecayProblemFiles} instead of the demo problem, so the test stays fast; the bundled demo model for the
+ * {@link PetabFiles#writeDecay} instead of the demo problem, so the test stays fast; the bundled demo model for the
  * branches).
  *
  * <p>Expected values: the decay fit's interval for k must contain the least-squares estimate of the log-linear
@@ -71,7 +72,7 @@ class LibraryExampleTest {
     void exampleRuns() {
         double[] t = {0, 1, 2, 3, 4, 6};
         double[] m = {2.1, 1.45, 1.12, 0.78, 0.6, 0.33};
-        Path yaml = DecayProblemFiles.write(dir.resolve("decay"), m, t, 0.1);
+        Path yaml = PetabFiles.writeDecay(dir.resolve("decay"), m, t, 0.1);
         Out o = example(yaml, "k", Path.of("models/stress_switch.xml"), "stimulus");
         // Closed form: ln m = a - k t + e with known σ, so k̂ = -slope of the least-squares line of ln m on t.
         double mt = 0;

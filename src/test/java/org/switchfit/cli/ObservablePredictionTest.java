@@ -12,6 +12,7 @@ import org.switchfit.objective.SteadyState;
 import org.switchfit.ode.SolverSettings;
 import org.switchfit.problem.EstimationProblem;
 import org.switchfit.problem.ProblemLoader;
+import org.switchfit.testsystems.PetabFiles;
 import org.switchfit.util.UserInputException;
 
 /**
@@ -28,7 +29,7 @@ class ObservablePredictionTest {
     Path dir;
 
     private EstimationProblem problem() {
-        return ProblemLoader.load(DecayProblemFiles.write(dir, new double[] {2.0, 1.0}, new double[] {0, 1}, 0.1));
+        return ProblemLoader.load(PetabFiles.writeDecay(dir, new double[] {2.0, 1.0}, new double[] {0, 1}, 0.1));
     }
 
     @Test

@@ -21,6 +21,7 @@ import org.switchfit.report.FitDirectory;
 import org.switchfit.report.FitFile;
 import org.switchfit.report.Json;
 import org.switchfit.report.ProfilesFile;
+import org.switchfit.testsystems.PetabFiles;
 
 /**
  * The profile command end to end on a problem whose profiles are known in closed form.
@@ -66,7 +67,7 @@ class ProfileCommandTest {
 
     @BeforeAll
     static void fitAndProfile() throws IOException {
-        Path yaml = DecayProblemFiles.write(dir.resolve("problem"), M, T, SIGMA);
+        Path yaml = PetabFiles.writeDecay(dir.resolve("problem"), M, T, SIGMA);
         fitDir = dir.resolve("fit");
         Result f = run("fit", yaml.toString(), "--out", fitDir.toString(), "--starts", "3", "--threads", "1",
                 "--rtol", "1e-10", "--atol", "1e-14", "--quiet");

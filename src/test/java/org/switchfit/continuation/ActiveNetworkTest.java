@@ -116,4 +116,79 @@ class ActiveNetworkTest {
         active.jacobianY(0, ss.state(), q, j);
         assertEquals(-(2 * (1 - es) + 1), j[0], 1e-12, "closed form, rounding only");
     }
+
+    /**
+     * Linear network y1 <-> y2 (rates 1 and 2), y2 -> y3 at rate constant 1e-22, y3 -> (degradation, rate 1): no
+     * stoichiometric law, and no column of J is small, but y1 + y2 changes only through the 1e-22 reaction, so
+     * J = [[-1, 2, 0], [1, -2 - 1e-22, 0], [0, 1e-22, -1]] has a singular value near 1e-22 against about 3.2
+     * (closed form, by hand): a numerically singular direction v ~ (2, 1, 0), w ~ (1, 1, 0).
+     */
+    private static final OdeSystem SLOW_LEAK = new OdeSystem() {
+        private static final double LEAK = 1e-22;
+
+        public int stateCount() {
+            return 3;
+        }
+
+        public int parameterCount() {
+            return 0;
+        }
+
+        public void rhs(double t, double[] y, double[] p, double[] d) {
+            d[0] = -y[0] + 2 * y[1];
+            d[1] = y[0] - 2 * y[1] - LEAK * y[1];
+            d[2] = LEAK * y[1] - y[2];
+        }
+
+        public void jacobianY(double t, double[] y, double[] p, double[] j) {
+            double[] v = {-1, 2, 0, 1, -2 - LEAK, 0, 0, LEAK, -1};
+            System.arraycopy(v, 0, j, 0, 9);
+        }
+
+        public void jacobianP(double t, double[] y, double[] p, double[] j) {
+        }
+    };
+
+    @Test
+    void numericallySingularDirectionIsHeldWhereNoColumnIsSmall() {
+        // Stoichiometry of SLOW_LEAK (reactions y1->y2, y2->y1, y2->y3, y3->): full rank, no laws.
+        double[][] n = {{-1, 1, 0, 0}, {1, -1, -1, 0}, {0, 0, 1, -1}};
+        ReducedSystem red = ConservationLaws.of(n).reduce(SLOW_LEAK);
+        assertEquals(3, red.stateCount());
+        double[] x = {1.0, 0.5, 5e-23};
+        double[] q = new double[0];
+        assertEquals(0, ActiveNetwork.numericallyPassive(red, x, q).length, "rule 4 sees no small column");
+        assertTrue(smallestSingularValueRatio(red, x, q) < 1e-20, "numerically singular (closed form ~3e-23)");
+        // Hold the species with the largest |v_i w_i|: v = (2, 1, 0)/sqrt 5, w = (1, 1, 0)/sqrt 2 give 0.63 for
+        // y1 and 0.32 for y2 (closed form).
+        int[] held = ActiveNetwork.numericallySingular(red, x, q);
+        assertEquals(1, held.length);
+        assertEquals(0, held[0]);
+        double[][] masked = {new double[4], n[1], n[2]};
+        ReducedSystem kept = ConservationLaws.of(masked).reduce(SLOW_LEAK);
+        assertEquals(2, kept.stateCount());
+        double[] y = {1.0, 0.5, 5e-23};
+        double[] qk = kept.parameters(new double[0], y);
+        // Closed form: J without row and column 1 is [[-2 - 1e-22, 0], [1e-22, -1]], singular values 2 and 1.
+        assertTrue(smallestSingularValueRatio(kept, kept.reducedState(y), qk) > 0.49);
+        assertEquals(0, ActiveNetwork.numericallySingular(kept, kept.reducedState(y), qk).length,
+                "numerical full rank after holding y1");
+    }
+
+    @Test
+    void pickMinorChoosesRowsWithTheLargestDeterminantProduct() {
+        // Two directions: V spans e0, e2 and W spans e2, e3 (closed form): only row 2 is shared, so the first
+        // pivot is row 2; after eliminating it, V keeps only e0 and W only e3, whose products vanish on every
+        // other row, so one row is chosen.
+        double[][] v = {{1, 0, 1, 0}, {0, 0, 1, 0}};
+        double[][] w = {{0, 0, 1, 0}, {0, 0, 1, 1}};
+        int[] rows = ActiveNetwork.pickMinor(v, w, 4);
+        org.junit.jupiter.api.Assertions.assertArrayEquals(new int[] {2}, rows);
+        // Diagonal case: V = W = identity on rows 1, 3: both rows are chosen.
+        double[][] v2 = {{0, 1, 0, 0}, {0, 0, 0, 1}};
+        double[][] w2 = {{0, 1, 0, 0}, {0, 0, 0, 1}};
+        int[] rows2 = ActiveNetwork.pickMinor(v2, w2, 4);
+        java.util.Arrays.sort(rows2);
+        org.junit.jupiter.api.Assertions.assertArrayEquals(new int[] {1, 3}, rows2);
+    }
 }

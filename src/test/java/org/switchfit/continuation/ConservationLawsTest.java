@@ -124,4 +124,145 @@ class ConservationLawsTest {
         assertTrue(TestSystems.jacobianYError(red, x, q) < 1e-7);
         assertTrue(TestSystems.jacobianPError(red, x, q) < 1e-7);
     }
+
+    /**
+     * A seeded signalling-like network owned by this test: 40 monomers, 110 complexes formed by binding two
+     * earlier species (A + B <-> C), some conversions A -> B, synthesis and degradation of a few monomers, and a
+     * half-integer stoichiometry on one reaction. 150 species, so the large-network path (two elimination orders)
+     * runs. The moieties of monomers without synthesis/degradation are conserved by construction.
+     */
+    private static double[][] bindingNetwork(long seed) {
+        java.util.SplittableRandom rng = new java.util.SplittableRandom(seed);
+        int monomers = 40;
+        int n = 150;
+        java.util.List<double[]> cols = new java.util.ArrayList<>();
+        for (int c = monomers; c < n; c++) {
+            int a = rng.nextInt(c);
+            int b = rng.nextInt(c);
+            double[] fwd = new double[n];
+            fwd[a] -= 1;
+            fwd[b] -= 1;
+            fwd[c] += 1;
+            cols.add(fwd);
+            double[] back = new double[n];
+            for (int i = 0; i < n; i++) {
+                back[i] = -fwd[i];
+            }
+            cols.add(back);
+        }
+        for (int k = 0; k < 20; k++) {
+            double[] conv = new double[n];
+            int a = rng.nextInt(n);
+            int b = rng.nextInt(n);
+            if (a != b) {
+                conv[a] = -1;
+                conv[b] = 1;
+                cols.add(conv);
+            }
+        }
+        for (int k = 0; k < 6; k++) {
+            double[] syn = new double[n];
+            syn[rng.nextInt(monomers)] = 1;
+            cols.add(syn);
+        }
+        double[] half = new double[n];
+        half[monomers] = -0.5;
+        half[monomers + 1] = 0.5;
+        cols.add(half);
+        double[][] stoich = new double[n][cols.size()];
+        for (int r = 0; r < cols.size(); r++) {
+            for (int i = 0; i < n; i++) {
+                stoich[i][r] = cols.get(r)[i];
+            }
+        }
+        return stoich;
+    }
+
+    private static void assertSameLaws(ConservationLaws expected, ConservationLaws actual) {
+        assertEquals(expected.lawCount(), actual.lawCount());
+        assertArrayEquals(expected.dependentSpecies(), actual.dependentSpecies());
+        assertArrayEquals(expected.independentSpecies(), actual.independentSpecies());
+        for (int c = 0; c < expected.lawCount(); c++) {
+            assertArrayEquals(expected.coefficients(c), actual.coefficients(c), "law " + c);
+        }
+    }
+
+    /** l^T N = 0 exactly (BigInteger arithmetic on the stoichiometry doubled, which makes it integer). */
+    private static void assertExact(ConservationLaws laws, double[][] stoich) {
+        for (int c = 0; c < laws.lawCount(); c++) {
+            long[] l = laws.coefficients(c);
+            for (int j = 0; j < stoich[0].length; j++) {
+                java.math.BigInteger s = java.math.BigInteger.ZERO;
+                for (int i = 0; i < stoich.length; i++) {
+                    s = s.add(java.math.BigInteger.valueOf(l[i]).multiply(
+                            java.math.BigInteger.valueOf(Math.round(2 * stoich[i][j]))));
+                }
+                assertEquals(0, s.signum(), "law " + c + " times reaction " + j);
+            }
+        }
+    }
+
+    @Test
+    void longEliminationGivesTheLawsOfTheBigIntegerEliminationOnABindingNetwork() {
+        double[][] stoich = bindingNetwork(20261202L);
+        ConservationLaws fast = ConservationLaws.of(stoich);
+        ConservationLaws reference = ConservationLaws.ofBigIntegerOnly(stoich, null);
+        assertSameLaws(reference, fast);
+        assertExact(fast, stoich);
+        // Oracle for the count: n - rank N, rank from a Commons Math SVD (entries 0, +-1, +-0.5: well separated).
+        int rank = new SingularValueDecomposition(new Array2DRowRealMatrix(stoich)).getRank();
+        assertEquals(stoich.length - rank, fast.lawCount());
+        assertTrue(fast.lawCount() > 0, "the network has conserved moieties by construction");
+        // The abundance-ordered variant (used by the switch-analysis commands) takes the same two paths.
+        double[] abundance = new double[stoich.length];
+        java.util.SplittableRandom rng = new java.util.SplittableRandom(7L);
+        for (int i = 0; i < abundance.length; i++) {
+            abundance[i] = Math.pow(10, 12 * rng.nextDouble() - 6);
+        }
+        assertSameLaws(ConservationLaws.ofBigIntegerOnly(stoich, abundance), ConservationLaws.of(stoich, abundance));
+        // Held species (zero rows) and switched-off reactions (zero columns), as ActiveNetwork#mask produces.
+        double[][] masked = new double[stoich.length][];
+        for (int i = 0; i < stoich.length; i++) {
+            masked[i] = i % 7 == 3 ? new double[stoich[i].length] : stoich[i].clone();
+            for (int j = 0; j < masked[i].length; j += 5) {
+                masked[i][j] = 0;
+            }
+        }
+        assertSameLaws(ConservationLaws.ofBigIntegerOnly(masked, abundance), ConservationLaws.of(masked, abundance));
+    }
+
+    @Test
+    void overflowOfTheLongEliminationFallsBackToBigIntegerWithTheSameLaws() {
+        // Entries near 1e9 whose columns each sum to zero, so the only law is (1, 1, 1, 1, 1) (closed form: every
+        // reaction conserves the sum; rank 4 by the Commons Math SVD below). The second elimination step already
+        // needs products near 1e27, beyond the long range (9.2e18), while the law itself is small.
+        double[][] stoich = {
+            {999_999_937, 999_999_929, 1, 7},
+            {-999_999_893, 2, 999_999_883, 1},
+            {3, -999_999_797, 5, 999_999_761},
+            {7, 11, -999_999_757, 13},
+            {0, 0, 0, 0}};
+        for (int j = 0; j < 4; j++) {
+            double sum = 0;
+            for (int i = 0; i < 4; i++) {
+                sum += stoich[i][j];
+            }
+            stoich[4][j] = -sum;
+        }
+        long[][] t = new long[4][5];
+        for (int i = 0; i < 5; i++) {
+            for (int j = 0; j < 4; j++) {
+                t[j][i] = (long) stoich[i][j];
+            }
+        }
+        assertThrows(ArithmeticException.class,
+                () -> ConservationLaws.eliminateLong(t, 5, 4, new int[] {0, 1, 2, 3, 4}),
+                "the long path must detect the overflow (this matrix needs the fallback)");
+        ConservationLaws laws = ConservationLaws.of(stoich);
+        assertSameLaws(ConservationLaws.ofBigIntegerOnly(stoich, null), laws);
+        assertEquals(1, laws.lawCount(), "5 species, 4 reactions of full rank (Commons Math SVD below)");
+        assertArrayEquals(new long[] {1, 1, 1, 1, 1}, laws.coefficients(0));
+        assertEquals(4, new SingularValueDecomposition(new Array2DRowRealMatrix(stoich)).getRank());
+        assertExact(laws, stoich);
+    }
 }

@@ -1,6 +1,7 @@
 package org.switchfit.continuation;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.util.List;
@@ -210,6 +211,52 @@ class PseudoArclengthTest {
         }
         // Dense and sparse LU solve the same Newton systems; refined folds agree to the refinement tolerance.
         assertEquals(found[0], found[1], 1e-12);
+    }
+
+    @Test
+    void forcedSparseBorderedSystemsBelowTheSizeThresholdGiveTheDenseBranch() {
+        // 60 states: AUTO keeps the dense LU (order 61 < 100), SPARSE forces the sparse LU on the bordered matrix.
+        int n = 60;
+        OdeSystem sys = chain(n, true);
+        ContinuationSettings base = ContinuationSettings.of(-1, 1).withMaxPoints(200).withSteps(0.2, 1e-6, 0.5);
+        ContinuationSettings sparse = base.withLinearAlgebra(LinearAlgebra.SPARSE);
+        ContinuationSettings dense = base.withLinearAlgebra(LinearAlgebra.DENSE);
+        assertTrue(PseudoArclength.usesSparseLu(sys, sparse), "sparse path taken");
+        assertFalse(PseudoArclength.usesSparseLu(sys, dense));
+        assertFalse(PseudoArclength.usesSparseLu(sys, base), "AUTO below the size threshold is dense");
+        assertFalse(PseudoArclength.usesSparseLu(chain(n, false), sparse), "no pattern: dense");
+        assertTrue(new CurveCorrector(new EquilibriumProblem(sys, new double[1], 0, LinearAlgebra.SPARSE), 1e-11, 8)
+                .isSparse(), "the corrector factors the bordered matrix with the sparse LU");
+        assertFalse(new CurveCorrector(new EquilibriumProblem(sys, new double[1], 0, LinearAlgebra.DENSE), 1e-11, 8)
+                .isSparse());
+        double[] y0 = new double[n];
+        java.util.Arrays.fill(y0, -1.0);
+        Branch bs = new PseudoArclength(sparse).trace(sys, y0, new double[] {-0.8}, 0);
+        Branch bd = new PseudoArclength(dense).trace(sys, y0, new double[] {-0.8}, 0);
+        // Closed form (see chain): two folds at p = -+2/(3 sqrt 3), both inside [-1, 1].
+        double pStar = 2 / (3 * Math.sqrt(3));
+        assertEquals(2, bs.folds().size());
+        assertEquals(2, bd.folds().size());
+        for (int k = 0; k < 2; k++) {
+            assertEquals(pStar, Math.abs(bs.folds().get(k).parameter()), REL_TOL_FOLD * pStar);
+            // Same refinement on the same Newton systems; the LUs differ by rounding only: 1e-12 absolute.
+            assertEquals(bd.folds().get(k).parameter(), bs.folds().get(k).parameter(), 1e-12);
+        }
+        assertEquals(bd.size(), bs.size(), "same step sequence");
+        double worst = 0;
+        for (int i = 0; i < bs.size(); i++) {
+            BranchPoint a = bs.point(i);
+            BranchPoint b = bd.point(i);
+            worst = Math.max(worst, Math.abs(a.parameter() - b.parameter()));
+            for (int j = 0; j < n; j++) {
+                worst = Math.max(worst, Math.abs(a.state()[j] - b.state()[j]));
+            }
+            assertEquals(b.unstableCount(), a.unstableCount(), "stability at point " + i);
+        }
+        // Both correctors stop when the Newton step is below 1e-11 (1 + max|u|), u = O(1) here; iterates that
+        // differ only by rounding of the two LUs end within that tolerance of each other: 1e-9 absolute (margin
+        // 100).
+        assertTrue(worst < 1e-9, "largest difference between the sparse and dense branches: " + worst);
     }
 
     @Test

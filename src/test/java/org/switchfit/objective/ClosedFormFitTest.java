@@ -13,6 +13,8 @@ import org.switchfit.ode.SolverSettings;
 import org.switchfit.problem.EstimationProblem;
 import org.switchfit.problem.FreeParameter;
 import org.switchfit.problem.ProblemLoader;
+import org.switchfit.testsystems.DecaySbml;
+import org.switchfit.testsystems.PetabFiles;
 
 /**
  * Maximum-likelihood estimates known in closed form, reached by Levenberg-Marquardt on the objective.
@@ -55,7 +57,7 @@ class ClosedFormFitTest {
      */
     @Test
     void logNormalDecayEqualsLeastSquaresOnLogData() {
-        Path yaml = PetabFiles.write(dir, PetabFiles.DECAY_MODEL,
+        Path yaml = PetabFiles.write(dir, DecaySbml.MODEL,
                 "parameterId | parameterScale | lowerBound | upperBound | nominalValue | estimate\n"
                         + "k | log10 | 1e-3 | 10 | 0.2 | 1\n"
                         + "x0 | log10 | 1e-2 | 100 | 1.0 | 1",
@@ -99,7 +101,7 @@ class ClosedFormFitTest {
      */
     @Test
     void linearInitialValueWithKnownSigma() {
-        Path yaml = PetabFiles.write(dir, PetabFiles.DECAY_MODEL,
+        Path yaml = PetabFiles.write(dir, DecaySbml.MODEL,
                 "parameterId | parameterScale | lowerBound | upperBound | nominalValue | estimate\n"
                         + "k | lin | 1e-3 | 10 | 0.3 | 0\n"
                         + "x0 | lin | 0 | 100 | 1.0 | 1",

@@ -7,6 +7,8 @@ import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 import org.switchfit.ode.SolverSettings;
 import org.switchfit.problem.ProblemLoader;
+import org.switchfit.testsystems.DecaySbml;
+import org.switchfit.testsystems.PetabFiles;
 
 /**
  * Exact residual Jacobians of a PEtab problem whose model has a state-triggered event (sensitivities with jumps at
@@ -25,23 +27,7 @@ class EventGradientTest {
     Path dir;
 
     /** X' = -k X, X(0) = x0; event "reset": when X &lt; cth, X = xr. */
-    private static final String RESET_MODEL = PetabFiles.DECAY_MODEL
-            .replace("<parameter id=\"x0\" value=\"2\" constant=\"true\"/>",
-                    "<parameter id=\"x0\" value=\"2\" constant=\"true\"/>"
-                    + "<parameter id=\"cth\" value=\"0.5\" constant=\"true\"/>"
-                    + "<parameter id=\"xr\" value=\"1\" constant=\"true\"/>")
-            .replace("</listOfReactions>", """
-                    </listOfReactions>
-                    <listOfEvents>
-                      <event id="reset" useValuesFromTriggerTime="true">
-                        <trigger initialValue="false" persistent="true">
-                          <math xmlns="http://www.w3.org/1998/Math/MathML">
-                            <apply><lt/><ci>X</ci><ci>cth</ci></apply></math></trigger>
-                        <listOfEventAssignments><eventAssignment variable="X">
-                          <math xmlns="http://www.w3.org/1998/Math/MathML"><ci>xr</ci></math>
-                        </eventAssignment></listOfEventAssignments>
-                      </event>
-                    </listOfEvents>""");
+    private static final String RESET_MODEL = DecaySbml.RESET;
 
     private static final double[] T = {3.0, 5.0, 6.5, 8.0};
     private static final double[] M = {0.8, 0.9, 0.6, 0.75};

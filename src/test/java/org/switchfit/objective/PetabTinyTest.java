@@ -7,6 +7,7 @@ import org.junit.jupiter.api.Test;
 import org.switchfit.ode.SolverSettings;
 import org.switchfit.problem.EstimationProblem;
 import org.switchfit.problem.ProblemLoader;
+import org.switchfit.testsystems.PetabFiles;
 
 /**
  * End to end on the tiny PEtab problem of the data package's test resources (invented P -> Q -> nothing model with

@@ -9,6 +9,8 @@ import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 import org.switchfit.ode.SolverSettings;
 import org.switchfit.problem.ProblemLoader;
+import org.switchfit.testsystems.DecaySbml;
+import org.switchfit.testsystems.PetabFiles;
 import org.switchfit.util.UserInputException;
 
 /** Bad problem files give one line naming what, where and what to do. */
@@ -23,7 +25,7 @@ class ProblemErrorsTest {
     Path dir;
 
     private String failure(String params, String conds, String obs, String meas, String... expected) {
-        Path yaml = PetabFiles.write(dir, PetabFiles.DECAY_MODEL, params, conds, obs, meas);
+        Path yaml = PetabFiles.write(dir, DecaySbml.MODEL, params, conds, obs, meas);
         UserInputException e = assertThrows(UserInputException.class, () -> LikelihoodObjective.of(
                 ProblemLoader.load(yaml), SolverSettings.defaults()));
         String msg = e.getMessage();

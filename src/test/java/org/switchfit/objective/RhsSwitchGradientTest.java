@@ -7,6 +7,8 @@ import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 import org.switchfit.ode.SolverSettings;
 import org.switchfit.problem.ProblemLoader;
+import org.switchfit.testsystems.DecaySbml;
+import org.switchfit.testsystems.PetabFiles;
 
 /**
  * Exact residual Jacobians of a PEtab problem whose model switches its right-hand side at an estimated time (an
@@ -27,7 +29,7 @@ class RhsSwitchGradientTest {
             + "definitionURL=\"http://www.sbml.org/sbml/symbols/time\">time</csymbol>";
 
     /** X' = -k X on, on = [time &gt;= tau], X(0) = x0. */
-    private static final String ONSET_MODEL = PetabFiles.DECAY_MODEL
+    private static final String ONSET_MODEL = DecaySbml.MODEL
             .replace("<parameter id=\"x0\" value=\"2\" constant=\"true\"/>",
                     "<parameter id=\"x0\" value=\"2\" constant=\"true\"/>"
                     + "<parameter id=\"tau\" value=\"2\" constant=\"true\"/>"

@@ -12,6 +12,8 @@ import org.switchfit.ode.SolverSettings;
 import org.switchfit.problem.EstimationProblem;
 import org.switchfit.problem.FreeParameter;
 import org.switchfit.problem.ProblemLoader;
+import org.switchfit.testsystems.DecaySbml;
+import org.switchfit.testsystems.PetabFiles;
 
 /**
  * An estimated noise sigma and a prior move the optimum exactly as computed by hand. The observable is a constant
@@ -29,7 +31,7 @@ class SigmaAndPriorTest {
         for (int i = 0; i < M.length; i++) {
             meas.append("obs | c0 | ").append(M[i]).append(" | ").append(i).append('\n');
         }
-        return PetabFiles.write(dir, PetabFiles.DECAY_MODEL,
+        return PetabFiles.write(dir, DecaySbml.MODEL,
                 "parameterId | parameterScale | lowerBound | upperBound | nominalValue | estimate | "
                         + "objectivePriorType | objectivePriorParameters\n" + parameterRows,
                 "conditionId\nc0",

@@ -13,6 +13,8 @@ import org.junit.jupiter.api.io.TempDir;
 import org.switchfit.ode.SolverSettings;
 import org.switchfit.problem.EstimationProblem;
 import org.switchfit.problem.ProblemLoader;
+import org.switchfit.testsystems.DecaySbml;
+import org.switchfit.testsystems.PetabFiles;
 import org.switchfit.util.UserInputException;
 
 /**
@@ -26,7 +28,7 @@ class SwitchfitFormatTest {
     Path dir;
 
     private Path ours(String noise, String extraParams) throws IOException {
-        Files.writeString(dir.resolve("model.xml"), PetabFiles.DECAY_MODEL);
+        Files.writeString(dir.resolve("model.xml"), DecaySbml.MODEL);
         Files.writeString(dir.resolve("tc.csv"), "experiment,observable,time,value,sigma\n"
                 + "e1,obs,0,2.1,\ne1,obs,1,1.45,\ne1,obs,2,1.12,\ne2,obs,1,0.9,\n");
         Path yaml = dir.resolve("problem.yaml");
@@ -40,7 +42,7 @@ class SwitchfitFormatTest {
     }
 
     private Path petab(String noiseFormula, String transformation, String extraParams) {
-        return PetabFiles.write(dir.resolve("petab"), PetabFiles.DECAY_MODEL,
+        return PetabFiles.write(dir.resolve("petab"), DecaySbml.MODEL,
                 "parameterId | parameterScale | lowerBound | upperBound | nominalValue | estimate\n"
                         + "k | log10 | 1e-3 | 10 | 0.4 | 1\nx0 | log | 1e-2 | 100 | 1.8 | 1\n" + extraParams,
                 "conditionId | k\ne1 | k\ne2 | 0.5",

@@ -3,6 +3,8 @@ package org.switchfit.ode;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
+import static org.switchfit.testsystems.DecaySbml.TIME;
+import static org.switchfit.testsystems.DecaySbml.parameter;
 
 import java.io.IOException;
 import java.nio.file.Files;
@@ -15,10 +17,12 @@ import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.ValueSource;
 import org.switchfit.ode.bdf.BdfIntegrator;
 import org.switchfit.sbml.SbmlReader;
+import org.switchfit.testsystems.DecaySbml;
 
 /**
  * Forward sensitivities across events ({@link Simulator#simulateSensitivities}) against closed forms derived by
- * hand and against central differences of plain simulations.
+ * hand and against central differences of plain simulations, on the decay X' = -k X, X(0) = x0 of
+ * {@link DecaySbml} (k = 0.3, x0 = 2) with events added.
  *
  * <p>Tolerance of the closed-form checks, {@link #REL_CLOSED}: BDF at rtol 1e-10, atol 1e-14; the global error of
  * states and sensitivities may exceed the local tolerance by one to two orders of magnitude (common practice), the
@@ -37,57 +41,11 @@ class EventSensitivityTest {
     @TempDir
     Path dir;
 
-    private static final String TIME = "<csymbol encoding=\"text\" "
-            + "definitionURL=\"http://www.sbml.org/sbml/symbols/time\">time</csymbol>";
-
-    /** X' = -k X (species X in a unit compartment, amount = concentration), X(0) = a, plus extra parameters. */
-    private CompiledModel model(String params, String events) throws IOException {
-        String xml = """
-                <?xml version="1.0" encoding="UTF-8"?>
-                <sbml xmlns="http://www.sbml.org/sbml/level3/version2/core" level="3" version="2">
-                  <model id="m">
-                    <listOfCompartments><compartment id="c" size="1" constant="true" spatialDimensions="3"/>
-                    </listOfCompartments>
-                    <listOfSpecies><species id="X" compartment="c" initialConcentration="1"
-                      hasOnlySubstanceUnits="false" boundaryCondition="false" constant="false"/></listOfSpecies>
-                    <listOfParameters>
-                      <parameter id="a" value="2" constant="true"/>
-                      %s
-                    </listOfParameters>
-                    <listOfInitialAssignments>
-                      <initialAssignment symbol="X"><math xmlns="http://www.w3.org/1998/Math/MathML"><ci>a</ci>
-                      </math></initialAssignment>
-                    </listOfInitialAssignments>
-                    <listOfReactions>
-                      <reaction id="r" reversible="false">
-                        <listOfReactants><speciesReference species="X" stoichiometry="1" constant="true"/>
-                        </listOfReactants>
-                        <kineticLaw><math xmlns="http://www.w3.org/1998/Math/MathML">
-                          <apply><times/><ci>k</ci><ci>X</ci></apply></math></kineticLaw>
-                      </reaction>
-                    </listOfReactions>
-                    <listOfEvents>%s</listOfEvents>
-                  </model>
-                </sbml>
-                """.formatted(params, events);
+    /** Compiles SBML text (written to a file first, as users load models). */
+    private CompiledModel model(String xml) throws IOException {
         Path f = dir.resolve("m" + System.nanoTime() + ".xml");
         Files.writeString(f, xml);
         return ModelCompiler.compile(SbmlReader.read(f));
-    }
-
-    private static String event(String id, boolean fromTrigger, String trigger, String delay, String var,
-                                String value) {
-        return "<event id=\"" + id + "\" useValuesFromTriggerTime=\"" + fromTrigger + "\">"
-                + "<trigger initialValue=\"false\" persistent=\"true\"><math xmlns=\"http://www.w3.org/1998/Math/"
-                + "MathML\">" + trigger + "</math></trigger>"
-                + (delay == null ? "" : "<delay><math xmlns=\"http://www.w3.org/1998/Math/MathML\">" + delay
-                + "</math></delay>")
-                + "<listOfEventAssignments><eventAssignment variable=\"" + var + "\"><math xmlns=\"http://www.w3"
-                + ".org/1998/Math/MathML\">" + value + "</math></eventAssignment></listOfEventAssignments></event>";
-    }
-
-    private static String param(String id, double v, boolean constant) {
-        return "<parameter id=\"" + id + "\" value=\"" + v + "\" constant=\"" + constant + "\"/>";
     }
 
     /** States and sensitivities at output times, {@code s(r, c, i) = dy_i/dθ_c} at times[r]. */
@@ -197,18 +155,16 @@ class EventSensitivityTest {
 
     @Test
     void timeTriggeredBolusOnExponentialDecay() throws IOException {
-        // x' = -k x, x(0) = a; at t = t1: x += d. Derived by hand: for t > t1, x = a e^{-kt} + d e^{-k(t-t1)};
-        // dx/dk = -t a e^{-kt} - (t-t1) d e^{-k(t-t1)}, dx/da = e^{-kt}, dx/dd = e^{-k(t-t1)},
+        // x' = -k x, x(0) = x0; at t = t1: x += d. Derived by hand: for t > t1, x = x0 e^{-kt} + d e^{-k(t-t1)};
+        // dx/dk = -t x0 e^{-kt} - (t-t1) d e^{-k(t-t1)}, dx/dx0 = e^{-kt}, dx/dd = e^{-k(t-t1)},
         // dx/dt1 = k d e^{-k(t-t1)} (the bolus time is a parameter: τ = dt1/dθ from g = t - t1).
-        CompiledModel cm = model(param("k", 0.3, true) + param("d", 1.5, true) + param("t1", 2.0, true),
-                event("bolus", false, "<apply><geq/>" + TIME + "<ci>t1</ci></apply>", null, "X",
-                        "<apply><plus/><ci>X</ci><ci>d</ci></apply>"));
+        CompiledModel cm = model(DecaySbml.BOLUS);
         double[] pDecl = cm.parameterValues();
-        List<String> theta = List.of("k", "a", "d", "t1");
+        List<String> theta = List.of("k", "x0", "d", "t1");
         double[] times = {1.0, 3.0, 7.5};
-        Run run = sensitivities(cm, pDecl, theta, Map.of("a", "X"), times);
+        Run run = sensitivities(cm, pDecl, theta, Map.of("x0", "X"), times);
         double k = 0.3;
-        double a = 2;
+        double x0 = 2;
         double d = 1.5;
         double t1 = 2;
         int x = cm.form().stateIds().indexOf("X");
@@ -217,9 +173,9 @@ class EventSensitivityTest {
             double after = t > t1 ? 1 : 0;
             double e1 = Math.exp(-k * t);
             double e2 = after * Math.exp(-k * (t - t1));
-            assertRel(a * e1 + d * e2, run.y(r, x), REL_CLOSED, "x at " + t);
-            assertRel(-t * a * e1 - (t - t1) * d * e2, run.s(r, 0, x), REL_CLOSED, "dx/dk at " + t);
-            assertRel(e1, run.s(r, 1, x), REL_CLOSED, "dx/da at " + t);
+            assertRel(x0 * e1 + d * e2, run.y(r, x), REL_CLOSED, "x at " + t);
+            assertRel(-t * x0 * e1 - (t - t1) * d * e2, run.s(r, 0, x), REL_CLOSED, "dx/dk at " + t);
+            assertRel(e1, run.s(r, 1, x), REL_CLOSED, "dx/dx0 at " + t);
             assertEquals(e2, run.s(r, 2, x), REL_CLOSED * e1, "dx/dd at " + t);
             assertEquals(k * d * e2, run.s(r, 3, x), REL_CLOSED * e1, "dx/dt1 at " + t);
         }
@@ -229,38 +185,37 @@ class EventSensitivityTest {
     @ParameterizedTest
     @ValueSource(strings = {"bdf", "dormand-prince"})
     void stateTriggeredResetAtThreshold(String method) throws IOException {
-        // x' = -k x, x(0) = a; when x < c: x = x0. Derived by hand: first firing t1 = ln(a/c)/k, then
-        // x = x0 e^{-k(t-t1)}; second firing t2 = t1 + ln(x0/c)/k, then x = x0 e^{-k(t-t2)}.
-        // Between t1 and t2: dx/dk = -x t (since k dt1/dk = -t1), dx/da = x/a, dx/dc = -x/c, dx/dx0 = x/x0.
-        // After t2: dx/dk = -x t, dx/da = x/a, dx/dc = -2x/c, dx/dx0 = 2x/x0.
+        // x' = -k x, x(0) = x0; when x < c: x = xr. Derived by hand: first firing t1 = ln(x0/c)/k, then
+        // x = xr e^{-k(t-t1)}; second firing t2 = t1 + ln(xr/c)/k, then x = xr e^{-k(t-t2)}.
+        // Between t1 and t2: dx/dk = -x t (since k dt1/dk = -t1), dx/dx0 = x/x0, dx/dc = -x/c, dx/dxr = x/xr.
+        // After t2: dx/dk = -x t, dx/dx0 = x/x0, dx/dc = -2x/c, dx/dxr = 2x/xr.
         double k = 0.3;
-        double a = 2;
+        double x0 = 2;
         double c = 0.5;
-        double x0 = 1;
-        CompiledModel cm = model(param("k", k, true) + param("cth", c, true) + param("x0", x0, true),
-                event("reset", true, "<apply><lt/><ci>X</ci><ci>cth</ci></apply>", null, "X", "<ci>x0</ci>"));
+        double xr = 1;
+        CompiledModel cm = model(DecaySbml.RESET);
         double[] pDecl = cm.parameterValues();
-        List<String> theta = List.of("k", "a", "cth", "x0");
-        double t1 = Math.log(a / c) / k;
-        double t2 = t1 + Math.log(x0 / c) / k;
+        List<String> theta = List.of("k", "x0", "cth", "xr");
+        double t1 = Math.log(x0 / c) / k;
+        double t2 = t1 + Math.log(xr / c) / k;
         double[] times = {3.0, 5.0, 6.5, 8.0, 9.0};
         Integrator integrator = method.equals("bdf") ? BdfIntegrator.of(tight())
                 : new DormandPrinceIntegrator(tight());
-        Run run = sensitivities(cm, pDecl, theta, Map.of("a", "X"), times, integrator);
+        Run run = sensitivities(cm, pDecl, theta, Map.of("x0", "X"), times, integrator);
         int xi = cm.form().stateIds().indexOf("X");
         for (int r = 0; r < times.length; r++) {
             double t = times[r];
             double x;
             double[] ds;
             if (t < t1) {
-                x = a * Math.exp(-k * t);
-                ds = new double[] {-x * t, x / a, 0, 0};
+                x = x0 * Math.exp(-k * t);
+                ds = new double[] {-x * t, x / x0, 0, 0};
             } else if (t < t2) {
-                x = x0 * Math.exp(-k * (t - t1));
-                ds = new double[] {-x * t, x / a, -x / c, x / x0};
+                x = xr * Math.exp(-k * (t - t1));
+                ds = new double[] {-x * t, x / x0, -x / c, x / xr};
             } else {
-                x = x0 * Math.exp(-k * (t - t2));
-                ds = new double[] {-x * t, x / a, -2 * x / c, 2 * x / x0};
+                x = xr * Math.exp(-k * (t - t2));
+                ds = new double[] {-x * t, x / x0, -2 * x / c, 2 * x / xr};
             }
             assertRel(x, run.y(r, xi), REL_CLOSED, "x at " + t);
             for (int col = 0; col < 4; col++) {
@@ -275,52 +230,51 @@ class EventSensitivityTest {
     void strictTriggerFiresAtTheLocatedRootInPlainSimulation() throws IOException {
         // Regression (x < c located by BDF at rtol 1e-10 landed on x = c exactly, where the strict trigger is still
         // false, and the reset waited for the next output time). Closed form as in stateTriggeredResetAtThreshold:
-        // t1 = ln(a/c)/k = 4.6210, x(4.7) = x0 e^{-k(4.7 - t1)}.
+        // t1 = ln(x0/c)/k = 4.6210, x(4.7) = xr e^{-k(4.7 - t1)}.
         double k = 0.3;
-        double a = 2;
+        double x0 = 2;
         double c = 0.5;
-        double x0 = 1;
-        CompiledModel cm = model(param("k", k, true) + param("cth", c, true) + param("x0", x0, true),
-                event("reset", true, "<apply><lt/><ci>X</ci><ci>cth</ci></apply>", null, "X", "<ci>x0</ci>"));
+        double xr = 1;
+        CompiledModel cm = model(DecaySbml.RESET);
         double[] times = {4.5, 4.7};
         Trajectory tr = new Simulator(cm, BdfIntegrator.of(tight())).simulate(times, cm.parameterValues(),
                 ModelOutputs.of(cm, List.of("X")));
-        double t1 = Math.log(a / c) / k;
-        assertRel(a * Math.exp(-k * 4.5), tr.value(0, 0), REL_CLOSED, "x(4.5)");
-        assertRel(x0 * Math.exp(-k * (4.7 - t1)), tr.value(1, 0), REL_CLOSED, "x(4.7)");
+        double t1 = Math.log(x0 / c) / k;
+        assertRel(x0 * Math.exp(-k * 4.5), tr.value(0, 0), REL_CLOSED, "x(4.5)");
+        assertRel(xr * Math.exp(-k * (4.7 - t1)), tr.value(1, 0), REL_CLOSED, "x(4.7)");
     }
 
     @Test
     void delayedResetMovesWithTriggerTimeAndDelay() throws IOException {
-        // x' = -k x, x(0) = a; trigger x < c fires at ts = ln(a/c)/k, executes x = x0 at te = ts + delta.
-        // Derived by hand, for te < t < next firing: x = x0 e^{-k(t-te)}; dx/dk = -x (t - delta),
-        // dx/ddelta = k x, dx/dc = -x/c, dx/da = x/a, dx/dx0 = x/x0. Before te (t > ts): x = a e^{-kt} unchanged.
+        // x' = -k x, x(0) = x0; trigger x < c fires at ts = ln(x0/c)/k, executes x = xr at te = ts + delta.
+        // Derived by hand, for te < t < next firing: x = xr e^{-k(t-te)}; dx/dk = -x (t - delta),
+        // dx/ddelta = k x, dx/dc = -x/c, dx/dx0 = x/x0, dx/dxr = x/xr. Before te (t > ts): x = x0 e^{-kt} unchanged.
         double k = 0.3;
-        double a = 2;
+        double x0 = 2;
         double c = 0.5;
-        double x0 = 1;
+        double xr = 1;
         double delta = 0.7;
-        CompiledModel cm = model(param("k", k, true) + param("cth", c, true) + param("x0", x0, true)
-                        + param("delta", delta, true),
-                event("reset", false, "<apply><lt/><ci>X</ci><ci>cth</ci></apply>", "<ci>delta</ci>", "X",
-                        "<ci>x0</ci>"));
+        CompiledModel cm = model(DecaySbml.withEvents(parameter("cth", c, true) + parameter("xr", xr, true)
+                        + parameter("delta", delta, true),
+                DecaySbml.event("reset", false, "<apply><lt/><ci>X</ci><ci>cth</ci></apply>", "<ci>delta</ci>", "X",
+                        "<ci>xr</ci>")));
         double[] pDecl = cm.parameterValues();
-        List<String> theta = List.of("k", "a", "cth", "x0", "delta");
-        double ts = Math.log(a / c) / k;
+        List<String> theta = List.of("k", "x0", "cth", "xr", "delta");
+        double ts = Math.log(x0 / c) / k;
         double te = ts + delta;
         double[] times = {5.0, 5.5, 6.5};
-        assertTrue(times[0] > ts && times[0] < te && times[1] > te && times[2] < te + Math.log(x0 / c) / k);
-        Run run = sensitivities(cm, pDecl, theta, Map.of("a", "X"), times);
+        assertTrue(times[0] > ts && times[0] < te && times[1] > te && times[2] < te + Math.log(xr / c) / k);
+        Run run = sensitivities(cm, pDecl, theta, Map.of("x0", "X"), times);
         int xi = cm.form().stateIds().indexOf("X");
-        double xb = a * Math.exp(-k * times[0]);
-        double[] before = {-xb * times[0], xb / a, 0, 0, 0};
+        double xb = x0 * Math.exp(-k * times[0]);
+        double[] before = {-xb * times[0], xb / x0, 0, 0, 0};
         for (int col = 0; col < 5; col++) {
             assertEquals(before[col], run.s(0, col, xi), REL_CLOSED * xb, "before execution, d/d" + theta.get(col));
         }
         for (int r = 1; r < times.length; r++) {
             double t = times[r];
-            double x = x0 * Math.exp(-k * (t - te));
-            double[] ds = {-x * (t - delta), x / a, -x / c, x / x0, k * x};
+            double x = xr * Math.exp(-k * (t - te));
+            double[] ds = {-x * (t - delta), x / x0, -x / c, x / xr, k * x};
             assertRel(x, run.y(r, xi), REL_CLOSED, "x at " + t);
             for (int col = 0; col < 5; col++) {
                 assertRel(ds[col], run.s(r, col, xi), REL_CLOSED, "dx/d" + theta.get(col) + " at " + t);
@@ -332,14 +286,15 @@ class EventSensitivityTest {
     @Test
     void eventAssignedRateConstantBecomesStateLike() throws IOException {
         // k is assigned by an event (so it is a state with k' = 0): x' = -k x, k(0) = k1, at t = t1: k = k2.
-        // Derived by hand, t > t1: x = a exp(-k1 t1 - k2 (t - t1)); dx/dk1 = -t1 x, dx/dk2 = -(t - t1) x,
+        // Derived by hand, t > t1: x = x0 exp(-k1 t1 - k2 (t - t1)); dx/dk1 = -t1 x, dx/dk2 = -(t - t1) x,
         // dx/dt1 = (k2 - k1) x; the state k has dk/dk2 = 1 after t1 and dk/dk1 = 1 before.
         double k1 = 0.3;
         double k2 = 0.8;
         double t1 = 1.5;
-        double a = 2;
-        CompiledModel cm = model(param("k", k1, false) + param("k2", k2, true) + param("t1", t1, true),
-                event("switch", false, "<apply><geq/>" + TIME + "<ci>t1</ci></apply>", null, "k", "<ci>k2</ci>"));
+        double x0 = 2;
+        CompiledModel cm = model(DecaySbml.withEvents(parameter("k2", k2, true) + parameter("t1", t1, true),
+                DecaySbml.event("switch", false, "<apply><geq/>" + TIME + "<ci>t1</ci></apply>", null, "k",
+                        "<ci>k2</ci>"), false));
         double[] pDecl = cm.parameterValues();
         List<String> theta = List.of("k", "k2", "t1");
         double[] times = {1.0, 2.0, 4.0};
@@ -350,7 +305,7 @@ class EventSensitivityTest {
         for (int r = 0; r < times.length; r++) {
             double t = times[r];
             boolean after = t > t1;
-            double x = after ? a * Math.exp(-k1 * t1 - k2 * (t - t1)) : a * Math.exp(-k1 * t);
+            double x = after ? x0 * Math.exp(-k1 * t1 - k2 * (t - t1)) : x0 * Math.exp(-k1 * t);
             double[] ds = after ? new double[] {-t1 * x, -(t - t1) * x, (k2 - k1) * x} : new double[] {-t * x, 0, 0};
             assertRel(x, run.y(r, xi), REL_CLOSED, "x at " + t);
             for (int col = 0; col < 3; col++) {
@@ -366,26 +321,28 @@ class EventSensitivityTest {
     void simultaneousAndCascadedEvents() throws IOException {
         // Three events at one instant t1: "bolus" (time >= t1: x += d), "copy" (time >= t1, values from the
         // trigger time: y = x, the pre-bolus value) and "cascade" (x > thr, made true by the bolus: z = x, the
-        // post-bolus value). Derived by hand: y = a e^{-k t1}, z = a e^{-k t1} + d for t > t1, so
-        // dy/dk = -t1 y, dy/dt1 = -k y, dy/dd = 0, dy/da = e^{-k t1}; dz/dk = -t1 y, dz/dt1 = -k y, dz/dd = 1,
-        // dz/da = e^{-k t1}.
+        // post-bolus value). Derived by hand: y = x0 e^{-k t1}, z = x0 e^{-k t1} + d for t > t1, so
+        // dy/dk = -t1 y, dy/dt1 = -k y, dy/dd = 0, dy/dx0 = e^{-k t1}; dz/dk = -t1 y, dz/dt1 = -k y, dz/dd = 1,
+        // dz/dx0 = e^{-k t1}.
         double k = 0.3;
-        double a = 2;
+        double x0 = 2;
         double d = 1.5;
         double t1 = 2;
-        CompiledModel cm = model(param("k", k, true) + param("d", d, true) + param("t1", t1, true)
-                        + param("thr", 2.5, true) + param("Y", 0, false) + param("Z", 0, false),
-                event("bolus", false, "<apply><geq/>" + TIME + "<ci>t1</ci></apply>", null, "X",
+        CompiledModel cm = model(DecaySbml.withEvents(parameter("d", d, true) + parameter("t1", t1, true)
+                        + parameter("thr", 2.5, true) + parameter("Y", 0, false) + parameter("Z", 0, false),
+                DecaySbml.event("bolus", false, "<apply><geq/>" + TIME + "<ci>t1</ci></apply>", null, "X",
                         "<apply><plus/><ci>X</ci><ci>d</ci></apply>")
-                + event("copy", true, "<apply><geq/>" + TIME + "<ci>t1</ci></apply>", null, "Y", "<ci>X</ci>")
-                + event("cascade", false, "<apply><gt/><ci>X</ci><ci>thr</ci></apply>", null, "Z", "<ci>X</ci>"));
+                + DecaySbml.event("copy", true, "<apply><geq/>" + TIME + "<ci>t1</ci></apply>", null, "Y",
+                        "<ci>X</ci>")
+                + DecaySbml.event("cascade", false, "<apply><gt/><ci>X</ci><ci>thr</ci></apply>", null, "Z",
+                        "<ci>X</ci>")));
         double[] pDecl = cm.parameterValues();
-        List<String> theta = List.of("k", "a", "d", "t1");
+        List<String> theta = List.of("k", "x0", "d", "t1");
         double[] times = {1.0, 3.0};
-        Run run = sensitivities(cm, pDecl, theta, Map.of("a", "X"), times);
+        Run run = sensitivities(cm, pDecl, theta, Map.of("x0", "X"), times);
         int yi = cm.form().stateIds().indexOf("Y");
         int zi = cm.form().stateIds().indexOf("Z");
-        double y = a * Math.exp(-k * t1);
+        double y = x0 * Math.exp(-k * t1);
         assertRel(y, run.y(1, yi), REL_CLOSED, "y");
         assertRel(y + d, run.y(1, zi), REL_CLOSED, "z");
         double[] dy = {-t1 * y, Math.exp(-k * t1), 0, -k * y};

@@ -1,9 +1,9 @@
 package org.switchfit.report;
 
 import java.io.IOException;
-import java.nio.file.Files;
 import java.nio.file.Path;
 import org.switchfit.testsystems.DecaySbml;
+import org.switchfit.testsystems.PetabFiles;
 
 /**
  * A small PEtab problem for tests: first-order decay X' = -k X, X(0) = x0 (solution x0 exp(-k t)), observables
@@ -19,26 +19,19 @@ public final class DecayProblem {
 
     /** Writes the problem files into {@code dir}; returns the YAML path. */
     public static Path write(Path dir) throws IOException {
-        Files.createDirectories(dir);
-        Files.writeString(dir.resolve("model.xml"), MODEL);
-        Files.writeString(dir.resolve("parameters.tsv"), "parameterId\tparameterScale\tlowerBound\tupperBound\t"
-                + "nominalValue\testimate\nk\tlog10\t1e-3\t10\t0.2\t1\nx0\tlog10\t1e-2\t100\t1.0\t1\n");
-        Files.writeString(dir.resolve("conditions.tsv"), "conditionId\tk\nc0\tk\nfast\t0.9\n");
-        Files.writeString(dir.resolve("observables.tsv"), "observableId\tobservableFormula\tnoiseFormula\t"
-                + "observableTransformation\tnoiseDistribution\nlinObs\t2 * X\t0.1\tlin\tnormal\n"
-                + "logObs\tX\t0.2\tlog\tnormal\n");
-        StringBuilder m = new StringBuilder("observableId\tsimulationConditionId\tmeasurement\ttime\n");
+        StringBuilder m = new StringBuilder("observableId | simulationConditionId | measurement | time");
         double[] t = {0, 1, 2, 4, 8};
         for (double ti : t) {
-            m.append("linObs\tc0\t").append(4 * Math.exp(-0.3 * ti) + 0.01).append('\t').append(ti).append('\n');
-            m.append("logObs\tc0\t").append(2 * Math.exp(-0.3 * ti)).append('\t').append(ti).append('\n');
+            m.append("\nlinObs | c0 | ").append(4 * Math.exp(-0.3 * ti) + 0.01).append(" | ").append(ti);
+            m.append("\nlogObs | c0 | ").append(2 * Math.exp(-0.3 * ti)).append(" | ").append(ti);
         }
-        m.append("linObs\tfast\t1.5\t3\n");
-        Files.writeString(dir.resolve("measurements.tsv"), m.toString());
-        Path yaml = dir.resolve("problem.yaml");
-        Files.writeString(yaml, "format_version: 1\nparameter_file: parameters.tsv\nproblems:\n"
-                + "  - sbml_files: [model.xml]\n    condition_files: [conditions.tsv]\n"
-                + "    measurement_files: [measurements.tsv]\n    observable_files: [observables.tsv]\n");
-        return yaml;
+        m.append("\nlinObs | fast | 1.5 | 3");
+        return PetabFiles.write(dir, MODEL,
+                "parameterId | parameterScale | lowerBound | upperBound | nominalValue | estimate\n"
+                        + "k | log10 | 1e-3 | 10 | 0.2 | 1\nx0 | log10 | 1e-2 | 100 | 1.0 | 1",
+                "conditionId | k\nc0 | k\nfast | 0.9",
+                "observableId | observableFormula | noiseFormula | observableTransformation | noiseDistribution\n"
+                        + "linObs | 2 * X | 0.1 | lin | normal\nlogObs | X | 0.2 | log | normal",
+                m.toString());
     }
 }

@@ -27,7 +27,8 @@ import org.switchfit.ode.SolverStats;
  * (safety factors 6, 6, 10; no change below a ratio of 1.5; order changes at most once per q+1 steps).
  *
  * <p><b>Iteration matrix.</b> M = I - gamma J is factored with the {@link LuSolvers} choice for the structure of
- * {@link OdeSystem#jacobianPattern()} (sparse LU for large sparse systems). M is refactored when gamma changed by
+ * {@link OdeSystem#jacobianPattern()} (sparse LU for large sparse systems); the dense LU counts only exactly zero
+ * pivots as singular (see {@code SystemStructure#newIterationSolver}). M is refactored when gamma changed by
  * more than 30 %, every 20 steps, or after a convergence failure; J itself is re-evaluated every 50 steps or after
  * a failure with a stale J (and every step when sensitivities are on, see below). Between refactorisations the
  * Newton correction is scaled by 2 / (1 + gamma / gamma_M) to compensate for the stale gamma.
@@ -233,7 +234,7 @@ public final class BdfSession implements IntegrationSession {
         SystemStructure structure = SystemStructure.of(sys);
         this.rowStart = structure.rowStart;
         this.colIndex = structure.colIndex;
-        this.lu = structure.plan.newSolver();
+        this.lu = structure.newIterationSolver();
         this.roots = roots;
         this.nr = roots == null ? 0 : roots.count();
         this.rootLocator = nr > 0 ? new RootLocator(this, nr, n) : null;

@@ -1,0 +1,536 @@
+package org.switchfit.objective;
+
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+import org.switchfit.expr.Expr;
+import org.switchfit.expr.Interpreter;
+import org.switchfit.expr.Op;
+import org.switchfit.model.OdeForm;
+import org.switchfit.ode.CompiledModel;
+import org.switchfit.ode.IntegrationException;
+import org.switchfit.ode.ModelOutputs;
+import org.switchfit.ode.Simulator;
+import org.switchfit.ode.SolverSettings;
+import org.switchfit.ode.Trajectory;
+import org.switchfit.ode.bdf.BdfIntegrator;
+import org.switchfit.ode.bdf.BdfSession;
+import org.switchfit.problem.Condition;
+import org.switchfit.problem.EstimationProblem;
+import org.switchfit.problem.Measurement;
+import org.switchfit.problem.SimulationExperiment;
+import org.switchfit.problem.ValueSource;
+import org.switchfit.util.SourceLocation;
+import org.switchfit.util.UserInputException;
+
+/**
+ * One {@link SimulationExperiment} simulated with forward sensitivities dy/dθ: the path shared by the residuals
+ * ({@link ExperimentBlock}) and the predictions ({@link ObservablePrediction}).
+ *
+ * <p>Without events: initial sensitivities from the derivative of the initial block (initial assignments) times
+ * dp/dθ; optional pre-equilibration by integrating states and sensitivities until the right-hand side is
+ * negligible ({@link SteadyState}), then the simulation condition from time 0 with its re-initialised species;
+ * BDF with staggered sensitivities ({@link BdfSession}) through a {@link ThetaSystem}, stopping and restarting at
+ * the switch times of piecewise inputs. With events: {@link Simulator} with SBML event semantics, the
+ * sensitivities carried across each event by its jump conditions ({@link Simulator#simulateSensitivities}); models
+ * with events and pre-equilibration are refused ({@link UserInputException}); times of +inf (steady state)
+ * are not supported with events (callers refuse them), and the sensitivities of models with {@code delay()}
+ * are not available (callers check {@link #exactEventSensitivities}).
+ *
+ * <p>Sensitivity columns: column c is the derivative by θ_{cols[c]}. The residuals use the θ that enter the model
+ * through the conditions; the predictions use every θ (their extra columns stay zero but enter the denominator of
+ * the BDF's RMS error norm, so the choice is kept as it was when their values were measured).
+ *
+ * <p>Immutable and thread-safe; per-thread arrays live in a {@link State} ({@link #newState()}, one per thread).
+ */
+final class ExperimentSimulation {
+    private final EstimationProblem problem;
+    private final CompiledModel model;
+    private final InitialDerivative initD;
+    private final Condition sim;
+    private final Condition pre;
+    private final int n;
+    private final int m;
+    private final int np;
+    private final int[] cols;
+    private final int[] colOf;
+    private final int[][] derivRows;
+    private final int[][] derivCols;
+    private final int maxDeriv;
+    private final BdfIntegrator integrator;
+    private final SteadyState steady;
+    private final List<Expr> timeSwitches;
+    private final Simulator simulator;
+    private final ModelOutputs stateOutputs;
+
+    /** Receives the state at each requested time (the state is in the {@link State} given to {@link #run}). */
+    @FunctionalInterface
+    interface Sample {
+        /**
+         * @param index index into the requested times
+         * @param t     the time the state belongs to
+         */
+        void at(int index, double t);
+    }
+
+    /**
+     * @param allColumns every θ is a sensitivity column (else only the θ set by the experiment's conditions)
+     * @param where      location named when a model with events has pre-equilibration
+     * @throws UserInputException for a model with events and pre-equilibration
+     */
+    ExperimentSimulation(EstimationProblem problem, int experiment, InitialDerivative initD, SolverSettings settings,
+                         SteadyState steady, boolean allColumns, SourceLocation where) {
+        this.problem = problem;
+        this.model = problem.compiled();
+        this.initD = initD;
+        SimulationExperiment exp = problem.experiments().get(experiment);
+        this.sim = problem.conditions().get(exp.condition());
+        this.pre = exp.preequilibration() >= 0 ? problem.conditions().get(exp.preequilibration()) : null;
+        this.n = model.stateCount();
+        this.m = model.parameterCount();
+        this.np = problem.parameterCount();
+        this.integrator = BdfIntegrator.of(settings);
+        this.steady = steady;
+        boolean[] active = new boolean[np];
+        if (allColumns) {
+            Arrays.fill(active, true);
+        }
+        for (Condition c : pre == null ? List.of(sim) : List.of(sim, pre)) {
+            for (int i = 0; i < c.targetCount(); i++) {
+                active[c.targetTheta(i)] = true;
+            }
+        }
+        colOf = new int[np];
+        Arrays.fill(colOf, -1);
+        int nc = 0;
+        for (int j = 0; j < np; j++) {
+            if (active[j]) {
+                colOf[j] = nc++;
+            }
+        }
+        cols = new int[nc];
+        for (int j = 0; j < np; j++) {
+            if (colOf[j] >= 0) {
+                cols[colOf[j]] = j;
+            }
+        }
+        int no = problem.observables().size();
+        derivRows = new int[no][];
+        derivCols = new int[no][];
+        int max = 0;
+        for (int o = 0; o < no; o++) {
+            derivRows[o] = problem.observableDerivativeRows(o);
+            derivCols[o] = problem.observableDerivativeCols(o);
+            max = Math.max(max, problem.observableDerivativeCount(o));
+        }
+        maxDeriv = max;
+        timeSwitches = timeSwitches(model);
+        if (problem.hasEvents() || !allColumns && switchesOnTheSimulatorPath(exp)) {
+            if (pre != null) {
+                throw new UserInputException(where, "pre-equilibration of a model with events is not supported; "
+                        + "remove the preequilibrationConditionId");
+            }
+            List<String> names = new ArrayList<>();
+            OdeForm f = model.form();
+            for (int i = 0; i < n; i++) {
+                OdeForm.StateKind k = f.stateKind(i);
+                String id = f.stateIds().get(i);
+                names.add(k == OdeForm.StateKind.SPECIES_AMOUNT ? "amount(" + id + ")"
+                        : k == OdeForm.StateKind.SPECIES_CONCENTRATION ? "concentration(" + id + ")" : id);
+            }
+            stateOutputs = ModelOutputs.of(model, names);
+            simulator = new Simulator(model, integrator);
+        } else {
+            stateOutputs = null;
+            simulator = null;
+        }
+    }
+
+    /**
+     * Whether the residuals of a model without events but with right-hand-side switches (piecewise conditions on
+     * time or states, {@link CompiledModel#rhsSwitchCount}) run on the simulator path, whose sensitivities take the
+     * jump of a θ-dependent switching time: yes unless the experiment needs pre-equilibration or has a steady-state
+     * measurement, which that path lacks. Otherwise, and for predictions, the direct path stops at the time-only
+     * switches it can compute in advance ({@link #timeSwitches}) without the jump.
+     */
+    private boolean switchesOnTheSimulatorPath(SimulationExperiment exp) {
+        if (model.rhsSwitchCount() == 0 || pre != null) {
+            return false;
+        }
+        for (int row : exp.measurements()) {
+            if (problem.measurements().get(row).time() == Double.POSITIVE_INFINITY) {
+                return false;
+            }
+        }
+        return true;
+    }
+
+    /**
+     * Whether {@link #run} goes through the {@link Simulator} (SBML event semantics, stops at right-hand-side
+     * switches): models with events, and residuals of models with such switches ({@link
+     * #switchesOnTheSimulatorPath}).
+     */
+    boolean hasEvents() {
+        return simulator != null;
+    }
+
+    /**
+     * Whether sensitivities across the events are available: the model has no {@code delay()} in its mathematics
+     * (the history of the sensitivities is not kept) and no time is negative.
+     */
+    boolean exactEventSensitivities(double[] times) {
+        if (!model.form().delaySlots().isEmpty()) {
+            return false;
+        }
+        for (double t : times) {
+            if (t < 0) {
+                return false;
+            }
+        }
+        return true;
+    }
+
+    /** Number of sensitivity columns. */
+    int columnCount() {
+        return cols.length;
+    }
+
+    /** Per-thread arrays: the state at the current sample and scratch for the observable formulas. */
+    final class State {
+        final int nc = cols.length;
+        /** State y at the sample (n). */
+        final double[] y = new double[n];
+        /** Effective parameters p_eff (m, then nc unused slots of the {@link ThetaSystem}). */
+        final double[] pEff = new double[m + nc];
+        /** Sensitivities {@code s[c * n + i] = dy_i/dθ_{cols[c]}} at the sample (when requested). */
+        final double[] s = new double[nc * n];
+        /** {@code dPeff[k * nc + c] = dp_eff,k/dθ_{cols[c]}} (when requested). */
+        final double[] dPeff = new double[m * Math.max(nc, 1)];
+        /** Parameter vector of the observable formulas (p_eff, globals, placeholders). */
+        final double[] q = new double[problem.qLength()];
+        /** Observable value and noise spread. */
+        final double[] out = new double[2];
+        final double[] deriv = new double[maxDeriv];
+        private final double[] yAux = new double[n];
+        private final double[] pDecl = new double[m];
+        private final double[] pEffPre = new double[m + nc];
+        private final double[] sAux = new double[nc * n];
+        private final double[] dPeffPre = new double[m * Math.max(nc, 1)];
+        private final double[] initVals = new double[initD == null ? 0 : initD.size()];
+        private final int[] kCol = new int[m];
+        private final double[] kFac = new double[m];
+        private final ThetaSystem sys = new ThetaSystem(model, nc);
+        private final int[] sensParams = new int[nc];
+
+        private State() {
+            Arrays.fill(kCol, -1);
+            for (int c = 0; c < nc; c++) {
+                sensParams[c] = m + c;
+            }
+        }
+    }
+
+    /** A new per-thread state. */
+    State newState() {
+        return new State();
+    }
+
+    /**
+     * Simulates the experiment and calls {@code sample} at each time in order, with the state (and, when
+     * {@code sens}, the sensitivities and dp_eff/dθ) in {@code st}. Times are taken in the order given; a time not
+     * after the current one is sampled at the current time (times of a measurement block are sorted).
+     *
+     * @param linear  θ on the linear scale (read)
+     * @param dLinear d(linear)/dθ per θ (read when {@code sens})
+     * @param sens    integrate sensitivities
+     * @throws IntegrationException when the integration fails or no steady state is reached
+     */
+    void run(State st, double[] linear, double[] dLinear, boolean sens, double[] times, Sample sample) {
+        if (simulator != null) {
+            runWithEvents(st, linear, dLinear, sens, times, sample);
+            return;
+        }
+        int nc = st.nc;
+        if (pre != null) {
+            initial(st, pre, linear, dLinear, sens, st.y, st.pEffPre, st.s, st.dPeffPre);
+            if (sens) {
+                st.sys.setColumns(st.dPeffPre);
+            }
+            BdfSession ses = integrator.start(st.sys, 0.0, st.y, st.pEffPre, null, sens ? st.sensParams : null,
+                    sens ? st.s : null);
+            steady.run(ses, model, st.pEffPre, st.y, sens ? st.s : null, "pre-equilibration condition '"
+                    + pre.id() + "'");
+            initial(st, sim, linear, dLinear, sens, st.yAux, st.pEff, st.sAux, st.dPeff);
+            for (int i : sim.reinit()) {
+                st.y[i] = st.yAux[i];
+                if (sens) {
+                    for (int c = 0; c < nc; c++) {
+                        st.s[c * n + i] = st.sAux[c * n + i];
+                    }
+                }
+            }
+        } else {
+            initial(st, sim, linear, dLinear, sens, st.y, st.pEff, st.s, st.dPeff);
+        }
+        if (sens) {
+            st.sys.setColumns(st.dPeff);
+        }
+        BdfSession ses = null;
+        double[] breaks = null;
+        int nextBreak = 0;
+        double t = 0.0;
+        for (int i = 0; i < times.length; i++) {
+            double tm = times[i];
+            if (tm > t) {
+                if (ses == null) {
+                    ses = integrator.start(st.sys, t, st.y, st.pEff, null, sens ? st.sensParams : null,
+                            sens ? st.s : null);
+                    breaks = breakpoints(st.pEff, st.y);
+                }
+                if (tm == Double.POSITIVE_INFINITY) {
+                    steady.run(ses, model, st.pEff, st.y, sens ? st.s : null, "condition '" + sim.id() + "'");
+                } else {
+                    nextBreak = advanceTo(ses, tm, breaks, nextBreak, st.y, sens ? st.s : null);
+                }
+                t = tm;
+            }
+            sample.at(i, t);
+        }
+    }
+
+    /**
+     * Models with events: sensitivities across the events when {@code sens} (requires
+     * {@link #exactEventSensitivities}), else the states alone by {@link Simulator#simulate}.
+     */
+    private void runWithEvents(State st, double[] linear, double[] dLinear, boolean sens, double[] times,
+                               Sample sample) {
+        initial(st, sim, linear, dLinear, sens, st.y, st.pEff, st.s, st.dPeff);
+        if (!sens) {
+            Trajectory tr = simulator.simulate(times, st.pDecl, stateOutputs);
+            for (int i = 0; i < times.length; i++) {
+                for (int k = 0; k < n; k++) {
+                    st.y[k] = tr.value(i, k);
+                }
+                sample.at(i, times[i]);
+            }
+            return;
+        }
+        int nc = st.nc;
+        st.sys.setColumns(st.dPeff);
+        double[] ys = new double[times.length * n];
+        double[] ss = new double[times.length * nc * n];
+        simulator.simulateSensitivities(times, st.sys, 0.0, st.y, st.pEff, st.sensParams, st.s, st.dPeff, ys, ss);
+        for (int i = 0; i < times.length; i++) {
+            System.arraycopy(ys, i * n, st.y, 0, n);
+            System.arraycopy(ss, i * nc * n, st.s, 0, nc * n);
+            sample.at(i, times[i]);
+        }
+    }
+
+    /**
+     * Initial state, effective parameters and (when {@code sens}) their θ-derivatives for condition c:
+     * y0 into {@code y}, p_eff into {@code pEff[0..m)}, dy0/dθ into {@code s} (column-major by θ column),
+     * dp_eff/dθ into {@code dPeff[k * nc + c]}.
+     */
+    private void initial(State st, Condition c, double[] linear, double[] dLinear, boolean sens, double[] y,
+                         double[] pEff, double[] s, double[] dPeff) {
+        c.declared(linear, st.pDecl);
+        double[] pe = new double[m];
+        model.initialValues(0.0, st.pDecl, y, pe);
+        System.arraycopy(pe, 0, pEff, 0, m);
+        if (!sens) {
+            return;
+        }
+        int nc = st.nc;
+        Arrays.fill(s, 0, nc * n, 0.0);
+        Arrays.fill(dPeff, 0, m * nc, 0.0);
+        if (nc == 0) {
+            return;
+        }
+        for (int i = 0; i < c.targetCount(); i++) {
+            int j = c.targetTheta(i);
+            st.kCol[c.target(i)] = colOf[j];
+            st.kFac[c.target(i)] = dLinear[j];
+        }
+        initD.evaluate(y, st.pDecl, st.initVals);
+        int[] r = initD.rows;
+        int[] k = initD.cols;
+        for (int e = 0; e < r.length; e++) {
+            int col = st.kCol[k[e]];
+            if (col < 0) {
+                continue;
+            }
+            double v = st.initVals[e] * st.kFac[k[e]];
+            if (r[e] < n) {
+                s[col * n + r[e]] += v;
+            } else {
+                dPeff[(r[e] - n) * nc + col] += v;
+            }
+        }
+        for (int i = 0; i < c.targetCount(); i++) {
+            st.kCol[c.target(i)] = -1;
+        }
+    }
+
+    /**
+     * Fills {@code st.q}: p_eff, then the globals and the placeholders of measurement {@code me} (θ-valued ones
+     * from {@code linear}; NaN when {@code linear} is null).
+     */
+    void fillQ(State st, Measurement me, double[] linear) {
+        double[] q = st.q;
+        System.arraycopy(st.pEff, 0, q, 0, m);
+        fillPlaceholders(problem, q, me, linear);
+    }
+
+    /** Fills q[m..) (globals and placeholders) for a row; the p_eff part is untouched. */
+    static void fillPlaceholders(EstimationProblem problem, double[] q, Measurement me, double[] linear) {
+        int m = problem.compiled().parameterCount();
+        List<ValueSource> g = problem.globalSources();
+        for (int i = 0; i < g.size(); i++) {
+            q[m + i] = value(g.get(i), linear);
+        }
+        int oOff = problem.obsPlaceholderOffset();
+        for (int i = 0; i < me.obsParameters().size(); i++) {
+            q[oOff + i] = value(me.obsParameters().get(i), linear);
+        }
+        int nOff = problem.noisePlaceholderOffset();
+        for (int i = 0; i < me.noiseParameters().size(); i++) {
+            q[nOff + i] = value(me.noiseParameters().get(i), linear);
+        }
+    }
+
+    private static double value(ValueSource s, double[] linear) {
+        if (s.isTheta()) {
+            return linear == null ? Double.NaN : linear[s.thetaIndex()];
+        }
+        return s.constant();
+    }
+
+    /**
+     * Adds dh/dθ into {@code gradH} and dσ/dθ into {@code gradS} (skipped when null) for observable o of
+     * measurement {@code me} at the current sample ({@link #fillQ} called first): ∂/∂y · dy/dθ (when
+     * {@code sens}) + ∂/∂p_eff · dp_eff/dθ (when {@code sens}) + ∂/∂(globals, placeholders) · d(linear)/dθ.
+     */
+    void chain(State st, Measurement me, int o, double t, double[] dLinear, boolean sens, double[] gradH,
+               double[] gradS) {
+        int cnt = problem.observableDerivativeCount(o);
+        problem.evaluateObservableDerivatives(o, t, st.y, st.q, st.deriv);
+        int[] dr = derivRows[o];
+        int[] dc = derivCols[o];
+        int nc = st.nc;
+        int gOff = m;
+        int oOff = problem.obsPlaceholderOffset();
+        int nOff = problem.noisePlaceholderOffset();
+        for (int e = 0; e < cnt; e++) {
+            double v = st.deriv[e];
+            if (v == 0.0) {
+                continue;
+            }
+            double[] g = dr[e] == 0 ? gradH : gradS;
+            if (g == null) {
+                continue;
+            }
+            int var = dc[e];
+            if (var < n) {
+                if (sens) {
+                    for (int c = 0; c < nc; c++) {
+                        g[cols[c]] += v * st.s[c * n + var];
+                    }
+                }
+                continue;
+            }
+            int k = var - n;
+            if (k < gOff) {
+                if (sens) {
+                    for (int c = 0; c < nc; c++) {
+                        g[cols[c]] += v * st.dPeff[k * nc + c];
+                    }
+                }
+                continue;
+            }
+            ValueSource src;
+            if (k < oOff) {
+                src = problem.globalSources().get(k - gOff);
+            } else if (k < nOff) {
+                src = me.obsParameters().get(k - oOff);
+            } else {
+                src = me.noiseParameters().get(k - nOff);
+            }
+            if (src.isTheta()) {
+                g[src.thetaIndex()] += v * dLinear[src.thetaIndex()];
+            }
+        }
+    }
+
+    /**
+     * Comparisons {@code a op b} of the model whose difference {@code a - b} involves time but no state or runtime
+     * local: they switch the right-hand side at a time computable in advance (piecewise inputs). The integration
+     * stops and restarts there instead of stepping across the discontinuity. Sensitivities are carried across
+     * unchanged, which is exact when the switch time does not depend on θ (partial otherwise: the jump term of a
+     * θ-dependent switch time is not added). Residuals of experiments without pre-equilibration or steady-state
+     * measurements run on the simulator path instead, which adds the jump ({@link #switchesOnTheSimulatorPath}).
+     */
+    private static List<Expr> timeSwitches(CompiledModel model) {
+        List<Expr> out = new ArrayList<>();
+        org.switchfit.expr.Block b = model.form().runtime();
+        List<Expr> all = new ArrayList<>(b.locals());
+        all.addAll(b.outputs());
+        for (Expr e : all) {
+            e.forEach(x -> {
+                if (x.op().isRelational() && x.op() != Op.EQ && x.op() != Op.NEQ && x.argCount() == 2) {
+                    Expr g = Expr.sub(x.arg(0), x.arg(1));
+                    boolean time = g.contains(l -> l.op() == Op.TIME);
+                    boolean other = g.contains(l -> l.op() == Op.STATE || l.op() == Op.LOCAL);
+                    if (time && !other && !out.contains(g)) {
+                        out.add(g);
+                    }
+                }
+            });
+        }
+        return out;
+    }
+
+    /** Sorted positive switch times for effective parameters p (switch functions linear in time only). */
+    private double[] breakpoints(double[] p, double[] y) {
+        if (timeSwitches.isEmpty()) {
+            return new double[0];
+        }
+        double[] w = new double[0];
+        double[] t = new double[timeSwitches.size()];
+        int c = 0;
+        for (Expr g : timeSwitches) {
+            double g0 = Interpreter.evaluate(g, 0.0, y, p, w);
+            double g1 = Interpreter.evaluate(g, 1.0, y, p, w);
+            double g2 = Interpreter.evaluate(g, 2.0, y, p, w);
+            double slope = g1 - g0;
+            if (slope == 0.0 || !(Math.abs(g2 - g1 - slope) <= 1e-12 * (Math.abs(slope) + Math.abs(g0)))) {
+                continue;
+            }
+            double tb = -g0 / slope;
+            if (tb > 0 && Double.isFinite(tb)) {
+                t[c++] = tb;
+            }
+        }
+        double[] out = Arrays.copyOf(t, c);
+        Arrays.sort(out);
+        return out;
+    }
+
+    /** Advances to tOut, stopping and restarting at every switch time on the way; returns the next switch index. */
+    private static int advanceTo(BdfSession ses, double tOut, double[] breaks, int next, double[] y, double[] s) {
+        int k = next;
+        while (k < breaks.length && breaks[k] <= tOut) {
+            if (breaks[k] > ses.time()) {
+                ses.setStopTime(breaks[k]);
+                ses.advance(breaks[k], y, s);
+                ses.reset(y, s);
+            }
+            k++;
+        }
+        ses.setStopTime(k < breaks.length ? breaks[k] : Double.POSITIVE_INFINITY);
+        if (tOut > ses.time()) {
+            ses.advance(tOut, y, s);
+        }
+        return k;
+    }
+}
