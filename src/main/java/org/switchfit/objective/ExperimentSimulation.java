@@ -125,7 +125,7 @@ final class ExperimentSimulation {
         }
         maxDeriv = max;
         timeSwitches = timeSwitches(model);
-        if (problem.hasEvents()) {
+        if (problem.hasEvents() || !allColumns && switchesOnTheSimulatorPath(exp)) {
             if (pre != null) {
                 throw new UserInputException(where, "pre-equilibration of a model with events is not supported; "
                         + "remove the preequilibrationConditionId");
@@ -146,7 +146,30 @@ final class ExperimentSimulation {
         }
     }
 
-    /** Whether the model has events (then {@link #run} follows SBML event semantics). */
+    /**
+     * Whether the residuals of a model without events but with right-hand-side switches (piecewise conditions on
+     * time or states, {@link CompiledModel#rhsSwitchCount}) run on the simulator path, whose sensitivities take the
+     * jump of a θ-dependent switching time: yes unless the experiment needs pre-equilibration or has a steady-state
+     * measurement, which that path lacks. Otherwise, and for predictions, the direct path stops at the time-only
+     * switches it can compute in advance ({@link #timeSwitches}) without the jump.
+     */
+    private boolean switchesOnTheSimulatorPath(SimulationExperiment exp) {
+        if (model.rhsSwitchCount() == 0 || pre != null) {
+            return false;
+        }
+        for (int row : exp.measurements()) {
+            if (problem.measurements().get(row).time() == Double.POSITIVE_INFINITY) {
+                return false;
+            }
+        }
+        return true;
+    }
+
+    /**
+     * Whether {@link #run} goes through the {@link Simulator} (SBML event semantics, stops at right-hand-side
+     * switches): models with events, and residuals of models with such switches ({@link
+     * #switchesOnTheSimulatorPath}).
+     */
     boolean hasEvents() {
         return simulator != null;
     }
@@ -444,7 +467,8 @@ final class ExperimentSimulation {
      * local: they switch the right-hand side at a time computable in advance (piecewise inputs). The integration
      * stops and restarts there instead of stepping across the discontinuity. Sensitivities are carried across
      * unchanged, which is exact when the switch time does not depend on θ (partial otherwise: the jump term of a
-     * θ-dependent switch time is not added).
+     * θ-dependent switch time is not added). Residuals of experiments without pre-equilibration or steady-state
+     * measurements run on the simulator path instead, which adds the jump ({@link #switchesOnTheSimulatorPath}).
      */
     private static List<Expr> timeSwitches(CompiledModel model) {
         List<Expr> out = new ArrayList<>();

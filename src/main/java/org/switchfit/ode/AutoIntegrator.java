@@ -105,6 +105,20 @@ public final class AutoIntegrator implements Integrator {
         }
 
         @Override
+        public boolean stopAt(double t) {
+            return current.stopAt(t);
+        }
+
+        @Override
+        public void restartAt(double t, double[] yNew, double[] sNew) {
+            System.arraycopy(yNew, 0, y, 0, y.length);
+            if (sNew != null && s != null) {
+                System.arraycopy(sNew, 0, s, 0, s.length);
+            }
+            current.restartAt(t, yNew, sNew);
+        }
+
+        @Override
         public SolverStats stats() {
             return current.stats();
         }

@@ -11,8 +11,9 @@ import org.switchfit.expr.Expr;
 import org.switchfit.model.OdeForm;
 
 /**
- * A model compiled to bytecode: the ODE right-hand side with its Jacobians, initial values, runtime locals and
- * event switching functions. Immutable and thread-safe; the hot methods allocate nothing.
+ * A model compiled to bytecode: the ODE right-hand side with its Jacobians, initial values, runtime locals, event
+ * switching functions and the switching functions of piecewise conditions in the right-hand side
+ * ({@link #rhsSwitchCount}). Immutable and thread-safe; the hot methods allocate nothing.
  *
  * <p>Parameter vector p: the layout of {@link OdeForm} (declared values of compartments, species, parameters,
  * species references with ids, local parameters {@code reactionId.paramId}); {@link #parameterIndex} maps names.
@@ -29,7 +30,12 @@ public final class CompiledModel implements OdeSystem {
     private final CompiledBlock switching;
     private final int switchingCount;
     private final List<Expr> switchingExprs;
+    private final List<Expr> rhsConditions;
+    private final List<Expr> rhsSwitchingExprs;
+    private final boolean[] rhsTimeOnly;
+    private final CompiledBlock allSwitching;
     private final int[][] pattern;
+    private volatile CompiledBlock forcedRhs;
     private volatile CompiledBlock jacY;
     private volatile CompiledBlock jacP;
     private volatile EventDerivatives eventDerivatives;
@@ -41,11 +47,25 @@ public final class CompiledModel implements OdeSystem {
         Block rt = form.runtime();
         Block localsBlock = rt.withOutputs(localRefs(rt));
         Block sw = rt.withOutputs(switchingFunctions).prune();
-        List<CompiledBlock> cb = BlockCompiler.compileAll(List.of(rt.prune(), localsBlock, form.initial(), sw));
+        this.rhsConditions = List.copyOf(RhsSwitches.conditions(rt));
+        List<Expr> rsw = new ArrayList<>();
+        for (Expr c : rhsConditions) {
+            rsw.add(ModelCompiler.switching(c));
+        }
+        this.rhsSwitchingExprs = List.copyOf(rsw);
+        this.rhsTimeOnly = RhsSwitches.timeOnly(rt, rhsConditions);
+        List<Block> blocks = new ArrayList<>(List.of(rt.prune(), localsBlock, form.initial(), sw));
+        if (!rsw.isEmpty()) {
+            List<Expr> all = new ArrayList<>(switchingFunctions);
+            all.addAll(rsw);
+            blocks.add(rt.withOutputs(all).prune());
+        }
+        List<CompiledBlock> cb = BlockCompiler.compileAll(blocks);
         this.rhs = cb.get(0);
         this.locals = cb.get(1);
         this.init = cb.get(2);
         this.switching = cb.get(3);
+        this.allSwitching = rsw.isEmpty() ? cb.get(3) : cb.get(4);
         this.switchingCount = switchingFunctions.size();
         this.switchingExprs = List.copyOf(switchingFunctions);
         this.pattern = computePattern(rt);
@@ -224,6 +244,68 @@ public final class CompiledModel implements OdeSystem {
                 sw.eval(t, y, p, g);
             }
         };
+    }
+
+    /**
+     * Number of right-hand-side switches: piecewise conditions in the derivatives (or in the assignment rules and
+     * rates they use) that depend on time or states, see {@link RhsSwitches}.
+     */
+    public int rhsSwitchCount() {
+        return rhsConditions.size();
+    }
+
+    /** Whether right-hand-side switch k depends on time only (not on states): its time is known in advance. */
+    boolean rhsSwitchOnTimeOnly(int k) {
+        return rhsTimeOnly[k];
+    }
+
+    /** The conditions of the right-hand-side switches (for messages and tests). */
+    public List<Expr> rhsSwitchConditions() {
+        return rhsConditions;
+    }
+
+    /** Switching functions of the right-hand-side switches ({@link ModelCompiler#switching} of each condition). */
+    public List<Expr> rhsSwitchingExpressions() {
+        return rhsSwitchingExprs;
+    }
+
+    /**
+     * Every switching function an integration of this model stops at: the events' ({@link #switchingFunctions},
+     * indices below the event count) followed by the right-hand-side switches'.
+     */
+    public RootFunctions rootFunctions() {
+        final CompiledBlock sw = allSwitching;
+        final int c = switchingCount + rhsConditions.size();
+        return new RootFunctions() {
+            @Override
+            public int count() {
+                return c;
+            }
+
+            @Override
+            public void evaluate(double t, double[] y, double[] p, double[] g) {
+                sw.eval(t, y, p, g);
+            }
+        };
+    }
+
+    /**
+     * The right-hand side with the right-hand-side switches' conditions forced: condition k counts as true when
+     * {@code pModes[m + k] > 0}. {@code pModes[0..m)} holds the effective parameters. Allocation-free after the
+     * first call (which compiles the block).
+     */
+    void rhsForced(double t, double[] y, double[] pModes, double[] dydt) {
+        CompiledBlock b = forcedRhs;
+        if (b == null) {
+            synchronized (this) {
+                b = forcedRhs;
+                if (b == null) {
+                    b = BlockCompiler.compile(RhsSwitches.forced(form.runtime(), rhsConditions, m));
+                    forcedRhs = b;
+                }
+            }
+        }
+        b.eval(t, y, pModes, dydt);
     }
 
     /** Derivatives of the event mathematics (compiled on first use, then shared). */

@@ -12,7 +12,8 @@ import org.switchfit.model.BoundEvent;
 /**
  * First derivatives of the event mathematics of a {@link CompiledModel} with respect to the states y, the
  * parameters p and the time t: per event its switching function g (see {@link ModelCompiler#switching}), its delay,
- * and per assignment the assigned value and the scale (compartment size) it is multiplied with. They supply the
+ * and per assignment the assigned value and the scale (compartment size) it is multiplied with; per
+ * right-hand-side switch ({@link CompiledModel#rhsSwitchCount}) its switching function. They supply the
  * terms ∂g/∂y, ∂g/∂p, ∂g/∂t, ∂h/∂y, ... of the sensitivity jump conditions used by {@link Simulator}.
  *
  * <p>Layout: one evaluation writes {@link #entryCount()} sparse entries; entry e is ∂(row {@code rowOf[e]})/∂(var
@@ -29,6 +30,7 @@ final class EventDerivatives {
     private final int[] dRow;
     private final int[][] vRow;
     private final int[][] sRow;
+    private final int[] rhsRow;
     private final int[][] entriesOfRow;
     private final int[] varOf;
     private final CompiledBlock block;
@@ -66,6 +68,12 @@ final class EventDerivatives {
                     rows.add(tg.scale());
                 }
             }
+        }
+        List<Expr> rsw = model.rhsSwitchingExpressions();
+        rhsRow = new int[rsw.size()];
+        for (int k = 0; k < rsw.size(); k++) {
+            rhsRow[k] = rows.size();
+            rows.add(rsw.get(k));
         }
         List<Expr> vars = new ArrayList<>();
         for (int j = 0; j < n; j++) {
@@ -118,6 +126,11 @@ final class EventDerivatives {
 
     int switchingRow(int event) {
         return gRow[event];
+    }
+
+    /** Row of the switching function of right-hand-side switch k ({@link CompiledModel#rhsSwitchCount}). */
+    int rhsSwitchRow(int k) {
+        return rhsRow[k];
     }
 
     /** Row of the event's delay, or -1 when it has none. */

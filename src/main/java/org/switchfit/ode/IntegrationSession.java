@@ -40,6 +40,27 @@ public interface IntegrationSession {
      */
     void reset(double[] y, double[] s);
 
+    /**
+     * Asks the session not to step past time t until it reaches it (a discontinuity of the
+     * right-hand side at t, known in advance); advancing to t then lands on t exactly.
+     *
+     * @return whether the session honours stop times (the default does not: it returns false)
+     */
+    default boolean stopAt(double t) {
+        return false;
+    }
+
+    /**
+     * Restarts at time t, at or slightly after the current time, from new values, as {@link #reset} does: used to
+     * step over the sliver between the two sides of a located switch of the right-hand side. Supported where
+     * {@link #stopAt} returns true.
+     *
+     * @throws UnsupportedOperationException by default
+     */
+    default void restartAt(double t, double[] y, double[] s) {
+        throw new UnsupportedOperationException("this integration session cannot restart at another time");
+    }
+
     /** Statistics: steps, right-hand-side calls, Jacobian evaluations, LU factorisations. */
     SolverStats stats();
 }

@@ -11,7 +11,12 @@ import org.switchfit.model.BoundEvent;
  * events (trigger from false to true, initialValue, delay, priority, persistence, useValuesFromTriggerTime,
  * cascades of simultaneous events; SBML Level 3 Version 2, section 4.12), and outputs at requested times. Events
  * are located through the switching functions of {@link ModelCompiler}; the integration restarts after every
- * event execution. Immutable; {@link #simulate} may run concurrently from several threads.
+ * event execution. Piecewise conditions of the right-hand side on time or states ({@link
+ * CompiledModel#rhsSwitchCount}) are switching functions too: the integration stops and restarts where they change
+ * value, so no step straddles a discontinuity of f (conditions on time only are found ahead and stepped over when
+ * the session supports stop times, {@link IntegrationSession#stopAt}); a switch that chatters (a sliding mode) stops
+ * being a root after {@link #CHATTER_STOPS} closely spaced stops. Immutable; {@link #simulate} may run concurrently
+ * from several threads.
  *
  * <p>Order of simultaneous events: highest priority first (priority evaluated when choosing; events without
  * priority come after those with one); ties between equal explicit priorities are broken at random with a fixed
@@ -21,6 +26,12 @@ import org.switchfit.model.BoundEvent;
 public final class Simulator {
     /** Maximum number of event executions at one time point before giving up (cycles of events). */
     static final int MAX_EVENTS_PER_INSTANT = 10_000;
+    /** Consecutive closely spaced switch stops taken as a sliding mode (see {@code Run.watchChattering}). */
+    static final int CHATTER_STOPS = 100;
+    /** Samples per advance when looking ahead for the time of a switch on time only. */
+    static final int TIME_SWITCH_SAMPLES = 16;
+    /** Spacing of switch stops, relative to max(1, |t|), below which they count as closely spaced. */
+    static final double CHATTER_SPACING = 1e-9;
     /** Seed of the random order among simultaneous events of equal priority (fixed: runs are reproducible). */
     static final long TIE_BREAK_SEED = 20261202L;
 
@@ -47,6 +58,7 @@ public final class Simulator {
                 org.switchfit.expr.MathRuntime.setDelayHistory(hist);
             }
             Run run = new Run(pDeclared, Math.min(0.0, times.length == 0 ? 0.0 : times[0]), hist);
+            run.tEnd = times.length == 0 ? run.t : times[times.length - 1];
             for (int r = 0; r < times.length; r++) {
                 run.advanceTo(times[r]);
                 outputs.evaluate(run.t, run.y, run.p, values[r]);
@@ -77,6 +89,8 @@ public final class Simulator {
      * Events with a delay execute at t_ex = t_ev + d(θ) with {@code dt_ex/dθ = τ + dd/dθ}, d differentiated at
      * the trigger time; values used from the trigger time are differentiated there. Quantities assigned by events
      * (parameters included) are states of the ODE form, so their sensitivities jump like those of species.
+     * Right-hand-side switches are the case h = y: {@code s⁺ = s⁻ + (f⁻ - f⁺) τ}, with g the switch's switching
+     * function and f⁻, f⁺ evaluated with its condition forced to the old and new value.
      *
      * <p>Limits, stated: when two different switching functions have roots at the same instant, τ of the
      * first (lowest event index) whose event fires is used for the whole instant (the trigger time is not
@@ -107,6 +121,7 @@ public final class Simulator {
         int n = model.stateCount();
         int nc = sensParams.length;
         Run run = new Run(t0, y0, p, sys, sensParams, s0, dP);
+        run.tEnd = times.length == 0 ? t0 : times[times.length - 1];
         for (int r = 0; r < times.length; r++) {
             run.advanceTo(times[r]);
             System.arraycopy(run.y, 0, yOut, r * n, n);
@@ -166,6 +181,37 @@ public final class Simulator {
         @Override
         public void evaluate(double t, double[] y, double[] p, double[] g) {
             inner.evaluate(t, empty == null ? y : empty, p, g);
+        }
+    }
+
+    /**
+     * The model's root functions (events, then right-hand-side switches) with switches that chatter masked: a
+     * masked switch reads +1. One per run (the mask belongs to it); allocation-free.
+     */
+    private static final class SwitchRoots implements RootFunctions {
+        private final RootFunctions inner;
+        private final int ne;
+        final boolean[] masked;
+
+        SwitchRoots(RootFunctions inner, int ne) {
+            this.inner = inner;
+            this.ne = ne;
+            this.masked = new boolean[inner.count() - ne];
+        }
+
+        @Override
+        public int count() {
+            return inner.count();
+        }
+
+        @Override
+        public void evaluate(double t, double[] y, double[] p, double[] g) {
+            inner.evaluate(t, y, p, g);
+            for (int k = 0; k < masked.length; k++) {
+                if (masked[k]) {
+                    g[ne + k] = 1.0;
+                }
+            }
         }
     }
 
@@ -437,6 +483,21 @@ public final class Simulator {
         double[] gNow;
         /** Sensitivity state, or null for a plain simulation. */
         final Sens sens;
+        /** Number of right-hand-side switches (root indices ne..ne+ns) and their root functions (null: none). */
+        final int ns = model.rhsSwitchCount();
+        SwitchRoots switchRoots;
+        double lastSwitchTime = Double.NEGATIVE_INFINITY;
+        int rapidSwitches;
+        /** Switches on time only (their times are found ahead, {@link #nextTimeSwitch}); scratch and bracket. */
+        final boolean[] timeOnly = new boolean[ns];
+        boolean timeOnlySwitches;
+        double[] gA;
+        double[] gB;
+        /** Bracket of the next switch on time only (valid while haveSliver and sliverLo &gt;= t); last output time. */
+        double sliverLo = Double.NaN;
+        double sliverHi;
+        boolean haveSliver;
+        double tEnd = Double.POSITIVE_INFINITY;
 
         Run(double[] pDeclared, double t0, DelayRecord hist) {
             t = t0;
@@ -474,7 +535,18 @@ public final class Simulator {
                 trig[e] = events.get(e).initialValue();
             }
             RootFunctions rf = ne > 0 ? new PaddedRoots(model.switchingFunctions(), n) : null;
-            session = constantStates()
+            boolean frozen = constantStates();
+            if (ns > 0 && !frozen) {
+                switchRoots = new SwitchRoots(model.rootFunctions(), ne);
+                rf = switchRoots;
+                for (int k = 0; k < ns; k++) {
+                    timeOnly[k] = model.rhsSwitchOnTimeOnly(k);
+                    timeOnlySwitches |= timeOnly[k];
+                }
+                gA = new double[ne + ns];
+                gB = new double[ne + ns];
+            }
+            session = frozen
                     ? new FrozenSession(n == 0 ? new double[1] : y, p, rf, t0)
                     : integrator.start(n == 0 ? new Padded(model) : sys, t0, n == 0 ? new double[1] : y, p, rf,
                             sensParams, s0);
@@ -509,17 +581,176 @@ public final class Simulator {
                 if (hist != null && target > t + chunk) {
                     target = t + chunk;
                 }
+                boolean armed = false;
+                if (timeOnlySwitches && !(sliverLo >= t)) {
+                    // look ahead past the target too: the stop time must be set before a step can cross
+                    haveSliver = nextTimeSwitch(t, target) || target < tEnd && nextTimeSwitch(target, tEnd);
+                    if (!haveSliver) {
+                        sliverLo = tEnd;
+                    }
+                }
+                if (haveSliver && sliverLo >= t && session.stopAt(sliverLo) && sliverLo <= target) {
+                    target = sliverLo;
+                    armed = true;
+                }
                 t = session.advance(target, n == 0 ? scratch : y, sensOut());
                 if (hist != null) {
                     hist.record(t, y);
                 }
+                if (armed && !session.stoppedAtRoot() && t == sliverLo) {
+                    stepOverTimeSwitch();
+                    continue;
+                }
                 boolean atRoot = session.stoppedAtRoot();
-                if (ne > 0 && handleEvents(atRoot, atRoot ? session.rootsFound() : null)) {
+                int[] found = atRoot ? session.rootsFound() : null;
+                boolean switched = false;
+                if (atRoot && switchRoots != null) {
+                    int[] eventRoots = eventRoots(found);
+                    switched = eventRoots.length < found.length;
+                    if (switched) {
+                        if (sens != null) {
+                            sens.switchJump(this, found);
+                        }
+                        watchChattering(found);
+                    }
+                    found = eventRoots;
+                    atRoot = eventRoots.length > 0;
+                }
+                boolean changed = ne > 0 && handleEvents(atRoot, atRoot ? found : null);
+                if (changed || switched) {
                     session.reset(n == 0 ? scratch : y, sensOut());
-                    if (hist != null) {
+                    if (changed && hist != null) {
                         hist.record(t, y);
                     }
                 }
+            }
+        }
+
+        /**
+         * Finds the earliest sign change in (from, target] of a switching function that depends on time only, by
+         * sampling 16 points and bisecting to the bracket width of the {@link IntegrationSession} root contract;
+         * the bracket goes to [sliverLo, sliverHi] (old values hold at sliverLo, new ones at sliverHi).
+         *
+         * @return whether one was found
+         */
+        private boolean nextTimeSwitch(double from, double target) {
+            if (!(target > from)) {
+                return false;
+            }
+            switchRoots.evaluate(from, y, p, gA);
+            double a = from;
+            for (int i = 1; i <= TIME_SWITCH_SAMPLES; i++) {
+                double b = i == TIME_SWITCH_SAMPLES ? target : from + (target - from) * i / TIME_SWITCH_SAMPLES;
+                switchRoots.evaluate(b, y, p, gB);
+                if (timeSwitchChanged()) {
+                    double lo = a;
+                    double hi = b;
+                    while (true) {
+                        double scale = Math.max(Math.abs(hi), 1.0);
+                        if (hi - lo <= 4 * Math.ulp(scale) + 1e-12 * scale) {
+                            break;
+                        }
+                        double mid = 0.5 * (lo + hi);
+                        switchRoots.evaluate(mid, y, p, gB);
+                        if (timeSwitchChanged()) {
+                            hi = mid;
+                        } else {
+                            lo = mid;
+                            System.arraycopy(gB, 0, gA, 0, gA.length);
+                        }
+                    }
+                    sliverLo = lo;
+                    sliverHi = hi;
+                    return true;
+                }
+                a = b;
+                System.arraycopy(gB, 0, gA, 0, gA.length);
+            }
+            return false;
+        }
+
+        /** Whether a time-only switch differs in sign between gA and gB. */
+        private boolean timeSwitchChanged() {
+            for (int k = 0; k < ns; k++) {
+                if (timeOnly[k] && (gA[ne + k] >= 0) != (gB[ne + k] >= 0)) {
+                    return true;
+                }
+            }
+            return false;
+        }
+
+        /**
+         * At sliverLo, the old side of a time switch: moves to sliverHi (the state changes by at most the sliver
+         * width times |f|, about 1e-12 relative), applies the sensitivity jump and restarts there, so no step of the
+         * integrator ever straddles the switch.
+         */
+        private void stepOverTimeSwitch() {
+            switchRoots.evaluate(sliverLo, y, p, gA);
+            switchRoots.evaluate(sliverHi, y, p, gB);
+            int c = 0;
+            for (int k = 0; k < ns; k++) {
+                if ((gA[ne + k] >= 0) != (gB[ne + k] >= 0)) {
+                    c++;
+                }
+            }
+            int[] found = new int[c];
+            c = 0;
+            for (int k = 0; k < ns; k++) {
+                if ((gA[ne + k] >= 0) != (gB[ne + k] >= 0)) {
+                    found[c++] = ne + k;
+                }
+            }
+            t = sliverHi;
+            haveSliver = false;
+            sliverLo = Double.NaN;
+            if (sens != null && found.length > 0) {
+                sens.switchJump(this, found);
+            }
+            session.restartAt(t, n == 0 ? scratch : y, sensOut());
+            if (ne > 0 && handleEvents(false, null)) {
+                session.reset(n == 0 ? scratch : y, sensOut());
+            }
+        }
+
+        /** The event indices (below ne) among the roots found. */
+        private int[] eventRoots(int[] found) {
+            int c = 0;
+            for (int k : found) {
+                c += k < ne ? 1 : 0;
+            }
+            if (c == found.length) {
+                return found;
+            }
+            int[] ev = new int[c];
+            c = 0;
+            for (int k : found) {
+                if (k < ne) {
+                    ev[c++] = k;
+                }
+            }
+            return ev;
+        }
+
+        /**
+         * Guards against a sliding mode (the flow pushes the state back across the switch from both sides, so roots
+         * follow each other at ever smaller spacing): after {@link #CHATTER_STOPS} consecutive switch stops closer
+         * than {@link #CHATTER_SPACING} (relative to max(1, |t|)) to the previous one, the switches involved stop
+         * being roots and the integration steps across them, as it does for conditions that are no switches.
+         */
+        private void watchChattering(int[] found) {
+            if (t - lastSwitchTime <= CHATTER_SPACING * Math.max(1.0, Math.abs(t))) {
+                rapidSwitches++;
+            } else {
+                rapidSwitches = 0;
+            }
+            lastSwitchTime = t;
+            if (rapidSwitches >= CHATTER_STOPS) {
+                for (int k : found) {
+                    if (k >= ne) {
+                        switchRoots.masked[k - ne] = true;
+                    }
+                }
+                rapidSwitches = 0;
             }
         }
 
@@ -691,6 +922,11 @@ public final class Simulator {
         final double[] ent;
         final double[] tmp;
         final EventDerivatives ed;
+        /** Right-hand-side switches: all switching values, parameters with forced modes, f on either side. */
+        final double[] gAll;
+        final double[] pModes;
+        final double[] fMinus;
+        final RootFunctions allRoots;
         boolean dReady;
 
         Sens(int nc, double[] s0, double[] dP) {
@@ -704,6 +940,66 @@ public final class Simulator {
             this.ed = model.eventDerivatives();
             this.ent = new double[ed.entryCount()];
             this.tmp = new double[nc];
+            int ns = model.rhsSwitchCount();
+            this.gAll = new double[model.form().events().size() + ns];
+            this.pModes = new double[ns == 0 ? 0 : model.parameterCount() + ns];
+            this.fMinus = new double[ns == 0 ? 0 : n];
+            this.allRoots = model.rootFunctions();
+        }
+
+        /**
+         * Jump of the sensitivities where right-hand-side switches change value at a time t*(θ) (the integration
+         * stopped at their root, the state is continuous): {@code s⁺ = s⁻ + (f⁻ - f⁺) τᵀ}, the conditions of
+         * {@link #simulateSensitivities} with h = y, τ = d t* / dθ from the switching function g of the first switch
+         * found: {@code τ = -(∂g/∂y s⁻ + ∂g/∂p dp/dθ) / (∂g/∂y f⁻ + ∂g/∂t)}. f⁻ and f⁺ are the right-hand side at
+         * the stop with the switching conditions forced to their old and new values (at the located root the
+         * condition itself is ambiguous); the new value is the side of g's sign at the stop, where the root
+         * locator leaves it. Switches at the same instant with another τ share the first one's (as for events).
+         *
+         * @param found root indices of the stop (events below ne, switches from ne on)
+         */
+        void switchJump(Run r, int[] found) {
+            int n = r.n;
+            int ne = r.ne;
+            int m = model.parameterCount();
+            allRoots.evaluate(r.t, r.y, r.p, gAll);
+            System.arraycopy(r.p, 0, pModes, 0, m);
+            for (int k = 0; k < r.ns; k++) {
+                pModes[m + k] = gAll[ne + k] >= 0 ? 1.0 : -1.0;
+            }
+            model.rhsForced(r.t, r.y, pModes, f);
+            int first = -1;
+            for (int k : found) {
+                if (k >= ne) {
+                    pModes[m + k - ne] = -pModes[m + k - ne];
+                    if (first < 0) {
+                        first = k - ne;
+                    }
+                }
+            }
+            model.rhsForced(r.t, r.y, pModes, fMinus);
+            int row = ed.rhsSwitchRow(first);
+            ed.evaluate(r.t, r.y, r.p, ent);
+            ed.total(row, ent, s, dP, null, nc, tmp);
+            boolean numZero = true;
+            for (int c = 0; c < nc; c++) {
+                numZero &= tmp[c] == 0.0;
+            }
+            if (numZero) {
+                return;
+            }
+            double den = ed.alongFlow(row, ent, fMinus);
+            if (!(Math.abs(den) > 0) || !Double.isFinite(den)) {
+                throw new IntegrationException(r.t, "the condition " + model.rhsSwitchConditions().get(first)
+                        + " of the right-hand side changes where it is tangent to the solution (d g/dt = " + den
+                        + "); its switching time has no derivative with respect to the parameters");
+            }
+            for (int c = 0; c < nc; c++) {
+                double tau = -tmp[c] / den;
+                for (int i = 0; i < n; i++) {
+                    s[c * n + i] += (fMinus[i] - f[i]) * tau;
+                }
+            }
         }
 
         /** Fixes τ for the instant: from the first root whose event fires, else from a due delayed execution. */

@@ -341,6 +341,29 @@ public final class BdfSession implements IntegrationSession {
     }
 
     @Override
+    public boolean stopAt(double t) {
+        if (t < tn) {
+            return false;
+        }
+        setStopTime(t);
+        return true;
+    }
+
+    @Override
+    public void restartAt(double t, double[] yNew, double[] sNew) {
+        if (!(t >= tCur)) {
+            throw new IllegalArgumentException("restart time " + t + " lies before the current time " + tCur);
+        }
+        if (sNew == null && ns > 0) {
+            interpolate(tCur, null, tempS);
+            System.arraycopy(tempS, 0, znS[0], 0, nsn);
+        }
+        tCur = t;
+        tn = t;
+        reset(yNew, sNew);
+    }
+
+    @Override
     public void reset(double[] yNew, double[] sNew) {
         if (yNew.length != n) {
             throw new IllegalArgumentException("y has length " + yNew.length + ", expected " + n);

@@ -1,0 +1,124 @@
+package org.switchfit.ode;
+
+import java.util.ArrayList;
+import java.util.HashMap;
+import java.util.List;
+import java.util.Map;
+import org.switchfit.expr.Block;
+import org.switchfit.expr.Expr;
+import org.switchfit.expr.Op;
+
+/**
+ * The piecewise conditions of a right-hand side that can change value during a simulation: conditions of
+ * {@code piecewise} nodes in the derivatives, or in runtime locals (assignment rules, reaction rates) the derivatives
+ * use, that depend on time or on the states (directly or through such locals). Each becomes a switching function
+ * ({@link ModelCompiler#switching}) the integration stops at, so no step crosses a discontinuity of f and the
+ * sensitivities can take the jump of a parameter-dependent switching time ({@link Simulator}). Conditions on
+ * parameters only cannot change and get none; conditions using {@code delay()} are left out (their values during
+ * root location would need the history ahead of the recorded one).
+ *
+ * <p>{@link #forced} gives the right-hand side with condition k replaced by {@code p[m + k] > 0}, so f can be
+ * evaluated on either side of a switch at the switching point itself, where the condition's own value is
+ * ambiguous.
+ */
+final class RhsSwitches {
+    private RhsSwitches() {
+    }
+
+    /** The varying piecewise conditions of {@code rt} used by its outputs, without repeats, in order of appearance. */
+    static List<Expr> conditions(Block rt) {
+        int nl = rt.localCount();
+        boolean[] varying = new boolean[nl];
+        for (int l = 0; l < nl; l++) {
+            varying[l] = varies(rt.local(l), varying);
+        }
+        boolean[] used = new boolean[nl];
+        for (Expr o : rt.outputs()) {
+            markLocals(o, used);
+        }
+        for (int l = nl - 1; l >= 0; l--) {
+            if (used[l]) {
+                markLocals(rt.local(l), used);
+            }
+        }
+        List<Expr> out = new ArrayList<>();
+        for (int l = 0; l < nl; l++) {
+            if (used[l]) {
+                collect(rt.local(l), varying, out);
+            }
+        }
+        for (Expr o : rt.outputs()) {
+            collect(o, varying, out);
+        }
+        return out;
+    }
+
+    private static void markLocals(Expr e, boolean[] used) {
+        e.forEach(x -> {
+            if (x.op() == Op.LOCAL) {
+                used[x.index()] = true;
+            }
+        });
+    }
+
+    /**
+     * Whether each condition depends on time only (no states, directly or through locals, and no delay): its
+     * switching time can be found before integrating.
+     */
+    static boolean[] timeOnly(Block rt, List<Expr> conditions) {
+        int nl = rt.localCount();
+        boolean[] stateful = new boolean[nl];
+        for (int l = 0; l < nl; l++) {
+            stateful[l] = onStates(rt.local(l), stateful);
+        }
+        boolean[] out = new boolean[conditions.size()];
+        for (int k = 0; k < out.length; k++) {
+            out[k] = !onStates(conditions.get(k), stateful);
+        }
+        return out;
+    }
+
+    private static boolean onStates(Expr e, boolean[] stateful) {
+        return e.contains(x -> x.op() == Op.STATE || x.op() == Op.DELAY || x.op() == Op.LOCAL && stateful[x.index()]);
+    }
+
+    private static boolean varies(Expr e, boolean[] varying) {
+        return e.contains(x -> x.op() == Op.TIME || x.op() == Op.STATE || x.op() == Op.DELAY
+                || x.op() == Op.LOCAL && varying[x.index()]);
+    }
+
+    private static void collect(Expr e, boolean[] varying, List<Expr> out) {
+        e.forEach(x -> {
+            if (x.op() != Op.PIECEWISE) {
+                return;
+            }
+            int na = x.argCount();
+            for (int i = 1; i < na; i += 2) {
+                Expr c = x.arg(i);
+                if (varies(c, varying) && !c.contains(d -> d.op() == Op.DELAY) && !out.contains(c)) {
+                    out.add(c);
+                }
+            }
+        });
+    }
+
+    /**
+     * The outputs of {@code rt} with condition k replaced by {@code p[m + k] > 0} (pruned): evaluate with a parameter
+     * array {@code [p (m) | mode_0 .. mode_{K-1}]}, mode +1 for true and -1 for false.
+     */
+    static Block forced(Block rt, List<Expr> conditions, int m) {
+        Map<Expr, Expr> replace = new HashMap<>();
+        for (int k = 0; k < conditions.size(); k++) {
+            replace.put(conditions.get(k), Expr.call(Op.GT, Expr.param(m + k, "switch" + k), Expr.ZERO));
+        }
+        List<Expr> locals = new ArrayList<>();
+        for (Expr l : rt.locals()) {
+            locals.add(l.rewrite(replace::get));
+        }
+        List<Expr> outputs = new ArrayList<>();
+        for (Expr o : rt.outputs()) {
+            outputs.add(o.rewrite(replace::get));
+        }
+        return new Block(rt.localNames(), locals, outputs).prune();
+    }
+}
