@@ -520,10 +520,19 @@ final class ExperimentSimulation {
     private static int advanceTo(BdfSession ses, double tOut, double[] breaks, int next, double[] y, double[] s) {
         int k = next;
         while (k < breaks.length && breaks[k] <= tOut) {
-            if (breaks[k] > ses.time()) {
-                ses.setStopTime(breaks[k]);
-                ses.advance(breaks[k], y, s);
-                ses.reset(y, s);
+            // stop on the old side of the switch and restart on the new one: an implicit step ending exactly at
+            // the switch time would evaluate the right-hand side there on the new branch (a condition such as
+            // time - t_on < 0 is already false at t_on) and fail its error test down to step-size underflow. The
+            // state moves by |f| times the gap, about 1e-12 relative.
+            double scale = Math.max(1.0, Math.abs(breaks[k]));
+            double gap = 4 * Math.ulp(scale) + 1e-12 * scale;
+            double lo = breaks[k] - gap;
+            if (lo > ses.time()) {
+                ses.setStopTime(lo);
+                ses.advance(lo, y, s);
+            }
+            if (breaks[k] + gap > ses.time()) {
+                ses.restartAt(breaks[k] + gap, y, s);
             }
             k++;
         }
