@@ -587,6 +587,8 @@ public final class Simulator {
                     haveSliver = nextTimeSwitch(t, target) || target < tEnd && nextTimeSwitch(target, tEnd);
                     if (!haveSliver) {
                         sliverLo = tEnd;
+                        // nor may a step cross the last output time: a switch can sit right after it (t <= t_end)
+                        session.stopAt(tEnd);
                     }
                 }
                 if (haveSliver && sliverLo >= t && session.stopAt(sliverLo) && sliverLo <= target) {
