@@ -28,6 +28,10 @@ final class FitSolverOptions extends ToleranceOptions {
 
     /** The multistart of the run: Levenberg-Marquardt with {@code --max-iterations} and {@code --cost-tolerance}. */
     Multistart multistart(int starts, long seed) {
+        if (!(costTolerance >= 0) || maxIterations < 1) {
+            throw new org.switchfit.util.UserInputException(null, "--cost-tolerance must be >= 0 and "
+                    + "--max-iterations at least 1; got " + costTolerance + " and " + maxIterations);
+        }
         return Multistart.defaults().withStarts(starts).withSeed(seed)
                 .withOptimizer(LevenbergMarquardt.defaults().withMaxIterations(maxIterations)
                         .withCostTolerance(costTolerance));

@@ -38,7 +38,8 @@ import org.switchfit.objective.ObjectiveException;
  * regime) almost undamped, so every damped step moved them by decades and projected them onto a bound
  * however large λ grew; measured on the PEtab benchmarks, such starts ended with {@link Termination#NO_PROGRESS}
  * at NLL 1e9-1e20 (2 of 20 Boehm_JProteomeRes2014 starts, most Brannmark_JBC2010 starts). With both changes
- * 98 of 100 uniform Boehm starts converge (97 by cost change; 79 before) in 46 instead of 65 iterations on average.
+ * 97-99 of 100 uniform Boehm starts stop by the cost-change test (79 before), in 41-46 instead of 65 iterations on
+ * average.
  *
  * <p>Large residuals: Gauss-Newton drops the second-order term Σ r_i ∇²r_i of the Hessian, which is not small
  * when residuals stay large at the optimum (the log-σ residuals of estimated noise spreads never vanish), and then
