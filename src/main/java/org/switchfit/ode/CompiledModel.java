@@ -231,12 +231,15 @@ public final class CompiledModel implements OdeSystem {
 
     /** Event switching functions, one per event in model order. */
     public RootFunctions switchingFunctions() {
-        final CompiledBlock sw = switching;
-        final int c = switchingCount;
+        return roots(switching, switchingCount);
+    }
+
+    /** The first {@code count} outputs of a compiled block as switching functions. */
+    private static RootFunctions roots(CompiledBlock sw, int count) {
         return new RootFunctions() {
             @Override
             public int count() {
-                return c;
+                return count;
             }
 
             @Override
@@ -274,19 +277,7 @@ public final class CompiledModel implements OdeSystem {
      * indices below the event count) followed by the right-hand-side switches'.
      */
     public RootFunctions rootFunctions() {
-        final CompiledBlock sw = allSwitching;
-        final int c = switchingCount + rhsConditions.size();
-        return new RootFunctions() {
-            @Override
-            public int count() {
-                return c;
-            }
-
-            @Override
-            public void evaluate(double t, double[] y, double[] p, double[] g) {
-                sw.eval(t, y, p, g);
-            }
-        };
+        return roots(allSwitching, switchingCount + rhsConditions.size());
     }
 
     /**
