@@ -118,4 +118,50 @@ final class CurveCorrector {
         }
         return -1;
     }
+
+    /** Smallest cosine between successive tangents for a step to count as regular (about 25 degrees of turn). */
+    static final double MIN_COS_TURN = 0.9;
+    /**
+     * Largest corrector move, in units of the step: with the turn limit a regular correction moves about κh²/2
+     * &lt;= 0.23 h, so a corrector that lands farther has likely jumped to another part of the curve (e.g. across
+     * a small S between two close folds).
+     */
+    static final double MAX_CORRECTION = 0.3;
+
+    /**
+     * One pseudo-arclength predictor-corrector step of length h from (u, t): Euler predictor, Newton corrector
+     * ({@link #correct}) into uNew and the new tangent into tNew. The step is regular when the corrector
+     * converged, the tangent turned by less than {@link #MIN_COS_TURN} and the corrector moved less than
+     * {@link #MAX_CORRECTION} h; at steps below {@code 2 minStep} only convergence counts.
+     *
+     * @param uPred scratch for the predictor (length {@link #size()})
+     * @return the corrector's iterations when the step is regular, else -1
+     */
+    int step(double[] u, double[] t, double h, double minStep, double[] uPred, double[] uNew, double[] tNew) {
+        for (int i = 0; i < n1; i++) {
+            uPred[i] = u[i] + h * t[i];
+        }
+        int iters = correct(uPred, t, uNew);
+        if (iters <= 0 || !tangent(uNew, t, tNew)) {
+            return -1;
+        }
+        if (h <= 2 * minStep) {
+            return iters;
+        }
+        double cos = 0;
+        for (int i = 0; i < n1; i++) {
+            cos += t[i] * tNew[i];
+        }
+        return cos >= MIN_COS_TURN && distance(uPred, uNew, n1) <= MAX_CORRECTION * h ? iters : -1;
+    }
+
+    /** Euclidean distance of the first len entries. */
+    static double distance(double[] a, double[] b, int len) {
+        double s = 0;
+        for (int i = 0; i < len; i++) {
+            double d = a[i] - b[i];
+            s += d * d;
+        }
+        return Math.sqrt(s);
+    }
 }

@@ -16,8 +16,6 @@ import org.switchfit.ode.OdeSystem;
  * the step falls below minStep. Immutable and thread-safe; each call owns its workspace.
  */
 public final class FoldCurves {
-    private static final double MIN_COS_TURN = 0.9;
-    private static final double MAX_CORRECTION = 0.3;
 
     private final ContinuationSettings settings;
     private final double lower2;
@@ -97,23 +95,8 @@ public final class FoldCurves {
         double[] uNew = new double[len];
         double[] tNew = new double[len];
         while (pts.size() < settings.maxPoints()) {
-            for (int i = 0; i < len; i++) {
-                uPred[i] = u[i] + h * t[i];
-            }
-            int iters = cc.correct(uPred, t, uNew);
-            boolean ok = iters > 0 && cc.tangent(uNew, t, tNew);
-            if (ok) {
-                double cos = 0;
-                for (int i = 0; i < len; i++) {
-                    cos += t[i] * tNew[i];
-                }
-                ok = cos >= MIN_COS_TURN || h <= 2 * settings.minStep();
-                // A corrector that lands far from the predictor has likely jumped to another part of the curve
-                // (e.g. across a small S between two close folds); with the turn limit above, a regular
-                // correction moves about κh²/2 <= 0.23 h.
-                ok = ok && (distance(uPred, uNew, len) <= MAX_CORRECTION * h || h <= 2 * settings.minStep());
-            }
-            if (!ok) {
+            int iters = cc.step(u, t, h, settings.minStep(), uPred, uNew, tNew);
+            if (iters < 0) {
                 h *= 0.5;
                 if (h < settings.minStep()) {
                     return new Half(pts, cusps, Branch.EndReason.STEP_TOO_SMALL);
@@ -256,14 +239,5 @@ public final class FoldCurves {
             }
         }
         return new FoldCurve.Cusp(uh[2 * n], uh[2 * n + 1], java.util.Arrays.copyOf(uh, n), indexA);
-    }
-
-    private static double distance(double[] a, double[] b, int len) {
-        double s = 0;
-        for (int i = 0; i < len; i++) {
-            double d = a[i] - b[i];
-            s += d * d;
-        }
-        return Math.sqrt(s);
     }
 }

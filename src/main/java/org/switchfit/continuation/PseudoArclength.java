@@ -29,8 +29,6 @@ import org.switchfit.ode.OdeSystem;
  * {@code control = reduced.totalIndex(c)}. Immutable and thread-safe; each call owns its workspace.
  */
 public final class PseudoArclength {
-    private static final double MIN_COS_TURN = 0.9;
-    private static final double MAX_CORRECTION = 0.3;
 
     private final ContinuationSettings settings;
 
@@ -134,23 +132,8 @@ public final class PseudoArclength {
         double[] tNew = new double[n1];
         Branch.EndReason end = Branch.EndReason.MAX_POINTS;
         while (pts.size() < settings.maxPoints()) {
-            for (int i = 0; i < n1; i++) {
-                uPred[i] = u[i] + h * t[i];
-            }
-            int iters = cc.correct(uPred, t, uNew);
-            boolean ok = iters > 0 && cc.tangent(uNew, t, tNew);
-            if (ok) {
-                double cos = 0;
-                for (int i = 0; i < n1; i++) {
-                    cos += t[i] * tNew[i];
-                }
-                ok = cos >= MIN_COS_TURN || h <= 2 * settings.minStep();
-                // A corrector that lands far from the predictor has likely jumped to another part of the curve
-                // (e.g. across a small S between two close folds); with the turn limit above, a regular
-                // correction moves about κh²/2 <= 0.23 h.
-                ok = ok && (distance(uPred, uNew, n1) <= MAX_CORRECTION * h || h <= 2 * settings.minStep());
-            }
-            if (!ok) {
+            int iters = cc.step(u, t, h, settings.minStep(), uPred, uNew, tNew);
+            if (iters < 0) {
                 h *= 0.5;
                 if (h < settings.minStep()) {
                     end = Branch.EndReason.STEP_TOO_SMALL;
@@ -180,7 +163,7 @@ public final class PseudoArclength {
                 double bound = lamNew < settings.lowerBound() ? settings.lowerBound() : settings.upperBound();
                 if (clipToBound(cc, u, uNew, bound, n)) {
                     cc.tangent(uNew, t, tNew);
-                    s += distance(u, uNew, n1);
+                    s += CurveCorrector.distance(u, uNew, n1);
                     BranchPoint bp = makePoint(prob, uNew, tNew, s);
                     detectHopf(prob, cc, prev, bp, u, t, uNew, pts.size() - 1, hopfs);
                     pts.add(bp);
@@ -188,7 +171,7 @@ public final class PseudoArclength {
                 end = Branch.EndReason.BOUNDARY;
                 break;
             }
-            s += distance(u, uNew, n1);
+            s += CurveCorrector.distance(u, uNew, n1);
             BranchPoint bp = makePoint(prob, uNew, tNew, s);
             detectHopf(prob, cc, prev, bp, u, t, uNew, pts.size() - 1, hopfs);
             pts.add(bp);
@@ -202,15 +185,6 @@ public final class PseudoArclength {
             }
         }
         return new Branch(control, pts, folds, hopfs, Branch.EndReason.START, end);
-    }
-
-    private static double distance(double[] a, double[] b, int len) {
-        double s = 0;
-        for (int i = 0; i < len; i++) {
-            double d = a[i] - b[i];
-            s += d * d;
-        }
-        return Math.sqrt(s);
     }
 
     /** Replaces uNew by the equilibrium at λ = bound, starting from linear interpolation between u and uNew. */
@@ -349,7 +323,7 @@ public final class PseudoArclength {
         if (f.kind() != expected) {
             return null;
         }
-        double len = distance(ua, ub, n + 1);
+        double len = CurveCorrector.distance(ua, ub, n + 1);
         double[] y = f.state();
         for (int i = 0; i <= n; i++) {
             double v = i < n ? y[i] : f.parameter();
