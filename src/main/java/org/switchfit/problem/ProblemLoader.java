@@ -318,8 +318,11 @@ public final class ProblemLoader {
         return new Condition(id, b, Condition.ints(targets), Condition.ints(thetas), Condition.ints(reinit));
     }
 
-    private static ValueSource resolve(ValueRef v, Map<String, ValueSource> sources, CompiledModel cm,
-                                       SourceLocation loc, String where) {
+    /**
+     * The value a number or parameter id stands for: the number, the parameter's source (estimated or fixed in the
+     * problem), else the model parameter's own value; null when the id is none of these.
+     */
+    static ValueSource lookup(ValueRef v, Map<String, ValueSource> sources, CompiledModel cm) {
         if (v.isNumber()) {
             return ValueSource.ofConstant(v.number());
         }
@@ -328,8 +331,14 @@ public final class ProblemLoader {
             return s;
         }
         int k = cm.parameterIndex(v.parameterId());
-        if (k >= 0) {
-            return ValueSource.ofConstant(cm.parameterValues()[k]);
+        return k >= 0 ? ValueSource.ofConstant(cm.parameterValues()[k]) : null;
+    }
+
+    private static ValueSource resolve(ValueRef v, Map<String, ValueSource> sources, CompiledModel cm,
+                                       SourceLocation loc, String where) {
+        ValueSource s = lookup(v, sources, cm);
+        if (s != null) {
+            return s;
         }
         throw UserInputException.of(loc, "%s refers to '%s', which is neither in the parameter table nor a "
                 + "model parameter; add it to the parameter table or write a number", where, v.parameterId());

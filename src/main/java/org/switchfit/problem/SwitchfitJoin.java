@@ -188,16 +188,9 @@ final class SwitchfitJoin {
 
     private static ValueSource value(ValueRef v, Map<String, ValueSource> sources, CompiledModel cm,
                                      SourceLocation loc, String exp) {
-        if (v.isNumber()) {
-            return ValueSource.ofConstant(v.number());
-        }
-        ValueSource s = sources.get(v.parameterId());
+        ValueSource s = ProblemLoader.lookup(v, sources, cm);
         if (s != null) {
             return s;
-        }
-        int k = cm.parameterIndex(v.parameterId());
-        if (k >= 0) {
-            return ValueSource.ofConstant(cm.parameterValues()[k]);
         }
         throw UserInputException.of(loc, "experiment '%s' refers to '%s', which is neither an estimated parameter "
                 + "nor a model parameter; declare it under 'parameters' or write a number", exp, v.parameterId());
