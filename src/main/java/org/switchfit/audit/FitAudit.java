@@ -134,7 +134,7 @@ public final class FitAudit {
         if (set != null && set.costTolerance() > 0) {
             lm = lm.withCostTolerance(set.costTolerance());
         }
-        return lm;
+        return lm.withFactorProjection(set == null || set.closedFormFactors());
     }
 
     /**

@@ -170,8 +170,9 @@ public final class FitCommand implements Callable<Integer> {
         for (Path p : problem.inputFiles()) {
             inputs.add(FitSummary.InputFile.of(p));
         }
-        FitSummary summary = FitSummary.of(problem, result, new FitSummary.Settings(starts, seed, solver.rtol,
-                solver.atol, nominalStart, solver.costTolerance, solver.maxIterations), wall, versions, inputs);
+        FitSummary.Settings settings = new FitSummary.Settings(starts, seed, solver.rtol, solver.atol, nominalStart,
+                solver.costTolerance, solver.maxIterations, !solver.noClosedFormFactors);
+        FitSummary summary = FitSummary.of(problem, result, settings, wall, versions, inputs);
         FitDirectory.of(out).write(FitFile.RESULT, summary);
         double[] th = result.bestTheta();
         if (th == null) {

@@ -6,7 +6,8 @@ import picocli.CommandLine.Option;
 
 /**
  * Integration and optimizer options shared by {@code fit} and {@code bench-fits}: the tolerances of
- * {@link ToleranceOptions}, {@code --max-iterations} and {@code --cost-tolerance}. Not thread-safe (picocli fills
+ * {@link ToleranceOptions}, {@code --max-iterations}, {@code --cost-tolerance} and
+ * {@code --no-closed-form-factors}. Not thread-safe (picocli fills
  * the fields).
  */
 final class FitSolverOptions extends ToleranceOptions {
@@ -26,6 +27,10 @@ final class FitSolverOptions extends ToleranceOptions {
                     + "${DEFAULT-VALUE}; objective values are only accurate to about the integration rtol)")
     double costTolerance;
 
+    @Option(names = "--no-closed-form-factors", description = "fit scaling factors of relative data by the"
+            + " optimizer's steps instead of holding them at their closed-form conditional optimum")
+    boolean noClosedFormFactors;
+
     /** The multistart of the run: Levenberg-Marquardt with {@code --max-iterations} and {@code --cost-tolerance}. */
     Multistart multistart(int starts, long seed) {
         if (!(costTolerance >= 0) || maxIterations < 1) {
@@ -34,6 +39,6 @@ final class FitSolverOptions extends ToleranceOptions {
         }
         return Multistart.defaults().withStarts(starts).withSeed(seed)
                 .withOptimizer(LevenbergMarquardt.defaults().withMaxIterations(maxIterations)
-                        .withCostTolerance(costTolerance));
+                        .withCostTolerance(costTolerance).withFactorProjection(!noClosedFormFactors));
     }
 }

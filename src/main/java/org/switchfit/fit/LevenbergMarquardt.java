@@ -48,6 +48,15 @@ import org.switchfit.objective.ObjectiveException;
  * {@code JᵀJ + S} (solved by Cholesky of {@code J_WᵀJ_W + S_WW + λ D_W²}) for the next step whenever it predicted
  * the reduction of the last accepted step better than Gauss-Newton did; otherwise the QR Gauss-Newton step.
  *
+ * <p>Output factors: parameters that enter only as a factor of predictions with a constant noise spread (the
+ * scaling of relative data, {@link org.switchfit.objective.Objective#outputFactors()}) are set to their closed-form
+ * conditional optimum after every evaluation, at trial points too, so all costs compared are those of the
+ * functional with the factors optimised out (variable projection, Golub and Pereyra 1973); with the Jacobian the
+ * rows are updated exactly, without another evaluation. Why: on the log scale a factor that is decades off moves
+ * by at most about 1/ln 10 decades per Gauss-Newton step (the linear model of s g in log s), and meanwhile the other
+ * parameters follow wrong residual weights; measured on the PEtab problem Fujita_SciSignal2010 (three factors):
+ * 0 of 100 Latin-hypercube starts reached the nominal NLL without, 3 of the first 48 with.
+ *
  * <p>The cost-change stop (actual and predicted relative reductions below the tolerance, Moré 1978) is taken only
  * when the undamped Gauss-Newton step on the working set would not gain more than the tolerance either: after many
  * rejections λ can be so large that the damped step gains nothing far from any optimum, and such runs now end as
@@ -73,9 +82,11 @@ public final class LevenbergMarquardt {
     private final double stepTolerance;
     private final double initialDamping;
     private final boolean secant;
+    private final boolean factors;
 
     private LevenbergMarquardt(int maxIterations, int maxEvaluations, double gradientTolerance,
-                               double costTolerance, double stepTolerance, double initialDamping, boolean secant) {
+                               double costTolerance, double stepTolerance, double initialDamping, boolean secant,
+                               boolean factors) {
         this.maxIterations = maxIterations;
         this.maxEvaluations = maxEvaluations;
         this.gradientTolerance = gradientTolerance;
@@ -83,6 +94,7 @@ public final class LevenbergMarquardt {
         this.stepTolerance = stepTolerance;
         this.initialDamping = initialDamping;
         this.secant = secant;
+        this.factors = factors;
     }
 
     /**
@@ -92,19 +104,19 @@ public final class LevenbergMarquardt {
      * initial λ 1e-3.
      */
     public static LevenbergMarquardt defaults() {
-        return new LevenbergMarquardt(1000, 5000, 1e-10, 1e-14, 1e-10, 1e-3, true);
+        return new LevenbergMarquardt(1000, 5000, 1e-10, 1e-14, 1e-10, 1e-3, true, true);
     }
 
     /** Limit on trial steps (accepted and rejected), n &gt; 0. */
     public LevenbergMarquardt withMaxIterations(int n) {
         return new LevenbergMarquardt(positive(n, "maxIterations"), maxEvaluations, gradientTolerance,
-                costTolerance, stepTolerance, initialDamping, secant);
+                costTolerance, stepTolerance, initialDamping, secant, factors);
     }
 
     /** Limit on objective evaluations, n &gt; 0. */
     public LevenbergMarquardt withMaxEvaluations(int n) {
         return new LevenbergMarquardt(maxIterations, positive(n, "maxEvaluations"), gradientTolerance,
-                costTolerance, stepTolerance, initialDamping, secant);
+                costTolerance, stepTolerance, initialDamping, secant, factors);
     }
 
     /**
@@ -114,19 +126,19 @@ public final class LevenbergMarquardt {
      */
     public LevenbergMarquardt withGradientTolerance(double tol) {
         return new LevenbergMarquardt(maxIterations, maxEvaluations, nonNegative(tol, "gradientTolerance"),
-                costTolerance, stepTolerance, initialDamping, secant);
+                costTolerance, stepTolerance, initialDamping, secant, factors);
     }
 
     /** Relative tolerance on the actual and predicted reduction of ½|r|² in one accepted step. */
     public LevenbergMarquardt withCostTolerance(double tol) {
         return new LevenbergMarquardt(maxIterations, maxEvaluations, gradientTolerance,
-                nonNegative(tol, "costTolerance"), stepTolerance, initialDamping, secant);
+                nonNegative(tol, "costTolerance"), stepTolerance, initialDamping, secant, factors);
     }
 
     /** Relative tolerance on the length of an accepted step: |s| ≤ tol·(tol + |θ|). */
     public LevenbergMarquardt withStepTolerance(double tol) {
         return new LevenbergMarquardt(maxIterations, maxEvaluations, gradientTolerance, costTolerance,
-                nonNegative(tol, "stepTolerance"), initialDamping, secant);
+                nonNegative(tol, "stepTolerance"), initialDamping, secant, factors);
     }
 
     /** Initial λ relative to the column scaling D², λ &gt; 0. */
@@ -135,7 +147,7 @@ public final class LevenbergMarquardt {
             throw new IllegalArgumentException("initialDamping must be > 0, got " + lambda);
         }
         return new LevenbergMarquardt(maxIterations, maxEvaluations, gradientTolerance, costTolerance,
-                stepTolerance, lambda, secant);
+                stepTolerance, lambda, secant, factors);
     }
 
     /**
@@ -145,7 +157,17 @@ public final class LevenbergMarquardt {
      */
     public LevenbergMarquardt withSecantModel(boolean on) {
         return new LevenbergMarquardt(maxIterations, maxEvaluations, gradientTolerance, costTolerance,
-                stepTolerance, initialDamping, on);
+                stepTolerance, initialDamping, on, factors);
+    }
+
+    /**
+     * Whether parameters that enter only as factors of predictions with constant noise
+     * ({@link org.switchfit.objective.Objective#outputFactors()}) are set to their closed-form conditional
+     * optimum after every evaluation with Jacobian (see the class comment); default true.
+     */
+    public LevenbergMarquardt withFactorProjection(boolean on) {
+        return new LevenbergMarquardt(maxIterations, maxEvaluations, gradientTolerance, costTolerance,
+                stepTolerance, initialDamping, secant, on);
     }
 
     /** The iteration limit. */
@@ -190,6 +212,8 @@ public final class LevenbergMarquardt {
         final double[] width;
         boolean lastTrialAugmented;
         double lastPotential;
+        final org.switchfit.objective.OutputFactor[] facs;
+        double[][] bFac;
 
         Run(FitProblem problem, double[] start) {
             this.problem = problem;
@@ -210,6 +234,15 @@ public final class LevenbergMarquardt {
             lo = problem.lower();
             hi = problem.upper();
             x = problem.clamp(start);
+            java.util.List<org.switchfit.objective.OutputFactor> fl = new java.util.ArrayList<>();
+            if (factors) {
+                for (org.switchfit.objective.OutputFactor of : obj.outputFactors()) {
+                    if (!problem.isFixed(of.parameter())) {
+                        fl.add(of);
+                    }
+                }
+            }
+            facs = fl.toArray(new org.switchfit.objective.OutputFactor[0]);
             width = new double[n];
             for (int k = 0; k < n; k++) {
                 double wk = hi[k] - lo[k];
@@ -230,6 +263,7 @@ public final class LevenbergMarquardt {
             jac = new double[m * n];
             nll = evalStrict(x, r, jac);
             cost = halfSquare(r);
+            projectFactors();
             int w0 = free.length;
             double[] d = new double[w0];
             double[] g = new double[n];
@@ -296,6 +330,12 @@ public final class LevenbergMarquardt {
                         evals++;
                         nllTrial = obj.evaluate(xt, rTrial, null);
                         costTrial = halfSquare(rTrial);
+                        if (facs.length > 0 && Double.isFinite(costTrial)) {
+                            projectInPlace(xt, rTrial);
+                            double atOptimum = halfSquare(rTrial);
+                            nllTrial += atOptimum - costTrial;
+                            costTrial = atOptimum;
+                        }
                     } catch (ObjectiveException e) {
                         costTrial = Double.NaN;
                     }
@@ -315,8 +355,12 @@ public final class LevenbergMarquardt {
                         lastPotential = potentialReduction(work, d);
                     }
                     double[] jOld = jac;
+                    double[] xPrev = x;
                     if (finite && rho > ACCEPT_RATIO && accept(xt)) {
                         accepted = true;
+                        for (int k = 0; k < n; k++) {
+                            s[k] = x[k] - xPrev[k]; // the factor projection may have moved x beyond xt
+                        }
                         gradient(gNew, r, jac);
                         if (sec != null) {
                             // Model switch of Dennis, Gay and Welsch (1981): next time use the model whose
@@ -393,7 +437,104 @@ public final class LevenbergMarquardt {
             jac = jNew;
             nll = v;
             cost = halfSquare(r);
+            projectFactors();
             return true;
+        }
+
+
+        /**
+         * Sets every output factor ({@link org.switchfit.objective.OutputFactor}) to its closed-form conditional
+         * optimum at the current point and updates r, J, the cost and the NLL exactly, without an evaluation (see
+         * {@link #projectInPlace}); the Jacobian rows of a factor scale with its multiplier c, except the factor's
+         * own column on the linear scale. The NLL changes by the change of the cost (σ is constant in those rows).
+         */
+        private void projectFactors() {
+            if (facs.length == 0) {
+                return;
+            }
+            if (bFac == null) {
+                bFac = new double[facs.length][];
+                for (int f = 0; f < facs.length; f++) {
+                    int k = facs[f].parameter();
+                    int[] rows = facs[f].residuals();
+                    double dLog = facs[f].scale().logDerivative(facs[f].scale().factor(x[k]));
+                    bFac[f] = new double[rows.length];
+                    for (int t = 0; t < rows.length; t++) {
+                        bFac[f][t] = jac[rows[t] * n + k] / dLog - r[rows[t]];
+                    }
+                }
+            }
+            x = x.clone();
+            double[] cs = projectInPlace(x, r);
+            for (int f = 0; f < facs.length; f++) {
+                if (cs[f] == 1.0) {
+                    continue;
+                }
+                int k = facs[f].parameter();
+                boolean linear = facs[f].scale() == org.switchfit.objective.OutputFactor.Scale.LINEAR;
+                for (int i : facs[f].residuals()) {
+                    int base = i * n;
+                    for (int j = 0; j < n; j++) {
+                        if (j != k || !linear) {
+                            jac[base + j] *= cs[f];
+                        }
+                    }
+                }
+            }
+            double newCost = halfSquare(r);
+            nll += newCost - cost;
+            cost = newCost;
+        }
+
+        /**
+         * Moves each output factor of {@code xv} to its conditional optimum given the residuals {@code res} and
+         * rewrites those residuals, in place. With s the factor, a_i = s g_i / σ_i (up to a common sign) and
+         * b_i = a_i - r_i the constant scaled datum (found once, from the first Jacobian), the cost of the factor's
+         * rows is the convex quadratic ½|c a - b|² in the multiplier c of s, minimised at c = aᵀb / aᵀa; c is
+         * clamped so that the factor stays within its bounds (on a log scale an optimum at s &lt;= 0 goes to the
+         * lower bound), so the cost never rises. Used on trial points too, so every comparison of costs is one of
+         * the functional with the factors at their optimum (variable projection, Golub and Pereyra 1973, "The
+         * differentiation of pseudo-inverses and nonlinear least squares problems whose variables separate",
+         * SIAM J. Numer. Anal. 10(2):413-432).
+         *
+         * @return the multiplier c applied to each factor (1 where it did not move)
+         */
+        private double[] projectInPlace(double[] xv, double[] res) {
+            double[] cs = new double[facs.length];
+            for (int f = 0; f < facs.length; f++) {
+                cs[f] = 1.0;
+                int k = facs[f].parameter();
+                int[] rows = facs[f].residuals();
+                double[] b = bFac[f];
+                org.switchfit.objective.OutputFactor.Scale sc = facs[f].scale();
+                double sOld = sc.factor(xv[k]);
+                double aa = 0;
+                double ab = 0;
+                for (int t = 0; t < rows.length; t++) {
+                    double a = res[rows[t]] + b[t];
+                    aa += a * a;
+                    ab += a * b[t];
+                }
+                if (!(aa > 0) || !(sOld != 0.0) || !Double.isFinite(sOld)) {
+                    continue;
+                }
+                double thetaNew = sc.theta(sOld * (ab / aa));
+                if (Double.isNaN(thetaNew)) {
+                    thetaNew = lo[k];
+                }
+                thetaNew = Math.min(hi[k], Math.max(lo[k], thetaNew));
+                double c = sc.factor(thetaNew) / sOld;
+                if (c == 1.0 || !Double.isFinite(c)) {
+                    continue;
+                }
+                for (int t = 0; t < rows.length; t++) {
+                    int i = rows[t];
+                    res[i] = c * (res[i] + b[t]) - b[t];
+                }
+                xv[k] = thetaNew;
+                cs[f] = c;
+            }
+            return cs;
         }
 
         private double evalStrict(double[] at, double[] res, double[] jj) {

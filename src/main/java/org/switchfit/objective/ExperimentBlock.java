@@ -283,4 +283,78 @@ final class ExperimentBlock implements ResidualBlock {
             throw new ObjectiveException("experiment '" + exp.id() + "': " + e.getMessage(), e);
         }
     }
+
+    /**
+     * The residuals θ_j scales as a pure factor ({@link OutputFactor}): every row whose prediction or noise
+     * spread reads θ_j (through a global, an observable or a noise placeholder) must have a linear data
+     * transformation, normal noise, a constant σ that does not read θ_j, and a prediction that is θ_j times a
+     * factor free of θ_j (a product, possibly nested or divided by terms free of θ_j); otherwise null. Whether θ_j
+     * reaches the model through the conditions is the caller's check.
+     */
+    @Override
+    public int[] factorResiduals(int j) {
+        int[] out = new int[rows.length];
+        int c = 0;
+        for (int i = 0; i < rows.length; i++) {
+            Measurement me = problem.measurements().get(rows[i]);
+            ObservableDef od = problem.observables().get(me.observable());
+            java.util.function.Predicate<org.switchfit.expr.Expr> readsJ =
+                    e -> e.op() == org.switchfit.expr.Op.PARAM && slotReads(me, e.index(), j);
+            boolean inH = od.prediction().contains(readsJ);
+            boolean inS = !Double.isFinite(me.fixedSigma()) && od.sigma().contains(readsJ);
+            if (!inH && !inS) {
+                continue;
+            }
+            if (inS || sigmaVariable[i] || od.transformation() != org.switchfit.data.ParameterScale.LIN
+                    || od.noise() != ObservableDef.Noise.NORMAL || !pureFactor(od.prediction(), readsJ)) {
+                return null;
+            }
+            out[c++] = rowOffset[i];
+        }
+        return Arrays.copyOf(out, c);
+    }
+
+    /** Whether slot k of the observable parameter vector q holds θ_j for row me. */
+    private boolean slotReads(Measurement me, int k, int j) {
+        int oOff = problem.obsPlaceholderOffset();
+        int nOff = problem.noisePlaceholderOffset();
+        if (k < m) {
+            return false; // model parameters reach θ only through the conditions
+        }
+        ValueSource src;
+        if (k < oOff) {
+            src = problem.globalSources().get(k - m);
+        } else if (k < nOff) {
+            src = k - oOff < me.obsParameters().size() ? me.obsParameters().get(k - oOff) : null;
+        } else {
+            src = k - nOff < me.noiseParameters().size() ? me.noiseParameters().get(k - nOff) : null;
+        }
+        return src != null && src.thetaIndex() == j;
+    }
+
+    /** h is the marked symbol times (or divided by) expressions that do not contain it. */
+    private static boolean pureFactor(org.switchfit.expr.Expr h,
+                                      java.util.function.Predicate<org.switchfit.expr.Expr> mark) {
+        if (mark.test(h)) {
+            return true;
+        }
+        switch (h.op()) {
+            case MUL: {
+                int found = 0;
+                for (int a = 0; a < h.argCount(); a++) {
+                    org.switchfit.expr.Expr f = h.arg(a);
+                    if (pureFactor(f, mark)) {
+                        found++;
+                    } else if (f.contains(mark)) {
+                        return false;
+                    }
+                }
+                return found == 1;
+            }
+            case DIV:
+                return pureFactor(h.arg(0), mark) && !h.arg(1).contains(mark);
+            default:
+                return false;
+        }
+    }
 }

@@ -21,6 +21,7 @@ public final class LikelihoodObjective implements Objective {
     private final int size;
     private final double constant;
     private final int priorBlock;
+    private final List<OutputFactor> factors;
 
     private LikelihoodObjective(EstimationProblem problem, List<ResidualBlock> blocks, int priorBlock) {
         this.problem = problem;
@@ -36,6 +37,53 @@ public final class LikelihoodObjective implements Objective {
         this.size = off;
         this.constant = c;
         this.priorBlock = priorBlock;
+        this.factors = findFactors();
+    }
+
+    /** Parameters that every block reports as a pure output factor and that no condition passes to the model. */
+    private List<OutputFactor> findFactors() {
+        List<OutputFactor> out = new ArrayList<>();
+        boolean[] toModel = new boolean[problem.parameterCount()];
+        for (org.switchfit.problem.Condition cond : problem.conditions()) {
+            for (int i = 0; i < cond.targetCount(); i++) {
+                toModel[cond.targetTheta(i)] = true;
+            }
+        }
+        for (int j = 0; j < toModel.length; j++) {
+            if (toModel[j]) {
+                continue;
+            }
+            int[] idx = new int[size];
+            int c = 0;
+            for (int b = 0; b < blocks.size() && c >= 0; b++) {
+                int[] local = blocks.get(b).factorResiduals(j);
+                if (local == null) {
+                    c = -1;
+                } else {
+                    for (int i : local) {
+                        idx[c++] = offsets[b] + i;
+                    }
+                }
+            }
+            if (c > 0) {
+                org.switchfit.data.ParameterScale ps = problem.parameters().get(j).scale();
+                OutputFactor.Scale sc = ps == org.switchfit.data.ParameterScale.LOG10 ? OutputFactor.Scale.LOG10
+                        : ps == org.switchfit.data.ParameterScale.LOG ? OutputFactor.Scale.LN
+                        : OutputFactor.Scale.LINEAR;
+                out.add(new OutputFactor(j, sc, java.util.Arrays.copyOf(idx, c)));
+            }
+        }
+        return List.copyOf(out);
+    }
+
+    /**
+     * The estimated parameters that enter only as factors of predictions with constant noise ({@link
+     * OutputFactor}): found from the observable formulas (θ times a term free of θ, linear data, normal noise,
+     * constant σ), the conditions (θ must not reach the model) and the priors (none but uniform).
+     */
+    @Override
+    public List<OutputFactor> outputFactors() {
+        return factors;
     }
 
     /**

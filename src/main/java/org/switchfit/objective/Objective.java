@@ -28,4 +28,13 @@ public interface Objective {
      * @throws ObjectiveException when the model cannot be evaluated at θ (integration failure, non-finite values)
      */
     double evaluate(double[] theta, double[] residuals, double[] jacobian);
+
+    /**
+     * Parameters that enter the residuals only as a factor of predictions with a constant noise spread
+     * ({@link OutputFactor}), for optimizers that set them to their closed-form conditional optimum. The default
+     * is none, which is always correct.
+     */
+    default java.util.List<OutputFactor> outputFactors() {
+        return java.util.List.of();
+    }
 }

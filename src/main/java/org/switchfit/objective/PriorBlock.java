@@ -134,4 +134,15 @@ final class PriorBlock implements ResidualBlock {
             }
         }
     }
+
+    /** Empty when θ_j has no prior residual (uniform priors add only a constant), else null. */
+    @Override
+    public int[] factorResiduals(int j) {
+        for (Term t : terms) {
+            if (t.j() == j) {
+                return null;
+            }
+        }
+        return new int[0];
+    }
 }

@@ -26,4 +26,14 @@ public interface ResidualBlock {
      * @throws ObjectiveException when the block cannot be evaluated at θ
      */
     void evaluate(EvaluationContext ctx, double[] r, int offset, double[] jac);
+
+    /**
+     * How θ_j enters this block, for {@link LikelihoodObjective#outputFactors()}: the block-local indices of the
+     * residuals it scales as a factor of the prediction with a constant noise spread ({@link OutputFactor}), an
+     * empty array when the block does not depend on θ_j, or null when it may depend on θ_j in any other way. The
+     * default, null, makes no claim.
+     */
+    default int[] factorResiduals(int j) {
+        return null;
+    }
 }

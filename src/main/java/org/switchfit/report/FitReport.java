@@ -193,6 +193,7 @@ public final class FitReport {
                     : f.settings().maxIterations());
             kv.put("cost-change tolerance", f.settings().costTolerance() == 0 ? "optimizer default"
                     : f.settings().costTolerance());
+            kv.put("scaling factors in closed form", f.settings().closedFormFactors() ? "yes" : "no");
         }
         kv.put("wall time [s]", f.wallSeconds());
         for (Map.Entry<String, String> e : f.versions().entrySet()) {

@@ -129,12 +129,15 @@ public record FitSummary(String problem, double bestNll, Map<String, Double> par
      * @param costTolerance relative cost-change tolerance of Levenberg-Marquardt (0: its default)
      * @param maxIterations iteration limit of Levenberg-Marquardt per start (0: its default)
      * @param nominalStart whether start 0 was the nominal parameter vector
+     * @param closedFormFactors whether scaling factors of relative data were held at their closed-form conditional
+     *                          optimum ({@code LevenbergMarquardt.withFactorProjection}); false in files written
+     *                          before it existed, which were fitted without
      */
     public record Settings(int starts, long seed, double rtol, double atol, boolean nominalStart,
-            double costTolerance, int maxIterations) {
+            double costTolerance, int maxIterations, boolean closedFormFactors) {
         /** Settings without explicit optimizer limits (recorded as 0: the optimizer's defaults). */
         public Settings(int starts, long seed, double rtol, double atol, boolean nominalStart) {
-            this(starts, seed, rtol, atol, nominalStart, 0.0, 0);
+            this(starts, seed, rtol, atol, nominalStart, 0.0, 0, true);
         }
     }
 
