@@ -101,22 +101,12 @@ class OutputFactorTest {
     @Test
     void fitEndsAtTheConditionalOptimumOfTheFactor() {
         LikelihoodObjective obj = objective("scale * X", "0.05", "lin", "", "");
-        EstimationProblem p = obj.problem();
-        int np = p.parameterCount();
-        String[] ids = new String[np];
-        double[] lo = new double[np];
-        double[] hi = new double[np];
-        for (int j = 0; j < np; j++) {
-            ids[j] = p.parameters().get(j).id();
-            lo[j] = p.parameters().get(j).thetaLower();
-            hi[j] = p.parameters().get(j).thetaUpper();
-        }
-        double[] start = p.nominalTheta();
+        double[] start = obj.problem().nominalTheta();
         int ks = index(obj, "scale");
         int kk = index(obj, "k");
         start[ks] = -5;
         start[kk] = 1.2;
-        FitProblem fp = FitProblem.of(obj, ids, lo, hi).withFixed(index(obj, "sd"), true);
+        FitProblem fp = Fits.problem(obj).withFixed(index(obj, "sd"), true);
         LocalFit fit = LevenbergMarquardt.defaults().minimize(fp, start);
         double k = fit.theta()[kk];
         double sStar = sumGm(k) / sumGg(k);

@@ -5,12 +5,9 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import java.nio.file.Path;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
-import org.switchfit.fit.FitProblem;
 import org.switchfit.fit.LevenbergMarquardt;
 import org.switchfit.fit.LocalFit;
 import org.switchfit.ode.SolverSettings;
-import org.switchfit.problem.EstimationProblem;
-import org.switchfit.problem.FreeParameter;
 import org.switchfit.problem.ProblemLoader;
 import org.switchfit.testsystems.DecaySbml;
 import org.switchfit.testsystems.PetabFiles;
@@ -39,18 +36,7 @@ class SigmaAndPriorTest {
     }
 
     private static LocalFit fit(LikelihoodObjective obj) {
-        EstimationProblem p = obj.problem();
-        int np = p.parameterCount();
-        String[] ids = new String[np];
-        double[] lo = new double[np];
-        double[] hi = new double[np];
-        for (int j = 0; j < np; j++) {
-            FreeParameter fp = p.parameters().get(j);
-            ids[j] = fp.id();
-            lo[j] = fp.thetaLower();
-            hi[j] = fp.thetaUpper();
-        }
-        return LevenbergMarquardt.defaults().minimize(FitProblem.of(obj, ids, lo, hi), p.nominalTheta());
+        return LevenbergMarquardt.defaults().minimize(Fits.problem(obj), obj.problem().nominalTheta());
     }
 
     /**
