@@ -631,7 +631,8 @@ public final class Simulator {
         /**
          * Finds the earliest sign change in (from, target] of a switching function that depends on time only, by
          * sampling 16 points and bisecting to the bracket width of the {@link IntegrationSession} root contract;
-         * the bracket goes to [sliverLo, sliverHi] (old values hold at sliverLo, new ones at sliverHi).
+         * the bracket goes to [sliverLo, sliverHi] (old values hold at sliverLo, new ones at sliverHi), an end
+         * exactly on the root moved outward by one bracket width (not below the current time).
          *
          * @return whether one was found
          */
@@ -661,12 +662,36 @@ public final class Simulator {
                             System.arraycopy(gB, 0, gA, 0, gA.length);
                         }
                     }
+                    // A bracket end exactly on a root (g = 0) is ambiguous: the root convention counts it on the
+                    // side g >= 0, while the condition itself may already (time - t_on < 0 at t_on) or still
+                    // (time - t_on <= 0) take the other value there. Such an end moves one bracket width outward,
+                    // so the old branch of f holds at sliverLo and the new one at sliverHi: an implicit step ending
+                    // at sliverLo would otherwise evaluate f on the new branch and fail its error test down to
+                    // step-size underflow (measured on Isensee_JCB2018, a switch at a measurement time).
+                    double width = hi - lo;
+                    if (onTimeSwitchRoot(lo)) {
+                        lo = Math.max(t, lo - width);
+                    }
+                    if (onTimeSwitchRoot(hi)) {
+                        hi += width;
+                    }
                     sliverLo = lo;
                     sliverHi = hi;
                     return true;
                 }
                 a = b;
                 System.arraycopy(gB, 0, gA, 0, gA.length);
+            }
+            return false;
+        }
+
+        /** Whether a switching function on time only is exactly 0 at time x (uses gB as scratch). */
+        private boolean onTimeSwitchRoot(double x) {
+            switchRoots.evaluate(x, y, p, gB);
+            for (int k = 0; k < ns; k++) {
+                if (timeOnly[k] && gB[ne + k] == 0.0) {
+                    return true;
+                }
             }
             return false;
         }
