@@ -38,7 +38,10 @@ final class ExperimentBlock implements ResidualBlock {
     private final double constant;
     private final ExperimentSimulation simulation;
     private final ThreadLocal<Work> work;
-    /** Models with events: Jacobian from sensitivities with event jumps (else finite differences). */
+    /**
+     * Models simulated by the simulator (events, delay(), right-hand-side switches): Jacobian from sensitivities
+     * with event and switch jumps (else finite differences).
+     */
     private final boolean exactEventGradients;
 
     ExperimentBlock(EstimationProblem problem, InitialDerivative initD, int experiment, SolverSettings settings,
@@ -84,12 +87,13 @@ final class ExperimentBlock implements ResidualBlock {
             for (int row : rows) {
                 Measurement me = problem.measurements().get(row);
                 if (me.time() == Double.POSITIVE_INFINITY) {
-                    throw new UserInputException(me.location(), "steady-state measurements of a model with events "
-                            + "are not supported; give a finite time");
+                    throw new UserInputException(me.location(), "steady-state measurements of a model with "
+                            + (problem.hasEvents() ? "events" : "delay()") + " are not supported; give a finite "
+                            + "time");
                 }
             }
         }
-        exactEventGradients = simulation.hasEvents() && simulation.exactEventSensitivities(times);
+        exactEventGradients = simulation.usesSimulator() && simulation.exactEventSensitivities(times);
         work = ThreadLocal.withInitial(Work::new);
     }
 
@@ -170,7 +174,7 @@ final class ExperimentBlock implements ResidualBlock {
 
     @Override
     public void evaluate(EvaluationContext ctx, double[] r, int offset, double[] jac) {
-        if (simulation.hasEvents()) {
+        if (simulation.usesSimulator()) {
             evaluateWithEvents(ctx, r, offset, jac);
             return;
         }
@@ -226,10 +230,11 @@ final class ExperimentBlock implements ResidualBlock {
     }
 
     /**
-     * Models with events: simulation with SBML event semantics ({@link ExperimentSimulation}). The Jacobian comes
-     * from forward sensitivities carried across the events by their jump conditions, exact up to the integration
-     * tolerance. Models with {@code delay()} in their mathematics, measurement times before 0, and evaluations
-     * whose sensitivity integration fails while the states alone integrate fall back to central finite
+     * Models simulated by the simulator ({@link ExperimentSimulation#usesSimulator}: events, delay(), right-hand-side
+     * switches). The Jacobian comes from forward sensitivities carried across the events and switches by their jump
+     * conditions, exact up to the integration tolerance. Models with {@code delay()} in their mathematics,
+     * measurement times before 0 in models with events, and evaluations whose sensitivity integration fails while the
+     * states alone integrate (e.g. a switching function tangent to the solution) fall back to central finite
      * differences on θ (step {@link #FD_STEP} on the estimation scale; accuracy about rtol / FD_STEP relative).
      */
     private void evaluateWithEvents(EvaluationContext ctx, double[] r, int offset, double[] jac) {
@@ -270,10 +275,10 @@ final class ExperimentBlock implements ResidualBlock {
         }
     }
 
-    /** Central-difference step on the estimation scale for models with events. */
+    /** Central-difference step on the estimation scale for models on the simulator (events, delay(), switches). */
     static final double FD_STEP = 1e-4;
 
-    /** Residuals (no Jacobian) of a model with events, at θ given on the linear scale. */
+    /** Residuals (no Jacobian) of a model on the simulator, at θ given on the linear scale. */
     private void simulateRows(EvaluationContext ctx, double[] linear, double[] r, int offset) {
         Work w = work.get();
         try {

@@ -3,9 +3,6 @@ package org.switchfit.objective;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
-import org.switchfit.expr.Expr;
-import org.switchfit.expr.Interpreter;
-import org.switchfit.expr.Op;
 import org.switchfit.model.OdeForm;
 import org.switchfit.ode.CompiledModel;
 import org.switchfit.ode.IntegrationException;
@@ -27,15 +24,28 @@ import org.switchfit.util.UserInputException;
  * One {@link SimulationExperiment} simulated with forward sensitivities dy/dθ: the path shared by the residuals
  * ({@link ExperimentBlock}) and the predictions ({@link ObservablePrediction}).
  *
- * <p>Without events: initial sensitivities from the derivative of the initial block (initial assignments) times
- * dp/dθ; optional pre-equilibration by integrating states and sensitivities until the right-hand side is
- * negligible ({@link SteadyState}), then the simulation condition from time 0 with its re-initialised species;
- * BDF with staggered sensitivities ({@link BdfSession}) through a {@link ThetaSystem}, stopping and restarting at
- * the switch times of piecewise inputs. With events: {@link Simulator} with SBML event semantics, the
- * sensitivities carried across each event by its jump conditions ({@link Simulator#simulateSensitivities}); models
- * with events and pre-equilibration are refused ({@link UserInputException}); times of +inf (steady state)
- * are not supported with events (callers refuse them), and the sensitivities of models with {@code delay()}
- * are not available (callers check {@link #exactEventSensitivities}).
+ * <p>Three routes, chosen per model:
+ * <ul>
+ *   <li>No events, no {@code delay()}: initial sensitivities from the derivative of the initial block (initial
+ *   assignments) times dp/dθ; optional pre-equilibration by integrating states and sensitivities until the
+ *   right-hand side is negligible ({@link SteadyState}), then the simulation condition from time 0 with its
+ *   re-initialised species. Without right-hand-side switches ({@link CompiledModel#rhsSwitchCount}) BDF with
+ *   staggered sensitivities ({@link BdfSession}) through a {@link ThetaSystem} runs to each time directly.</li>
+ *   <li>The same with right-hand-side switches (piecewise conditions on time or states): from the state and
+ *   sensitivities at time 0 (after pre-equilibration, if any) the finite times run on the {@link Simulator}
+ *   ({@link Simulator#simulateSensitivities}, {@link Simulator#simulateStates}), which stops at every switch and
+ *   adds the sensitivity jump of a θ-dependent switching time. Times of +inf (steady state): the simulator runs on
+ *   past the last switch on time ({@link Simulator#lastTimeSwitch}; before it the state can be at rest with the
+ *   input still off), then {@link SteadyState} on a new session. A switch on states during that last run is
+ *   stepped across without the jump; this does not change the result: at a stable steady state the sensitivities
+ *   converge to {@code -J⁻¹ ∂f/∂θ} whatever their value at the switch. The pre-equilibration itself runs
+ *   by {@link SteadyState} alone (its switches are stepped across, as before).</li>
+ *   <li>Events or {@code delay()} ({@link #hasEvents}): {@link Simulator} with SBML event semantics from the
+ *   condition's own initial values (and the delay history), the sensitivities carried across each event by its
+ *   jump conditions ({@link Simulator#simulateSensitivities}); pre-equilibration is refused
+ *   ({@link UserInputException}); times of +inf are not supported (callers refuse them), and the sensitivities of
+ *   models with {@code delay()} are not available (callers check {@link #exactEventSensitivities}).</li>
+ * </ul>
  *
  * <p>Sensitivity columns: column c is the derivative by θ_{cols[c]}. The residuals use the θ that enter the model
  * through the conditions; the predictions use every θ (their extra columns stay zero but enter the denominator of
@@ -59,7 +69,9 @@ final class ExperimentSimulation {
     private final int maxDeriv;
     private final BdfIntegrator integrator;
     private final SteadyState steady;
-    private final List<Expr> timeSwitches;
+    /** Events or delay(): the simulator with SBML semantics from the condition's own initial values. */
+    private final boolean eventRoute;
+    /** Non-null for models with events, delay() or right-hand-side switches. */
     private final Simulator simulator;
     private final ModelOutputs stateOutputs;
 
@@ -75,8 +87,8 @@ final class ExperimentSimulation {
 
     /**
      * @param allColumns every θ is a sensitivity column (else only the θ set by the experiment's conditions)
-     * @param where      location named when a model with events has pre-equilibration
-     * @throws UserInputException for a model with events and pre-equilibration
+     * @param where      location named when a model with events or delay() has pre-equilibration
+     * @throws UserInputException for a model with events or delay() and pre-equilibration
      */
     ExperimentSimulation(EstimationProblem problem, int experiment, InitialDerivative initD, SolverSettings settings,
                          SteadyState steady, boolean allColumns, SourceLocation where) {
@@ -124,11 +136,13 @@ final class ExperimentSimulation {
             max = Math.max(max, problem.observableDerivativeCount(o));
         }
         maxDeriv = max;
-        timeSwitches = timeSwitches(model);
-        if (problem.hasEvents() || !allColumns && switchesOnTheSimulatorPath(exp)) {
+        boolean delays = !model.form().delaySlots().isEmpty();
+        eventRoute = problem.hasEvents() || delays;
+        if (eventRoute) {
             if (pre != null) {
-                throw new UserInputException(where, "pre-equilibration of a model with events is not supported; "
-                        + "remove the preequilibrationConditionId");
+                throw new UserInputException(where, "pre-equilibration of a model with "
+                        + (problem.hasEvents() ? "events" : "delay()") + " is not supported; remove the "
+                        + "preequilibrationConditionId");
             }
             List<String> names = new ArrayList<>();
             OdeForm f = model.form();
@@ -139,48 +153,43 @@ final class ExperimentSimulation {
                         : k == OdeForm.StateKind.SPECIES_CONCENTRATION ? "concentration(" + id + ")" : id);
             }
             stateOutputs = ModelOutputs.of(model, names);
-            simulator = new Simulator(model, integrator);
         } else {
             stateOutputs = null;
-            simulator = null;
         }
+        simulator = eventRoute || model.rhsSwitchCount() > 0 ? new Simulator(model, integrator) : null;
     }
 
     /**
-     * Whether the residuals of a model without events but with right-hand-side switches (piecewise conditions on
-     * time or states, {@link CompiledModel#rhsSwitchCount}) run on the simulator path, whose sensitivities take the
-     * jump of a θ-dependent switching time: yes unless the experiment needs pre-equilibration or has a steady-state
-     * measurement, which that path lacks. Otherwise, and for predictions, the direct path stops at the time-only
-     * switches it can compute in advance ({@link #timeSwitches}) without the jump.
-     */
-    private boolean switchesOnTheSimulatorPath(SimulationExperiment exp) {
-        if (model.rhsSwitchCount() == 0 || pre != null) {
-            return false;
-        }
-        for (int row : exp.measurements()) {
-            if (problem.measurements().get(row).time() == Double.POSITIVE_INFINITY) {
-                return false;
-            }
-        }
-        return true;
-    }
-
-    /**
-     * Whether {@link #run} goes through the {@link Simulator} (SBML event semantics, stops at right-hand-side
-     * switches): models with events, and residuals of models with such switches ({@link
-     * #switchesOnTheSimulatorPath}).
+     * Whether {@link #run} simulates with SBML event semantics from the condition's own initial values: models with
+     * events or with {@code delay()} in their mathematics (the simulator keeps the delay history). Such experiments
+     * have no pre-equilibration (refused when built) and no steady-state times (callers refuse them).
      */
     boolean hasEvents() {
+        return eventRoute;
+    }
+
+    /**
+     * Whether {@link #run} goes through the {@link Simulator}: models with events or {@code delay()} ({@link
+     * #hasEvents}) and models with right-hand-side switches ({@link CompiledModel#rhsSwitchCount}), where the
+     * sensitivities take the jump of a θ-dependent switching time. A sensitivity run there can fail where the states
+     * alone integrate (a switching function tangent to the solution has no θ-derivative of its time), so callers
+     * may fall back to finite differences.
+     */
+    boolean usesSimulator() {
         return simulator != null;
     }
 
     /**
-     * Whether sensitivities across the events are available: the model has no {@code delay()} in its mathematics
-     * (the history of the sensitivities is not kept) and no time is negative.
+     * Whether sensitivities across the events and switches are available: the model has no {@code delay()} in its
+     * mathematics (the history of the sensitivities is not kept) and, with events, no time is negative (the states
+     * alone then start at the first time, the sensitivities at 0).
      */
     boolean exactEventSensitivities(double[] times) {
         if (!model.form().delaySlots().isEmpty()) {
             return false;
+        }
+        if (!problem.hasEvents()) {
+            return true;
         }
         for (double t : times) {
             if (t < 0) {
@@ -246,10 +255,41 @@ final class ExperimentSimulation {
      * @throws IntegrationException when the integration fails or no steady state is reached
      */
     void run(State st, double[] linear, double[] dLinear, boolean sens, double[] times, Sample sample) {
-        if (simulator != null) {
+        if (eventRoute) {
             runWithEvents(st, linear, dLinear, sens, times, sample);
             return;
         }
+        start(st, linear, dLinear, sens);
+        if (simulator != null) {
+            runOnSimulator(st, sens, times, sample);
+            return;
+        }
+        BdfSession ses = null;
+        double t = 0.0;
+        for (int i = 0; i < times.length; i++) {
+            double tm = times[i];
+            if (tm > t) {
+                if (ses == null) {
+                    ses = integrator.start(st.sys, t, st.y, st.pEff, null, sens ? st.sensParams : null,
+                            sens ? st.s : null);
+                }
+                if (tm == Double.POSITIVE_INFINITY) {
+                    steady.run(ses, model, st.pEff, st.y, sens ? st.s : null, "condition '" + sim.id() + "'");
+                } else {
+                    ses.advance(tm, st.y, sens ? st.s : null);
+                }
+                t = tm;
+            }
+            sample.at(i, t);
+        }
+    }
+
+    /**
+     * State, effective parameters and (when {@code sens}) their θ-derivatives at time 0 of the simulation
+     * condition: its initial values, or the steady state of the pre-equilibration condition with the species the
+     * simulation condition re-initialises. Leaves the {@link ThetaSystem} on the simulation condition's columns.
+     */
+    private void start(State st, double[] linear, double[] dLinear, boolean sens) {
         int nc = st.nc;
         if (pre != null) {
             initial(st, pre, linear, dLinear, sens, st.y, st.pEffPre, st.s, st.dPeffPre);
@@ -275,26 +315,60 @@ final class ExperimentSimulation {
         if (sens) {
             st.sys.setColumns(st.dPeff);
         }
-        BdfSession ses = null;
-        double[] breaks = null;
-        int nextBreak = 0;
-        double t = 0.0;
-        for (int i = 0; i < times.length; i++) {
-            double tm = times[i];
-            if (tm > t) {
-                if (ses == null) {
-                    ses = integrator.start(st.sys, t, st.y, st.pEff, null, sens ? st.sensParams : null,
-                            sens ? st.s : null);
-                    breaks = breakpoints(st.pEff, st.y);
-                }
-                if (tm == Double.POSITIVE_INFINITY) {
-                    steady.run(ses, model, st.pEff, st.y, sens ? st.s : null, "condition '" + sim.id() + "'");
-                } else {
-                    nextBreak = advanceTo(ses, tm, breaks, nextBreak, st.y, sens ? st.s : null);
-                }
-                t = tm;
+    }
+
+    /**
+     * Models with right-hand-side switches (no events, no delay()), from the state of {@link #start} at time 0: the
+     * times up to the first +inf on the {@link Simulator}, which stops at every switch and adds the sensitivity jump
+     * of a θ-dependent switching time; then, for +inf, on the simulator past the last switch on time ({@link
+     * Simulator#lastTimeSwitch}, up to {@link SteadyState#maxTime}) and a steady-state run from there (see the class
+     * comment). As on the direct route, a time not after the current one is sampled at the current time.
+     */
+    private void runOnSimulator(State st, boolean sens, double[] times, Sample sample) {
+        int nf = 0;
+        double tLast = 0.0;
+        while (nf < times.length && times[nf] != Double.POSITIVE_INFINITY) {
+            tLast = Math.max(tLast, times[nf]);
+            nf++;
+        }
+        double[] simTimes = times;
+        if (nf < times.length) {
+            // the steady state lies after the last switch on time: until then the state can be at rest
+            double tSwitch = simulator.lastTimeSwitch(tLast, steady.maxTime(), st.y, st.pEff);
+            simTimes = Arrays.copyOf(times, Double.isNaN(tSwitch) ? nf : nf + 1);
+            if (!Double.isNaN(tSwitch)) {
+                simTimes[nf] = tSwitch;
+                tLast = tSwitch;
             }
-            sample.at(i, t);
+        }
+        int nr = simTimes.length;
+        int nc = st.nc;
+        double[] ys = new double[nr * n];
+        double[] ss = sens ? new double[nr * nc * n] : null;
+        if (sens) {
+            simulator.simulateSensitivities(simTimes, st.sys, 0.0, st.y, st.pEff, st.sensParams, st.s, st.dPeff, ys, ss);
+        } else {
+            simulator.simulateStates(simTimes, st.sys, 0.0, st.y, st.pEff, ys);
+        }
+        double t = 0.0;
+        for (int i = 0; i < nr; i++) {
+            t = Math.max(t, simTimes[i]);
+            System.arraycopy(ys, i * n, st.y, 0, n);
+            if (sens) {
+                System.arraycopy(ss, i * nc * n, st.s, 0, nc * n);
+            }
+            if (i < nf) {
+                sample.at(i, t);
+            }
+        }
+        if (nf == times.length) {
+            return;
+        }
+        BdfSession ses = integrator.start(st.sys, tLast, st.y, st.pEff, null, sens ? st.sensParams : null,
+                sens ? st.s : null);
+        steady.run(ses, model, st.pEff, st.y, sens ? st.s : null, "condition '" + sim.id() + "'");
+        for (int i = nf; i < times.length; i++) {
+            sample.at(i, Double.POSITIVE_INFINITY);
         }
     }
 
@@ -460,86 +534,5 @@ final class ExperimentSimulation {
                 g[src.thetaIndex()] += v * dLinear[src.thetaIndex()];
             }
         }
-    }
-
-    /**
-     * Comparisons {@code a op b} of the model whose difference {@code a - b} involves time but no state or runtime
-     * local: they switch the right-hand side at a time computable in advance (piecewise inputs). The integration
-     * stops and restarts there instead of stepping across the discontinuity. Sensitivities are carried across
-     * unchanged, which is exact when the switch time does not depend on θ (partial otherwise: the jump term of a
-     * θ-dependent switch time is not added). Residuals of experiments without pre-equilibration or steady-state
-     * measurements run on the simulator path instead, which adds the jump ({@link #switchesOnTheSimulatorPath}).
-     */
-    private static List<Expr> timeSwitches(CompiledModel model) {
-        List<Expr> out = new ArrayList<>();
-        org.switchfit.expr.Block b = model.form().runtime();
-        List<Expr> all = new ArrayList<>(b.locals());
-        all.addAll(b.outputs());
-        for (Expr e : all) {
-            e.forEach(x -> {
-                if (x.op().isRelational() && x.op() != Op.EQ && x.op() != Op.NEQ && x.argCount() == 2) {
-                    Expr g = Expr.sub(x.arg(0), x.arg(1));
-                    boolean time = g.contains(l -> l.op() == Op.TIME);
-                    boolean other = g.contains(l -> l.op() == Op.STATE || l.op() == Op.LOCAL);
-                    if (time && !other && !out.contains(g)) {
-                        out.add(g);
-                    }
-                }
-            });
-        }
-        return out;
-    }
-
-    /** Sorted positive switch times for effective parameters p (switch functions linear in time only). */
-    private double[] breakpoints(double[] p, double[] y) {
-        if (timeSwitches.isEmpty()) {
-            return new double[0];
-        }
-        double[] w = new double[0];
-        double[] t = new double[timeSwitches.size()];
-        int c = 0;
-        for (Expr g : timeSwitches) {
-            double g0 = Interpreter.evaluate(g, 0.0, y, p, w);
-            double g1 = Interpreter.evaluate(g, 1.0, y, p, w);
-            double g2 = Interpreter.evaluate(g, 2.0, y, p, w);
-            double slope = g1 - g0;
-            if (slope == 0.0 || !(Math.abs(g2 - g1 - slope) <= 1e-12 * (Math.abs(slope) + Math.abs(g0)))) {
-                continue;
-            }
-            double tb = -g0 / slope;
-            if (tb > 0 && Double.isFinite(tb)) {
-                t[c++] = tb;
-            }
-        }
-        double[] out = Arrays.copyOf(t, c);
-        Arrays.sort(out);
-        return out;
-    }
-
-    /** Advances to tOut, stopping and restarting at every switch time on the way; returns the next switch index. */
-    private static int advanceTo(BdfSession ses, double tOut, double[] breaks, int next, double[] y, double[] s) {
-        int k = next;
-        while (k < breaks.length && breaks[k] <= tOut) {
-            // stop on the old side of the switch and restart on the new one: an implicit step ending exactly at
-            // the switch time would evaluate the right-hand side there on the new branch (a condition such as
-            // time - t_on < 0 is already false at t_on) and fail its error test down to step-size underflow. The
-            // state moves by |f| times the gap, about 1e-12 relative.
-            double scale = Math.max(1.0, Math.abs(breaks[k]));
-            double gap = 4 * Math.ulp(scale) + 1e-12 * scale;
-            double lo = breaks[k] - gap;
-            if (lo > ses.time()) {
-                ses.setStopTime(lo);
-                ses.advance(lo, y, s);
-            }
-            if (breaks[k] + gap > ses.time()) {
-                ses.restartAt(breaks[k] + gap, y, s);
-            }
-            k++;
-        }
-        ses.setStopTime(k < breaks.length ? breaks[k] : Double.POSITIVE_INFINITY);
-        if (tOut > ses.time()) {
-            ses.advance(tOut, y, s);
-        }
-        return k;
     }
 }

@@ -18,16 +18,16 @@ import org.switchfit.util.UserInputException;
  * untransformed (the observable formula itself, not its log), with the exact gradient from forward sensitivities:
  * the same simulation as the residuals of {@link LikelihoodObjective} (ExperimentSimulation:
  * initial-assignment derivatives times dp/dθ, optional pre-equilibration to steady state, staggered BDF
- * sensitivities, sensitivities carried across events by their jump conditions) and the same chain through the
- * observable's derivatives with respect to states and parameters. Used for prediction profiles (Kreutz, Raue
- * and Timmer 2012, BMC Syst Biol 6:120, doi:10.1186/1752-0509-6-120).
+ * sensitivities, sensitivities carried across events and right-hand-side switches by their jump conditions) and
+ * the same chain through the observable's derivatives with respect to states and parameters. Used for prediction
+ * profiles (Kreutz, Raue and Timmer 2012, BMC Syst Biol 6:120, doi:10.1186/1752-0509-6-120).
  *
  * <p>Observable placeholders (observableParameters) take the values of the first measurement of that observable
  * in that experiment, so the prediction is what that data row would be compared with at time t. Time
  * {@code +inf} predicts the steady state of the experiment.
  *
- * <p>Models with events: finite times only, and not with {@code delay()} in the model's mathematics (no
- * sensitivities across its events); both are refused as user errors. A failed sensitivity integration raises an
+ * <p>Models with events: finite times only. Models with {@code delay()} in their mathematics: none (no
+ * sensitivities with a delay history). Both are refused as user errors. A failed sensitivity integration raises an
  * {@link ObjectiveException} (the residuals fall back to finite differences there; the prediction does not).
  * Immutable and thread-safe (per-thread workspaces).
  */
@@ -128,15 +128,17 @@ public final class ObservablePrediction implements Prediction {
             throw new UserInputException(where, "prediction '" + spec + "': '" + obsId + "' is measured in several "
                     + "experiments (" + String.join(", ", candIds) + "); write EXPERIMENT/" + obsId + "@" + tText);
         }
-        if (problem.hasEvents()) {
+        boolean delays = !problem.compiled().form().delaySlots().isEmpty();
+        if (problem.hasEvents() || delays) {
             if (t == Double.POSITIVE_INFINITY) {
                 throw new UserInputException(where, "prediction '" + spec + "': steady-state predictions of a model "
-                        + "with events are not supported; give a finite time");
+                        + "with " + (problem.hasEvents() ? "events" : "delay()") + " are not supported; give a "
+                        + "finite time");
             }
-            if (!problem.compiled().form().delaySlots().isEmpty()) {
+            if (delays) {
                 throw new UserInputException(where, "prediction '" + spec + "': prediction profiles of a model with "
-                        + "events and delay() are not supported (no sensitivities across its events); profile "
-                        + "parameters only");
+                        + "delay() are not supported (no sensitivities with a delay history); profile parameters "
+                        + "only");
             }
         }
         int e = candidates.get(0);

@@ -129,6 +129,102 @@ public final class Simulator {
         }
     }
 
+    /**
+     * Simulates the states alone from given initial values, the counterpart of {@link #simulateSensitivities}
+     * without sensitivities (same stops at events and right-hand-side switches, same integrator): for a state that
+     * was computed beforehand, e.g. by pre-equilibration, where {@link #simulate} would compute the initial values
+     * of the declared parameters itself.
+     *
+     * @param sys  the system integrated: the model's right-hand side with parameters {@code [p (m) | extra]}
+     * @param t0   start time; a time before it is reported at t0 (times non-decreasing)
+     * @param y0   initial state (length n), not modified
+     * @param p    parameters of sys; the first m are the model's effective parameters; kept by reference
+     * @param yOut receives {@code yOut[r * n + i]} = y_i(times[r])
+     * @throws IntegrationException when integration fails
+     * @throws IllegalArgumentException for a model with delay() in its mathematics (no history before t0)
+     */
+    public void simulateStates(double[] times, OdeSystem sys, double t0, double[] y0, double[] p, double[] yOut) {
+        if (!model.form().delaySlots().isEmpty()) {
+            throw new IllegalArgumentException("simulation from given initial values is not available for models "
+                    + "with delay() in their mathematics");
+        }
+        int n = model.stateCount();
+        Run run = new Run(t0, y0, p, sys, null, null, null);
+        run.tEnd = times.length == 0 ? t0 : times[times.length - 1];
+        for (int r = 0; r < times.length; r++) {
+            run.advanceTo(times[r]);
+            System.arraycopy(run.y, 0, yOut, r * n, n);
+        }
+    }
+
+    /**
+     * A time just past the last change in (from, to] of a right-hand-side switch on time only (a piecewise input
+     * such as {@code time < t_on}), or NaN when none changes there: a run to a steady state that starts before
+     * such a switch must first simulate past it, since the state can be at rest until the input changes. The
+     * switching functions are sampled at spacing 0.155 max(1, |t|) (16 samples per decade of t beyond 1) and each
+     * change is bisected to the root bracket width ({@link IntegrationSession}); a switch that changes and changes
+     * back between two samples is missed.
+     *
+     * @param y a state (length n; switches on time only do not depend on it)
+     * @param p parameters, the first m the model's effective parameters
+     */
+    public double lastTimeSwitch(double from, double to, double[] y, double[] p) {
+        int ns = model.rhsSwitchCount();
+        boolean any = false;
+        for (int k = 0; k < ns; k++) {
+            any |= model.rhsSwitchOnTimeOnly(k);
+        }
+        if (!any || !(to > from)) {
+            return Double.NaN;
+        }
+        int ne = model.form().events().size();
+        RootFunctions roots = model.rootFunctions();
+        double[] ga = new double[ne + ns];
+        double[] gb = new double[ne + ns];
+        double[] gm = new double[ne + ns];
+        double factor = Math.pow(10.0, 1.0 / TIME_SWITCH_SAMPLES) - 1.0;
+        double last = Double.NaN;
+        double a = from;
+        roots.evaluate(a, y, p, ga);
+        while (a < to) {
+            double b = Math.min(to, a + factor * Math.max(1.0, Math.abs(a)));
+            roots.evaluate(b, y, p, gb);
+            if (timeSwitchChanged(ga, gb, ne, ns)) {
+                double lo = a;
+                double hi = b;
+                while (true) {
+                    double scale = Math.max(Math.abs(hi), 1.0);
+                    if (hi - lo <= 4 * Math.ulp(scale) + 1e-12 * scale) {
+                        break;
+                    }
+                    double mid = 0.5 * (lo + hi);
+                    roots.evaluate(mid, y, p, gm);
+                    // the last change in (lo, hi]: keep the half after mid when the sign changes there
+                    if (timeSwitchChanged(gm, gb, ne, ns)) {
+                        lo = mid;
+                    } else {
+                        hi = mid;
+                    }
+                }
+                last = hi + (hi - lo);
+            }
+            double[] swap = ga;
+            ga = gb;
+            gb = swap;
+            a = b;
+        }
+        return last;
+    }
+
+    private boolean timeSwitchChanged(double[] ga, double[] gb, int ne, int ns) {
+        for (int k = 0; k < ns; k++) {
+            if (model.rhsSwitchOnTimeOnly(k) && (ga[ne + k] >= 0) != (gb[ne + k] >= 0)) {
+                return true;
+            }
+        }
+        return false;
+    }
+
     /** A model without states, given one dummy state with zero derivative so integrators can run. */
     private static final class Padded implements OdeSystem {
         private final OdeSystem inner;
@@ -526,8 +622,8 @@ public final class Simulator {
             this.hist = null;
             this.p = pSys;
             System.arraycopy(y0, 0, y, 0, n);
-            this.sens = new Sens(sensParams.length, s0, dP);
-            begin(t0, sys, n == 0 ? null : sensParams, n == 0 ? null : sens.s);
+            this.sens = sensParams == null ? null : new Sens(sensParams.length, s0, dP);
+            begin(t0, sys, n == 0 || sens == null ? null : sensParams, n == 0 || sens == null ? null : sens.s);
         }
 
         private void begin(double t0, OdeSystem sys, int[] sensParams, double[] s0) {
@@ -631,7 +727,8 @@ public final class Simulator {
         /**
          * Finds the earliest sign change in (from, target] of a switching function that depends on time only, by
          * sampling 16 points and bisecting to the bracket width of the {@link IntegrationSession} root contract;
-         * the bracket goes to [sliverLo, sliverHi] (old values hold at sliverLo, new ones at sliverHi).
+         * the bracket goes to [sliverLo, sliverHi] (old values hold at sliverLo, new ones at sliverHi), an end
+         * exactly on the root moved outward by one bracket width (not below the current time).
          *
          * @return whether one was found
          */
@@ -661,12 +758,36 @@ public final class Simulator {
                             System.arraycopy(gB, 0, gA, 0, gA.length);
                         }
                     }
+                    // A bracket end exactly on a root (g = 0) is ambiguous: the root convention counts it on the
+                    // side g >= 0, while the condition itself may already (time - t_on < 0 at t_on) or still
+                    // (time - t_on <= 0) take the other value there. Such an end moves one bracket width outward,
+                    // so the old branch of f holds at sliverLo and the new one at sliverHi: an implicit step ending
+                    // at sliverLo would otherwise evaluate f on the new branch and fail its error test down to
+                    // step-size underflow (measured on Isensee_JCB2018, a switch at a measurement time).
+                    double width = hi - lo;
+                    if (onTimeSwitchRoot(lo)) {
+                        lo = Math.max(t, lo - width);
+                    }
+                    if (onTimeSwitchRoot(hi)) {
+                        hi += width;
+                    }
                     sliverLo = lo;
                     sliverHi = hi;
                     return true;
                 }
                 a = b;
                 System.arraycopy(gB, 0, gA, 0, gA.length);
+            }
+            return false;
+        }
+
+        /** Whether a switching function on time only is exactly 0 at time x (uses gB as scratch). */
+        private boolean onTimeSwitchRoot(double x) {
+            switchRoots.evaluate(x, y, p, gB);
+            for (int k = 0; k < ns; k++) {
+                if (timeOnly[k] && gB[ne + k] == 0.0) {
+                    return true;
+                }
             }
             return false;
         }

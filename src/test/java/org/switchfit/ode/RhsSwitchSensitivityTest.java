@@ -252,4 +252,56 @@ class RhsSwitchSensitivityTest {
             assertEquals(x, tr.value(r, 0), REL_CLOSED * x, "X at " + times[r]);
         }
     }
+
+    /**
+     * An output exactly at the switching time of {@code time - t_on < 0}, where the switching function is 0 and
+     * counts as the old side while the condition is already false, for x' = a [t &gt;= t_on] - k x, x(0) = 1.
+     * Two failures to step-size underflow are covered: the stop before the switch fell on the switching time
+     * itself, so the last implicit step evaluated f on the new branch (t_on = 10, 7); the step after the restart
+     * started below the resolution of t when x was within atol of 0 and f large (t_on = 1 and 30). Closed form,
+     * derived by hand: x = e^{-kt} up to t_on, x = e^{-kt} + (a/k)(1 - e^{-k(t - t_on)}) after.
+     *
+     * @param spec "t_on a k"
+     */
+    @ParameterizedTest
+    @ValueSource(strings = {"10 1e6 1", "7 1e9 1e3", "1 1e3 1e3", "30 1e3 1"})
+    void outputExactlyAtTheSwitchingTime(String spec) throws IOException {
+        String[] v = spec.split(" ");
+        double tOn = Double.parseDouble(v[0]);
+        double a = Double.parseDouble(v[1]);
+        double k = Double.parseDouble(v[2]);
+        String xml = """
+                <?xml version="1.0" encoding="UTF-8"?>
+                <sbml xmlns="http://www.sbml.org/sbml/level3/version2/core" level="3" version="2">
+                  <model id="step">
+                    <listOfParameters>
+                      <parameter id="a" value="%s" constant="true"/>
+                      <parameter id="k" value="%s" constant="true"/>
+                      <parameter id="t_on" value="%s" constant="true"/>
+                      <parameter id="x" value="1" constant="false"/>
+                    </listOfParameters>
+                    <listOfRules><rateRule variable="x">%s<apply><minus/><apply><times/><ci>a</ci>
+                      <piecewise><piece><cn>0</cn><apply><lt/><apply><minus/>%s<ci>t_on</ci></apply><cn>0</cn>
+                      </apply></piece><otherwise><cn>1</cn></otherwise></piecewise></apply>
+                      <apply><times/><ci>k</ci><ci>x</ci></apply></apply></math></rateRule></listOfRules>
+                  </model>
+                </sbml>
+                """.formatted(v[1], v[2], v[0], MATH, TIME);
+        Path f = dir.resolve("step.xml");
+        Files.writeString(f, xml);
+        CompiledModel cm = ModelCompiler.compile(SbmlReader.read(f));
+        assertEquals(1, cm.rhsSwitchCount());
+        double[] times = {tOn, 10 * tOn + 5};
+        // rtol 1e-8, atol 1e-12 as in the benchmark check that found the first failure (Isensee_JCB2018)
+        Trajectory tr = new Simulator(cm, BdfIntegrator.of(SolverSettings.defaults().withTolerances(1e-8, 1e-12)))
+                .simulate(times, cm.parameterValues(), ModelOutputs.of(cm, List.of("x")));
+        // Tolerance: 1e-6 relative, 100 times rtol (common practice for the global error), or 1e-9 absolute,
+        // 1000 times atol, for values near 0 (e^{-1000}); the stop lies 1e-12 relative before the switch and
+        // the state moves by |f| = k x times that, far below both.
+        for (int r = 0; r < times.length; r++) {
+            double t = times[r];
+            double x = Math.exp(-k * t) + (t > tOn ? a / k * (1 - Math.exp(-k * (t - tOn))) : 0.0);
+            assertEquals(x, tr.value(r, 0), Math.max(1e-6 * x, 1e-9), "x at " + t);
+        }
+    }
 }

@@ -490,6 +490,10 @@ public final class BdfSession implements IntegrationSession {
         double dm = Math.max(d1, d2);
         double h1 = dm <= 1e-15 || !Double.isFinite(dm) ? Math.max(1e-6 * tdist, h0 * 1e-3) : Math.sqrt(0.01 / dm);
         double h = Math.min(Math.min(100 * h0, h1), Math.min(tdist, hmax));
+        // a state within atol of 0 with a large derivative (a restart just after an input switched on) gives a
+        // 100 h0 below the resolution of t: start at twice the smallest step the step loop accepts instead of
+        // failing there; the error test then lets the step grow
+        h = Math.min(Math.max(h, 2 * HMIN_ULPS * Math.ulp(tn)), Math.min(tdist, hmax));
         if (tn >= tStop) {
             tStop = Double.POSITIVE_INFINITY;
         } else if (tn + h > tStop) {
