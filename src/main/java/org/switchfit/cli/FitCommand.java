@@ -198,17 +198,16 @@ public final class FitCommand implements Callable<Integer> {
             values.put(problem.parameters().get(k).id(), problem.parameters().get(k).toLinear(th[k]));
         }
         SbmlWriter.writeWithValues(problem.modelFile(), out.resolve("model_fitted.xml"), values);
-        writeTrajectories(problem, th);
+        writeTrajectories(objective, th);
     }
 
     /**
      * Fitted observables on a fine time grid with the data, for the report (trajectories.json). A simulation failure
      * here loses nothing already written; it is reported on stderr and the report skips the section.
      */
-    private void writeTrajectories(EstimationProblem problem, double[] th) {
+    private void writeTrajectories(LikelihoodObjective objective, double[] th) {
         try {
-            TrajectoriesFile tf = FittedTrajectories.compute(problem, th, solver.settings(),
-                    FittedTrajectories.DEFAULT_GRID);
+            TrajectoriesFile tf = FittedTrajectories.compute(objective, th, FittedTrajectories.DEFAULT_GRID);
             FitDirectory.of(out).write(FitFile.TRAJECTORIES, tf);
         } catch (RuntimeException e) {
             spec.commandLine().getErr().println("note: fitted trajectories not written (" + e.getMessage() + ")");

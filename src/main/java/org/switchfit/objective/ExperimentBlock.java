@@ -190,6 +190,27 @@ final class ExperimentBlock implements ResidualBlock {
         }
     }
 
+    /**
+     * States without sensitivities at each time (sorted, +inf only for models without events or delay()) into
+     * {@code y[i]} (new arrays), and p_eff of the simulation condition into {@code pEff} (length m), by the same
+     * {@link ExperimentSimulation} as the residuals, on this thread's state.
+     *
+     * @throws IntegrationException when the integration fails or no steady state is reached
+     */
+    void states(double[] linear, double[] times, double[][] y, double[] pEff) {
+        if (simulation.hasEvents()) {
+            for (double t : times) {
+                if (t == Double.POSITIVE_INFINITY) {
+                    throw new IllegalArgumentException("experiment '" + exp.id() + "': steady state (time +inf) "
+                            + "of a model with events or delay() is not supported");
+                }
+            }
+        }
+        ExperimentSimulation.State st = work.get().st;
+        simulation.run(st, linear, null, false, times, (i, t) -> y[i] = st.y.clone());
+        System.arraycopy(st.pEff, 0, pEff, 0, m);
+    }
+
     private double[] dLinear(EvaluationContext ctx) {
         double[] dLinear = new double[np];
         for (int j = 0; j < np; j++) {

@@ -182,6 +182,47 @@ public final class LikelihoodObjective implements Objective {
     }
 
     /**
+     * The states of one simulation experiment at the given times, simulated exactly as for the residuals (initial
+     * values, pre-equilibration, right-hand-side switches and events through the simulator), without
+     * sensitivities; for plotting fitted curves on a grid finer than the data. Thread-safe.
+     *
+     * @param experiment index into {@code problem().experiments()}
+     * @param theta      parameters on the estimation scale, length {@link #parameterCount()}
+     * @param times      nondecreasing times; +inf (steady state) only for models without events or delay()
+     * @return the state at each time and the effective parameters p_eff of the simulation condition
+     * @throws org.switchfit.ode.IntegrationException when the integration fails or no steady state is reached
+     */
+    public ExperimentStates experimentStates(int experiment, double[] theta, double[] times) {
+        int ne = problem.experiments().size();
+        if (experiment < 0 || experiment >= ne || theta.length != problem.parameterCount()) {
+            throw new IllegalArgumentException("experiment must be in [0, " + ne + ") and theta needs "
+                    + problem.parameterCount() + " values; got " + experiment + " and " + theta.length);
+        }
+        for (int i = 0; i < times.length; i++) {
+            if (Double.isNaN(times[i]) || times[i] == Double.NEGATIVE_INFINITY || i > 0 && times[i] < times[i - 1]) {
+                throw new IllegalArgumentException("times must be nondecreasing, not NaN or -inf; got " + times[i]
+                        + " at index " + i);
+            }
+        }
+        // the first blocks are the experiments' (see of)
+        ExperimentBlock block = (ExperimentBlock) blocks.get(experiment);
+        double[][] y = new double[times.length][];
+        double[] pEff = new double[problem.compiled().parameterCount()];
+        block.states(problem.toLinear(theta), times, y, pEff);
+        return new ExperimentStates(y, pEff);
+    }
+
+    /**
+     * States of one experiment ({@link #experimentStates}).
+     *
+     * @param states              {@code states[i]} the state vector at the i-th requested time
+     * @param effectiveParameters p_eff of the simulation condition (declared parameters after initial assignments),
+     *                            as the observable formulas read them
+     */
+    public record ExperimentStates(double[][] states, double[] effectiveParameters) {
+    }
+
+    /**
      * One detailed evaluation.
      *
      * @param nll       negative log-likelihood including priors

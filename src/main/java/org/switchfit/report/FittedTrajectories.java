@@ -4,22 +4,12 @@ import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.LinkedHashMap;
 import java.util.List;
-import java.util.Locale;
 import java.util.Map;
 import java.util.TreeSet;
-import org.switchfit.model.OdeForm;
+import org.switchfit.objective.LikelihoodObjective;
 import org.switchfit.objective.ObjectiveException;
-import org.switchfit.objective.SteadyState;
-import org.switchfit.ode.CompiledModel;
 import org.switchfit.ode.IntegrationException;
-import org.switchfit.ode.IntegrationSession;
-import org.switchfit.ode.Integrator;
-import org.switchfit.ode.Integrators;
-import org.switchfit.ode.ModelOutputs;
-import org.switchfit.ode.Simulator;
 import org.switchfit.ode.SolverSettings;
-import org.switchfit.ode.Trajectory;
-import org.switchfit.problem.Condition;
 import org.switchfit.problem.EstimationProblem;
 import org.switchfit.problem.Measurement;
 import org.switchfit.problem.ObservableDef;
@@ -29,8 +19,9 @@ import org.switchfit.problem.ValueSource;
 /**
  * Computes the content of {@code trajectories.json} from an {@link EstimationProblem} at a parameter vector θ:
  * each experiment is simulated once on a fine time grid (uniform over [0, last finite measurement time], merged
- * with the measurement times), the same way the likelihood does (pre-equilibration to steady state, re-initialised
- * states, SBML events through {@link Simulator}), and each observable with data in it is evaluated on the grid.
+ * with the measurement times), by the likelihood's own experiment simulation ({@link
+ * LikelihoodObjective#experimentStates}: pre-equilibration to steady state, re-initialised states, right-hand-side
+ * switches and SBML events through the simulator), and each observable with data in it is evaluated on the grid.
  * The fitted call is at the end of {@code switchfit fit}; prediction bands are added later by the profile command.
  *
  * <p>Conventions. Observable placeholders on the grid take the values of the first measurement of that observable
@@ -48,7 +39,8 @@ public final class FittedTrajectories {
     public static final int DEFAULT_GRID = 201;
 
     /**
-     * Fitted observables of every experiment at θ.
+     * Fitted observables of every experiment at θ, simulated by a new {@link LikelihoodObjective} of the problem
+     * (use {@link #compute(LikelihoodObjective, double[], int)} when one exists).
      *
      * @param problem    the problem
      * @param theta      parameters on the estimation scale (as a fit reports them), length
@@ -60,20 +52,38 @@ public final class FittedTrajectories {
      */
     public static TrajectoriesFile compute(EstimationProblem problem, double[] theta, SolverSettings settings,
                                            int gridPoints) {
+        return compute(LikelihoodObjective.of(problem, settings), theta, gridPoints);
+    }
+
+    /**
+     * Fitted observables of every experiment at θ, with the states simulated by the objective's own experiment
+     * simulation ({@link LikelihoodObjective#experimentStates}).
+     *
+     * @param objective  the negative log-likelihood of the fit (its problem and integration settings)
+     * @param theta      parameters on the estimation scale (as a fit reports them), length
+     *                   {@code objective.parameterCount()}
+     * @param gridPoints number of uniform grid points per experiment, at least 2
+     * @return the file content, without prediction bands
+     * @throws ObjectiveException when a simulation fails (names the experiment)
+     */
+    public static TrajectoriesFile compute(LikelihoodObjective objective, double[] theta, int gridPoints) {
+        EstimationProblem problem = objective.problem();
         if (theta.length != problem.parameterCount() || gridPoints < 2) {
             throw new IllegalArgumentException("theta needs " + problem.parameterCount() + " values and gridPoints "
                     + ">= 2; got " + theta.length + " and " + gridPoints);
         }
         double[] linear = problem.toLinear(theta);
         List<TrajectoriesFile.Experiment> out = new ArrayList<>();
-        for (SimulationExperiment e : problem.experiments()) {
-            out.add(experiment(problem, e, linear, settings, gridPoints));
+        for (int e = 0; e < problem.experiments().size(); e++) {
+            out.add(experiment(objective, e, theta, linear, gridPoints));
         }
         return new TrajectoriesFile(null, out);
     }
 
-    private static TrajectoriesFile.Experiment experiment(EstimationProblem problem, SimulationExperiment e,
-                                                          double[] linear, SolverSettings settings, int gridPoints) {
+    private static TrajectoriesFile.Experiment experiment(LikelihoodObjective objective, int index, double[] theta,
+                                                          double[] linear, int gridPoints) {
+        EstimationProblem problem = objective.problem();
+        SimulationExperiment e = problem.experiments().get(index);
         int[] rows = e.measurements();
         double tMax = 0.0;
         TreeSet<Double> times = new TreeSet<>();
@@ -90,9 +100,9 @@ public final class FittedTrajectories {
             times.add(tMax * i / (gridPoints - 1));
         }
         double[] grid = times.stream().mapToDouble(Double::doubleValue).toArray();
-        Simulation sim;
+        LikelihoodObjective.ExperimentStates sim;
         try {
-            sim = simulate(problem, e, linear, settings, grid);
+            sim = objective.experimentStates(index, theta, grid);
         } catch (IntegrationException ex) {
             throw new ObjectiveException("experiment '" + e.id() + "': fitted trajectory could not be computed: "
                     + ex.getMessage(), ex);
@@ -105,10 +115,10 @@ public final class FittedTrajectories {
             int o = en.getKey();
             ObservableDef od = problem.observables().get(o);
             List<Measurement> ms = en.getValue();
-            fillQ(problem, q, sim.pEff, m, ms.get(0), linear);
+            fillQ(problem, q, sim.effectiveParameters(), m, ms.get(0), linear);
             double[] fitted = new double[grid.length];
             for (int k = 0; k < grid.length; k++) {
-                problem.evaluateObservable(o, grid[k], sim.y[k], q, hs);
+                problem.evaluateObservable(o, grid[k], sim.states()[k], q, hs);
                 fitted[k] = hs[0];
             }
             List<double[]> data = new ArrayList<>();
@@ -117,8 +127,8 @@ public final class FittedTrajectories {
                     continue;
                 }
                 int k = Arrays.binarySearch(grid, me.time());
-                fillQ(problem, q, sim.pEff, m, me, linear);
-                problem.evaluateObservable(o, me.time(), sim.y[k], q, hs);
+                fillQ(problem, q, sim.effectiveParameters(), m, me, linear);
+                problem.evaluateObservable(o, me.time(), sim.states()[k], q, hs);
                 double sigma = Double.isFinite(me.fixedSigma()) ? me.fixedSigma() : hs[1];
                 data.add(new double[] {me.time(), me.value(), untransformedSd(od, me.value(), sigma)});
             }
@@ -156,103 +166,6 @@ public final class FittedTrajectories {
         for (int i = 0; i < me.noiseParameters().size(); i++) {
             q[nOff + i] = me.noiseParameters().get(i).value(linear);
         }
-    }
-
-    /** States at each grid time and the effective parameters of the simulation condition. */
-    private record Simulation(double[][] y, double[] pEff) {
-    }
-
-    private static Simulation simulate(EstimationProblem problem, SimulationExperiment e, double[] linear,
-                                       SolverSettings settings, double[] grid) {
-        CompiledModel model = problem.compiled();
-        int n = model.stateCount();
-        int m = model.parameterCount();
-        Condition simC = problem.conditions().get(e.condition());
-        double[] pDecl = new double[m];
-        double[] pEff = new double[m];
-        double[] y = new double[n];
-        double[][] ys = new double[grid.length][];
-        Integrator integrator = Integrators.create(settings);
-        simC.declared(linear, pDecl);
-        if (problem.hasEvents()) {
-            // same route as the likelihood for models with events (which has no pre-equilibration for them)
-            model.initialValues(0.0, pDecl, y, pEff);
-            Trajectory tr = new Simulator(model, integrator).simulate(grid, pDecl, stateOutputs(model));
-            for (int k = 0; k < grid.length; k++) {
-                ys[k] = new double[n];
-                for (int i = 0; i < n; i++) {
-                    ys[k][i] = tr.value(k, i);
-                }
-            }
-            return new Simulation(ys, pEff);
-        }
-        if (e.preequilibration() >= 0) {
-            Condition pre = problem.conditions().get(e.preequilibration());
-            double[] pDeclPre = new double[m];
-            double[] pEffPre = new double[m];
-            pre.declared(linear, pDeclPre);
-            model.initialValues(0.0, pDeclPre, y, pEffPre);
-            IntegrationSession ses = integrator.start(model, 0.0, y, pEffPre, null, null, null);
-            toSteadyState(ses, model, pEffPre, y, "pre-equilibration condition '" + pre.id() + "'");
-            double[] y0 = new double[n];
-            model.initialValues(0.0, pDecl, y0, pEff);
-            for (int i : simC.reinit()) {
-                y[i] = y0[i];
-            }
-        } else {
-            model.initialValues(0.0, pDecl, y, pEff);
-        }
-        IntegrationSession ses = null;
-        double t = 0.0;
-        for (int k = 0; k < grid.length; k++) {
-            if (grid[k] > t) {
-                if (ses == null) {
-                    ses = integrator.start(model, t, y, pEff, null, null, null);
-                }
-                ses.advance(grid[k], y, null);
-                t = grid[k];
-            }
-            ys[k] = y.clone();
-        }
-        return new Simulation(ys, pEff);
-    }
-
-    /** Same criterion as the likelihood's {@link SteadyState#defaults()}: growing intervals until |f| is small. */
-    private static void toSteadyState(IntegrationSession ses, CompiledModel model, double[] p, double[] y,
-                                      String what) {
-        SteadyState crit = SteadyState.defaults();
-        int n = model.stateCount();
-        double[] f = new double[n];
-        double t = ses.time();
-        double dt = 1.0;
-        while (true) {
-            model.rhs(t, y, p, f);
-            double worst = 0.0;
-            for (int i = 0; i < n; i++) {
-                worst = Math.max(worst, Math.abs(f[i]) / (crit.atol() + crit.rtol() * Math.abs(y[i])));
-            }
-            if (worst <= 1.0) {
-                return;
-            }
-            if (t >= crit.maxTime()) {
-                throw new IntegrationException(t, String.format(Locale.ROOT, "%s: no steady state up to t = %.3g",
-                        what, t));
-            }
-            t = ses.advance(t + dt, y, null);
-            dt *= 10.0;
-        }
-    }
-
-    private static ModelOutputs stateOutputs(CompiledModel model) {
-        List<String> names = new ArrayList<>();
-        OdeForm f = model.form();
-        for (int i = 0; i < model.stateCount(); i++) {
-            OdeForm.StateKind k = f.stateKind(i);
-            String id = f.stateIds().get(i);
-            names.add(k == OdeForm.StateKind.SPECIES_AMOUNT ? "amount(" + id + ")"
-                    : k == OdeForm.StateKind.SPECIES_CONCENTRATION ? "concentration(" + id + ")" : id);
-        }
-        return ModelOutputs.of(model, names);
     }
 
     private static double[] column(List<double[]> rows, int c) {

@@ -8,15 +8,15 @@ import org.junit.jupiter.api.io.TempDir;
 import org.switchfit.ode.SolverSettings;
 import org.switchfit.problem.EstimationProblem;
 import org.switchfit.problem.ProblemLoader;
-import org.switchfit.testsystems.DecaySbml;
+import org.switchfit.testsystems.OnsetSbml;
 import org.switchfit.testsystems.PetabFiles;
 
 /**
  * Exact residual Jacobians and prediction gradients of a PEtab problem with pre-equilibration whose input switches
  * on at an estimated time: {@code x' = b + piecewise(0, time < t_on, u) - k x}, pre-equilibrated at u = 0 (steady
- * state x = b/k), then u = uOn from time 0. The sensitivities must take the jump of the θ-dependent switching time
- * ({@code s⁺ = s⁻ + (f⁻ - f⁺) dt_on/dθ}) after the pre-equilibration too; checked against the closed form, derived
- * by hand, with τ = t - t_on and E = e^{-k τ}:
+ * state x = b/k), then u = uOn from time 0 ({@link OnsetSbml}). The sensitivities must take the jump of the
+ * θ-dependent switching time ({@code s⁺ = s⁻ + (f⁻ - f⁺) dt_on/dθ}) after the pre-equilibration too; checked against
+ * the closed form, derived by hand, with τ = t - t_on and E = e^{-k τ}:
  * <pre>
  *   t &lt; t_on:  x = b/k,                          dx/dk = -b/k²,  dx/db = 1/k, dx/du = 0,           dx/dt_on = 0
  *   t &gt; t_on:  x = b/k + (u/k)(1 - E),          dx/db = 1/k,    dx/du = (1 - E)/k,                dx/dt_on = -u E,
@@ -47,30 +47,6 @@ class PreequilibratedOnsetGradientTest {
     private static final double[] T = {1.0, 4.0, 6.0, 10.0, Double.POSITIVE_INFINITY};
     private static final double[] M = {2.1, 3.5, 4.8, 5.6, 6.1};
 
-    private static final String MATH = "<math xmlns=\"http://www.w3.org/1998/Math/MathML\">";
-
-    /** x' = b + piecewise(0, time &lt; t_on, u) - k x; x declared 0 (the pre-equilibration sets it). */
-    static final String MODEL = """
-            <?xml version="1.0" encoding="UTF-8"?>
-            <sbml xmlns="http://www.sbml.org/sbml/level3/version2/core" level="3" version="2">
-              <model id="onset">
-                <listOfParameters>
-                  <parameter id="k" value="0.5" constant="true"/>
-                  <parameter id="b" value="1" constant="true"/>
-                  <parameter id="u" value="0" constant="true"/>
-                  <parameter id="t_on" value="3" constant="true"/>
-                  <parameter id="x" value="0" constant="false"/>
-                </listOfParameters>
-                <listOfRules>
-                  <rateRule variable="x">%s<apply><minus/><apply><plus/><ci>b</ci>
-                    <piecewise><piece><cn>0</cn><apply><lt/>%s<ci>t_on</ci></apply></piece>
-                    <otherwise><ci>u</ci></otherwise></piecewise></apply>
-                    <apply><times/><ci>k</ci><ci>x</ci></apply></apply></math></rateRule>
-                </listOfRules>
-              </model>
-            </sbml>
-            """.formatted(MATH, DecaySbml.TIME);
-
     @TempDir
     Path dir;
 
@@ -81,7 +57,7 @@ class PreequilibratedOnsetGradientTest {
             meas.append("\nobs | pre | c0 | ").append(M[i]).append(" | ")
                     .append(T[i] == Double.POSITIVE_INFINITY ? "inf" : String.valueOf(T[i]));
         }
-        return ProblemLoader.load(PetabFiles.write(dir, MODEL,
+        return ProblemLoader.load(PetabFiles.write(dir, OnsetSbml.MODEL,
                 "parameterId | parameterScale | lowerBound | upperBound | nominalValue | estimate\n"
                         + "k | log10 | 1e-2 | 10 | " + K + " | 1\n"
                         + "b | lin | 0.1 | 10 | " + B + " | 1\n"

@@ -1,0 +1,114 @@
+package org.switchfit.report;
+
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.nio.file.Path;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import org.switchfit.objective.LikelihoodObjective;
+import org.switchfit.ode.SolverSettings;
+import org.switchfit.problem.EstimationProblem;
+import org.switchfit.problem.ProblemLoader;
+import org.switchfit.testsystems.OnsetSbml;
+import org.switchfit.testsystems.PetabFiles;
+
+/**
+ * Fitted trajectory of a model whose input switches on at an estimated time, after pre-equilibration ({@link
+ * OnsetSbml}): {@code x' = b + u H(t - t_on) - k x}, pre-equilibrated at u = 0 to x_ss = b/k, then u = uOn from
+ * time 0. Closed form, derived by hand (linear first-order equation with a step input): x(t) = x_ss for t &lt;= t_on,
+ * {@code x(t) = x_ss + (u/k)(1 - exp(-k (t - t_on)))} for t &gt; t_on. The switching time t_on = 3.33 lies between
+ * two grid points (grid step 0.05), so the curve on the grid must be simulated through the switch as the
+ * likelihood does it (stopping at it), not stepped across.
+ */
+class FittedTrajectoriesOnsetTest {
+    private static final SolverSettings TIGHT = SolverSettings.defaults().withTolerances(1e-10, 1e-14);
+    private static final double K = 0.5;
+    private static final double B = 1.0;
+    private static final double U = 2.0;
+    private static final double T_ON = 3.33;
+    private static final double[] T = {1.0, 4.0, 6.0, 10.0};
+
+    @TempDir
+    Path dir;
+
+    private EstimationProblem problem() {
+        StringBuilder meas = new StringBuilder(
+                "observableId | preequilibrationConditionId | simulationConditionId | measurement | time");
+        for (double t : T) {
+            meas.append("\nobs | pre | c0 | ").append(closedForm(t)).append(" | ").append(t);
+        }
+        return ProblemLoader.load(PetabFiles.write(dir, OnsetSbml.MODEL,
+                "parameterId | parameterScale | lowerBound | upperBound | nominalValue | estimate\n"
+                        + "k | log10 | 1e-2 | 10 | " + K + " | 1\n"
+                        + "b | lin | 0.1 | 10 | " + B + " | 1\n"
+                        + "uOn | lin | 0.1 | 10 | " + U + " | 1\n"
+                        + "t_on | lin | 0.1 | 8 | " + T_ON + " | 1",
+                "conditionId | u\npre | 0\nc0 | uOn",
+                "observableId | observableFormula | noiseFormula\nobs | x | 0.1",
+                meas.toString()));
+    }
+
+    /** Closed form of the class comment at the nominal values. */
+    private static double closedForm(double t) {
+        return t <= T_ON ? B / K : B / K + U / K * (1 - Math.exp(-K * (t - T_ON)));
+    }
+
+    /**
+     * Relative tolerance against the closed form. The pre-equilibration stops at |f| &lt;= 1e-12 + 1e-8 |x|
+     * (SteadyState.defaults), i.e. |x - b/k| &lt;= 1e-8 |x| / k = 2e-8 relative at k = 0.5; the BDF global error at
+     * rtol 1e-10 is about 1e-9 to 1e-8 (one to two orders above the local tolerance, common practice) and the
+     * switching time is located to about 1e-12 relative. 1e-6 leaves a margin of 50 over the largest of these.
+     */
+    private static final double REL = 1e-6;
+
+    @Test
+    void curveThroughTheSwitchFollowsTheClosedForm() {
+        EstimationProblem p = problem();
+        double[] theta = p.nominalTheta();
+        TrajectoriesFile tf = FittedTrajectories.compute(p, theta, TIGHT, FittedTrajectories.DEFAULT_GRID);
+        TrajectoriesFile.Observable o = tf.experiments().get(0).observables().get(0);
+        double[] t = o.time();
+        assertEquals(FittedTrajectories.DEFAULT_GRID, t.length, "measurement times 1, 4, 6, 10 lie on the grid");
+        assertEquals(10.0, t[t.length - 1], 0.0);
+        double worst = 0;
+        int after = 0;
+        for (int i = 0; i < t.length; i++) {
+            double exact = closedForm(t[i]);
+            worst = Math.max(worst, Math.abs(o.fitted()[i] - exact) / exact);
+            after += t[i] > T_ON ? 1 : 0;
+        }
+        assertTrue(after > 100, "most of the grid lies after the switch");
+        assertTrue(worst < REL, "largest relative error on the grid " + worst);
+        assertArrayEquals(T, o.dataTime(), 0.0);
+    }
+
+    @Test
+    void statesAndEffectiveParametersFromTheLikelihood() {
+        EstimationProblem p = problem();
+        LikelihoodObjective obj = LikelihoodObjective.of(p, TIGHT);
+        double[] theta = p.nominalTheta();
+        double[] times = {0.0, 2.0, T_ON, 3.5, 7.0, Double.POSITIVE_INFINITY};
+        LikelihoodObjective.ExperimentStates s = obj.experimentStates(0, theta, times);
+        assertEquals(times.length, s.states().length);
+        for (int i = 0; i < times.length - 1; i++) {
+            double exact = closedForm(times[i]);
+            assertEquals(exact, s.states()[i][0], REL * exact, "x at t = " + times[i]);
+        }
+        // steady state of the simulation condition: x = (b + u)/k (set x' = 0 with the input on)
+        assertEquals((B + U) / K, s.states()[times.length - 1][0], REL * (B + U) / K, "x at t = inf");
+        // p_eff of the simulation condition: the declared values with u = uOn (no initial assignments here)
+        String[] ids = {"k", "b", "u", "t_on"};
+        double[] expected = {K, B, U, T_ON};
+        for (int i = 0; i < ids.length; i++) {
+            int idx = p.compiled().form().parameterIds().indexOf(ids[i]);
+            // only the rounding of 10^log10(k) separates them (about 1e-16 relative); 1e-12 is a wide margin
+            assertEquals(expected[i], s.effectiveParameters()[idx], 1e-12 * expected[i], ids[i]);
+        }
+        // the same call through the objective gives the same curve as the convenience form
+        TrajectoriesFile a = FittedTrajectories.compute(obj, theta, 11);
+        TrajectoriesFile b = FittedTrajectories.compute(p, theta, TIGHT, 11);
+        assertEquals(Json.toJson(a), Json.toJson(b));
+    }
+}
