@@ -11,6 +11,15 @@ package org.switchfit.ode;
 public interface IntegrationSession {
 
     /**
+     * Width of the bracket within which a root at time t is located (the contract above):
+     * {@code 4 ulp(max(|t|, 1)) + 1e-12 max(|t|, 1)}, a few ulps at t near 1 and 1e-12 relative beyond.
+     */
+    static double rootBracketWidth(double t) {
+        double scale = Math.max(Math.abs(t), 1.0);
+        return 4 * Math.ulp(scale) + 1e-12 * scale;
+    }
+
+    /**
      * Advances to {@code tOut} or to the first root before it.
      *
      * @param tOut target time

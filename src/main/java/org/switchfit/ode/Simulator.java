@@ -193,8 +193,7 @@ public final class Simulator {
                 double lo = a;
                 double hi = b;
                 while (true) {
-                    double scale = Math.max(Math.abs(hi), 1.0);
-                    if (hi - lo <= 4 * Math.ulp(scale) + 1e-12 * scale) {
+                    if (hi - lo <= IntegrationSession.rootBracketWidth(hi)) {
                         break;
                     }
                     double mid = 0.5 * (lo + hi);
@@ -475,8 +474,7 @@ public final class Simulator {
                     if (changed(a, b)) {
                         double lo = a;
                         double hi = b;
-                        double scale = Math.max(Math.abs(hi), 1.0);
-                        double tol = 4 * Math.ulp(scale) + 1e-12 * scale;
+                        double tol = IntegrationSession.rootBracketWidth(hi);
                         while (hi - lo > tol) {
                             double mid = 0.5 * (lo + hi);
                             if (changed(lo, mid)) {
@@ -745,8 +743,7 @@ public final class Simulator {
                     double lo = a;
                     double hi = b;
                     while (true) {
-                        double scale = Math.max(Math.abs(hi), 1.0);
-                        if (hi - lo <= 4 * Math.ulp(scale) + 1e-12 * scale) {
+                        if (hi - lo <= IntegrationSession.rootBracketWidth(hi)) {
                             break;
                         }
                         double mid = 0.5 * (lo + hi);
