@@ -86,10 +86,7 @@ public final class BenchFitsCommand implements Callable<Integer> {
                     + threads);
         }
         PrintWriter o = spec.commandLine().getOut();
-        List<Path> folders;
-        try (Stream<Path> s = Files.list(dir)) {
-            folders = s.filter(Files::isDirectory).sorted().toList();
-        }
+        List<Path> folders = BenchPetabCommand.problemFolders(dir, only);
         List<Map<String, Object>> rows = new ArrayList<>();
         int reached = 0;
         int fitted = 0;

@@ -84,10 +84,7 @@ public final class BenchPetabCommand implements Callable<Integer> {
                     + "' does not exist; pass the folder that holds one sub-folder per PEtab problem");
         }
         PrintWriter out = spec.commandLine().getOut();
-        List<Path> folders;
-        try (Stream<Path> s = Files.list(dir)) {
-            folders = s.filter(Files::isDirectory).sorted().toList();
-        }
+        List<Path> folders = problemFolders(dir, only);
         List<Map<String, Object>> results = new ArrayList<>();
         int matched = 0;
         int total = 0;
@@ -374,6 +371,29 @@ public final class BenchPetabCommand implements Callable<Integer> {
         r.put("secondsObjectiveOnly", tPlain);
         r.put("gradientNormInf", den);
         return err;
+    }
+
+    /**
+     * The problem sub-folders of {@code dir}, sorted by name, limited to {@code only} when given.
+     *
+     * @throws UserInputException when a name in {@code only} is not a sub-folder (the line lists the valid names)
+     */
+    static List<Path> problemFolders(Path dir, List<String> only) throws IOException {
+        List<Path> folders;
+        try (Stream<Path> s = Files.list(dir)) {
+            folders = s.filter(Files::isDirectory).sorted().toList();
+        }
+        if (only != null) {
+            List<String> names = folders.stream().map(f -> f.getFileName().toString()).toList();
+            for (String n : only) {
+                if (!names.contains(n)) {
+                    throw new org.switchfit.util.UserInputException(null, "--problems: no problem folder '" + n
+                            + "' in " + dir + "; choose from " + String.join(", ", names));
+                }
+            }
+            folders = folders.stream().filter(f -> only.contains(f.getFileName().toString())).toList();
+        }
+        return folders;
     }
 
     static double[] copy(double[] a) {
