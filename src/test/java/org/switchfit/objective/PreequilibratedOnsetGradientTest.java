@@ -9,7 +9,6 @@ import org.switchfit.ode.SolverSettings;
 import org.switchfit.problem.EstimationProblem;
 import org.switchfit.problem.ProblemLoader;
 import org.switchfit.testsystems.OnsetSbml;
-import org.switchfit.testsystems.PetabFiles;
 
 /**
  * Exact residual Jacobians and prediction gradients of a PEtab problem with pre-equilibration whose input switches
@@ -51,21 +50,7 @@ class PreequilibratedOnsetGradientTest {
     Path dir;
 
     private EstimationProblem problem() {
-        StringBuilder meas = new StringBuilder(
-                "observableId | preequilibrationConditionId | simulationConditionId | measurement | time");
-        for (int i = 0; i < T.length; i++) {
-            meas.append("\nobs | pre | c0 | ").append(M[i]).append(" | ")
-                    .append(T[i] == Double.POSITIVE_INFINITY ? "inf" : String.valueOf(T[i]));
-        }
-        return ProblemLoader.load(PetabFiles.write(dir, OnsetSbml.MODEL,
-                "parameterId | parameterScale | lowerBound | upperBound | nominalValue | estimate\n"
-                        + "k | log10 | 1e-2 | 10 | " + K + " | 1\n"
-                        + "b | lin | 0.1 | 10 | " + B + " | 1\n"
-                        + "uOn | lin | 0.1 | 10 | " + U + " | 1\n"
-                        + "t_on | lin | 0.1 | 8 | " + T_ON + " | 1",
-                "conditionId | u\npre | 0\nc0 | uOn",
-                "observableId | observableFormula | noiseFormula\nobs | x | " + SIGMA,
-                meas.toString()));
+        return ProblemLoader.load(OnsetSbml.writeProblem(dir, K, B, U, T_ON, SIGMA, T, M));
     }
 
     /** Closed form (class comment): {x, dx/dk, dx/db, dx/du, dx/dt_on} at time t for the nominal values. */

@@ -35,20 +35,11 @@ class FittedTrajectoriesOnsetTest {
     Path dir;
 
     private EstimationProblem problem() {
-        StringBuilder meas = new StringBuilder(
-                "observableId | preequilibrationConditionId | simulationConditionId | measurement | time");
-        for (double t : T) {
-            meas.append("\nobs | pre | c0 | ").append(closedForm(t)).append(" | ").append(t);
+        double[] m = new double[T.length];
+        for (int i = 0; i < T.length; i++) {
+            m[i] = closedForm(T[i]);
         }
-        return ProblemLoader.load(PetabFiles.write(dir, OnsetSbml.MODEL,
-                "parameterId | parameterScale | lowerBound | upperBound | nominalValue | estimate\n"
-                        + "k | log10 | 1e-2 | 10 | " + K + " | 1\n"
-                        + "b | lin | 0.1 | 10 | " + B + " | 1\n"
-                        + "uOn | lin | 0.1 | 10 | " + U + " | 1\n"
-                        + "t_on | lin | 0.1 | 8 | " + T_ON + " | 1",
-                "conditionId | u\npre | 0\nc0 | uOn",
-                "observableId | observableFormula | noiseFormula\nobs | x | 0.1",
-                meas.toString()));
+        return ProblemLoader.load(OnsetSbml.writeProblem(dir, K, B, U, T_ON, 0.1, T, m));
     }
 
     /** Closed form of the class comment at the nominal values. */

@@ -35,4 +35,29 @@ public final class OnsetSbml {
               </model>
             </sbml>
             """.formatted(MATH, DecaySbml.TIME);
+
+    /**
+     * Writes a PEtab problem of this model into {@code dir}: k (log10, [1e-2, 10]), b, uOn (lin, [0.1, 10]) and t_on
+     * (lin, [0.1, 8]) estimated with the given nominal values, pre-equilibration condition {@code pre} (u = 0),
+     * simulation condition {@code c0} (u = uOn), observable {@code obs = x} with noise σ, data m at times t (+inf
+     * written as {@code inf}); returns the YAML path.
+     */
+    public static java.nio.file.Path writeProblem(java.nio.file.Path dir, double k, double b, double u, double tOn,
+                                                  double sigma, double[] t, double[] m) {
+        StringBuilder meas = new StringBuilder(
+                "observableId | preequilibrationConditionId | simulationConditionId | measurement | time");
+        for (int i = 0; i < t.length; i++) {
+            meas.append("\nobs | pre | c0 | ").append(m[i]).append(" | ")
+                    .append(t[i] == Double.POSITIVE_INFINITY ? "inf" : String.valueOf(t[i]));
+        }
+        return PetabFiles.write(dir, MODEL,
+                "parameterId | parameterScale | lowerBound | upperBound | nominalValue | estimate\n"
+                        + "k | log10 | 1e-2 | 10 | " + k + " | 1\n"
+                        + "b | lin | 0.1 | 10 | " + b + " | 1\n"
+                        + "uOn | lin | 0.1 | 10 | " + u + " | 1\n"
+                        + "t_on | lin | 0.1 | 8 | " + tOn + " | 1",
+                "conditionId | u\npre | 0\nc0 | uOn",
+                "observableId | observableFormula | noiseFormula\nobs | x | " + sigma,
+                meas.toString());
+    }
 }
