@@ -149,7 +149,7 @@ final class ExperimentBlock implements ResidualBlock {
             return Double.NaN;
         }
         double[] q = new double[problem.qLength()];
-        ExperimentSimulation.fillPlaceholders(problem, q, me, null);
+        problem.fillPlaceholders(q, me, null);
         double[] out = new double[2];
         problem.evaluateObservable(me.observable(), 0.0, new double[n], q, out);
         return out[1];

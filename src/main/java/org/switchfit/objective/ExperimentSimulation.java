@@ -453,31 +453,7 @@ final class ExperimentSimulation {
     void fillQ(State st, Measurement me, double[] linear) {
         double[] q = st.q;
         System.arraycopy(st.pEff, 0, q, 0, m);
-        fillPlaceholders(problem, q, me, linear);
-    }
-
-    /** Fills q[m..) (globals and placeholders) for a row; the p_eff part is untouched. */
-    static void fillPlaceholders(EstimationProblem problem, double[] q, Measurement me, double[] linear) {
-        int m = problem.compiled().parameterCount();
-        List<ValueSource> g = problem.globalSources();
-        for (int i = 0; i < g.size(); i++) {
-            q[m + i] = value(g.get(i), linear);
-        }
-        int oOff = problem.obsPlaceholderOffset();
-        for (int i = 0; i < me.obsParameters().size(); i++) {
-            q[oOff + i] = value(me.obsParameters().get(i), linear);
-        }
-        int nOff = problem.noisePlaceholderOffset();
-        for (int i = 0; i < me.noiseParameters().size(); i++) {
-            q[nOff + i] = value(me.noiseParameters().get(i), linear);
-        }
-    }
-
-    private static double value(ValueSource s, double[] linear) {
-        if (s.isTheta()) {
-            return linear == null ? Double.NaN : linear[s.thetaIndex()];
-        }
-        return s.constant();
+        problem.fillPlaceholders(q, me, linear);
     }
 
     /**

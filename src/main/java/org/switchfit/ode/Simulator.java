@@ -791,12 +791,7 @@ public final class Simulator {
 
         /** Whether a time-only switch differs in sign between gA and gB. */
         private boolean timeSwitchChanged() {
-            for (int k = 0; k < ns; k++) {
-                if (timeOnly[k] && (gA[ne + k] >= 0) != (gB[ne + k] >= 0)) {
-                    return true;
-                }
-            }
-            return false;
+            return Simulator.this.timeSwitchChanged(gA, gB, ne, ns);
         }
 
         /**

@@ -188,6 +188,34 @@ public final class EstimationProblem {
         return obsPlaceholderOffset() + maxObs;
     }
 
+    /**
+     * Writes the globals and the observable and noise placeholders of measurement {@code me} into their slots of
+     * the observable parameter vector q (from index m on; the model parameters q[0, m) are the caller's). A slot
+     * that holds an estimated parameter reads {@code linear} (θ on the linear scale), or NaN when it is null.
+     */
+    public void fillPlaceholders(double[] q, Measurement me, double[] linear) {
+        int m = compiled().parameterCount();
+        List<ValueSource> g = globalSources();
+        for (int i = 0; i < g.size(); i++) {
+            q[m + i] = placeholderValue(g.get(i), linear);
+        }
+        int oOff = obsPlaceholderOffset();
+        for (int i = 0; i < me.obsParameters().size(); i++) {
+            q[oOff + i] = placeholderValue(me.obsParameters().get(i), linear);
+        }
+        int nOff = noisePlaceholderOffset();
+        for (int i = 0; i < me.noiseParameters().size(); i++) {
+            q[nOff + i] = placeholderValue(me.noiseParameters().get(i), linear);
+        }
+    }
+
+    private static double placeholderValue(ValueSource s, double[] linear) {
+        if (s.isTheta()) {
+            return linear == null ? Double.NaN : linear[s.thetaIndex()];
+        }
+        return s.constant();
+    }
+
     /** θ on the estimation scale at the nominal values. */
     public double[] nominalTheta() {
         double[] t = new double[parameters.size()];

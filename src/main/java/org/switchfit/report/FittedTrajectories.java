@@ -154,18 +154,7 @@ public final class FittedTrajectories {
     private static void fillQ(EstimationProblem problem, double[] q, double[] pEff, int m, Measurement me,
                               double[] linear) {
         System.arraycopy(pEff, 0, q, 0, m);
-        List<ValueSource> g = problem.globalSources();
-        for (int i = 0; i < g.size(); i++) {
-            q[m + i] = g.get(i).value(linear);
-        }
-        int oOff = problem.obsPlaceholderOffset();
-        for (int i = 0; i < me.obsParameters().size(); i++) {
-            q[oOff + i] = me.obsParameters().get(i).value(linear);
-        }
-        int nOff = problem.noisePlaceholderOffset();
-        for (int i = 0; i < me.noiseParameters().size(); i++) {
-            q[nOff + i] = me.noiseParameters().get(i).value(linear);
-        }
+        problem.fillPlaceholders(q, me, linear);
     }
 
     private static double[] column(List<double[]> rows, int c) {

@@ -94,6 +94,11 @@ public final class BdfSession implements IntegrationSession {
      */
     static final double HMIN_ULPS = 16.0;
 
+    /** The smallest step the step loop takes at time t: {@link #HMIN_ULPS} ulps of t. */
+    private static double minStep(double t) {
+        return HMIN_ULPS * Math.ulp(t);
+    }
+
     static final String MSG_STEP_UNDERFLOW = "step size fell to %.3g (below the resolution of t); the solution may"
             + " have a singularity or a discontinuity here: check the model or loosen rtol (now %.3g)";
     static final String MSG_MAX_STEPS = "more than %d steps in one advance call (last step size %.3g); raise"
@@ -294,7 +299,7 @@ public final class BdfSession implements IntegrationSession {
             interpolate(tCur, yOut, sOut);
             return tCur;
         }
-        if (tOut - tCur <= HMIN_ULPS * Math.ulp(Math.max(1.0, Math.abs(tOut))) && tn <= tOut) {
+        if (tOut - tCur <= minStep(Math.max(1.0, Math.abs(tOut))) && tn <= tOut) {
             // closer than the smallest step (e.g. an output time a rounding gap after a restart): no step can
             // be taken, and the state moves by |f| times a few ulp of t, so the values at the current solution
             // point stand for tOut
@@ -493,7 +498,7 @@ public final class BdfSession implements IntegrationSession {
         // a state within atol of 0 with a large derivative (a restart just after an input switched on) gives a
         // 100 h0 below the resolution of t: start at twice the smallest step the step loop accepts instead of
         // failing there; the error test then lets the step grow
-        h = Math.min(Math.max(h, 2 * HMIN_ULPS * Math.ulp(tn)), Math.min(tdist, hmax));
+        h = Math.min(Math.max(h, 2 * minStep(tn)), Math.min(tdist, hmax));
         if (tn >= tStop) {
             tStop = Double.POSITIVE_INFINITY;
         } else if (tn + h > tStop) {
@@ -544,7 +549,7 @@ public final class BdfSession implements IntegrationSession {
             adjustParams();
         }
         if (tStop != Double.POSITIVE_INFINITY && tn < tStop
-                && tStop - tn <= HMIN_ULPS * Math.ulp(Math.max(1.0, tStop))) {
+                && tStop - tn <= minStep(Math.max(1.0, tStop))) {
             // a remainder below the smallest step: the stop time counts as reached (y moves by |f| times this
             // gap of a few ulp of t)
             tn = tStop;
@@ -561,7 +566,7 @@ public final class BdfSession implements IntegrationSession {
         setWeights();
         double dsm = 0.0;
         while (true) {
-            if (!(h > 0) || h < HMIN_ULPS * Math.ulp(tn)) {
+            if (!(h > 0) || h < minStep(tn)) {
                 throw new IntegrationException(tn, String.format(Locale.ROOT, MSG_STEP_UNDERFLOW, h, rtol));
             }
             predict();
