@@ -10,7 +10,7 @@ import java.nio.file.Path;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
-/** User errors of the benchmark commands: one line, exit code 2, nothing run. */
+/** The benchmark commands: user errors (one line, exit code 2, nothing run) and the gradient check's point. */
 class BenchCommandsTest {
 
     @TempDir
@@ -33,5 +33,33 @@ class BenchCommandsTest {
             assertEquals(1, msg.split("\n").length, msg);
             assertTrue(msg.contains("'Gamma'") && msg.contains("Alpha_2020, Beta_2021"), msg);
         }
+    }
+
+    /**
+     * The gradient check moves θ by 1 % of each box width toward the centre; where the NLL is undefined there it
+     * takes the next smaller shift. Noise spread 1 - sd (sd linear in [0, 100], nominal 0.5): at 1 % sd = 1.5 and
+     * the spread is -0.5 (undefined), at 0.1 % sd = 0.6 and the spread 0.4 (hand arithmetic).
+     */
+    @Test
+    void gradientCheckPointFallsBackWhereTheNllIsUndefined() {
+        Path yaml = org.switchfit.testsystems.PetabFiles.write(dir.resolve("p"),
+                org.switchfit.testsystems.DecaySbml.MODEL,
+                "parameterId | parameterScale | lowerBound | upperBound | nominalValue | estimate\n"
+                        + "k | lin | 0.01 | 2 | 0.2 | 1\n"
+                        + "x0 | log10 | 0.01 | 100 | 1.0 | 1\n"
+                        + "sd | lin | 0 | 100 | 0.5 | 1",
+                "conditionId\nc0",
+                "observableId | observableFormula | noiseFormula | observableTransformation | noiseDistribution\n"
+                        + "obs | X | 1 - sd | lin | normal",
+                "observableId | simulationConditionId | measurement | time\n"
+                        + "obs | c0 | 0.9 | 0.5\nobs | c0 | 0.7 | 1.5\nobs | c0 | 0.5 | 3");
+        java.util.Map<String, Object> r = new java.util.LinkedHashMap<>();
+        double err = BenchPetabCommand.gradientError(yaml, r);
+        assertEquals(0.001, (Double) r.get("gradientPointShift"), 0.0, r.toString());
+        java.util.List<?> rejected = (java.util.List<?>) r.get("gradientPointRejected");
+        assertEquals(1, rejected.size(), r.toString());
+        assertTrue(rejected.get(0).toString().contains("noise spread"), r.toString());
+        // Forward sensitivities vs central differences at rtol 1e-10 (the check's own bar is 1e-4).
+        assertTrue(err < 1e-6, "gradient error " + err);
     }
 }
