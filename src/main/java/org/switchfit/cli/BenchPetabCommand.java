@@ -296,8 +296,8 @@ public final class BenchPetabCommand implements Callable<Integer> {
      * Norm-wise relative gradient error {@code |g - g_fd|_inf / |g_fd|_inf} at a point moved off the nominal values
      * (each θ_j by 1 % of its box width toward the box centre, less where the NLL is undefined there, see
      * {@link #checkPoint}), where the gradient is not nearly zero: g = J^T r
-     * from sensitivities, g_fd central differences of the NLL with step 1e-4 max(1, |θ_j|) on the estimation
-     * scale, both at rtol 1e-10 (so the differencing noise, about rtol / step = 1e-6, stays below the 1e-4 bar).
+     * from sensitivities, g_fd central differences of the NLL with the step of {@link #differenceStep} on the
+     * estimation scale, both at rtol 1e-10 (so the differencing noise, about rtol / step = 1e-6, stays below the 1e-4 bar).
      * The absolute tolerance is 1e-14; when the integration fails there (states starting at zero and driven by a
      * steep input are then held to rtol alone, and the steps needed fall below the resolution of t, as on
      * Chen_MSB2009 at its input switch t = 1799.99), the check is repeated at atol 1e-12 and the JSON records
@@ -345,7 +345,7 @@ public final class BenchPetabCommand implements Callable<Integer> {
         // At most MAX_FD_PARAMETERS components (evenly spaced) keep the check affordable for large problems.
         int stride = Math.max(1, (np + MAX_FD_PARAMETERS - 1) / MAX_FD_PARAMETERS);
         for (int j = 0; j < np; j += stride) {
-            double h = 1e-4 * Math.max(1.0, Math.abs(th[j]));
+            double h = differenceStep(th[j], obj.problem().parameters().get(j));
             double[] tp = th.clone();
             tp[j] += h;
             double fp = obj.evaluate(tp, rr, null);
@@ -374,10 +374,26 @@ public final class BenchPetabCommand implements Callable<Integer> {
      * @throws UserInputException when a name in {@code only} is not a sub-folder (the line lists the valid names)
      */
     /**
+     * The central-difference step of the gradient check for parameter value {@code theta} (estimation scale):
+     * 1e-4 of its magnitude, where the magnitude is |θ| but at least 1 % of the box width (the parameter's typical
+     * size when θ is near 0), or max(1, |θ|) when the box is infinite. Why not 1e-4 max(1, |θ|), the earlier
+     * rule: a linear-scale parameter of tiny size moves by decades of its own value (Lang_PLOSComputBiol2024's
+     * sCDKN1A, about 8e-12 in a box [0, 2e-10]: a step of 1e-4 made the observable negative and its noise spread
+     * undefined). With the NLL's relative integration error about rtol = 1e-10, the differencing noise stays
+     * about 1e-10 / 1e-4 = 1e-6 of the gradient's scale, below the check's 1e-4 bar.
+     */
+    static double differenceStep(double theta, org.switchfit.problem.FreeParameter p) {
+        double width = p.thetaUpper() - p.thetaLower();
+        double size = Double.isFinite(width) ? Math.max(Math.abs(theta), 0.01 * width)
+                : Math.max(1.0, Math.abs(theta));
+        return 1e-4 * size;
+    }
+
+    /**
      * Relative shifts (units of each parameter's box width, toward the box centre) tried in turn for the gradient
      * check's point: 1 % moves every θ off the nominal values, where published optima often put a gradient of
      * nearly zero; smaller shifts, down to the nominal values themselves, serve problems whose objective is not
-     * defined at the shifted point (an observable with a negative noise spread, as on Lang_PLOSComputBiol2024).
+     * defined at the shifted point (for example a noise spread that turns negative).
      */
     static final double[] CHECK_POINT_SHIFTS = {0.01, 0.001, 0.0};
 

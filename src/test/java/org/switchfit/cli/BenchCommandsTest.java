@@ -62,4 +62,35 @@ class BenchCommandsTest {
         // Forward sensitivities vs central differences at rtol 1e-10 (the check's own bar is 1e-4).
         assertTrue(err < 1e-6, "gradient error " + err);
     }
+
+    /**
+     * A linear-scale factor of tiny size (s in [0, 2e-10], about 1e-10) on a log-transformed observable: the
+     * difference step must follow the factor's own size. The earlier step 1e-4 max(1, |θ|) = 1e-4 made s negative
+     * and the log of the observable undefined, so the check failed; the step 1e-4 |θ| is 1e-14 here.
+     */
+    @Test
+    void differenceStepFollowsTheSizeOfATinyLinearParameter() {
+        double[] t = {0.5, 1.5, 3};
+        StringBuilder meas = new StringBuilder("observableId | simulationConditionId | measurement | time");
+        for (double ti : t) {
+            meas.append(String.format(java.util.Locale.ROOT, "%nobs | c0 | %s | %s", 1e-10 * Math.exp(-0.25 * ti),
+                    ti));
+        }
+        Path yaml = org.switchfit.testsystems.PetabFiles.write(dir.resolve("tiny"),
+                org.switchfit.testsystems.DecaySbml.MODEL,
+                "parameterId | parameterScale | lowerBound | upperBound | nominalValue | estimate\n"
+                        + "k | lin | 0.01 | 2 | 0.2 | 1\n"
+                        + "x0 | log10 | 0.01 | 100 | 1.0 | 1\n"
+                        + "s | lin | 0 | 2e-10 | 1.1e-10 | 1",
+                "conditionId\nc0",
+                "observableId | observableFormula | noiseFormula | observableTransformation | noiseDistribution\n"
+                        + "obs | s * X | 0.1 | log | normal",
+                meas.toString());
+        java.util.Map<String, Object> r = new java.util.LinkedHashMap<>();
+        double err = BenchPetabCommand.gradientError(yaml, r);
+        assertEquals(1e-14 * 1.08, BenchPetabCommand.differenceStep(1.08e-10,
+                org.switchfit.problem.ProblemLoader.load(yaml).parameters().get(2)), 1e-28);
+        assertEquals(0.01, (Double) r.get("gradientPointShift"), 0.0, r.toString());
+        assertTrue(err < 1e-6, "gradient error " + err + " " + r);
+    }
 }
