@@ -42,17 +42,8 @@ class BenchCommandsTest {
      */
     @Test
     void gradientCheckPointFallsBackWhereTheNllIsUndefined() {
-        Path yaml = org.switchfit.testsystems.PetabFiles.write(dir.resolve("p"),
-                org.switchfit.testsystems.DecaySbml.MODEL,
-                "parameterId | parameterScale | lowerBound | upperBound | nominalValue | estimate\n"
-                        + "k | lin | 0.01 | 2 | 0.2 | 1\n"
-                        + "x0 | log10 | 0.01 | 100 | 1.0 | 1\n"
-                        + "sd | lin | 0 | 100 | 0.5 | 1",
-                "conditionId\nc0",
-                "observableId | observableFormula | noiseFormula | observableTransformation | noiseDistribution\n"
-                        + "obs | X | 1 - sd | lin | normal",
-                "observableId | simulationConditionId | measurement | time\n"
-                        + "obs | c0 | 0.9 | 0.5\nobs | c0 | 0.7 | 1.5\nobs | c0 | 0.5 | 3");
+        Path yaml = decayProblem("p", "sd | lin | 0 | 100 | 0.5 | 1", "obs | X | 1 - sd | lin | normal",
+                new double[] {0.9, 0.7, 0.5});
         java.util.Map<String, Object> r = new java.util.LinkedHashMap<>();
         double err = BenchPetabCommand.gradientError(yaml, r);
         assertEquals(0.001, (Double) r.get("gradientPointShift"), 0.0, r.toString());
@@ -70,27 +61,38 @@ class BenchCommandsTest {
      */
     @Test
     void differenceStepFollowsTheSizeOfATinyLinearParameter() {
-        double[] t = {0.5, 1.5, 3};
-        StringBuilder meas = new StringBuilder("observableId | simulationConditionId | measurement | time");
-        for (double ti : t) {
-            meas.append(String.format(java.util.Locale.ROOT, "%nobs | c0 | %s | %s", 1e-10 * Math.exp(-0.25 * ti),
-                    ti));
+        double[] m = new double[TIMES.length];
+        for (int i = 0; i < m.length; i++) {
+            m[i] = 1e-10 * Math.exp(-0.25 * TIMES[i]);
         }
-        Path yaml = org.switchfit.testsystems.PetabFiles.write(dir.resolve("tiny"),
-                org.switchfit.testsystems.DecaySbml.MODEL,
-                "parameterId | parameterScale | lowerBound | upperBound | nominalValue | estimate\n"
-                        + "k | lin | 0.01 | 2 | 0.2 | 1\n"
-                        + "x0 | log10 | 0.01 | 100 | 1.0 | 1\n"
-                        + "s | lin | 0 | 2e-10 | 1.1e-10 | 1",
-                "conditionId\nc0",
-                "observableId | observableFormula | noiseFormula | observableTransformation | noiseDistribution\n"
-                        + "obs | s * X | 0.1 | log | normal",
-                meas.toString());
+        Path yaml = decayProblem("tiny", "s | lin | 0 | 2e-10 | 1.1e-10 | 1", "obs | s * X | 0.1 | log | normal", m);
         java.util.Map<String, Object> r = new java.util.LinkedHashMap<>();
         double err = BenchPetabCommand.gradientError(yaml, r);
         assertEquals(1e-14 * 1.08, BenchPetabCommand.differenceStep(1.08e-10,
                 org.switchfit.problem.ProblemLoader.load(yaml).parameters().get(2)), 1e-28);
         assertEquals(0.01, (Double) r.get("gradientPointShift"), 0.0, r.toString());
         assertTrue(err < 1e-6, "gradient error " + err + " " + r);
+    }
+
+    private static final double[] TIMES = {0.5, 1.5, 3};
+
+    /**
+     * The decay problem of {@link org.switchfit.testsystems.DecaySbml#MODEL} (k, x0 estimated) with one more
+     * estimated parameter row, one observable row and data m at {@link #TIMES}.
+     */
+    private Path decayProblem(String name, String parameterRow, String observableRow, double[] m) {
+        StringBuilder meas = new StringBuilder("observableId | simulationConditionId | measurement | time");
+        for (int i = 0; i < m.length; i++) {
+            meas.append(String.format(java.util.Locale.ROOT, "%nobs | c0 | %s | %s", m[i], TIMES[i]));
+        }
+        return org.switchfit.testsystems.PetabFiles.write(dir.resolve(name), org.switchfit.testsystems.DecaySbml.MODEL,
+                "parameterId | parameterScale | lowerBound | upperBound | nominalValue | estimate\n"
+                        + "k | lin | 0.01 | 2 | 0.2 | 1\n"
+                        + "x0 | log10 | 0.01 | 100 | 1.0 | 1\n"
+                        + parameterRow,
+                "conditionId\nc0",
+                "observableId | observableFormula | noiseFormula | observableTransformation | noiseDistribution\n"
+                        + observableRow,
+                meas.toString());
     }
 }
