@@ -204,8 +204,11 @@ public final class LikelihoodObjective implements Objective {
                         + " at index " + i);
             }
         }
-        // the first blocks are the experiments' (see of)
-        ExperimentBlock block = (ExperimentBlock) blocks.get(experiment);
+        // of() adds one block per experiment, in order, before the prior block
+        if (experiment >= priorBlock || !(blocks.get(experiment) instanceof ExperimentBlock block)) {
+            throw new IllegalStateException("block " + experiment + " is not the block of experiment "
+                    + problem.experiments().get(experiment).id());
+        }
         double[][] y = new double[times.length][];
         double[] pEff = new double[problem.compiled().parameterCount()];
         block.states(problem.toLinear(theta), times, y, pEff);

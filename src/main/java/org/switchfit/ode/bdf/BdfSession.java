@@ -948,12 +948,9 @@ public final class BdfSession implements IntegrationSession {
         }
         if (q > 1) {
             eta = ETAMIN;
-            if (q == 2) {
-                // adjustOrder would be a no-op when going from 2 to 1.
-                q = 1;
-            } else {
-                q = 1;
-            }
+            // Straight to order 1: an order decrease of the Nordsieck history changes only columns 2..q-1, which
+            // order 1 does not read, so no history adjustment is needed.
+            q = 1;
             qwait = q + 1;
             rescale();
             return PREV_ERR_FAIL;
