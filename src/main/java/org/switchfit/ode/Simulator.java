@@ -190,22 +190,8 @@ public final class Simulator {
             double b = Math.min(to, a + factor * Math.max(1.0, Math.abs(a)));
             roots.evaluate(b, y, p, gb);
             if (timeSwitchChanged(ga, gb, ne, ns)) {
-                double lo = a;
-                double hi = b;
-                while (true) {
-                    if (hi - lo <= IntegrationSession.rootBracketWidth(hi)) {
-                        break;
-                    }
-                    double mid = 0.5 * (lo + hi);
-                    roots.evaluate(mid, y, p, gm);
-                    // the last change in (lo, hi]: keep the half after mid when the sign changes there
-                    if (timeSwitchChanged(gm, gb, ne, ns)) {
-                        lo = mid;
-                    } else {
-                        hi = mid;
-                    }
-                }
-                last = hi + (hi - lo);
+                double[] br = bisectTimeSwitch(roots, y, p, a, b, gb, gm, ne, ns, false);
+                last = br[1] + (br[1] - br[0]);
             }
             double[] swap = ga;
             ga = gb;
@@ -213,6 +199,29 @@ public final class Simulator {
             a = b;
         }
         return last;
+    }
+
+    /**
+     * Bisects [lo, hi], over which a switch on time only changes sign, to the root bracket width of
+     * {@link IntegrationSession}: toward the first change after lo ({@code first}; {@code gRef} holds the values
+     * at lo) or the last change before hi ({@code gRef} holds the values at hi). {@code gMid} is scratch.
+     *
+     * @return the final bracket {lo, hi}
+     */
+    private double[] bisectTimeSwitch(RootFunctions roots, double[] y, double[] p, double lo, double hi,
+                                      double[] gRef, double[] gMid, int ne, int ns, boolean first) {
+        while (hi - lo > IntegrationSession.rootBracketWidth(hi)) {
+            double mid = 0.5 * (lo + hi);
+            roots.evaluate(mid, y, p, gMid);
+            // first: a change between lo's values and mid puts the first change in (lo, mid]; last: a change
+            // between mid and hi's values puts the last change in (mid, hi]
+            if (timeSwitchChanged(gRef, gMid, ne, ns) == first) {
+                hi = mid;
+            } else {
+                lo = mid;
+            }
+        }
+        return new double[] {lo, hi};
     }
 
     private boolean timeSwitchChanged(double[] ga, double[] gb, int ne, int ns) {
@@ -740,21 +749,9 @@ public final class Simulator {
                 double b = i == TIME_SWITCH_SAMPLES ? target : from + (target - from) * i / TIME_SWITCH_SAMPLES;
                 switchRoots.evaluate(b, y, p, gB);
                 if (timeSwitchChanged()) {
-                    double lo = a;
-                    double hi = b;
-                    while (true) {
-                        if (hi - lo <= IntegrationSession.rootBracketWidth(hi)) {
-                            break;
-                        }
-                        double mid = 0.5 * (lo + hi);
-                        switchRoots.evaluate(mid, y, p, gB);
-                        if (timeSwitchChanged()) {
-                            hi = mid;
-                        } else {
-                            lo = mid;
-                            System.arraycopy(gB, 0, gA, 0, gA.length);
-                        }
-                    }
+                    double[] br = bisectTimeSwitch(switchRoots, y, p, a, b, gA, gB, ne, ns, true);
+                    double lo = br[0];
+                    double hi = br[1];
                     // A bracket end exactly on a root (g = 0) is ambiguous: the root convention counts it on the
                     // side g >= 0, while the condition itself may already (time - t_on < 0 at t_on) or still
                     // (time - t_on <= 0) take the other value there. Such an end moves one bracket width outward,
