@@ -143,8 +143,25 @@ public final class BenchFitsCommand implements Callable<Integer> {
                 null, "'" + out.resolve(name) + "' already holds finished starts; add --resume or choose another --out "
                 + "folder"));
         List<StartResult> finished = store.finished();
+        PrintWriter progress = OutputOptions.progress(spec);
+        if (!finished.isEmpty()) {
+            progress.printf(Locale.ROOT, "%s: %d of %d starts resumed from %s%n", name, finished.size(), starts,
+                    out.resolve(name).resolve("starts"));
+            progress.flush();
+        }
+        java.util.concurrent.atomic.AtomicInteger done = new java.util.concurrent.atomic.AtomicInteger(
+                finished.size());
         long t0 = System.nanoTime();
-        FitResult result = store.run(solver.multistart(starts, seed), fp, null, threads, null);
+        FitResult result = store.run(solver.multistart(starts, seed), fp, null, threads, s -> {
+            int k = done.incrementAndGet();
+            synchronized (progress) {
+                progress.printf(Locale.ROOT, "%s: start %d done (%d/%d): %s%n", name, s.index(), k, starts,
+                        s.status() == StartStatus.FAILED ? "failed, " + s.reason()
+                                : String.format(Locale.ROOT, "NLL %.6g, %s after %d iterations", s.nll(),
+                                s.termination(), s.iterations()));
+                progress.flush();
+            }
+        });
         double wall = (System.nanoTime() - t0) * 1e-9;
         int ok = 0;
         int reachedStarts = 0;

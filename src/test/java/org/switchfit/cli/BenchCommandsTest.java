@@ -74,6 +74,34 @@ class BenchCommandsTest {
         assertTrue(err < 1e-6, "gradient error " + err + " " + r);
     }
 
+    /**
+     * bench-fits tells about every finished start and, when resuming, how many starts it reused: after a full run
+     * of 3 starts with one stored start removed (an interrupted run), --resume reuses 2 and computes the third.
+     */
+    @Test
+    void benchFitsReportsFinishedAndResumedStarts() throws Exception {
+        decayProblem("decay", "sd | lin | 0.01 | 1 | 0.1 | 0", "obs | X | 0.1 | lin | normal",
+                new double[] {0.9, 0.75, 0.55});
+        Path out = dir.resolve("out");
+        String[] args = {"bench-fits", dir.toString(), "--problems", "decay", "--starts", "3", "--threads", "1",
+                "--out", out.toString(), "--resume"};
+        StringWriter err = new StringWriter();
+        assertEquals(0, Main.execute(args, new PrintWriter(new StringWriter(), true), new PrintWriter(err, true)));
+        for (int k = 1; k <= 3; k++) {
+            assertTrue(err.toString().contains("done (" + k + "/3)"), err.toString());
+        }
+        Path starts = out.resolve("decay").resolve("starts");
+        try (var files = Files.list(starts)) {
+            Files.delete(files.sorted().toList().get(1));
+        }
+        err = new StringWriter();
+        assertEquals(0, Main.execute(args, new PrintWriter(new StringWriter(), true), new PrintWriter(err, true)));
+        String msg = err.toString();
+        assertTrue(msg.contains("decay: 2 of 3 starts resumed"), msg);
+        assertTrue(msg.contains("decay: start 1 done (3/3)"), msg);
+        assertEquals(1, msg.split("done \\(").length - 1, msg);
+    }
+
     private static final double[] TIMES = {0.5, 1.5, 3};
 
     /**
