@@ -10,6 +10,7 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 import java.util.concurrent.Callable;
+import java.util.concurrent.atomic.AtomicInteger;
 import java.util.stream.Stream;
 import org.switchfit.fit.FitProblem;
 import org.switchfit.fit.FitResult;
@@ -149,8 +150,7 @@ public final class BenchFitsCommand implements Callable<Integer> {
                     out.resolve(name).resolve("starts"));
             progress.flush();
         }
-        java.util.concurrent.atomic.AtomicInteger done = new java.util.concurrent.atomic.AtomicInteger(
-                finished.size());
+        AtomicInteger done = new AtomicInteger(finished.size());
         long t0 = System.nanoTime();
         FitResult result = store.run(solver.multistart(starts, seed), fp, null, threads, s -> {
             int k = done.incrementAndGet();

@@ -295,10 +295,9 @@ public final class BenchPetabCommand implements Callable<Integer> {
     /**
      * Norm-wise relative gradient error {@code |g - g_fd|_inf / |g_fd|_inf} at a point moved off the nominal values
      * (each θ_j by 1 % of its box width toward the box centre, less where the NLL is undefined there, see
-     * {@link #checkPoint}), where the gradient is not nearly zero: g = J^T r
-     * from sensitivities, g_fd central differences of the NLL with the step of {@link #differenceStep} on the
-     * estimation scale, both at rtol 1e-10 (so the differencing noise, about rtol / step = 1e-6, stays below the 1e-4 bar).
-     * The absolute tolerance is 1e-14; when the integration fails there (states starting at zero and driven by a
+     * {@link #checkPoint}), where the gradient is not nearly zero: g = J^T r from sensitivities, g_fd central
+     * differences of the NLL with the step of {@link #differenceStep} on the estimation scale, both at rtol 1e-10
+     * (so the differencing noise, about rtol / step = 1e-6, stays below the 1e-4 bar). The absolute tolerance is 1e-14; when the integration fails there (states starting at zero and driven by a
      * steep input are then held to rtol alone, and the steps needed fall below the resolution of t, as on
      * Chen_MSB2009 at its input switch t = 1799.99), the check is repeated at atol 1e-12 and the JSON records
      * the tolerance used ({@code gradientAtol}).
@@ -369,11 +368,6 @@ public final class BenchPetabCommand implements Callable<Integer> {
     }
 
     /**
-     * The problem sub-folders of {@code dir}, sorted by name, limited to {@code only} when given.
-     *
-     * @throws UserInputException when a name in {@code only} is not a sub-folder (the line lists the valid names)
-     */
-    /**
      * The central-difference step of the gradient check for parameter value {@code theta} (estimation scale):
      * 1e-4 of its magnitude, where the magnitude is |θ| but at least 1 % of the box width (the parameter's typical
      * size when θ is near 0), or max(1, |θ|) when the box is infinite. Why not 1e-4 max(1, |θ|), the earlier
@@ -437,6 +431,11 @@ public final class BenchPetabCommand implements Callable<Integer> {
                 "NLL not finite at any gradient check point: " + rejected);
     }
 
+    /**
+     * The problem sub-folders of {@code dir}, sorted by name, limited to {@code only} when given.
+     *
+     * @throws UserInputException when a name in {@code only} is not a sub-folder (the line lists the valid names)
+     */
     static List<Path> problemFolders(Path dir, List<String> only) throws IOException {
         List<Path> folders;
         try (Stream<Path> s = Files.list(dir)) {
