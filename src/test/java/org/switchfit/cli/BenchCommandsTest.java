@@ -10,7 +10,10 @@ import java.nio.file.Path;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
-/** The benchmark commands: user errors (one line, exit code 2, nothing run) and the gradient check's point. */
+/**
+ * The benchmark commands: user errors (one line, exit code 2, nothing run), the gradient check's point and step,
+ * bench-fits progress and resume.
+ */
 class BenchCommandsTest {
 
     @TempDir
@@ -106,7 +109,7 @@ class BenchCommandsTest {
 
     /**
      * The decay problem of {@link org.switchfit.testsystems.DecaySbml#MODEL} (k, x0 estimated) with one more
-     * estimated parameter row, one observable row and data m at {@link #TIMES}.
+     * parameter row, one observable row and data m at {@link #TIMES}.
      */
     private Path decayProblem(String name, String parameterRow, String observableRow, double[] m) {
         StringBuilder meas = new StringBuilder("observableId | simulationConditionId | measurement | time");
