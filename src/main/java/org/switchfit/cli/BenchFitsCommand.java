@@ -14,6 +14,7 @@ import java.util.concurrent.atomic.AtomicInteger;
 import java.util.stream.Stream;
 import org.switchfit.fit.FitProblem;
 import org.switchfit.fit.FitResult;
+import org.switchfit.fit.Multistart;
 import org.switchfit.fit.StartResult;
 import org.switchfit.fit.StartStatus;
 import org.switchfit.objective.LikelihoodObjective;
@@ -99,6 +100,8 @@ public final class BenchFitsCommand implements Callable<Integer> {
             Map<String, Object> r;
             try {
                 r = benchOne(name, problemYaml(f));
+            } catch (OutputFolderError e) {
+                throw e.input;
             } catch (RuntimeException e) {
                 r = new LinkedHashMap<>();
                 r.put("problem", name);
@@ -140,10 +143,18 @@ public final class BenchFitsCommand implements Callable<Integer> {
         LikelihoodObjective objective = LikelihoodObjective.of(problem, solver.settings());
         double nominal = objective.evaluate(problem.nominalTheta(), new double[objective.residualCount()], null);
         FitProblem fp = FitCommand.fitProblem(problem, objective);
-        StartStore store = new StartStore(out.resolve(name).resolve("starts"), resume, () -> new UserInputException(
-                null, "'" + out.resolve(name) + "' already holds finished starts; add --resume or choose another --out "
-                + "folder"));
-        List<StartResult> finished = store.finished();
+        Multistart multistart = solver.multistart(starts, seed);
+        StartStore store;
+        List<StartResult> finished;
+        try {
+            store = new StartStore(out.resolve(name).resolve("starts"), resume, () -> new UserInputException(null,
+                    "'" + out.resolve(name) + "' already holds finished starts; add --resume or choose another --out"
+                    + " folder"));
+            finished = store.finished();
+            multistart.checkFinished(fp, null, finished);
+        } catch (UserInputException e) {
+            throw new OutputFolderError(e);
+        }
         PrintWriter progress = OutputOptions.progress(spec);
         if (!finished.isEmpty()) {
             progress.printf(Locale.ROOT, "%s: %d of %d starts resumed from %s%n", name, finished.size(), starts,
@@ -152,7 +163,7 @@ public final class BenchFitsCommand implements Callable<Integer> {
         }
         AtomicInteger done = new AtomicInteger(finished.size());
         long t0 = System.nanoTime();
-        FitResult result = store.run(solver.multistart(starts, seed), fp, null, threads, s -> {
+        FitResult result = store.run(multistart, fp, null, threads, s -> {
             int k = done.incrementAndGet();
             synchronized (progress) {
                 progress.printf(Locale.ROOT, "%s: start %d done (%d/%d): %s%n", name, s.index(), k, starts,
@@ -216,5 +227,20 @@ public final class BenchFitsCommand implements Callable<Integer> {
                 r.get("startsReachingNominal"), r.get("starts"), r.get("startsNearBest"), r.get("failedStarts"),
                 (Double) r.get("wallSeconds"),
                 ((Integer) r.get("resumedStarts")) > 0 ? " (" + r.get("resumedStarts") + " resumed)" : "");
+    }
+
+    /**
+     * A user error about the output folder (finished starts stored without --resume, or from other settings): it
+     * concerns the whole command, so it ends the run with one line and exit code 2 instead of becoming a failed
+     * problem row.
+     */
+    private static final class OutputFolderError extends RuntimeException {
+        private static final long serialVersionUID = 1L;
+        final transient UserInputException input;
+
+        OutputFolderError(UserInputException input) {
+            super(input.getMessage(), null, false, false);
+            this.input = input;
+        }
     }
 }

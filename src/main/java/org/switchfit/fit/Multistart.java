@@ -109,14 +109,7 @@ public final class Multistart {
                          Collection<StartResult> finished) {
         long t0 = System.nanoTime();
         double[][] pts = startPoints(problem, initialGuess);
-        Map<Integer, StartResult> done = new HashMap<>();
-        for (StartResult r : finished) {
-            if (r.index() < 0 || r.index() >= starts || !Arrays.equals(r.start(), pts[r.index()])) {
-                throw UserInputException.of(null, "finished start %d does not belong to this run (other seed, bounds"
-                        + " or start count); remove the stored starts or rerun with the same settings", r.index());
-            }
-            done.put(r.index(), r);
-        }
+        Map<Integer, StartResult> done = matchFinished(pts, finished);
         List<Integer> todo = new ArrayList<>();
         List<Callable<StartResult>> tasks = new ArrayList<>();
         for (int i = 0; i < starts; i++) {
@@ -143,6 +136,29 @@ public final class Multistart {
         long ms = (System.nanoTime() - t0) / 1_000_000L;
         return new FitResult(problem.ids(), problem.scales(), any ? best.theta() : null,
                 any ? best.nll() : Double.NaN, all, near, ms);
+    }
+
+    /**
+     * Checks that starts finished by an earlier run belong to this configuration (same start points: seed, bounds,
+     * start count, sampling), as {@link #run} does before reusing them; callers use it to refuse a mismatched
+     * output folder before any work.
+     *
+     * @throws UserInputException naming the first start that does not belong
+     */
+    public void checkFinished(FitProblem problem, double[] initialGuess, Collection<StartResult> finished) {
+        matchFinished(startPoints(problem, initialGuess), finished);
+    }
+
+    private Map<Integer, StartResult> matchFinished(double[][] pts, Collection<StartResult> finished) {
+        Map<Integer, StartResult> done = new HashMap<>();
+        for (StartResult r : finished) {
+            if (r.index() < 0 || r.index() >= starts || !Arrays.equals(r.start(), pts[r.index()])) {
+                throw UserInputException.of(null, "finished start %d does not belong to this run (other seed, bounds"
+                        + " or start count); remove the stored starts or rerun with the same settings", r.index());
+            }
+            done.put(r.index(), r);
+        }
+        return done;
     }
 
     /**

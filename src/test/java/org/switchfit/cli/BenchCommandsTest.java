@@ -103,6 +103,22 @@ class BenchCommandsTest {
         assertTrue(msg.contains("decay: 2 of 3 starts resumed"), msg);
         assertTrue(msg.contains("decay: start 1 done (3/3)"), msg);
         assertEquals(1, msg.split("done \\(").length - 1, msg);
+        // The stored starts against other settings, and without --resume: one line, exit 2, no start run.
+        String[][] wrong = {{"bench-fits", dir.toString(), "--problems", "decay", "--starts", "4", "--threads", "1",
+                "--out", out.toString(), "--resume"}, {"bench-fits", dir.toString(), "--problems", "decay", "--starts",
+                "3", "--threads", "1", "--out", out.toString()}};
+        String[] expected = {"does not belong to this run", "already holds finished starts"};
+        for (int w = 0; w < wrong.length; w++) {
+            StringWriter e2 = new StringWriter();
+            int code = Main.execute(wrong[w], new PrintWriter(new StringWriter(), true), new PrintWriter(e2, true));
+            String m2 = e2.toString().strip();
+            assertEquals(2, code, m2);
+            assertEquals(1, m2.split("\n").length, m2);
+            assertTrue(m2.contains(expected[w]) && !m2.contains("resumed") && !m2.contains("done ("), m2);
+        }
+        try (var files = Files.list(starts)) {
+            assertEquals(3, files.count());
+        }
     }
 
     private static final double[] TIMES = {0.5, 1.5, 3};
