@@ -296,11 +296,12 @@ public final class BenchPetabCommand implements Callable<Integer> {
      * Norm-wise relative gradient error {@code |g - g_fd|_inf / |g_fd|_inf} at a point moved off the nominal values
      * (each θ_j by 1 % of its box width toward the box centre, less where the NLL is undefined there, see
      * {@link #checkPoint}), where the gradient is not nearly zero: g = J^T r from sensitivities, g_fd central
-     * differences of the NLL with the step of {@link #differenceStep} on the estimation scale, both at rtol 1e-10 (so the differencing
-     * noise, about rtol / step = 1e-6, stays below the 1e-4 bar). The absolute tolerance is 1e-14; when the integration
-     * fails there (states starting at zero and driven by a steep input are then held to rtol alone, and the steps
-     * needed fall below the resolution of t, as on Chen_MSB2009 at its input switch t = 1799.99), the check is repeated
-     * at atol 1e-12 and the JSON records the tolerance used ({@code gradientAtol}).
+     * differences of the NLL with the step of {@link #differenceStep} on the estimation scale, both at rtol 1e-10
+     * (so the differencing noise, about rtol / step = 1e-6, stays below the 1e-4 bar). The absolute tolerance is
+     * 1e-14; when the integration fails there (states starting at zero and driven by a steep input are then held
+     * to rtol alone, and the steps needed fall below the resolution of t, as on Chen_MSB2009 at its input switch
+     * t = 1799.99), the check is repeated at atol 1e-12 and the JSON records the tolerance used
+     * ({@code gradientAtol}).
      */
     static double gradientError(Path yaml, Map<String, Object> r) {
         try {

@@ -210,10 +210,7 @@ public final class EstimationProblem {
     }
 
     private static double placeholderValue(ValueSource s, double[] linear) {
-        if (s.isTheta()) {
-            return linear == null ? Double.NaN : linear[s.thetaIndex()];
-        }
-        return s.constant();
+        return s.isTheta() && linear == null ? Double.NaN : s.value(linear);
     }
 
     /** θ on the estimation scale at the nominal values. */
