@@ -89,6 +89,7 @@ public final class BenchFitsCommand implements Callable<Integer> {
         }
         PrintWriter o = spec.commandLine().getOut();
         List<Path> folders = BenchPetabCommand.problemFolders(dir, only);
+        int unreadable = 0;
         List<Map<String, Object>> rows = new ArrayList<>();
         int reached = 0;
         int fitted = 0;
@@ -103,6 +104,7 @@ public final class BenchFitsCommand implements Callable<Integer> {
             } catch (OutputFolderError e) {
                 throw e.input;
             } catch (RuntimeException e) {
+                unreadable += e instanceof UserInputException ? 1 : 0;
                 r = new LinkedHashMap<>();
                 r.put("problem", name);
                 r.put("status", "failed");
@@ -131,7 +133,8 @@ public final class BenchFitsCommand implements Callable<Integer> {
         all.put("fitted", fitted);
         all.put("problems", rows);
         Json.write(out.resolve("summary.json"), all);
-        return 0;
+        // a problem that could not be read (its row names the file and line): exit 2, the others' results kept
+        return unreadable == 0 ? 0 : 2;
     }
 
     /** Fits one problem; null when it has too many estimated parameters. */

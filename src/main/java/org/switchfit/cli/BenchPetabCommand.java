@@ -85,6 +85,7 @@ public final class BenchPetabCommand implements Callable<Integer> {
         }
         PrintWriter out = spec.commandLine().getOut();
         List<Path> folders = problemFolders(dir, only);
+        int unreadable = 0;
         List<Map<String, Object>> results = new ArrayList<>();
         int matched = 0;
         int total = 0;
@@ -136,6 +137,7 @@ public final class BenchPetabCommand implements Callable<Integer> {
                     gradOk += err <= GRADIENT_REL_TOL ? 1 : 0;
                 }
             } catch (RuntimeException e) {
+                unreadable += e instanceof org.switchfit.util.UserInputException ? 1 : 0;
                 r.put("status", "failed");
                 r.put("reason", e.getClass().getSimpleName() + ": " + e.getMessage());
             }
@@ -160,7 +162,8 @@ public final class BenchPetabCommand implements Callable<Integer> {
             all.put("problems", results);
             Json.write(json, all);
         }
-        return 0;
+        // a problem that could not be read (its row names the file and line): exit 2, the others' results kept
+        return unreadable == 0 ? 0 : 2;
     }
 
     /**

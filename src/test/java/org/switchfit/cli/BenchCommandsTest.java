@@ -121,6 +121,27 @@ class BenchCommandsTest {
         }
     }
 
+    /**
+     * A broken problem in a benchmark folder is a row naming its file and line; the other problems still run, and
+     * the exit code is 2 so scripts notice.
+     */
+    @Test
+    void unreadableProblemGivesItsRowAndExitTwo() throws Exception {
+        decayProblem("decay", "sd | lin | 0.01 | 1 | 0.1 | 0", "obs | X | 0.1 | lin | normal",
+                new double[] {0.9, 0.75, 0.55});
+        Files.createDirectories(dir.resolve("broken"));
+        Files.writeString(dir.resolve("broken").resolve("problem.yaml"),
+                "format_version: 1\nparameter_file: parameters.tsv\nproblems:\n  - sbml_files: [model.xml\n");
+        StringWriter out = new StringWriter();
+        int code = Main.execute(new String[] {"bench-petab", dir.toString(), "--no-gradient"},
+                new PrintWriter(out, true), new PrintWriter(new StringWriter(), true));
+        assertEquals(2, code, out.toString());
+        String brokenRow = out.toString().lines().filter(l -> l.startsWith("broken")).findFirst().orElse("");
+        assertTrue(brokenRow.contains("problem.yaml, line 4"), out.toString());
+        assertTrue(out.toString().lines().anyMatch(l -> l.startsWith("decay") && !l.contains("failed")),
+                out.toString());
+    }
+
     private static final double[] TIMES = {0.5, 1.5, 3};
 
     /**
