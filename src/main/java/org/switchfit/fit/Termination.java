@@ -15,10 +15,17 @@ public enum Termination {
     /** The evaluation limit was reached before convergence. */
     MAX_EVALUATIONS,
     /** The damping parameter grew past its limit without an acceptable step (no further descent possible). */
-    NO_PROGRESS;
+    NO_PROGRESS,
+    /**
+     * No acceptable step was found as for {@link #NO_PROGRESS}, but the undamped Gauss-Newton model promises no
+     * gain above (a margin times) the objective's measured evaluation noise: a local optimum to within the
+     * accuracy of the integration.
+     */
+    WITHIN_NOISE;
 
     /** True for the reasons that indicate convergence (a local optimum on the box). */
     public boolean converged() {
-        return this == GRADIENT || this == COST_CHANGE || this == STEP_SIZE || this == ZERO_RESIDUAL;
+        return this == GRADIENT || this == COST_CHANGE || this == STEP_SIZE || this == ZERO_RESIDUAL
+                || this == WITHIN_NOISE;
     }
 }
