@@ -370,7 +370,8 @@ public final class LevenbergMarquardt {
                     double rho = actual / pred;
                     if (converging) {
                         if (finite && actual >= 0 && sNorm2 > 0) {
-                            accept(xt, costTrial); // on failure the run ends at the current point, converged all the same
+                            // on failure the run ends at the current point, converged all the same
+                            accept(xt, costTrial);
                         }
                         why = Termination.COST_CHANGE;
                         break;
