@@ -97,7 +97,9 @@ final class CompFlattener {
                 Path p = dir.resolve(src);
                 SBMLDocument ext;
                 try {
-                    ext = new org.sbml.jsbml.SBMLReader().readSBML(p.toFile());
+                    synchronized (SbmlReader.PARSE_LOCK) {
+                        ext = new org.sbml.jsbml.SBMLReader().readSBML(p.toFile());
+                    }
                 } catch (Exception e) {
                     throw new Unhandled("cannot read external model " + p);
                 }

@@ -40,12 +40,19 @@ import org.switchfit.util.UserInputException;
 /**
  * Reads SBML (Level 1 Version 2 to Level 3 Version 2 core, plus the comp package, flattened) into a {@link Model}
  * with JSBML. Function definitions are inlined; local parameters are renamed {@code reactionId.paramId}. JSBML's
- * own logging is switched off. Thread-safe (each call uses its own reader).
+ * own logging is switched off. Thread-safe (each call uses its own reader; parses are serialised).
  */
 public final class SbmlReader {
     private static volatile boolean loggingConfigured;
     /** Strong reference: java.util.logging keeps loggers weakly, and a collected logger forgets its level. */
     private static final java.util.logging.Logger JUL_SBML = java.util.logging.Logger.getLogger("org.sbml");
+
+    /**
+     * Serialises JSBML's parsing: its first parses in a process initialise shared parser tables, and two threads
+     * doing that at once made one parse fail with a null message ("could not be parsed as SBML (null)" for SBML Test
+     * Suite cases 00001 and 00002, once in four suite runs on 2 threads). Parsing is a small part of any command.
+     */
+    static final Object PARSE_LOCK = new Object();
 
     private SbmlReader() {
     }
@@ -89,9 +96,13 @@ public final class SbmlReader {
                 } catch (Exception e) {
                     // leave the text as it is; JSBML reports what is wrong with it
                 }
-                doc = new SBMLReader().readSBMLFromString(xml);
+                synchronized (PARSE_LOCK) {
+                    doc = new SBMLReader().readSBMLFromString(xml);
+                }
             } else {
-                doc = new SBMLReader().readSBML(path.toFile());
+                synchronized (PARSE_LOCK) {
+                    doc = new SBMLReader().readSBML(path.toFile());
+                }
             }
         } catch (XMLStreamException e) {
             int line = e.getLocation() != null ? e.getLocation().getLineNumber() : 0;

@@ -34,7 +34,9 @@ public final class SbmlWriter {
         SbmlReader.silenceLogging();
         SBMLDocument doc;
         try {
-            doc = new SBMLReader().readSBML(source.toFile());
+            synchronized (SbmlReader.PARSE_LOCK) {
+                doc = new SBMLReader().readSBML(source.toFile());
+            }
         } catch (Exception e) {
             throw new UserInputException(SourceLocation.ofFile(source.toString()), "cannot be read again to write "
                     + "fitted values (" + SbmlReader.firstLine(String.valueOf(e.getMessage())) + ")", e);
