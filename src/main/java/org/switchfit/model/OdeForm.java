@@ -831,6 +831,32 @@ public final class OdeForm {
 
     // ------------------------------------------------------------------ events
 
+    /**
+     * An event that resizes a compartment keeps the amounts of its species (SBML: a species' quantity is its
+     * amount; its concentration follows the size). Species whose state is their concentration (a rate rule on a
+     * species without hasOnlySubstanceUnits) therefore get an extra assignment {@code [S] C / C_new}, all values
+     * taken before the event assigns anything, unless the event assigns the species itself (SBML Test Suite cases
+     * 01505 and 01511).
+     */
+    private void addConcentrationRescaling(Event e, List<BoundEvent.Target> targets, String ctx) {
+        Set<String> assigned = new HashSet<>();
+        e.assignments().forEach(a -> assigned.add(a.variable()));
+        for (Event.Assignment a : e.assignments()) {
+            if (types.get(a.variable()) != QType.COMPARTMENT) {
+                continue;
+            }
+            for (int i = 0; i < stateIds.size(); i++) {
+                String sid = stateIds.get(i);
+                if (stateKinds.get(i) != StateKind.SPECIES_CONCENTRATION || assigned.contains(sid)
+                        || !model.species(sid).compartment().equals(a.variable())) {
+                    continue;
+                }
+                Expr v = bind(Expr.div(Expr.mul(Expr.symbol(sid), Expr.symbol(a.variable())), a.math()), ctx);
+                targets.add(new BoundEvent.Target(sid, i, v, null));
+            }
+        }
+    }
+
     private void bindEvents() {
         for (Event e : resolvedEvents) {
             String ctx = "event '" + e.id() + "'";
@@ -844,6 +870,7 @@ public final class OdeForm {
                 }
                 targets.add(new BoundEvent.Target(a.variable(), si, v, scale));
             }
+            addConcentrationRescaling(e, targets, ctx);
             Expr trig = bind(e.trigger(), ctx);
             Expr delay = e.delay() == null ? null : bind(e.delay(), ctx);
             Expr prio = e.priority() == null ? null : bind(e.priority(), ctx);

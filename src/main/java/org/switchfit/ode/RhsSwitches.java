@@ -17,7 +17,8 @@ import org.switchfit.expr.Op;
  * parameters only cannot change and get none; conditions using {@code delay()} are left out (their values during
  * root location would need the history ahead of the recorded one).
  *
- * <p>{@link #forced} gives the right-hand side with condition k replaced by {@code p[m + k] > 0}, so f can be
+ * <p>Compound conditions contribute their atoms (relations), each a switch of its own. {@link #forced} gives the
+ * right-hand side with atom k replaced by {@code p[m + k] > 0}, so f can be
  * evaluated on either side of a switch at the switching point itself, where the condition's own value is
  * ambiguous.
  */
@@ -25,7 +26,10 @@ final class RhsSwitches {
     private RhsSwitches() {
     }
 
-    /** The varying piecewise conditions of {@code rt} used by its outputs, without repeats, in order of appearance. */
+    /**
+     * The varying atoms of the piecewise conditions of {@code rt} used by its outputs (see {@link #atoms}), without
+     * repeats, in order of appearance.
+     */
     static List<Expr> conditions(Block rt) {
         int nl = rt.localCount();
         boolean[] varying = new boolean[nl];
@@ -94,12 +98,33 @@ final class RhsSwitches {
             }
             int na = x.argCount();
             for (int i = 1; i < na; i += 2) {
-                Expr c = x.arg(i);
+                atoms(x.arg(i), varying, out);
+            }
+        });
+    }
+
+    /**
+     * Adds the varying atoms of condition c: the operands of and, or, xor and not, recursively, down to the
+     * relations (or other non-logical terms). A compound condition as one switching function (min or max of its
+     * parts) keeps the same sign on both sides of a short window, such as a pulse {@code t > 10 && t < 10.5}, so
+     * a step, or the sampling that looks ahead for time switches, could pass the whole window unseen; each atom
+     * changes sign at its own crossing.
+     */
+    private static void atoms(Expr c, boolean[] varying, List<Expr> out) {
+        switch (c.op()) {
+            case AND:
+            case OR:
+            case XOR:
+            case NOT:
+                for (int a = 0; a < c.argCount(); a++) {
+                    atoms(c.arg(a), varying, out);
+                }
+                return;
+            default:
                 if (varies(c, varying) && !c.contains(d -> d.op() == Op.DELAY) && !out.contains(c)) {
                     out.add(c);
                 }
-            }
-        });
+        }
     }
 
     /**

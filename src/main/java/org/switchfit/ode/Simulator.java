@@ -992,29 +992,24 @@ public final class Simulator {
             double[] v = precomputed != null ? precomputed : assignmentValues(ev);
             double[] dv = sens == null ? null : sens.valueDerivatives(this, event, dPrecomputed);
             List<BoundEvent.Target> ts = ev.targets();
-            boolean scaled = false;
-            for (int i = 0; i < v.length; i++) {
+            // Every value is computed from the state before the event assigns anything (SBML), the compartment
+            // size that turns an assigned concentration into an amount included.
+            double[] out = v.clone();
+            for (int i = 0; i < out.length; i++) {
                 BoundEvent.Target tg = ts.get(i);
-                if (tg.scale() == null) {
-                    y[tg.stateIndex()] = v[i];
+                if (tg.scale() != null) {
+                    double sc = value(tg.scale());
                     if (dv != null) {
-                        sens.assign(tg.stateIndex(), dv, i);
+                        sens.assignScaled(this, event, i, v[i], sc, dv);
                     }
-                } else {
-                    scaled = true;
+                    out[i] = v[i] * sc;
                 }
             }
-            if (scaled) {
-                refreshLocals();
-                for (int i = 0; i < v.length; i++) {
-                    BoundEvent.Target tg = ts.get(i);
-                    if (tg.scale() != null) {
-                        double sc = value(tg.scale());
-                        if (dv != null) {
-                            sens.assignScaled(this, event, i, v[i], sc, dv);
-                        }
-                        y[tg.stateIndex()] = v[i] * sc;
-                    }
+            for (int i = 0; i < out.length; i++) {
+                BoundEvent.Target tg = ts.get(i);
+                y[tg.stateIndex()] = out[i];
+                if (dv != null && tg.scale() == null) {
+                    sens.assign(tg.stateIndex(), dv, i);
                 }
             }
         }
@@ -1223,7 +1218,7 @@ public final class Simulator {
             }
         }
 
-        /** Scaled target: d(v · scale) = dv · scale + v · dscale, scale differentiated after the plain assignments. */
+        /** Scaled target: d(v · scale) = dv · scale + v · dscale, scale taken before the event assigns anything. */
         void assignScaled(Run r, int e, int target, double v, double scale, double[] dv) {
             ed.evaluate(r.t, r.y, r.p, ent);
             ed.total(ed.scaleRow(e, target), ent, d, dP, tauC, nc, tmp);

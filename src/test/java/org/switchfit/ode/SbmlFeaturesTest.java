@@ -53,4 +53,37 @@ class SbmlFeaturesTest {
             assertEquals(Math.exp(-0.8 * times[r]), tr.value(r, 0), 1e-8);
         }
     }
+
+    @Test
+    void eventResizingACompartmentConvertsAConcentrationAssignmentWithTheOldSize() {
+        // SBML: all assignments of an event are computed from the state before any of them (the SBML Test Suite's
+        // cases 01779/01780 state this for exactly this situation). A = 0.2 is a concentration, so the amount
+        // becomes 0.2 * 0.5 (old size) = 0.1 and, with the new size 0.2, the concentration 0.1 / 0.2 = 0.5
+        // (derived by hand; the event lists the compartment first).
+        Trajectory tr = run("resize-event.xml", new double[] {0.5, 1.5}, List.of("A"));
+        assertEquals(2.0, tr.value(0, 0), 1e-12);
+        assertEquals(0.5, tr.value(1, 0), 1e-10);
+    }
+
+    @Test
+    void eventResizingACompartmentKeepsTheAmountOfARateRuleSpecies() {
+        // [A]' = 0.4, cell' = 0.2 from [A] = 0, cell = 0.5; at t = 1 the event sets cell = 0.2. Before it
+        // [A] = 0.4 and cell = 0.7, amount 0.28; a species' quantity is its amount, so after it [A] = 0.28 / 0.2
+        // = 1.4, then [A] = 1.4 + 0.4 (t - 1) (derived by hand; the SBML Test Suite's case 01505 has the same
+        // construction). Linear solution: only rounding remains, 1e-10.
+        Trajectory tr = run("resize-rate-rule.xml", new double[] {0.5, 1.5, 3}, List.of("A"));
+        assertEquals(0.2, tr.value(0, 0), 1e-10);
+        assertEquals(1.6, tr.value(1, 0), 1e-10);
+        assertEquals(2.2, tr.value(2, 0), 1e-10);
+    }
+
+    @Test
+    void shortPulseInARateIsSeenWithoutOutputTimesNearIt() {
+        // x' = 1 for 10 < t < 10.5, else 0: x(100) = 0.5 (closed form). Asked only at t = 0 and 100, a step (or
+        // the look-ahead for time switches) could pass the whole pulse when the and-condition is one switching
+        // function, min(t - 10, 10.5 - t), negative on both sides; each relation is a switch of its own.
+        Trajectory tr = run("pulse.xml", new double[] {0, 100}, List.of("x"));
+        // the integration stops at both switch times and x is linear between them: rounding only, 1e-9
+        assertEquals(0.5, tr.value(1, 0), 1e-9);
+    }
 }
