@@ -29,6 +29,8 @@ public final class CompiledModel implements OdeSystem {
     private final CompiledBlock init;
     private final CompiledBlock switching;
     private final int switchingCount;
+    /** Event owning each trigger atom root (root index = event count + position). */
+    private final int[] atomEvent;
     private final List<Expr> switchingExprs;
     private final List<Expr> rhsConditions;
     private final List<Expr> rhsSwitchingExprs;
@@ -40,7 +42,7 @@ public final class CompiledModel implements OdeSystem {
     private volatile CompiledBlock jacP;
     private volatile EventDerivatives eventDerivatives;
 
-    CompiledModel(OdeForm form, List<Expr> switchingFunctions) {
+    CompiledModel(OdeForm form, List<Expr> switchingFunctions, int[] atomEvent) {
         this.form = form;
         this.n = form.stateCount();
         this.m = form.parameterCount();
@@ -67,6 +69,7 @@ public final class CompiledModel implements OdeSystem {
         this.switching = cb.get(3);
         this.allSwitching = rsw.isEmpty() ? cb.get(3) : cb.get(4);
         this.switchingCount = switchingFunctions.size();
+        this.atomEvent = atomEvent.clone();
         this.switchingExprs = List.copyOf(switchingFunctions);
         this.pattern = computePattern(rt);
     }
@@ -229,9 +232,23 @@ public final class CompiledModel implements OdeSystem {
         return form.parameterIndex(id);
     }
 
-    /** Event switching functions, one per event in model order. */
+    /**
+     * Event root functions: the switching function of each event in model order, then the atoms of compound
+     * triggers ({@link #eventOfRoot}); {@link #eventRootCount} of them.
+     */
     public RootFunctions switchingFunctions() {
         return roots(switching, switchingCount);
+    }
+
+    /** Number of event root functions: one per event plus the trigger atoms. */
+    public int eventRootCount() {
+        return switchingCount;
+    }
+
+    /** The event event root k belongs to: k itself below the event count, else the owner of the atom. */
+    public int eventOfRoot(int k) {
+        int ne = switchingCount - atomEvent.length;
+        return k < ne ? k : atomEvent[k - ne];
     }
 
     /** The first {@code count} outputs of a compiled block as switching functions. */
@@ -274,7 +291,7 @@ public final class CompiledModel implements OdeSystem {
 
     /**
      * Every switching function an integration of this model stops at: the events' ({@link #switchingFunctions},
-     * indices below the event count) followed by the right-hand-side switches'.
+     * indices below {@link #eventRootCount}) followed by the right-hand-side switches'.
      */
     public RootFunctions rootFunctions() {
         return roots(allSwitching, switchingCount + rhsConditions.size());

@@ -23,13 +23,50 @@ public final class ModelCompiler {
         return compile(OdeForm.of(model));
     }
 
-    /** Compiles an ODE form. */
+    /**
+     * Compiles an ODE form. The event root functions are the events' switching functions, one per event in model
+     * order, followed by the atoms of compound triggers ({@link #atoms}), each a root of its own that belongs to
+     * its event: min or max of the parts keeps one sign on both sides of a short window ({@code S > 0.18 && S <
+     * 0.19}, a pulse {@code time > 10 && time < 10.01}), so a step could pass the whole window unseen.
+     */
     public static CompiledModel compile(OdeForm form) {
         List<Expr> sw = new ArrayList<>();
-        for (BoundEvent e : form.events()) {
+        List<BoundEvent> events = form.events();
+        for (BoundEvent e : events) {
             sw.add(switching(e.trigger()));
         }
-        return new CompiledModel(form, sw);
+        List<Integer> owner = new ArrayList<>();
+        for (int e = 0; e < events.size(); e++) {
+            List<Expr> at = new ArrayList<>();
+            atoms(events.get(e).trigger(), at);
+            if (at.size() < 2) {
+                continue;
+            }
+            for (Expr a : at) {
+                sw.add(switching(a));
+                owner.add(e);
+            }
+        }
+        int[] atomEvent = owner.stream().mapToInt(Integer::intValue).toArray();
+        return new CompiledModel(form, sw, atomEvent);
+    }
+
+    /** The operands of and, or, xor and not in c, recursively, down to the relations, without repeats. */
+    static void atoms(Expr c, List<Expr> out) {
+        switch (c.op()) {
+            case AND:
+            case OR:
+            case XOR:
+            case NOT:
+                for (int a = 0; a < c.argCount(); a++) {
+                    atoms(c.arg(a), out);
+                }
+                return;
+            default:
+                if (!out.contains(c)) {
+                    out.add(c);
+                }
+        }
     }
 
     /** The switching function of a boolean expression. */

@@ -104,26 +104,19 @@ final class RhsSwitches {
     }
 
     /**
-     * Adds the varying atoms of condition c: the operands of and, or, xor and not, recursively, down to the
-     * relations (or other non-logical terms). A compound condition as one switching function (min or max of its
-     * parts) keeps the same sign on both sides of a short window, such as a pulse {@code t > 10 && t < 10.5}, so
-     * a step, or the sampling that looks ahead for time switches, could pass the whole window unseen; each atom
-     * changes sign at its own crossing.
+     * Adds the varying atoms of condition c ({@link ModelCompiler#atoms}: the operands of and, or, xor and not,
+     * down to the relations). A compound condition as one switching function (min or max of its parts) keeps the
+     * same sign on both sides of a short window, such as a pulse {@code t > 10 && t < 10.5}, so a step, or the
+     * sampling that looks ahead for time switches, could pass the whole window unseen; each atom changes sign at its
+     * own crossing.
      */
     private static void atoms(Expr c, boolean[] varying, List<Expr> out) {
-        switch (c.op()) {
-            case AND:
-            case OR:
-            case XOR:
-            case NOT:
-                for (int a = 0; a < c.argCount(); a++) {
-                    atoms(c.arg(a), varying, out);
-                }
-                return;
-            default:
-                if (varies(c, varying) && !c.contains(d -> d.op() == Op.DELAY) && !out.contains(c)) {
-                    out.add(c);
-                }
+        List<Expr> at = new ArrayList<>();
+        ModelCompiler.atoms(c, at);
+        for (Expr a : at) {
+            if (varies(a, varying) && !a.contains(d -> d.op() == Op.DELAY) && !out.contains(a)) {
+                out.add(a);
+            }
         }
     }
 

@@ -177,7 +177,7 @@ public final class Simulator {
         if (!any || !(to > from)) {
             return Double.NaN;
         }
-        int ne = model.form().events().size();
+        int ne = model.eventRootCount();
         RootFunctions roots = model.rootFunctions();
         double[] ga = new double[ne + ns];
         double[] gb = new double[ne + ns];
@@ -566,6 +566,8 @@ public final class Simulator {
         final int n = model.stateCount();
         final List<BoundEvent> events = model.form().events();
         final int ne = events.size();
+        /** Event root functions (events, then trigger atoms): the root index of right-hand-side switch k is nr + k. */
+        final int nr = model.eventRootCount();
         final double[] y = new double[n];
         final double[] p;
         final double[] w = new double[Math.max(1, model.localCount())];
@@ -586,7 +588,7 @@ public final class Simulator {
         double[] gNow;
         /** Sensitivity state, or null for a plain simulation. */
         final Sens sens;
-        /** Number of right-hand-side switches (root indices ne..ne+ns) and their root functions (null: none). */
+        /** Number of right-hand-side switches (root indices nr..nr+ns) and their root functions (null: none). */
         final int ns = model.rhsSwitchCount();
         SwitchRoots switchRoots;
         double lastSwitchTime = Double.NEGATIVE_INFINITY;
@@ -640,14 +642,14 @@ public final class Simulator {
             RootFunctions rf = ne > 0 ? new PaddedRoots(model.switchingFunctions(), n) : null;
             boolean frozen = constantStates();
             if (ns > 0 && !frozen) {
-                switchRoots = new SwitchRoots(model.rootFunctions(), ne);
+                switchRoots = new SwitchRoots(model.rootFunctions(), nr);
                 rf = switchRoots;
                 for (int k = 0; k < ns; k++) {
                     timeOnly[k] = model.rhsSwitchOnTimeOnly(k);
                     timeOnlySwitches |= timeOnly[k];
                 }
-                gA = new double[ne + ns];
-                gB = new double[ne + ns];
+                gA = new double[nr + ns];
+                gB = new double[nr + ns];
             }
             session = frozen
                     ? new FrozenSession(n == 0 ? new double[1] : y, p, rf, t0)
@@ -711,7 +713,9 @@ public final class Simulator {
                 boolean switched = false;
                 if (atRoot && switchRoots != null) {
                     int[] eventRoots = eventRoots(found);
-                    switched = eventRoots.length < found.length;
+                    for (int k : found) {
+                        switched |= k >= nr;
+                    }
                     if (switched) {
                         if (sens != null) {
                             sens.switchJump(this, found);
@@ -720,6 +724,8 @@ public final class Simulator {
                     }
                     found = eventRoots;
                     atRoot = eventRoots.length > 0;
+                } else if (atRoot) {
+                    found = eventRoots(found);
                 }
                 boolean changed = ne > 0 && handleEvents(atRoot, atRoot ? found : null);
                 if (changed || switched) {
@@ -749,7 +755,7 @@ public final class Simulator {
                 double b = i == TIME_SWITCH_SAMPLES ? target : from + (target - from) * i / TIME_SWITCH_SAMPLES;
                 switchRoots.evaluate(b, y, p, gB);
                 if (timeSwitchChanged()) {
-                    double[] br = bisectTimeSwitch(switchRoots, y, p, a, b, gA, gB, ne, ns, true);
+                    double[] br = bisectTimeSwitch(switchRoots, y, p, a, b, gA, gB, nr, ns, true);
                     double lo = br[0];
                     double hi = br[1];
                     // A bracket end exactly on a root (g = 0) is ambiguous: the root convention counts it on the
@@ -779,7 +785,7 @@ public final class Simulator {
         private boolean onTimeSwitchRoot(double x) {
             switchRoots.evaluate(x, y, p, gB);
             for (int k = 0; k < ns; k++) {
-                if (timeOnly[k] && gB[ne + k] == 0.0) {
+                if (timeOnly[k] && gB[nr + k] == 0.0) {
                     return true;
                 }
             }
@@ -788,7 +794,7 @@ public final class Simulator {
 
         /** Whether a time-only switch differs in sign between gA and gB. */
         private boolean timeSwitchChanged() {
-            return Simulator.this.timeSwitchChanged(gA, gB, ne, ns);
+            return Simulator.this.timeSwitchChanged(gA, gB, nr, ns);
         }
 
         /**
@@ -801,15 +807,15 @@ public final class Simulator {
             switchRoots.evaluate(sliverHi, y, p, gB);
             int c = 0;
             for (int k = 0; k < ns; k++) {
-                if ((gA[ne + k] >= 0) != (gB[ne + k] >= 0)) {
+                if ((gA[nr + k] >= 0) != (gB[nr + k] >= 0)) {
                     c++;
                 }
             }
             int[] found = new int[c];
             c = 0;
             for (int k = 0; k < ns; k++) {
-                if ((gA[ne + k] >= 0) != (gB[ne + k] >= 0)) {
-                    found[c++] = ne + k;
+                if ((gA[nr + k] >= 0) != (gB[nr + k] >= 0)) {
+                    found[c++] = nr + k;
                 }
             }
             t = sliverHi;
@@ -824,23 +830,26 @@ public final class Simulator {
             }
         }
 
-        /** The event indices (below ne) among the roots found. */
+        /**
+         * The events among the roots found: event roots below ne as they are, trigger atoms (ne..nr) as the event
+         * they belong to, each event once; right-hand-side switches (from nr on) left out.
+         */
         private int[] eventRoots(int[] found) {
+            int[] ev = new int[found.length];
             int c = 0;
             for (int k : found) {
-                c += k < ne ? 1 : 0;
-            }
-            if (c == found.length) {
-                return found;
-            }
-            int[] ev = new int[c];
-            c = 0;
-            for (int k : found) {
-                if (k < ne) {
-                    ev[c++] = k;
+                if (k < nr) {
+                    int e = model.eventOfRoot(k);
+                    boolean seen = false;
+                    for (int i = 0; i < c; i++) {
+                        seen |= ev[i] == e;
+                    }
+                    if (!seen) {
+                        ev[c++] = e;
+                    }
                 }
             }
-            return ev;
+            return c == found.length ? ev : java.util.Arrays.copyOf(ev, c);
         }
 
         /**
@@ -858,8 +867,8 @@ public final class Simulator {
             lastSwitchTime = t;
             if (rapidSwitches >= CHATTER_STOPS) {
                 for (int k : found) {
-                    if (k >= ne) {
-                        switchRoots.masked[k - ne] = true;
+                    if (k >= nr) {
+                        switchRoots.masked[k - nr] = true;
                     }
                 }
                 rapidSwitches = 0;
@@ -894,7 +903,7 @@ public final class Simulator {
             for (int k : rootHere) {
                 if (k == e) {
                     if (gNow == null) {
-                        gNow = new double[ne];
+                        gNow = new double[nr];
                     }
                     model.switchingFunctions().evaluate(t, y, p, gNow);
                     return gNow[e] >= 0;
@@ -1048,7 +1057,7 @@ public final class Simulator {
             this.ent = new double[ed.entryCount()];
             this.tmp = new double[nc];
             int ns = model.rhsSwitchCount();
-            this.gAll = new double[model.form().events().size() + ns];
+            this.gAll = new double[model.eventRootCount() + ns];
             this.pModes = new double[ns == 0 ? 0 : model.parameterCount() + ns];
             this.fMinus = new double[ns == 0 ? 0 : n];
             this.allRoots = model.rootFunctions();
@@ -1063,24 +1072,24 @@ public final class Simulator {
          * condition itself is ambiguous); the new value is the side of g's sign at the stop, where the root
          * locator leaves it. Switches at the same instant with another τ share the first one's (as for events).
          *
-         * @param found root indices of the stop (events below ne, switches from ne on)
+         * @param found root indices of the stop (event roots below nr, switches from nr on)
          */
         void switchJump(Run r, int[] found) {
             int n = r.n;
-            int ne = r.ne;
+            int nr = r.nr;
             int m = model.parameterCount();
             allRoots.evaluate(r.t, r.y, r.p, gAll);
             System.arraycopy(r.p, 0, pModes, 0, m);
             for (int k = 0; k < r.ns; k++) {
-                pModes[m + k] = gAll[ne + k] >= 0 ? 1.0 : -1.0;
+                pModes[m + k] = gAll[nr + k] >= 0 ? 1.0 : -1.0;
             }
             model.rhsForced(r.t, r.y, pModes, f);
             int first = -1;
             for (int k : found) {
-                if (k >= ne) {
-                    pModes[m + k - ne] = -pModes[m + k - ne];
+                if (k >= nr) {
+                    pModes[m + k - nr] = -pModes[m + k - nr];
                     if (first < 0) {
-                        first = k - ne;
+                        first = k - nr;
                     }
                 }
             }

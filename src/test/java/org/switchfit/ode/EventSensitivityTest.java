@@ -182,6 +182,34 @@ class EventSensitivityTest {
         assertMatchesCentralDifferences(cm, pDecl, theta, run, times);
     }
 
+    @Test
+    void bolusInAShortTriggerWindowFiresAndItsTimeHasADerivative() throws IOException {
+        // The bolus of timeTriggeredBolusOnExponentialDecay with the trigger t1 <= time && time < t1 + 0.001:
+        // same closed form. Asked only at t = 1 and 7.5, the integrator's steps are far longer than the window, and
+        // the trigger's min(time - t1, t1 + 0.001 - time) is negative at both ends of such a step; each relation
+        // is a root of its own, so the window is found and the firing time still moves with t1.
+        String trigger = "<apply><and/><apply><geq/>" + DecaySbml.TIME + "<ci>t1</ci></apply><apply><lt/>"
+                + DecaySbml.TIME + "<apply><plus/><ci>t1</ci><cn>0.001</cn></apply></apply></apply>";
+        CompiledModel cm = model(DecaySbml.withEvents(parameter("d", 1.5, true) + parameter("t1", 2.0, true),
+                DecaySbml.event("bolus", false, trigger, null, "X", "<apply><plus/><ci>X</ci><ci>d</ci></apply>")));
+        double[] pDecl = cm.parameterValues();
+        List<String> theta = List.of("k", "d", "t1");
+        double[] times = {1.0, 7.5};
+        Run run = sensitivities(cm, pDecl, theta, Map.of(), times);
+        double k = 0.3;
+        double d = 1.5;
+        double t1 = 2;
+        int x = cm.form().stateIds().indexOf("X");
+        double t = 7.5;
+        double e1 = Math.exp(-k * t);
+        double e2 = Math.exp(-k * (t - t1));
+        assertRel(2 * e1 + d * e2, run.y(1, x), REL_CLOSED, "x at 7.5");
+        assertRel(-t * 2 * e1 - (t - t1) * d * e2, run.s(1, 0, x), REL_CLOSED, "dx/dk at 7.5");
+        assertRel(e2, run.s(1, 1, x), REL_CLOSED, "dx/dd at 7.5");
+        assertRel(k * d * e2, run.s(1, 2, x), REL_CLOSED, "dx/dt1 at 7.5");
+        assertMatchesCentralDifferences(cm, pDecl, theta, run, times);
+    }
+
     @ParameterizedTest
     @ValueSource(strings = {"bdf", "dormand-prince"})
     void stateTriggeredResetAtThreshold(String method) throws IOException {
