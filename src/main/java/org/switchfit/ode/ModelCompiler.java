@@ -12,7 +12,8 @@ import org.switchfit.model.OdeForm;
  * Compiles a {@link Model} into a {@link CompiledModel}. Event triggers become continuous switching functions whose
  * sign follows the trigger: {@code a > b}, {@code a >= b} give a - b; {@code a < b}, {@code a <= b} give b - a;
  * and gives min, or gives max, not gives the negation; any other condition c gives +1 when c holds, else -1 (a
- * jump that root bracketing still locates).
+ * jump that root bracketing still locates). The relations of compound triggers are root functions too (see
+ * {@link #compile(OdeForm)}).
  */
 public final class ModelCompiler {
     private ModelCompiler() {
