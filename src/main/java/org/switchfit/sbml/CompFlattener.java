@@ -308,6 +308,13 @@ final class CompFlattener {
         if (el == null) {
             throw new Unhandled("metaid " + metaId);
         }
+        if (el instanceof org.sbml.jsbml.EventAssignment && el.getParent() != null
+                && el.getParent().getParent() instanceof org.sbml.jsbml.Event) {
+            // an event assignment has no id: "eventId#position" (events without id named as SbmlReader does)
+            org.sbml.jsbml.Event ev = (org.sbml.jsbml.Event) el.getParent().getParent();
+            String evId = ev.isSetId() ? ev.getId() : "event" + (m.getListOfEvents().indexOf(ev) + 1);
+            return evId + "#" + ev.getListOfEventAssignments().indexOf(el);
+        }
         if (el instanceof org.sbml.jsbml.NamedSBase && ((org.sbml.jsbml.NamedSBase) el).isSetId()) {
             return ((org.sbml.jsbml.NamedSBase) el).getId();
         }
@@ -371,8 +378,9 @@ final class CompFlattener {
                     continue;
                 }
                 List<Event.Assignment> as = new ArrayList<>();
-                for (Event.Assignment a : e.assignments()) {
-                    if (deleted.contains(a.variable())) {
+                for (int i = 0; i < e.assignments().size(); i++) {
+                    Event.Assignment a = e.assignments().get(i);
+                    if (deleted.contains(a.variable()) || deleted.contains(e.id() + "#" + i)) {
                         continue;
                     }
                     as.add(new Event.Assignment(ren(a.variable(), rename), sub(a.math(), alias)));

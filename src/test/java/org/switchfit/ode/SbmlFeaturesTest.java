@@ -55,6 +55,16 @@ class SbmlFeaturesTest {
     }
 
     @Test
+    void deletionOfAnEventAssignmentByMetaidKeepsTheOtherAssignment() {
+        // comp: the parent deletes the event assignment a = 3 (metaid set_a) of its submodel; b = 5 stays, so after
+        // t = 1 cell__a = 1 and cell__b = 5 (derived by hand; the comp specification's deletion by metaIdRef).
+        Trajectory tr = run("comp-deleted-assignment.xml", new double[] {0.5, 2}, List.of("cell__a", "cell__b"));
+        assertEquals(1.0, tr.value(1, 0), 0.0);
+        assertEquals(5.0, tr.value(1, 1), 0.0);
+        assertEquals(1.0, tr.value(0, 1), 0.0);
+    }
+
+    @Test
     void eventResizingACompartmentConvertsAConcentrationAssignmentWithTheOldSize() {
         // SBML: all assignments of an event are computed from the state before any of them (the SBML Test Suite's
         // cases 01779/01780 state this for exactly this situation). A = 0.2 is a concentration, so the amount
