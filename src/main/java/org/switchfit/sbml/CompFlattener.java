@@ -315,6 +315,13 @@ final class CompFlattener {
             String evId = ev.isSetId() ? ev.getId() : "event" + (m.getListOfEvents().indexOf(ev) + 1);
             return evId + "#" + ev.getListOfEventAssignments().indexOf(el);
         }
+        if (el instanceof org.sbml.jsbml.LocalParameter && el.getParent() != null
+                && el.getParent().getParent() != null
+                && el.getParent().getParent().getParent() instanceof org.sbml.jsbml.Reaction) {
+            // local parameters are global "reactionId.paramId" after reading (SbmlReader)
+            org.sbml.jsbml.Reaction r = (org.sbml.jsbml.Reaction) el.getParent().getParent().getParent();
+            return r.getId() + "." + ((org.sbml.jsbml.LocalParameter) el).getId();
+        }
         if (el instanceof org.sbml.jsbml.NamedSBase && ((org.sbml.jsbml.NamedSBase) el).isSetId()) {
             return ((org.sbml.jsbml.NamedSBase) el).getId();
         }
