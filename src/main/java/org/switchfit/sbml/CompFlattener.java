@@ -117,6 +117,7 @@ final class CompFlattener {
         Set<String> remove = new HashSet<>();
         Set<String> deleted = new HashSet<>();
         Map<String, String> idRename = new HashMap<>();
+        Map<String, Expr> localAlias = new HashMap<>();
         if (plug != null) {
             for (Submodel s : plug.getListOfSubmodels()) {
                 Def def = resolve(s.getModelRef(), doc, depth);
@@ -134,11 +135,17 @@ final class CompFlattener {
                     String tid = target(d, def, sp, depth);
                     remove.add(tid);
                     deleted.add(tid);
+                    int dot = tid.lastIndexOf('.');
+                    if (dot > 0 && !d.isSetSBaseRef() && tid.startsWith(sp)) {
+                        // a deleted local parameter ("reactionId.paramId", no SId has a dot): its kinetic law now
+                        // reads the submodel's global of that name (SBML scoping)
+                        localAlias.put(tid, Expr.symbol(sp + tid.substring(dot + 1)));
+                    }
                 }
             }
         }
         parts.add(new SbmlReader.Builder(m, file, prefix, doc.getLevel()).build(false));
-        Map<String, Expr> alias = new HashMap<>();
+        Map<String, Expr> alias = new HashMap<>(localAlias);
         Map<String, String> rename = new HashMap<>();
         for (SBase el : elements(m)) {
             CompSBasePlugin cp = (CompSBasePlugin) el.getExtension(CompConstants.shortLabel);

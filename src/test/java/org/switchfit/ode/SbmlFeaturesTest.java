@@ -76,6 +76,17 @@ class SbmlFeaturesTest {
     }
 
     @Test
+    void deletedLocalParameterLeavesTheGlobalOfTheSameName() {
+        // comp: the parent deletes the local k = 100 of the submodel's reaction; by SBML scoping the law then reads
+        // the submodel's global k = 0.5, so cell__A = exp(-0.5 t) (derived by hand)
+        double[] times = {0, 1, 2};
+        Trajectory tr = run("comp-local-deleted.xml", times, List.of("cell__A"));
+        for (int r = 0; r < times.length; r++) {
+            assertEquals(Math.exp(-0.5 * times[r]), tr.value(r, 0), 1e-8);
+        }
+    }
+
+    @Test
     void eventResizingACompartmentConvertsAConcentrationAssignmentWithTheOldSize() {
         // SBML: all assignments of an event are computed from the state before any of them (the SBML Test Suite's
         // cases 01779/01780 state this for exactly this situation). A = 0.2 is a concentration, so the amount
