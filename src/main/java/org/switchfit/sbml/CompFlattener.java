@@ -128,7 +128,7 @@ final class CompFlattener {
                 Expr ecf = s.isSetExtentConversionFactor() ? Expr.symbol(prefix + s.getExtentConversionFactor())
                         : null;
                 if (tcf != null || ecf != null) {
-                    sub = convertUnits(sub, tcf, ecf);
+                    sub = convertUnits(sub, tcf, ecf, replacedIn(m, s.getId(), def, sp, depth));
                 }
                 parts.add(sub);
                 for (Deletion d : s.getListOfDeletions()) {
@@ -190,11 +190,19 @@ final class CompFlattener {
     /**
      * Applies submodel conversion factors (comp specification, section 3.5.1): submodel time is parent time
      * divided by the time factor, so rates per submodel time are divided by it and durations multiplied; reaction
-     * extents are multiplied by the extent factor.
+     * extents are multiplied by the extent factor. A reaction's id used in the submodel's mathematics still means
+     * its rate in submodel units (SBML Test Suite 01178-01181).
      */
-    private static Model convertUnits(Model m, Expr tcf, Expr ecf) {
-        java.util.function.Function<Expr, Expr> time = e -> e == null || tcf == null ? e
-                : e.mapLeaves(x -> x.op() == Op.TIME ? Expr.div(Expr.TIME, tcf) : x);
+    private static Model convertUnits(Model m, Expr tcf, Expr ecf, Set<String> replaced) {
+        // a reaction's id in the submodel's math keeps submodel units: the converted rate divided by ecf / tcf;
+        // not for a replaced reaction, whose references take the replacement's own conversion factor instead
+        Set<String> rids = new HashSet<>();
+        m.reactions().forEach(r -> rids.add(r.id()));
+        rids.removeAll(replaced);
+        Expr rateFactor = ecf == null ? Expr.div(Expr.ONE, tcf) : tcf == null ? ecf : Expr.div(ecf, tcf);
+        java.util.function.Function<Expr, Expr> time = e -> e == null ? e : e.mapLeaves(x -> x.op() == Op.TIME
+                && tcf != null ? Expr.div(Expr.TIME, tcf)
+                : x.op() == Op.SYMBOL && rids.contains(x.name()) ? Expr.div(x, rateFactor) : x);
         List<Reaction> rs = new ArrayList<>();
         for (Reaction r : m.reactions()) {
             Expr k = time.apply(r.kineticLaw());
@@ -236,6 +244,23 @@ final class CompFlattener {
         }
         return new Model(m.id(), m.source(), m.compartments(), m.species(), m.parameters(), rs, rules, ias, evs,
                 m.conversionFactor());
+    }
+
+    /** Prefixed ids of the elements of submodel {@code subId} that elements of {@code m} replace. */
+    private Set<String> replacedIn(org.sbml.jsbml.Model m, String subId, Def def, String sp, int depth) {
+        Set<String> out = new HashSet<>();
+        for (SBase el : elements(m)) {
+            CompSBasePlugin cp = (CompSBasePlugin) el.getExtension(CompConstants.shortLabel);
+            if (cp == null) {
+                continue;
+            }
+            for (ReplacedElement re : cp.getListOfReplacedElements()) {
+                if (!re.isSetDeletion() && subId.equals(re.getSubmodelRef())) {
+                    out.add(target(re, def, sp, depth));
+                }
+            }
+        }
+        return out;
     }
 
     private static String idOf(SBase el) {

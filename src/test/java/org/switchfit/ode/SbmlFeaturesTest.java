@@ -87,6 +87,18 @@ class SbmlFeaturesTest {
     }
 
     @Test
+    void reactionIdInAConvertedSubmodelKeepsSubmodelUnits() {
+        // comp section 3.5.1: with extent factor 1000 and time factor 60 the reaction adds 10 * 1000 / 60 per parent
+        // time unit, s = 1 + 10 * 1000 / 60 t, while the submodel's rule shown = make + 6 reads the rate in submodel
+        // units, 16 (derived by hand; the SBML Test Suite's cases 01178-01181 state the same rule)
+        double[] times = {0, 0.6};
+        Trajectory tr = run("comp-converted-rate.xml", times, List.of("cell__s", "cell__shown"));
+        assertEquals(1.0 + 10 * 1000 / 60.0 * 0.6, tr.value(1, 0), 1e-8);
+        assertEquals(16.0, tr.value(0, 1), 1e-12);
+        assertEquals(16.0, tr.value(1, 1), 1e-12);
+    }
+
+    @Test
     void eventResizingACompartmentConvertsAConcentrationAssignmentWithTheOldSize() {
         // SBML: all assignments of an event are computed from the state before any of them (the SBML Test Suite's
         // cases 01779/01780 state this for exactly this situation). A = 0.2 is a concentration, so the amount
