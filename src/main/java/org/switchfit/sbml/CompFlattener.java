@@ -43,6 +43,11 @@ final class CompFlattener {
     private final String file;
     private final Path dir;
     private final SBMLDocument rootDoc;
+    /**
+     * Every submodel element that a lower level renamed (replacedBy: it survives under the replaced element's id),
+     * old prefixed id to new; a reference from a higher level to the old id follows the chain.
+     */
+    private final Map<String, String> renamedBelow = new HashMap<>();
 
     private CompFlattener(SBMLDocument doc, Path path, String file) {
         this.rootDoc = doc;
@@ -184,7 +189,9 @@ final class CompFlattener {
                 alias.put(tid, Expr.symbol(eid));
             }
         }
-        return merge(m.getId(), parts, remove, deleted, idRename, alias, rename);
+        Model merged = merge(m.getId(), parts, remove, deleted, idRename, alias, rename);
+        renamedBelow.putAll(idRename);
+        return merged;
     }
 
     /**
@@ -319,7 +326,11 @@ final class CompFlattener {
         if (ref.isSetSBaseRef()) {
             return nested(ref.getSBaseRef(), def, subPrefix, id, depth);
         }
-        return subPrefix + id;
+        String full = subPrefix + id;
+        for (int guard = 0; renamedBelow.containsKey(full) && guard < 64; guard++) {
+            full = renamedBelow.get(full);
+        }
+        return full;
     }
 
     private String nested(SBaseRef inner, Def def, String subPrefix, String submodelId, int depth) {

@@ -99,6 +99,16 @@ class SbmlFeaturesTest {
     }
 
     @Test
+    void chainedReplacedByReachesTheInnermostElement() {
+        // comp: leaf's x = 8 replaces mid's y (replacedBy), and the parent's top is replaced by that same x through
+        // mid; the one surviving parameter carries x's value 8 under the parent's id (derived by hand from the comp
+        // specification's replacedBy: the replacing element's value wins)
+        Trajectory tr = run("comp-chained-replaced-by.xml", new double[] {0, 1}, List.of("top"));
+        assertEquals(8.0, tr.value(0, 0), 0.0);
+        assertEquals(8.0, tr.value(1, 0), 0.0);
+    }
+
+    @Test
     void eventResizingACompartmentConvertsAConcentrationAssignmentWithTheOldSize() {
         // SBML: all assignments of an event are computed from the state before any of them (the SBML Test Suite's
         // cases 01779/01780 state this for exactly this situation). A = 0.2 is a concentration, so the amount
