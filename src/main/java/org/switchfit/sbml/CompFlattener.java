@@ -290,6 +290,11 @@ final class CompFlattener {
         l.addAll(m.getListOfParameters());
         l.addAll(m.getListOfReactions());
         l.addAll(m.getListOfEvents());
+        for (org.sbml.jsbml.Rule r : m.getListOfRules()) {
+            if (r.isSetMetaId()) {
+                l.add(r); // a rule can replace a submodel's rule (matched by metaid)
+            }
+        }
         for (org.sbml.jsbml.Reaction r : m.getListOfReactions()) {
             l.addAll(r.getListOfReactants());
             l.addAll(r.getListOfProducts());
@@ -410,7 +415,7 @@ final class CompFlattener {
                         r.reversible(), r.fast()));
             }
             for (Rule r : p.rules()) {
-                if (r.elementId() != null && deleted.contains(r.elementId())
+                if (r.elementId() != null && (deleted.contains(r.elementId()) || remove.contains(r.elementId()))
                         || r.variable() != null && deleted.contains(r.variable())) {
                     continue;
                 }

@@ -109,6 +109,15 @@ class SbmlFeaturesTest {
     }
 
     @Test
+    void ruleReplacingASubmodelRuleIsTheOnlyRule() {
+        // comp: v = 8 replaces the submodel's w and v' = 3 replaces w' = 4 w + 3 (metaIdRef), so v = 8 + 3 t
+        // (derived by hand; linear, so only rounding remains)
+        Trajectory tr = run("comp-replaced-rule.xml", new double[] {0, 2}, List.of("v"));
+        assertEquals(8.0, tr.value(0, 0), 1e-12);
+        assertEquals(14.0, tr.value(1, 0), 1e-9);
+    }
+
+    @Test
     void eventResizingACompartmentConvertsAConcentrationAssignmentWithTheOldSize() {
         // SBML: all assignments of an event are computed from the state before any of them (the SBML Test Suite's
         // cases 01779/01780 state this for exactly this situation). A = 0.2 is a concentration, so the amount
