@@ -151,6 +151,8 @@ final class CompFlattener {
         }
         parts.add(new SbmlReader.Builder(m, file, prefix, doc.getLevel()).build(false));
         Map<String, Expr> alias = new HashMap<>(localAlias);
+        // replaced element -> conversion factor: a value the submodel assigns to it is multiplied by the factor
+        Map<String, Expr> assignedScale = new HashMap<>();
         Map<String, String> rename = new HashMap<>();
         for (SBase el : elements(m)) {
             CompSBasePlugin cp = (CompSBasePlugin) el.getExtension(CompConstants.shortLabel);
@@ -172,6 +174,7 @@ final class CompFlattener {
                 Expr repl = Expr.symbol(eid);
                 if (re.isSetConversionFactor()) {
                     repl = Expr.div(repl, Expr.symbol(prefix + re.getConversionFactor()));
+                    assignedScale.put(tid, Expr.symbol(prefix + re.getConversionFactor()));
                 }
                 alias.put(tid, repl);
             }
@@ -189,7 +192,7 @@ final class CompFlattener {
                 alias.put(tid, Expr.symbol(eid));
             }
         }
-        Model merged = merge(m.getId(), parts, remove, deleted, idRename, alias, rename);
+        Model merged = merge(m.getId(), parts, remove, deleted, idRename, alias, rename, assignedScale);
         renamedBelow.putAll(idRename);
         return merged;
     }
@@ -379,7 +382,13 @@ final class CompFlattener {
     // ------------------------------------------------------------------ merging
 
     private Model merge(String id, List<Model> parts, Set<String> remove, Set<String> deleted,
-                        Map<String, String> idRename, Map<String, Expr> alias, Map<String, String> rename) {
+                        Map<String, String> idRename, Map<String, Expr> alias, Map<String, String> rename,
+                        Map<String, Expr> assignedScale) {
+        // the submodel's x = f (or x' = f, x := f) for x replaced with factor c: the replacing y = c x gets c f
+        java.util.function.BiFunction<String, Expr, Expr> scaled = (target, math) -> {
+            Expr c = assignedScale.get(target);
+            return c == null || math == null ? math : Expr.mul(c, math);
+        };
         List<Compartment> comps = new ArrayList<>();
         List<Species> species = new ArrayList<>();
         List<Parameter> params = new ArrayList<>();
@@ -420,13 +429,15 @@ final class CompFlattener {
                     continue;
                 }
                 rules.add(new Rule(r.kind(), r.variable() == null ? null : ren(r.variable(), rename),
-                        sub(r.math(), alias), r.elementId()));
+                        r.variable() == null ? sub(r.math(), alias) : scaled.apply(r.variable(), sub(r.math(), alias)),
+                        r.elementId()));
             }
             for (InitialAssignment ia : p.initialAssignments()) {
                 if (deleted.contains(ia.symbol())) {
                     continue;
                 }
-                ias.add(new InitialAssignment(ren(ia.symbol(), rename), sub(ia.math(), alias)));
+                ias.add(new InitialAssignment(ren(ia.symbol(), rename),
+                        scaled.apply(ia.symbol(), sub(ia.math(), alias))));
             }
             for (Event e : p.events()) {
                 if (remove.contains(e.id())) {
@@ -438,7 +449,8 @@ final class CompFlattener {
                     if (deleted.contains(a.variable()) || deleted.contains(e.id() + "#" + i)) {
                         continue;
                     }
-                    as.add(new Event.Assignment(ren(a.variable(), rename), sub(a.math(), alias)));
+                    as.add(new Event.Assignment(ren(a.variable(), rename),
+                            scaled.apply(a.variable(), sub(a.math(), alias))));
                 }
                 events.add(new Event(ren(e.id(), idRename), sub(e.trigger(), alias), e.initialValue(), e.persistent(),
                         sub(e.delay(), alias), sub(e.priority(), alias), e.useValuesFromTriggerTime(), as));

@@ -118,6 +118,19 @@ class SbmlFeaturesTest {
     }
 
     @Test
+    void rateRuleOfAnElementReplacedWithAConversionFactorIsScaled() {
+        // comp: y = c x with c = 0.1; the submodel's x' = 4 x + 3 becomes y' = c (4 y / c + 3) = 4 y + 0.3, so
+        // y = (8 + 0.075) e^{4t} - 0.075 (derived by hand; the SBML Test Suite's case 01139 has the same form)
+        double[] times = {0, 0.1, 0.5};
+        Trajectory tr = run("comp-conversion-factor.xml", times, List.of("y"));
+        for (int r = 0; r < times.length; r++) {
+            double exact = 8.075 * Math.exp(4 * times[r]) - 0.075;
+            // integrator tolerance 1e-10 relative; 1e-8 relative leaves room for the global error
+            assertEquals(exact, tr.value(r, 0), 1e-8 * exact);
+        }
+    }
+
+    @Test
     void eventResizingACompartmentConvertsAConcentrationAssignmentWithTheOldSize() {
         // SBML: all assignments of an event are computed from the state before any of them (the SBML Test Suite's
         // cases 01779/01780 state this for exactly this situation). A = 0.2 is a concentration, so the amount
