@@ -281,9 +281,11 @@ public final class DormandPrinceIntegrator implements Integrator {
             private final double[] g = new double[g0.length];
             private final BracketedUnivariateSolver<UnivariateFunction> solver;
             private final double maxCheck;
+            private final double tolT;
 
             Detector(int k, boolean[] hit, double tolT, double maxCheck) {
                 this.k = k;
+                this.tolT = tolT;
                 this.hit = hit;
                 this.solver = new BracketingNthOrderBrentSolver(0.0, tolT, 0.0, 5);
                 this.maxCheck = maxCheck;
@@ -317,8 +319,18 @@ public final class DormandPrinceIntegrator implements Integrator {
                 if (Thread.currentThread().isInterrupted()) {
                     throw new IntegrationException(state.getTime(), "interrupted");
                 }
-                roots.evaluate(state.getTime(), state.getPrimaryState(), p, g);
-                return g[k];
+                double t = state.getTime();
+                roots.evaluate(t, state.getPrimaryState(), p, g);
+                if (g[k] != 0.0) {
+                    return g[k];
+                }
+                // An exact 0 takes the sign the function has just after t (time-dependent functions), else the
+                // negative side, as the event detection itself treats a 0 at the start of a step. Handing the 0 on
+                // made a switching function that stays 0 (abs(Q - R) > maxdiff while all three are equal) read
+                // negative at the start of each step and non-negative inside it, a root at every step, and the
+                // integration never advanced (SBML Test Suite 01591).
+                roots.evaluate(t + tolT, state.getPrimaryState(), p, g);
+                return g[k] > 0 ? Double.MIN_VALUE : -Double.MIN_VALUE;
             }
         }
     }

@@ -131,6 +131,19 @@ class SbmlFeaturesTest {
     }
 
     @Test
+    void switchingFunctionThatStaysZeroIsNoRootAtEveryStep() {
+        // abs(q - r) - m is exactly 0 until the event at t = 1 sets q = 1 (then "watch" fires: seen = 1); x' = -x.
+        // Handing the exact 0 to the Dormand-Prince event detection made every step a root and the integration
+        // never advanced (the guard below only turns such a hang into a failure; it measures no speed).
+        Trajectory tr = org.junit.jupiter.api.Assertions.assertTimeoutPreemptively(java.time.Duration.ofSeconds(60),
+                () -> run("zero-switch.xml", new double[] {0.5, 2}, List.of("x", "seen")));
+        assertEquals(Math.exp(-0.5), tr.value(0, 0), 1e-8);
+        assertEquals(0.0, tr.value(0, 1), 0.0);
+        assertEquals(Math.exp(-2), tr.value(1, 0), 1e-8);
+        assertEquals(1.0, tr.value(1, 1), 0.0);
+    }
+
+    @Test
     void eventResizingACompartmentConvertsAConcentrationAssignmentWithTheOldSize() {
         // SBML: all assignments of an event are computed from the state before any of them (the SBML Test Suite's
         // cases 01779/01780 state this for exactly this situation). A = 0.2 is a concentration, so the amount
