@@ -282,6 +282,7 @@ public final class DormandPrinceIntegrator implements Integrator {
             private final BracketedUnivariateSolver<UnivariateFunction> solver;
             private final double maxCheck;
             private final double tolT;
+            private double[] ahead;
 
             Detector(int k, boolean[] hit, double tolT, double maxCheck) {
                 this.k = k;
@@ -324,12 +325,21 @@ public final class DormandPrinceIntegrator implements Integrator {
                 if (g[k] != 0.0) {
                     return g[k];
                 }
-                // An exact 0 takes the sign the function has just after t (time-dependent functions), else the
-                // negative side, as the event detection itself treats a 0 at the start of a step. Handing the 0 on
-                // made a switching function that stays 0 (abs(Q - R) > maxdiff while all three are equal) read
-                // negative at the start of each step and non-negative inside it, a root at every step, and the
-                // integration never advanced (SBML Test Suite 01591).
-                roots.evaluate(t + tolT, state.getPrimaryState(), p, g);
+                // An exact 0 takes the sign the function has just after t, from the state moved along its
+                // derivative (y + h y'), else (a function that stays 0) the negative side. Handing the 0 on made a
+                // switching function that stays 0 (abs(Q - R) > maxdiff while all three are equal) an endless
+                // search of the event detection for the sign after a step's start, and the integration never
+                // advanced (SBML Test Suite 01591).
+                double[] y = state.getPrimaryState();
+                double[] dy = state.getPrimaryDerivative();
+                double h = Math.max(tolT, 1e-10 * Math.max(1.0, Math.abs(t)));
+                if (ahead == null) {
+                    ahead = new double[y.length];
+                }
+                for (int i = 0; i < y.length; i++) {
+                    ahead[i] = y[i] + h * dy[i];
+                }
+                roots.evaluate(t + h, ahead, p, g);
                 return g[k] > 0 ? Double.MIN_VALUE : -Double.MIN_VALUE;
             }
         }
