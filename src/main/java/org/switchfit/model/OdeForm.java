@@ -212,7 +212,7 @@ public final class OdeForm {
 
     private void build() {
         collectQuantities();
-        collectRules();
+        // event targets first: an algebraic rule is solved for a quantity nothing else sets (collectRules)
         for (Event e : model.events()) {
             for (Event.Assignment a : e.assignments()) {
                 requireKnown(a.variable(), "event '" + e.id() + "'");
@@ -223,6 +223,7 @@ public final class OdeForm {
                 eventTargets.add(a.variable());
             }
         }
+        collectRules();
         for (Reaction r : model.reactions()) {
             if (r.fast()) {
                 throw new UnsupportedConstructException(SourceLocation.ofElement(file, r.id()), "a fast reaction",
@@ -400,7 +401,8 @@ public final class OdeForm {
         if (Boolean.TRUE.equals(constantFlag.get(id))) {
             return false;
         }
-        return !assignRules.containsKey(id) && !rateRules.containsKey(id) && !reactionChanged.contains(id);
+        return !assignRules.containsKey(id) && !rateRules.containsKey(id) && !reactionChanged.contains(id)
+                && !eventTargets.contains(id);
     }
 
     private void classify() {
