@@ -56,13 +56,14 @@ final class CompFlattener {
     }
 
     /** Flattens, or returns null when the model uses comp features this flattener does not handle. */
-    static Model tryFlatten(SBMLDocument doc, Path path, String file) {
+    static Model tryFlatten(SBMLDocument doc, Path path, String file, String[] whyNot) {
         try {
             CompFlattener f = new CompFlattener(doc, path, file);
             Model m = f.flatten(doc.getModel(), doc, "", 0);
             return new Model(m.id(), file, m.compartments(), m.species(), m.parameters(), m.reactions(), m.rules(),
                     m.initialAssignments(), m.events(), m.conversionFactor());
         } catch (Unhandled e) {
+            whyNot[0] = e.getMessage();
             return null;
         }
     }
@@ -326,6 +327,9 @@ final class CompFlattener {
             }
         } else if (ref.isSetIdRef()) {
             id = ref.getIdRef();
+            if (!ref.isSetSBaseRef() && def.model().getSBaseById(id) == null) {
+                throw new Unhandled("model definition '" + def.model().getId() + "' has no element '" + id + "'");
+            }
         } else if (ref.isSetMetaIdRef()) {
             id = metaIdTarget(def.model(), ref.getMetaIdRef());
         } else {
@@ -357,7 +361,7 @@ final class CompFlattener {
             el = m.getElementByMetaId(metaId);
         }
         if (el == null) {
-            throw new Unhandled("metaid " + metaId);
+            throw new Unhandled("no element has metaid '" + metaId + "'");
         }
         if (el instanceof org.sbml.jsbml.EventAssignment && el.getParent() != null
                 && el.getParent().getParent() instanceof org.sbml.jsbml.Event) {

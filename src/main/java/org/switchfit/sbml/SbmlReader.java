@@ -134,9 +134,10 @@ public final class SbmlReader {
         if (compContent && (doc.isPackageEnabled(CompConstants.shortLabel)
                 || doc.getModel().getExtension(CompConstants.shortLabel) != null
                 || doc.getExtension(CompConstants.shortLabel) != null)) {
-            flattened = CompFlattener.tryFlatten(doc, path, file);
+            String[] whyNot = new String[1];
+            flattened = CompFlattener.tryFlatten(doc, path, file, whyNot);
             if (flattened == null) {
-                doc = flatten(doc, path);
+                doc = flatten(doc, path, whyNot[0]);
             }
         }
         for (String pkg : new String[] {"fbc", "arrays", "distrib", "spatial", "qual", "multi"}) {
@@ -151,22 +152,29 @@ public final class SbmlReader {
         return new Builder(doc.getModel(), file, "", doc.getLevel()).build(true);
     }
 
-    private static SBMLDocument flatten(SBMLDocument doc, Path path) {
+    /**
+     * Flattens with JSBML's converter, the fallback when switchfit's own flattener declines ({@code whyNot}, its
+     * reason, goes into the message when the fallback fails too).
+     */
+    private static SBMLDocument flatten(SBMLDocument doc, Path path, String whyNot) {
+        String ours = whyNot == null ? "" : whyNot + "; ";
         try {
             doc.setLocationURI(path.toAbsolutePath().toUri().toString());
             absolutiseExternalSources(doc, path.toAbsolutePath().getParent());
             SBMLDocument flat = new CompFlatteningConverter().flatten(doc);
             if (flat == null || flat.getModel() == null) {
                 throw new UnsupportedConstructException(SourceLocation.ofFile(path.toString()),
-                        "hierarchical model composition that could not be flattened", "flatten the model first");
+                        "hierarchical model composition that could not be flattened" + (whyNot == null ? ""
+                                : " (" + whyNot + ")"), "flatten the model first");
             }
             return flat;
         } catch (UserInputException e) {
             throw e;
         } catch (RuntimeException e) {
+            String theirs = e.getMessage() == null ? e.getClass().getSimpleName() : firstLine(e.getMessage());
             throw new UnsupportedConstructException(SourceLocation.ofFile(path.toString()),
-                    "hierarchical model composition that could not be flattened (" + firstLine(String.valueOf(
-                            e.getMessage())) + ")", "flatten the model first");
+                    "hierarchical model composition that could not be flattened (" + ours + "JSBML: " + theirs
+                            + ")", "flatten the model first");
         }
     }
 
