@@ -75,6 +75,12 @@ class SimulateCommandTest {
     }
 
     @Test
+    void danglingCompReferenceIsOneLineUserErrorNamingIt() {
+        assertUserError(run("simulate", res("comp-dangling-deletion.xml"), "--times", "0:1:2"),
+                "comp-dangling-deletion.xml", "no element has metaid 'no_such'");
+    }
+
+    @Test
     void unknownOverrideIsOneLineUserError() {
         assertUserError(run("simulate", res("decay.xml"), "--times", "0:1:2", "--set", "nope=1"), "nope",
                 "settable");
