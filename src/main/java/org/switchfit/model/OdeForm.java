@@ -837,8 +837,8 @@ public final class OdeForm {
      * An event that resizes a compartment keeps the amounts of its species (SBML: a species' quantity is its
      * amount; its concentration follows the size). Species whose state is their concentration (a rate rule on a
      * species without hasOnlySubstanceUnits) therefore get an extra assignment {@code [S] C / C_new}, all values
-     * taken before the event assigns anything, unless the event assigns the species itself (SBML Test Suite cases
-     * 01505 and 01511).
+     * taken before the event assigns anything, unless the event assigns the species itself (SBML Test Suite case
+     * 01505).
      */
     private void addConcentrationRescaling(Event e, List<BoundEvent.Target> targets, String ctx) {
         Set<String> assigned = new HashSet<>();

@@ -245,7 +245,7 @@ public final class CompiledModel implements OdeSystem {
         return switchingCount;
     }
 
-    /** The event event root k belongs to: k itself below the event count, else the owner of the atom. */
+    /** The event that event root k belongs to: k itself below the event count, else the owner of the atom. */
     public int eventOfRoot(int k) {
         int ne = switchingCount - atomEvent.length;
         return k < ne ? k : atomEvent[k - ne];
