@@ -177,11 +177,11 @@ public final class Simulator {
         if (!any || !(to > from)) {
             return Double.NaN;
         }
-        int ne = model.eventRootCount();
+        int nr = model.eventRootCount();
         RootFunctions roots = model.rootFunctions();
-        double[] ga = new double[ne + ns];
-        double[] gb = new double[ne + ns];
-        double[] gm = new double[ne + ns];
+        double[] ga = new double[nr + ns];
+        double[] gb = new double[nr + ns];
+        double[] gm = new double[nr + ns];
         double factor = Math.pow(10.0, 1.0 / TIME_SWITCH_SAMPLES) - 1.0;
         double last = Double.NaN;
         double a = from;
@@ -189,8 +189,8 @@ public final class Simulator {
         while (a < to) {
             double b = Math.min(to, a + factor * Math.max(1.0, Math.abs(a)));
             roots.evaluate(b, y, p, gb);
-            if (timeSwitchChanged(ga, gb, ne, ns)) {
-                double[] br = bisectTimeSwitch(roots, y, p, a, b, gb, gm, ne, ns, false);
+            if (timeSwitchChanged(ga, gb, nr, ns)) {
+                double[] br = bisectTimeSwitch(roots, y, p, a, b, gb, gm, nr, ns, false);
                 last = br[1] + (br[1] - br[0]);
             }
             double[] swap = ga;
@@ -209,13 +209,13 @@ public final class Simulator {
      * @return the final bracket {lo, hi}
      */
     private double[] bisectTimeSwitch(RootFunctions roots, double[] y, double[] p, double lo, double hi,
-                                      double[] gRef, double[] gMid, int ne, int ns, boolean first) {
+                                      double[] gRef, double[] gMid, int nr, int ns, boolean first) {
         while (hi - lo > IntegrationSession.rootBracketWidth(hi)) {
             double mid = 0.5 * (lo + hi);
             roots.evaluate(mid, y, p, gMid);
             // first: a change between lo's values and mid puts the first change in (lo, mid]; last: a change
             // between mid and hi's values puts the last change in (mid, hi]
-            if (timeSwitchChanged(gRef, gMid, ne, ns) == first) {
+            if (timeSwitchChanged(gRef, gMid, nr, ns) == first) {
                 hi = mid;
             } else {
                 lo = mid;
@@ -224,9 +224,9 @@ public final class Simulator {
         return new double[] {lo, hi};
     }
 
-    private boolean timeSwitchChanged(double[] ga, double[] gb, int ne, int ns) {
+    private boolean timeSwitchChanged(double[] ga, double[] gb, int nr, int ns) {
         for (int k = 0; k < ns; k++) {
-            if (model.rhsSwitchOnTimeOnly(k) && (ga[ne + k] >= 0) != (gb[ne + k] >= 0)) {
+            if (model.rhsSwitchOnTimeOnly(k) && (ga[nr + k] >= 0) != (gb[nr + k] >= 0)) {
                 return true;
             }
         }

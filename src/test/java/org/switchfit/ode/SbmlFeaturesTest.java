@@ -18,6 +18,15 @@ class SbmlFeaturesTest {
                 ModelOutputs.of(cm, outputs));
     }
 
+    /** cell__A of the comp test models equals exp(-k t) at t = 0, 1, 2 (1e-8: integrator tolerance 1e-10). */
+    private static void assertDecay(String file, double k) {
+        double[] times = {0, 1, 2};
+        Trajectory tr = run(file, times, List.of("cell__A"));
+        for (int r = 0; r < times.length; r++) {
+            assertEquals(Math.exp(-k * times[r]), tr.value(r, 0), 1e-8, file + " at t=" + times[r]);
+        }
+    }
+
     @Test
     void delayedDecayFollowsMethodOfSteps() {
         // x' = -k x(t-1), x = 2 before and at t = 0, k = 0.5 (method of steps, derived by hand):
@@ -56,11 +65,7 @@ class SbmlFeaturesTest {
     @Test
     void submodelParameterReplacedByParentParameter() {
         // comp: parent kfast = 0.8 replaces cell's k, so cell__A = exp(-0.8 t) (derived by hand)
-        double[] times = {0, 1, 2};
-        Trajectory tr = run("comp.xml", times, List.of("cell__A"));
-        for (int r = 0; r < times.length; r++) {
-            assertEquals(Math.exp(-0.8 * times[r]), tr.value(r, 0), 1e-8);
-        }
+        assertDecay("comp.xml", 0.8);
     }
 
     @Test
@@ -77,22 +82,14 @@ class SbmlFeaturesTest {
     void parentParameterReplacesALocalParameterByMetaid() {
         // comp: kp = 0.5 replaces the local k = 100 of the submodel's reaction (metaIdRef), so cell__A = exp(-0.5 t)
         // (derived by hand)
-        double[] times = {0, 1, 2};
-        Trajectory tr = run("comp-local-replaced.xml", times, List.of("cell__A"));
-        for (int r = 0; r < times.length; r++) {
-            assertEquals(Math.exp(-0.5 * times[r]), tr.value(r, 0), 1e-8);
-        }
+        assertDecay("comp-local-replaced.xml", 0.5);
     }
 
     @Test
     void deletedLocalParameterLeavesTheGlobalOfTheSameName() {
         // comp: the parent deletes the local k = 100 of the submodel's reaction; by SBML scoping the law then reads
         // the submodel's global k = 0.5, so cell__A = exp(-0.5 t) (derived by hand)
-        double[] times = {0, 1, 2};
-        Trajectory tr = run("comp-local-deleted.xml", times, List.of("cell__A"));
-        for (int r = 0; r < times.length; r++) {
-            assertEquals(Math.exp(-0.5 * times[r]), tr.value(r, 0), 1e-8);
-        }
+        assertDecay("comp-local-deleted.xml", 0.5);
     }
 
     @Test
