@@ -76,6 +76,12 @@ public final class OdeForm {
     private final List<Event> resolvedEvents = new ArrayList<>();
     private final List<Expr> delaySlots = new ArrayList<>();
     private final List<Expr> delayLags = new ArrayList<>();
+    /** Fast reactions (rapid equilibrium) in model order, their constraints and amount directions. */
+    private final List<String> fastIds = new ArrayList<>();
+    private final List<Expr> fastSymbolic = new ArrayList<>();
+    private final List<Expr> fastDirectionSymbolic = new ArrayList<>();
+    private final List<Expr> fastConstraints = new ArrayList<>();
+    private final List<Expr> fastDirections = new ArrayList<>();
 
     private OdeForm(Model model) {
         this.model = model;
@@ -85,7 +91,8 @@ public final class OdeForm {
     /**
      * Builds the ODE form.
      *
-     * @throws UnsupportedConstructException for fast reactions, delays, unsolvable algebraic rules
+     * @throws UnsupportedConstructException for delays, unsolvable algebraic rules, more than three coupled fast
+     *                                      reactions
      * @throws UserInputException for undefined ids, cyclic definitions and similar model errors
      */
     public static OdeForm of(Model model) {
@@ -161,6 +168,27 @@ public final class OdeForm {
         return List.copyOf(delayLags);
     }
 
+    /** Ids of the fast reactions (rapid equilibrium), in model order. */
+    public List<String> fastReactionIds() {
+        return List.copyOf(fastIds);
+    }
+
+    /**
+     * Equilibrium constraints {@code g_j(t, y, p) = 0}, one per fast reaction (its kinetic law, runtime form); the
+     * right-hand side keeps them constant, {@link org.switchfit.ode.CompiledModel} brings the state onto them.
+     */
+    public List<Expr> fastConstraints() {
+        return List.copyOf(fastConstraints);
+    }
+
+    /**
+     * Change of each state per unit extent of each fast reaction, flat {@code [i * k + j]} for state i and fast
+     * reaction j (stoichiometry times conversion factor; 0 for states no fast reaction changes).
+     */
+    public List<Expr> fastDirections() {
+        return List.copyOf(fastDirections);
+    }
+
     public List<BoundEvent> events() {
         return List.copyOf(events);
     }
@@ -225,10 +253,6 @@ public final class OdeForm {
         }
         collectRules();
         for (Reaction r : model.reactions()) {
-            if (r.fast()) {
-                throw new UnsupportedConstructException(SourceLocation.ofElement(file, r.id()), "a fast reaction",
-                        "model the fast step as an ordinary reaction with large rate constants");
-            }
             for (SpeciesRef s : refs(r)) {
                 requireKnown(s.species(), "reaction '" + r.id() + "'");
                 Species sp = model.species(s.species());
@@ -536,6 +560,7 @@ public final class OdeForm {
             }
             derivSymbolic.put(id, d);
         }
+        buildFastEquilibrium();
         // resolve rateOf everywhere
         for (String k : new ArrayList<>(defs.keySet())) {
             defs.put(k, resolveRateOf(defs.get(k)));
@@ -568,6 +593,181 @@ public final class OdeForm {
             outs.add(bind(derivs.get(i), "the rate of change of '" + stateIds.get(i) + "'"));
         }
         runtime = new Block(names, bound, outs);
+        for (int j = 0; j < fastIds.size(); j++) {
+            String ctx = "fast reaction '" + fastIds.get(j) + "'";
+            fastConstraints.add(bind(resolveRateOf(fastSymbolic.get(j)), ctx));
+        }
+        for (Expr d : fastDirectionSymbolic) {
+            fastDirections.add(bind(resolveRateOf(d), "fast reaction stoichiometry"));
+        }
+    }
+
+    /**
+     * Rapid equilibrium of the fast reactions (SBML Level 2 and Level 3 Version 1: a fast reaction is at
+     * equilibrium on the time scale of the others). The state stays on the manifold {@code g(y) = 0} of the fast
+     * rate laws g: the fluxes w of the fast reactions are not their laws but the solution of the differentiated
+     * constraints {@code dg/dt = ∂g/∂t + Σ_s ∂g/∂s · ds/dt = 0}, linear in w because ds/dt = (slow terms) + D w
+     * (index reduction of the differential-algebraic system). Each group of coupled fast reactions (at most three)
+     * is solved by Cramer's rule; a singular group (a law that does not depend on its own extent, such as a rate
+     * constant of 0) carries no flux. The manifold itself is reached by a Newton projection at the start and after
+     * events ({@link org.switchfit.ode.CompiledModel#equilibrateFast}).
+     */
+    private void buildFastEquilibrium() {
+        List<Reaction> fast = new ArrayList<>();
+        for (Reaction r : model.reactions()) {
+            if (r.fast()) {
+                fast.add(r);
+            }
+        }
+        int k = fast.size();
+        if (k == 0) {
+            return;
+        }
+        Expr[] flux = new Expr[k];
+        for (int j = 0; j < k; j++) {
+            fastIds.add(fast.get(j).id());
+            flux[j] = Expr.symbol(fast.get(j).id());
+        }
+        Expr[][] coupling = new Expr[k][k];
+        Expr[] rest = new Expr[k];
+        for (int j = 0; j < k; j++) {
+            Reaction r = fast.get(j);
+            Expr g = inlineAssignments(r.kineticLaw() == null ? Expr.ZERO : r.kineticLaw(), 0);
+            if (g.contains(x -> x.op() == Op.RATEOF || x.op() == Op.DELAY
+                    || x.op() == Op.SYMBOL && fastIds.contains(x.name()))) {
+                throw new UnsupportedConstructException(SourceLocation.ofElement(file, r.id()),
+                        "a fast reaction whose rate uses rateOf, delay or the rate of a fast reaction",
+                        "write its rate law in the model's quantities");
+            }
+            fastSymbolic.add(g);
+            Set<String> syms = new LinkedHashSet<>();
+            g.forEach(x -> {
+                if (x.op() == Op.SYMBOL) {
+                    syms.add(x.name());
+                }
+            });
+            List<Expr> terms = new ArrayList<>();
+            terms.add(Derivative.of(g, Expr.TIME, null));
+            for (String sym : syms) {
+                Expr pd = Derivative.of(g, Expr.symbol(sym), null);
+                if (!pd.isConst(0.0)) {
+                    terms.add(Expr.mul(pd, symbolRate(sym)));
+                }
+            }
+            Expr total = Expr.add(terms);
+            for (int l = 0; l < k; l++) {
+                coupling[j][l] = Derivative.of(total, flux[l], null);
+            }
+            rest[j] = total.mapLeaves(x -> x.op() == Op.SYMBOL && fastIds.contains(x.name()) ? Expr.ZERO : x);
+        }
+        for (String id : stateIds) {
+            Expr d = derivSymbolic.get(id);
+            for (int l = 0; l < k; l++) {
+                fastDirectionSymbolic.add(Derivative.of(d, flux[l], null));
+            }
+        }
+        // groups of coupled fast reactions (connected through non-zero coupling entries)
+        int[] group = new int[k];
+        for (int j = 0; j < k; j++) {
+            group[j] = j;
+        }
+        for (int j = 0; j < k; j++) {
+            for (int l = 0; l < k; l++) {
+                if (l != j && !coupling[j][l].isConst(0.0)) {
+                    int a = root(group, j);
+                    int b = root(group, l);
+                    group[Math.max(a, b)] = Math.min(a, b);
+                }
+            }
+        }
+        for (int g0 = 0; g0 < k; g0++) {
+            if (root(group, g0) != g0) {
+                continue;
+            }
+            List<Integer> idx = new ArrayList<>();
+            for (int j = 0; j < k; j++) {
+                if (root(group, j) == g0) {
+                    idx.add(j);
+                }
+            }
+            if (idx.size() > 3) {
+                throw new UnsupportedConstructException(SourceLocation.ofElement(file, fastIds.get(g0)),
+                        "more than three coupled fast reactions (" + idx.size() + ")",
+                        "model some of them as ordinary reactions with large rate constants");
+            }
+            int q = idx.size();
+            Expr[][] c = new Expr[q][q];
+            Expr[] rhs = new Expr[q];
+            for (int a = 0; a < q; a++) {
+                rhs[a] = Expr.neg(rest[idx.get(a)]);
+                for (int b = 0; b < q; b++) {
+                    c[a][b] = coupling[idx.get(a)][idx.get(b)];
+                }
+            }
+            Expr det = determinant(c);
+            for (int b = 0; b < q; b++) {
+                Expr[][] cb = new Expr[q][];
+                for (int a = 0; a < q; a++) {
+                    cb[a] = c[a].clone();
+                    cb[a][b] = rhs[a];
+                }
+                Expr w = Expr.div(determinant(cb), det);
+                if (!det.isConst()) {
+                    w = Expr.call(Op.PIECEWISE, Expr.ZERO, Expr.call(Op.EQ, det, Expr.ZERO), w);
+                } else if (det.isConst(0.0)) {
+                    w = Expr.ZERO;
+                }
+                defs.put(fastIds.get(idx.get(b)), w);
+            }
+        }
+    }
+
+    private static int root(int[] parent, int j) {
+        int r = j;
+        while (parent[r] != r) {
+            r = parent[r];
+        }
+        return r;
+    }
+
+    /** Determinant of a 1x1 to 3x3 matrix of expressions (cofactor expansion along the first row). */
+    private static Expr determinant(Expr[][] c) {
+        int q = c.length;
+        if (q == 1) {
+            return c[0][0];
+        }
+        List<Expr> terms = new ArrayList<>();
+        for (int b = 0; b < q; b++) {
+            Expr[][] minor = new Expr[q - 1][q - 1];
+            for (int a = 1; a < q; a++) {
+                for (int cc = 0, mc = 0; cc < q; cc++) {
+                    if (cc != b) {
+                        minor[a - 1][mc++] = c[a][cc];
+                    }
+                }
+            }
+            Expr t = Expr.mul(c[0][b], determinant(minor));
+            terms.add(b % 2 == 0 ? t : Expr.neg(t));
+        }
+        return Expr.add(terms);
+    }
+
+    /**
+     * Time derivative of the SBML value of a quantity in symbol form, with the fluxes of fast reactions left as
+     * their reaction symbols (used to differentiate the equilibrium constraints).
+     */
+    private Expr symbolRate(String id) {
+        Integer i = stateIndex.get(id);
+        if (i == null) {
+            return rateOf(id);
+        }
+        Expr d = derivSymbolic.get(id);
+        if (isAmountStateWithConcSymbol(id)) {
+            String c = model.species(id).compartment();
+            Expr vol = Expr.symbol(c);
+            return Expr.sub(Expr.div(d, vol), Expr.div(Expr.mul(Expr.symbol(id), rateOf(c)), vol));
+        }
+        return d;
     }
 
     private Expr resolveRateOf(Expr e) {

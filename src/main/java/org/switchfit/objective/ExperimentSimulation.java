@@ -181,11 +181,16 @@ final class ExperimentSimulation {
 
     /**
      * Whether sensitivities across the events and switches are available: the model has no {@code delay()} in its
-     * mathematics (the history of the sensitivities is not kept) and, with events, no time is negative (the states
+     * mathematics (the history of the sensitivities is not kept), no fast reactions (their re-equilibration after
+     * an event or switch has no sensitivity jump) and, with events, no time is negative (the states
      * alone then start at the first time, the sensitivities at 0).
      */
     boolean exactEventSensitivities(double[] times) {
         if (!model.form().delaySlots().isEmpty()) {
+            return false;
+        }
+        if (model.fastReactionCount() > 0) {
+            // the re-equilibration of fast reactions after an event or switch has no sensitivity jump here
             return false;
         }
         if (!problem.hasEvents()) {
@@ -307,6 +312,13 @@ final class ExperimentSimulation {
                     for (int c = 0; c < nc; c++) {
                         st.s[c * n + i] = st.sAux[c * n + i];
                     }
+                }
+            }
+            if (model.fastReactionCount() > 0) {
+                // the re-initialised species and the new parameters move the fast equilibrium
+                model.equilibrateFast(0.0, st.y, st.pEff);
+                if (sens) {
+                    model.projectFastSensitivities(0.0, st.y, st.pEff, st.s, st.dPeff, nc);
                 }
             }
         } else {
@@ -444,6 +456,8 @@ final class ExperimentSimulation {
         for (int i = 0; i < c.targetCount(); i++) {
             st.kCol[c.target(i)] = -1;
         }
+        // initialValues projected y onto the fast equilibrium; s is the derivative of the unprojected state
+        model.projectFastSensitivities(0.0, y, pEff, s, dPeff, nc);
     }
 
     /**

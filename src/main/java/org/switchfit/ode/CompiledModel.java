@@ -41,6 +41,10 @@ public final class CompiledModel implements OdeSystem {
     private volatile CompiledBlock jacY;
     private volatile CompiledBlock jacP;
     private volatile EventDerivatives eventDerivatives;
+    /** Fast reactions: count k, block with outputs g (k) then directions D (n * k); Jacobians of g, lazily. */
+    private final int nFast;
+    private final CompiledBlock fast;
+    private volatile CompiledBlock[] fastJac;
 
     CompiledModel(OdeForm form, List<Expr> switchingFunctions, int[] atomEvent) {
         this.form = form;
@@ -62,7 +66,14 @@ public final class CompiledModel implements OdeSystem {
             all.addAll(rsw);
             blocks.add(rt.withOutputs(all).prune());
         }
+        this.nFast = form.fastConstraints().size();
+        if (nFast > 0) {
+            List<Expr> fo = new ArrayList<>(form.fastConstraints());
+            fo.addAll(form.fastDirections());
+            blocks.add(rt.withOutputs(fo).prune());
+        }
         List<CompiledBlock> cb = BlockCompiler.compileAll(blocks);
+        this.fast = nFast > 0 ? cb.get(cb.size() - 1) : null;
         this.rhs = cb.get(0);
         this.locals = cb.get(1);
         this.init = cb.get(2);
@@ -215,6 +226,284 @@ public final class CompiledModel implements OdeSystem {
         init.eval(t0, y0, pDeclared, out);
         System.arraycopy(out, 0, y0, 0, n);
         System.arraycopy(out, n, pEff, 0, m);
+        equilibrateFast(t0, y0, pEff);
+    }
+
+    /** Number of fast reactions (rapid equilibrium, {@link OdeForm#fastConstraints}). */
+    public int fastReactionCount() {
+        return nFast;
+    }
+
+    /** Largest number of pseudo-time steps of {@link #equilibrateFast}. */
+    private static final int FAST_STEPS = 500;
+    /**
+     * Convergence of {@link #equilibrateFast}: a step below 1e-12 of the largest state magnitude. Near the
+     * equilibrium the steps are Newton steps (pseudo-time step grown without bound), which converge quadratically,
+     * so the next step would be near round-off; 1e-12 is below the tightest relative integration tolerance used
+     * anywhere (1e-10), so the projection error never shows in a result.
+     */
+    private static final double FAST_STEP_TOLERANCE = 1e-12;
+    /** Bounds of the pseudo-time step's change per step of {@link #equilibrateFast} (common practice). */
+    private static final double FAST_MAX_GROWTH = 1e3;
+    private static final double FAST_MIN_GROWTH = 0.1;
+    /**
+     * A small step counts as converged only once the pseudo-time step has grown 1e10-fold: the steps are then
+     * Newton steps, not the short steps of a slow start.
+     */
+    private static final double FAST_NEWTON_REGIME = 1e10;
+    /** First pseudo-time step of {@link #equilibrateFast}: an explicit step would move the state by 1 % of its scale. */
+    private static final double FAST_FIRST_MOVE = 0.01;
+
+    /**
+     * Brings y to the rapid equilibrium of the fast reactions: moves it along their stoichiometry (extents ξ) until
+     * every fast rate law g is 0, by pseudo-transient continuation (Kelley and Keyes 1998) of the fast subsystem
+     * {@code dξ/dτ = g(y + D ξ)}: implicit Euler steps {@code (I/Δτ - B) Δξ = g}, B = ∂g/∂ξ, with Δτ grown by the
+     * ratio of successive largest |g| (switched evolution relaxation) and halved after a non-finite step. Small first
+     * steps follow the fast reactions' own direction, so the state settles on the equilibrium the fast dynamics
+     * reach (stable for the fast subsystem), not on whichever root of g is nearest; large later steps are Newton
+     * steps. A law that is exactly 0 at the start leaves the state as it is. Called by {@link #initialValues};
+     * the simulator calls it after events. No-op without fast reactions.
+     *
+     * @throws IntegrationException when no equilibrium is found (a law that never vanishes along its reaction)
+     */
+    public void equilibrateFast(double t, double[] y, double[] p) {
+        if (nFast == 0) {
+            return;
+        }
+        int k = nFast;
+        double[] out = new double[k + n * k];
+        double[] trial = new double[k + n * k];
+        double[] jac = new double[k * n];
+        double[] b = new double[k * k];
+        double[] a = new double[k * k];
+        double[] xi = new double[k];
+        double[] dy = new double[n];
+        double[] y1 = new double[n];
+        fast.eval(t, y, p, out);
+        double res = maxAbs(out, k);
+        if (Double.isNaN(res)) {
+            throw new IntegrationException(t, "a fast reaction's rate is not a number");
+        }
+        double dtau = Double.NaN;
+        double dtau0 = Double.NaN;
+        for (int it = 0; it < FAST_STEPS; it++) {
+            if (res == 0.0) {
+                return;
+            }
+            double ymax = 0.0;
+            for (int i = 0; i < n; i++) {
+                ymax = Math.max(ymax, Math.abs(y[i]));
+            }
+            if (Double.isNaN(dtau)) {
+                double move = 0.0;
+                for (int i = 0; i < n; i++) {
+                    double d = 0.0;
+                    for (int j = 0; j < k; j++) {
+                        d += out[k + i * k + j] * out[j];
+                    }
+                    move = Math.max(move, Math.abs(d));
+                }
+                dtau = move == 0.0 ? 1.0 : FAST_FIRST_MOVE * Math.max(ymax, Double.MIN_NORMAL) / move;
+                dtau0 = dtau;
+            }
+            couplingMatrix(t, y, p, out, jac, b);
+            boolean accepted = false;
+            double step = 0.0;
+            for (int tries = 0; tries < 60 && !accepted; tries++) {
+                for (int j = 0; j < k * k; j++) {
+                    a[j] = -b[j];
+                }
+                for (int j = 0; j < k; j++) {
+                    a[j * k + j] += 1.0 / dtau;
+                    xi[j] = out[j];
+                }
+                if (solveSmall(a, xi, k)) {
+                    step = 0.0;
+                    for (int i = 0; i < n; i++) {
+                        double d = 0.0;
+                        for (int j = 0; j < k; j++) {
+                            d += out[k + i * k + j] * xi[j];
+                        }
+                        y1[i] = y[i] + d;
+                        step = Math.max(step, Math.abs(d));
+                    }
+                    fast.eval(t, y1, p, trial);
+                    double r1 = maxAbs(trial, k);
+                    if (Double.isFinite(r1) && Double.isFinite(step)) {
+                        accepted = true;
+                        // switched evolution relaxation: grow the pseudo-time step as the residual falls
+                        dtau *= r1 == 0.0 ? FAST_MAX_GROWTH
+                                : Math.max(FAST_MIN_GROWTH, Math.min(FAST_MAX_GROWTH, res / r1));
+                        res = r1;
+                        break;
+                    }
+                }
+                dtau *= 0.5;
+            }
+            if (!accepted) {
+                throw new IntegrationException(t, "the fast reactions cannot reach equilibrium (their rates are "
+                        + "not finite along them)");
+            }
+            System.arraycopy(y1, 0, y, 0, n);
+            System.arraycopy(trial, 0, out, 0, out.length);
+            if (step <= FAST_STEP_TOLERANCE * ymax && dtau >= FAST_NEWTON_REGIME * dtau0) {
+                return;
+            }
+        }
+        throw new IntegrationException(t, "the fast reactions did not reach equilibrium in " + FAST_STEPS
+                + " pseudo-time steps");
+    }
+
+    /**
+     * Sensitivities of a state projected by {@link #equilibrateFast} (implicit function theorem, stoichiometry
+     * independent of θ): column c of s (dy/dθ_c before the projection, {@code s[c * n + i]}) becomes
+     * {@code s_c - D B⁻¹ (∂g/∂y s_c + ∂g/∂p dp_c)} with B = ∂g/∂y D, evaluated at the projected y.
+     *
+     * @param dP dp/dθ, {@code dP[k * nc + c]} for parameter k (null when p does not depend on θ)
+     */
+    public void projectFastSensitivities(double t, double[] y, double[] p, double[] s, double[] dP, int nc) {
+        if (nFast == 0 || nc == 0) {
+            return;
+        }
+        int k = nFast;
+        double[] out = new double[k + n * k];
+        double[] jac = new double[k * n];
+        double[] b = new double[k * k];
+        fast.eval(t, y, p, out);
+        couplingMatrix(t, y, p, out, jac, b);
+        double[] jp = new double[k * m];
+        if (dP != null) {
+            fastJacobians()[1].eval(t, y, p, jp);
+        }
+        double[] r = new double[k];
+        for (int c = 0; c < nc; c++) {
+            for (int j = 0; j < k; j++) {
+                double v = 0.0;
+                for (int i = 0; i < n; i++) {
+                    v += jac[j * n + i] * s[c * n + i];
+                }
+                if (dP != null) {
+                    for (int q = 0; q < m; q++) {
+                        v += jp[j * m + q] * dP[q * nc + c];
+                    }
+                }
+                r[j] = -v;
+            }
+            if (!solveSmall(b.clone(), r, k)) {
+                throw new IntegrationException(t, "the fast reactions' equilibrium is singular; its sensitivities "
+                        + "are undefined");
+            }
+            for (int i = 0; i < n; i++) {
+                double d = 0.0;
+                for (int j = 0; j < k; j++) {
+                    d += out[k + i * k + j] * r[j];
+                }
+                s[c * n + i] += d;
+            }
+        }
+    }
+
+    /** ∂g/∂y into jac (k x n, row-major) and B = ∂g/∂y D into b (k x k), D read from {@code out}. */
+    private void couplingMatrix(double t, double[] y, double[] p, double[] out, double[] jac, double[] b) {
+        int k = nFast;
+        Arrays.fill(jac, 0.0);
+        fastJacobians()[0].eval(t, y, p, jac);
+        for (int j = 0; j < k; j++) {
+            for (int l = 0; l < k; l++) {
+                double v = 0.0;
+                for (int i = 0; i < n; i++) {
+                    v += jac[j * n + i] * out[k + i * k + l];
+                }
+                b[j * k + l] = v;
+            }
+        }
+    }
+
+    private static double maxAbs(double[] v, int len) {
+        double r = 0.0;
+        for (int i = 0; i < len; i++) {
+            double a = Math.abs(v[i]);
+            if (Double.isNaN(a)) {
+                return Double.NaN;
+            }
+            r = Math.max(r, a);
+        }
+        return r;
+    }
+
+    /** Solves the k x k system a x = b in place (Gaussian elimination, partial pivoting); false when singular. */
+    private static boolean solveSmall(double[] a, double[] x, int k) {
+        for (int c = 0; c < k; c++) {
+            int piv = c;
+            for (int r = c + 1; r < k; r++) {
+                if (Math.abs(a[r * k + c]) > Math.abs(a[piv * k + c])) {
+                    piv = r;
+                }
+            }
+            if (a[piv * k + c] == 0.0 || !Double.isFinite(a[piv * k + c])) {
+                return false;
+            }
+            if (piv != c) {
+                for (int q = 0; q < k; q++) {
+                    double tmp = a[c * k + q];
+                    a[c * k + q] = a[piv * k + q];
+                    a[piv * k + q] = tmp;
+                }
+                double tmp = x[c];
+                x[c] = x[piv];
+                x[piv] = tmp;
+            }
+            for (int r = c + 1; r < k; r++) {
+                double f = a[r * k + c] / a[c * k + c];
+                for (int q = c; q < k; q++) {
+                    a[r * k + q] -= f * a[c * k + q];
+                }
+                x[r] -= f * x[c];
+            }
+        }
+        for (int c = k - 1; c >= 0; c--) {
+            double v = x[c];
+            for (int q = c + 1; q < k; q++) {
+                v -= a[c * k + q] * x[q];
+            }
+            x[c] = v / a[c * k + c];
+        }
+        return true;
+    }
+
+    /** Dense ∂g/∂y (k x n) and ∂g/∂p (k x m) of the fast constraints, compiled on first use. */
+    private CompiledBlock[] fastJacobians() {
+        CompiledBlock[] j = fastJac;
+        if (j != null) {
+            return j;
+        }
+        synchronized (this) {
+            if (fastJac == null) {
+                Block g = form.runtime().withOutputs(form.fastConstraints()).prune();
+                List<Expr> ys = new ArrayList<>();
+                for (int i = 0; i < n; i++) {
+                    ys.add(Expr.state(i, form.stateIds().get(i)));
+                }
+                List<Expr> ps = new ArrayList<>();
+                for (int q = 0; q < m; q++) {
+                    ps.add(Expr.param(q, form.parameterIds().get(q)));
+                }
+                Derivative.Sparse dy = Derivative.jacobian(g, ys);
+                Derivative.Sparse dp = Derivative.jacobian(g, ps);
+                int[] posY = new int[dy.rows().length];
+                for (int e = 0; e < posY.length; e++) {
+                    posY[e] = dy.rows()[e] * n + dy.cols()[e];
+                }
+                int[] posP = new int[dp.rows().length];
+                for (int e = 0; e < posP.length; e++) {
+                    posP[e] = dp.rows()[e] * m + dp.cols()[e];
+                }
+                List<CompiledBlock> cb = BlockCompiler.compileAll(List.of(dy.block(), dp.block()),
+                        List.of(posY, posP));
+                fastJac = new CompiledBlock[] {cb.get(0), cb.get(1)};
+            }
+            return fastJac;
+        }
     }
 
     /** Declared parameter values (copy). */

@@ -275,6 +275,15 @@ public final class DormandPrinceIntegrator implements Integrator {
         }
 
         /** Event detector for switching function k; stops the integration. */
+        /**
+         * Magnitude returned for an exact 0 of a switching function (with the sign it takes just after). Not
+         * Double.MIN_VALUE: the root solver tests a bracket by the sign of the product of its end values, and
+         * -0.1 * 4.9e-324 underflows to -0.0, so a time trigger t >= 1 reached exactly at an output time t = 1
+         * failed its root search ("interval does not bracket a root"). 1e-150 keeps such products non-zero for
+         * any value above 1e-173 in magnitude and is still negligible against every value a model produces.
+         */
+        private static final double EXACT_ZERO_MAGNITUDE = 1e-150;
+
         private final class Detector implements ODEEventDetector {
             private final int k;
             private final boolean[] hit;
@@ -340,7 +349,7 @@ public final class DormandPrinceIntegrator implements Integrator {
                     ahead[i] = y[i] + h * dy[i];
                 }
                 roots.evaluate(t + h, ahead, p, g);
-                return g[k] > 0 ? Double.MIN_VALUE : -Double.MIN_VALUE;
+                return g[k] > 0 ? EXACT_ZERO_MAGNITUDE : -EXACT_ZERO_MAGNITUDE;
             }
         }
     }

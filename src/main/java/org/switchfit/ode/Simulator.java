@@ -721,6 +721,8 @@ public final class Simulator {
                             sens.switchJump(this, found);
                         }
                         watchChattering(found);
+                        // a switch in a fast rate law moves its equilibrium
+                        reequilibrate();
                     }
                     found = eventRoots;
                     atRoot = eventRoots.length > 0;
@@ -824,10 +826,25 @@ public final class Simulator {
             if (sens != null && found.length > 0) {
                 sens.switchJump(this, found);
             }
+            if (found.length > 0) {
+                reequilibrate();
+            }
             session.restartAt(t, n == 0 ? scratch : y, sensOut());
             if (ne > 0 && handleEvents(false, null)) {
                 session.reset(n == 0 ? scratch : y, sensOut());
             }
+        }
+
+        /** Brings the state back to the fast reactions' equilibrium (no-op without fast reactions). */
+        private void reequilibrate() {
+            if (model.fastReactionCount() == 0) {
+                return;
+            }
+            if (sens != null) {
+                throw new IllegalArgumentException("sensitivities across events and switches are not available for "
+                        + "models with fast reactions");
+            }
+            model.equilibrateFast(t, y, p);
         }
 
         /**
@@ -988,6 +1005,8 @@ public final class Simulator {
                 }
                 pending.remove(next);
                 execute(next.event, next.values, next.dValues);
+                // fast reactions re-equilibrate instantly after the event (before triggers are checked again)
+                reequilibrate();
                 changed = true;
                 if (++executed > MAX_EVENTS_PER_INSTANT) {
                     throw new IntegrationException(t, "more than " + MAX_EVENTS_PER_INSTANT + " event executions at "

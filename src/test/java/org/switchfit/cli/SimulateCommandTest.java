@@ -70,8 +70,8 @@ class SimulateCommandTest {
 
     @Test
     void unsupportedConstructIsOneLineUserError() {
-        assertUserError(run("simulate", res("fast-reaction.xml"), "--times", "0:1:2"), "fast-reaction.xml",
-                "fast reaction", "deg");
+        assertUserError(run("simulate", res("fast-coupled.xml"), "--times", "0:1:2"), "fast-coupled.xml",
+                "more than three coupled fast reactions", "'ab'");
     }
 
     @Test

@@ -181,4 +181,85 @@ class SbmlFeaturesTest {
         // the integration stops at both switch times and x is linear between them: rounding only, 1e-9
         assertEquals(0.5, tr.value(1, 0), 1e-9);
     }
+
+    // ---- fast reactions (rapid equilibrium). Test models: A <-> B fast with kf [A] - kr [B] (kf = 2, kr = 1, so
+    // B = 2 A at equilibrium), B -> 0 slow at k [B] (k = 0.5), compartment 2, amounts A = 3, B = 1 at the start.
+    // Closed form (derived by hand): the total amount T = A + B obeys T' = -k B = -k K/(1+K) T with K = kf/kr, so
+    // T = 4 exp(-t/3), [A] = T / (1+K) / 2, [B] = K T / (1+K) / 2.
+
+    private static double fastTotal(double t) {
+        return 4 * Math.exp(-t / 3);
+    }
+
+    @Test
+    void fastReactionStartsAtAndStaysOnItsEquilibrium() {
+        double[] times = {0, 1, 2, 5};
+        for (Integrator integ : List.of((Integrator) new DormandPrinceIntegrator(tight()),
+                new org.switchfit.ode.bdf.BdfIntegrator(tight()))) {
+            Model m = SbmlReader.read(SbmlSimulationTest.resource("fast-equilibrium.xml"));
+            CompiledModel cm = ModelCompiler.compile(m);
+            Trajectory tr = new Simulator(cm, integ).simulate(times, cm.parameterValues(),
+                    ModelOutputs.of(cm, List.of("A", "B")));
+            for (int r = 0; r < times.length; r++) {
+                double tt = fastTotal(times[r]);
+                // integrator tolerance 1e-10 relative, smooth solution: 1e-8
+                assertEquals(tt / 3 / 2, tr.value(r, 0), 1e-8, "[A] at t=" + times[r] + " " + integ);
+                assertEquals(2 * tt / 3 / 2, tr.value(r, 1), 1e-8, "[B] at t=" + times[r] + " " + integ);
+            }
+        }
+    }
+
+    @Test
+    void fastReactionReEquilibratesAfterAnEvent() {
+        // same model; at t = 1 an event sets [A] = [A] + 1 (2 amount units), which the fast reaction shares at
+        // once: T(1+) = T(1-) + 2, then the same decay (derived by hand)
+        Trajectory tr = run("fast-event.xml", new double[] {0.5, 1, 2}, List.of("A", "B"));
+        double t1 = fastTotal(1) + 2;
+        assertEquals(fastTotal(0.5) / 6, tr.value(0, 0), 1e-8);
+        assertEquals(t1 / 6, tr.value(1, 0), 1e-8);
+        assertEquals(2 * t1 / 6, tr.value(1, 1), 1e-8);
+        assertEquals(t1 * Math.exp(-1.0 / 3) / 6, tr.value(2, 0), 1e-8);
+    }
+
+    @Test
+    void fastReactionSettlesOnTheEquilibriumItsOwnDynamicsReach() {
+        // S1 -> S2 fast with rate k S1 S2, k = -0.5, S1 = 1, S2 = 4: the rate is negative, so the reaction runs
+        // backwards until S2 = 0 (S1 = 5). The other root S1 = 0 is unstable for the fast subsystem
+        // (d rate / d extent = 2.5 > 0 there), and Newton's method from the start would go to it (first step
+        // +4/3 in the extent). Hand-derived; the SBML Test Suite's case 01399 has a construction of this kind.
+        Trajectory tr = run("fast-direction.xml", new double[] {0, 1}, List.of("S1", "S2"));
+        assertEquals(5.0, tr.value(0, 0), 1e-10);
+        assertEquals(0.0, tr.value(0, 1), 1e-10);
+        assertEquals(5.0, tr.value(1, 0), 1e-10);
+    }
+
+    @Test
+    void fastEquilibriumSensitivitiesMatchClosedForm() {
+        // initial amounts after the projection: A* = T0 / (1 + kf/kr), T0 = A0 + B0 = 4. Closed form:
+        // dA*/dA0 = 1 / (1+K) = 1/3, dA*/dkf = -T0 / (kr (1+K)^2) = -4/9, dB*/dkf = +4/9 (derived by hand).
+        Model m = SbmlReader.read(SbmlSimulationTest.resource("fast-equilibrium.xml"));
+        CompiledModel cm = ModelCompiler.compile(m);
+        int n = cm.stateCount();
+        int m0 = cm.parameterCount();
+        double[] y = new double[n];
+        double[] p = new double[m0];
+        cm.initialValues(0, cm.parameterValues(), y, p);
+        int ia = cm.form().stateIndex("A");
+        int ib = cm.form().stateIndex("B");
+        // column 0: theta = declared A0 (amount; s before projection = unit vector), column 1: theta = kf (dP)
+        double[] s = new double[2 * n];
+        s[ia] = 1.0;
+        double[] dP = new double[m0 * 2];
+        dP[cm.parameterIndex("kf") * 2 + 1] = 1.0;
+        cm.projectFastSensitivities(0, y, p, s, dP, 2);
+        // the projection's Newton steps converge to round-off; the derivatives are exact expressions: 1e-12
+        assertEquals(1.0 / 3, s[ia], 1e-12);
+        assertEquals(2.0 / 3, s[ib], 1e-12);
+        assertEquals(-4.0 / 9, s[n + ia], 1e-12);
+        assertEquals(4.0 / 9, s[n + ib], 1e-12);
+    }
+
+    private static SolverSettings tight() {
+        return SolverSettings.defaults().withTolerances(1e-10, 1e-14);
+    }
 }
