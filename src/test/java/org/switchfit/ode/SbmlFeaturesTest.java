@@ -63,6 +63,20 @@ class SbmlFeaturesTest {
     }
 
     @Test
+    void timeTriggerReachedExactlyAtAnOutputTime() {
+        // [B]' = -0.5 [B], [B] = 0.5 at 0; at t = 1 an event sets [B] = [B] + 1 (closed form: 0.5 e^{-0.5 t}
+        // before, ([B](1-) + 1) e^{-0.5 (t - 1)} after). Asked at 0.9 and then at the trigger time 1 itself: the
+        // Dormand-Prince step ends exactly on the root of t - 1 with -0.1 at its start, whose product with a
+        // 4.9e-324 stand-in for the exact 0 underflowed, and the root search failed. The output at 1 shows the
+        // value after the event (SBML Test Suite convention). Integrator tolerance 1e-10: 1e-8.
+        Trajectory tr = run("dosed-decay.xml", new double[] {0.9, 1, 2}, List.of("B"));
+        double b1 = 0.5 * Math.exp(-0.5) + 1;
+        assertEquals(0.5 * Math.exp(-0.45), tr.value(0, 0), 1e-8);
+        assertEquals(b1, tr.value(1, 0), 1e-8);
+        assertEquals(b1 * Math.exp(-0.5), tr.value(2, 0), 1e-8);
+    }
+
+    @Test
     void submodelParameterReplacedByParentParameter() {
         // comp: parent kfast = 0.8 replaces cell's k, so cell__A = exp(-0.8 t) (derived by hand)
         assertDecay("comp.xml", 0.8);
