@@ -56,7 +56,7 @@ public final class BranchesCommand implements Callable<Integer> {
 
     @Option(names = "--lu", defaultValue = "auto", paramLabel = "KIND", converter = LuKindConverter.class,
             description = "LU factorisation of the continuation's Newton and tangent systems: auto (sparse when "
-                    + "the bordered Jacobian has order >= 100 and under 10 % non-zeros), dense or sparse "
+                    + "the bordered Jacobian has order >= 100 and under 10 %% non-zeros), dense or sparse "
                     + "(default: ${DEFAULT-VALUE})")
     LinearAlgebra lu = LinearAlgebra.AUTO;
 

@@ -62,6 +62,24 @@ class CommandHelpTest {
     }
 
     @Test
+    void everyHelpFormatsWithoutWarnings() {
+        // picocli formats descriptions with String.format; a bare '%' (found in 'branches --lu': "10 % non-zeros")
+        // printed a warning on standard error and left the description unformatted
+        java.io.PrintStream old = System.err;
+        java.io.ByteArrayOutputStream buf = new java.io.ByteArrayOutputStream();
+        System.setErr(new java.io.PrintStream(buf, true, java.nio.charset.StandardCharsets.UTF_8));
+        try {
+            for (CommandLine c : commands().values()) {
+                c.getUsageMessage();
+            }
+        } finally {
+            System.setErr(old);
+        }
+        String err = buf.toString(java.nio.charset.StandardCharsets.UTF_8);
+        assertTrue(err.isEmpty(), err);
+    }
+
+    @Test
     void everyCommandTakesLogAndQuiet() {
         for (Map.Entry<String, CommandLine> e : commands().entrySet()) {
             if (e.getKey().equals("help")) {
