@@ -609,8 +609,13 @@ public final class OdeForm {
      * constraints {@code dg/dt = ∂g/∂t + Σ_s ∂g/∂s · ds/dt = 0}, linear in w because ds/dt = (slow terms) + D w
      * (index reduction of the differential-algebraic system). Each group of coupled fast reactions (at most three)
      * is solved by Cramer's rule; a singular group (a law that does not depend on its own extent, such as a rate
-     * constant of 0) carries no flux. The manifold itself is reached by a Newton projection at the start and after
-     * events ({@link org.switchfit.ode.CompiledModel#equilibrateFast}).
+     * constant of 0) gets w = 0. The flux of a fast reaction is {@code w + g}: on the manifold g = 0, so the
+     * trajectory is the rapid-equilibrium one; off it (integration drift) dg/dt = B g with B = ∂g/∂ξ, stable where
+     * the fast subsystem's equilibrium is, so drift decays on the fast reactions' own time scale. The steady states
+     * of this right-hand side are exactly those of the rapid-equilibrium system (f = 0 and g = 0 when B is
+     * regular), and its Jacobian there has the reduced system's eigenvalues plus those of B, so continuation,
+     * folds and stability need nothing special. The manifold itself is reached by a projection at the start and
+     * after events and switches ({@link org.switchfit.ode.CompiledModel#equilibrateFast}).
      */
     private void buildFastEquilibrium() {
         List<Reaction> fast = new ArrayList<>();
@@ -717,7 +722,9 @@ public final class OdeForm {
                 } else if (det.isConst(0.0)) {
                     w = Expr.ZERO;
                 }
-                defs.put(fastIds.get(idx.get(b)), w);
+                // flux = w + law: w keeps the equilibrium, the law (0 on it) pulls a state that is off it back
+                Reaction r = fast.get(idx.get(b));
+                defs.put(r.id(), Expr.add(w, r.kineticLaw() == null ? Expr.ZERO : r.kineticLaw()));
             }
         }
     }

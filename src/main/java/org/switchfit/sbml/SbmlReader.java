@@ -317,7 +317,15 @@ public final class SbmlReader {
             for (org.sbml.jsbml.SpeciesReference s : r.getListOfProducts()) {
                 products.add(ref(s, rid));
             }
-            boolean fast = r.isSetFast() && r.getFast();
+            boolean fast;
+            try {
+                fast = r.isSetFast() && r.getFast();
+            } catch (org.sbml.jsbml.PropertyNotAvailableException e) {
+                // SBML Level 3 Version 2 removed the attribute; JSBML keeps it set but refuses to read it
+                throw new UserInputException(SourceLocation.ofElement(file, rid), "has the attribute 'fast', which "
+                        + "SBML Level " + r.getLevel() + " Version " + r.getVersion() + " does not define; remove it "
+                        + "or declare the file as Level 3 Version 1");
+            }
             return new Reaction(rid, reactants, products, law, locals, r.getReversible(), fast);
         }
 

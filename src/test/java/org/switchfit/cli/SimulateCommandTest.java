@@ -75,6 +75,12 @@ class SimulateCommandTest {
     }
 
     @Test
+    void fastAttributeInLevel3Version2IsOneLineUserError() {
+        assertUserError(run("simulate", res("fast-l3v2.xml"), "--times", "0:1:2"), "fast-l3v2.xml", "'bind'",
+                "attribute 'fast'", "Level 3 Version 2", "Level 3 Version 1");
+    }
+
+    @Test
     void danglingCompReferenceIsOneLineUserErrorNamingIt() {
         assertUserError(run("simulate", res("comp-dangling-deletion.xml"), "--times", "0:1:2"),
                 "comp-dangling-deletion.xml", "no element has metaid 'no_such'");

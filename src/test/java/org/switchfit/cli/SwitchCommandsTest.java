@@ -97,6 +97,31 @@ class SwitchCommandsTest {
     }
 
     @Test
+    void foldsOfAModelWithAFastReactionAreThoseOfItsReducedSystem() {
+        // cubic-fast.xml: the normal form with x <-> y at rapid equilibrium (y = x); the total x + y follows the
+        // normal form, so the folds are at p = -+2/(3 sqrt 3) with x = y = +-1/sqrt 3 and the middle branch is
+        // the unstable one (derived by hand, see the file's comment)
+        BranchesFile f = branches(res("cubic-fast.xml"), "--vary", "p", "--from", "-1", "--to", "1");
+        double pf = 2 / (3 * Math.sqrt(3));
+        double[] v = foldValues(f);
+        assertEquals(2, v.length);
+        assertEquals(-pf, v[0], 1e-8 * pf); // tolerances as in the normal-form test above
+        assertEquals(pf, v[1], 1e-8 * pf);
+        for (BranchesFile.Special s : f.folds()) {
+            assertEquals(1 / Math.sqrt(3), Math.abs(s.states().get("x")), 1e-6);
+            assertEquals(s.states().get("x"), s.states().get("y"), 1e-6);
+        }
+        for (BranchesFile.Point p : f.branches().get(0).points()) {
+            double x = p.states()[0];
+            if (Math.abs(Math.abs(x) - 1 / Math.sqrt(3)) > 1e-3) {
+                assertEquals(Math.abs(x) > 1 / Math.sqrt(3), p.stable(), "x = " + x);
+            }
+            assertEquals(p.value(), x * x * x - x, 1e-9);
+            assertEquals(x, p.states()[1], 1e-9); // on the fast equilibrium
+        }
+    }
+
+    @Test
     void demoModelFoldsMatchIndependentValues() {
         BranchesFile f = branches(DEMO, "--vary", "stimulus", "--from", "0", "--to", "4");
         double[] v = foldValues(f);
