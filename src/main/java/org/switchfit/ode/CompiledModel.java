@@ -8,6 +8,7 @@ import org.switchfit.expr.BlockCompiler;
 import org.switchfit.expr.CompiledBlock;
 import org.switchfit.expr.Derivative;
 import org.switchfit.expr.Expr;
+import org.switchfit.linalg.DenseLu;
 import org.switchfit.model.OdeForm;
 
 /**
@@ -177,31 +178,38 @@ public final class CompiledModel implements OdeSystem {
 
     private synchronized CompiledBlock[] compileJacobians() {
         if (jacY == null || jacP == null) {
-            Block rt = form.runtime().prune();
-            List<Expr> ys = new ArrayList<>();
-            for (int j = 0; j < n; j++) {
-                ys.add(Expr.state(j, form.stateIds().get(j)));
-            }
-            List<Expr> ps = new ArrayList<>();
-            for (int k = 0; k < m; k++) {
-                ps.add(Expr.param(k, form.parameterIds().get(k)));
-            }
-            Derivative.Sparse dy = Derivative.jacobian(rt, ys);
-            Derivative.Sparse dp = Derivative.jacobian(rt, ps);
-            int[] posY = new int[dy.rows().length];
-            for (int k = 0; k < posY.length; k++) {
-                posY[k] = dy.rows()[k] * n + dy.cols()[k];
-            }
-            int[] posP = new int[dp.rows().length];
-            for (int k = 0; k < posP.length; k++) {
-                posP[k] = dp.rows()[k] * m + dp.cols()[k];
-            }
-            List<CompiledBlock> cb = BlockCompiler.compileAll(List.of(dy.block(), dp.block()),
-                    List.of(posY, posP));
-            jacY = cb.get(0);
-            jacP = cb.get(1);
+            CompiledBlock[] j = denseJacobians(form.runtime().prune());
+            jacY = j[0];
+            jacP = j[1];
         }
         return new CompiledBlock[] {jacY, jacP};
+    }
+
+    /**
+     * Compiled ∂out/∂y and ∂out/∂p of a block's outputs, written row-major into n- and m-wide arrays (entries that
+     * vanish identically are not written: callers clear the arrays).
+     */
+    private CompiledBlock[] denseJacobians(Block b) {
+        List<Expr> ys = new ArrayList<>();
+        for (int j = 0; j < n; j++) {
+            ys.add(Expr.state(j, form.stateIds().get(j)));
+        }
+        List<Expr> ps = new ArrayList<>();
+        for (int k = 0; k < m; k++) {
+            ps.add(Expr.param(k, form.parameterIds().get(k)));
+        }
+        Derivative.Sparse dy = Derivative.jacobian(b, ys);
+        Derivative.Sparse dp = Derivative.jacobian(b, ps);
+        int[] posY = new int[dy.rows().length];
+        for (int k = 0; k < posY.length; k++) {
+            posY[k] = dy.rows()[k] * n + dy.cols()[k];
+        }
+        int[] posP = new int[dp.rows().length];
+        for (int k = 0; k < posP.length; k++) {
+            posP[k] = dp.rows()[k] * m + dp.cols()[k];
+        }
+        List<CompiledBlock> cb = BlockCompiler.compileAll(List.of(dy.block(), dp.block()), List.of(posY, posP));
+        return new CompiledBlock[] {cb.get(0), cb.get(1)};
     }
 
     /** Number of runtime locals (assignment rules, concentrations, reaction rates, rates of change). */
@@ -277,8 +285,8 @@ public final class CompiledModel implements OdeSystem {
         double[] b = new double[k * k];
         double[] a = new double[k * k];
         double[] xi = new double[k];
-        double[] dy = new double[n];
         double[] y1 = new double[n];
+        DenseLu lu = DenseLu.withPivotThreshold(k, 0.0);
         fast.eval(t, y, p, out);
         double res = maxAbs(out, k);
         if (Double.isNaN(res)) {
@@ -317,7 +325,8 @@ public final class CompiledModel implements OdeSystem {
                     a[j * k + j] += 1.0 / dtau;
                     xi[j] = out[j];
                 }
-                if (solveSmall(a, xi, k)) {
+                if (lu.factor(a)) {
+                    lu.solve(xi);
                     step = 0.0;
                     for (int i = 0; i < n; i++) {
                         double d = 0.0;
@@ -375,6 +384,11 @@ public final class CompiledModel implements OdeSystem {
         if (dP != null) {
             fastJacobians()[1].eval(t, y, p, jp);
         }
+        DenseLu lu = DenseLu.withPivotThreshold(k, 0.0);
+        if (!lu.factor(b)) {
+            throw new IntegrationException(t, "the fast reactions' equilibrium is singular; its sensitivities are "
+                    + "undefined");
+        }
         double[] r = new double[k];
         for (int c = 0; c < nc; c++) {
             for (int j = 0; j < k; j++) {
@@ -389,10 +403,7 @@ public final class CompiledModel implements OdeSystem {
                 }
                 r[j] = -v;
             }
-            if (!solveSmall(b.clone(), r, k)) {
-                throw new IntegrationException(t, "the fast reactions' equilibrium is singular; its sensitivities "
-                        + "are undefined");
-            }
+            lu.solve(r);
             for (int i = 0; i < n; i++) {
                 double d = 0.0;
                 for (int j = 0; j < k; j++) {
@@ -431,46 +442,6 @@ public final class CompiledModel implements OdeSystem {
         return r;
     }
 
-    /** Solves the k x k system a x = b in place (Gaussian elimination, partial pivoting); false when singular. */
-    private static boolean solveSmall(double[] a, double[] x, int k) {
-        for (int c = 0; c < k; c++) {
-            int piv = c;
-            for (int r = c + 1; r < k; r++) {
-                if (Math.abs(a[r * k + c]) > Math.abs(a[piv * k + c])) {
-                    piv = r;
-                }
-            }
-            if (a[piv * k + c] == 0.0 || !Double.isFinite(a[piv * k + c])) {
-                return false;
-            }
-            if (piv != c) {
-                for (int q = 0; q < k; q++) {
-                    double tmp = a[c * k + q];
-                    a[c * k + q] = a[piv * k + q];
-                    a[piv * k + q] = tmp;
-                }
-                double tmp = x[c];
-                x[c] = x[piv];
-                x[piv] = tmp;
-            }
-            for (int r = c + 1; r < k; r++) {
-                double f = a[r * k + c] / a[c * k + c];
-                for (int q = c; q < k; q++) {
-                    a[r * k + q] -= f * a[c * k + q];
-                }
-                x[r] -= f * x[c];
-            }
-        }
-        for (int c = k - 1; c >= 0; c--) {
-            double v = x[c];
-            for (int q = c + 1; q < k; q++) {
-                v -= a[c * k + q] * x[q];
-            }
-            x[c] = v / a[c * k + c];
-        }
-        return true;
-    }
-
     /** Dense ∂g/∂y (k x n) and ∂g/∂p (k x m) of the fast constraints, compiled on first use. */
     private CompiledBlock[] fastJacobians() {
         CompiledBlock[] j = fastJac;
@@ -479,28 +450,7 @@ public final class CompiledModel implements OdeSystem {
         }
         synchronized (this) {
             if (fastJac == null) {
-                Block g = form.runtime().withOutputs(form.fastConstraints()).prune();
-                List<Expr> ys = new ArrayList<>();
-                for (int i = 0; i < n; i++) {
-                    ys.add(Expr.state(i, form.stateIds().get(i)));
-                }
-                List<Expr> ps = new ArrayList<>();
-                for (int q = 0; q < m; q++) {
-                    ps.add(Expr.param(q, form.parameterIds().get(q)));
-                }
-                Derivative.Sparse dy = Derivative.jacobian(g, ys);
-                Derivative.Sparse dp = Derivative.jacobian(g, ps);
-                int[] posY = new int[dy.rows().length];
-                for (int e = 0; e < posY.length; e++) {
-                    posY[e] = dy.rows()[e] * n + dy.cols()[e];
-                }
-                int[] posP = new int[dp.rows().length];
-                for (int e = 0; e < posP.length; e++) {
-                    posP[e] = dp.rows()[e] * m + dp.cols()[e];
-                }
-                List<CompiledBlock> cb = BlockCompiler.compileAll(List.of(dy.block(), dp.block()),
-                        List.of(posY, posP));
-                fastJac = new CompiledBlock[] {cb.get(0), cb.get(1)};
+                fastJac = denseJacobians(form.runtime().withOutputs(form.fastConstraints()).prune());
             }
             return fastJac;
         }
