@@ -14,7 +14,7 @@ import org.switchfit.ode.SolverStats;
  * One BDF integration: variable order 1 to 5, variable step, fixed-leading-coefficient form in a Nordsieck
  * history array, with forward sensitivities by the staggered direct method and root finding on the dense output.
  *
- * <p><b>Method.</b> A transcription of the fixed-leading-coefficient BDF as described for CVODE by Hindmarsh et
+ * <p><b>Method.</b> A transcription of the fixed-leading-coefficient BDF as described by Hindmarsh et
  * al., "SUNDIALS: Suite of nonlinear and differential/algebraic equation solvers", ACM TOMS 31(3):363-396, 2005
  * (doi:10.1145/1089014.1089020), going back to Jackson &amp; Sacks-Davis, ACM TOMS 6(3):295-318, 1980
  * (doi:10.1145/355900.355903) and to Byrne &amp; Hindmarsh, ACM TOMS 1(1):71-96, 1975 (doi:10.1145/355626.355636) and
