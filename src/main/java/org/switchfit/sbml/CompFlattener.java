@@ -423,10 +423,9 @@ final class CompFlattener {
                 if (remove.contains(r.id())) {
                     continue;
                 }
-                reactions.add(new Reaction(ren(r.id(), idRename),
-                        refs(r.reactants(), remove, alias, rename, assignedScale),
-                        refs(r.products(), remove, alias, rename, assignedScale), sub(r.kineticLaw(), alias),
-                        r.localParameters(), r.reversible(), r.fast()));
+                reactions.add(new Reaction(ren(r.id(), idRename), refs(r.reactants(), remove, alias, rename),
+                        refs(r.products(), remove, alias, rename), sub(r.kineticLaw(), alias), r.localParameters(),
+                        r.reversible(), r.fast()));
             }
             for (Rule r : p.rules()) {
                 if (r.elementId() != null && (deleted.contains(r.elementId()) || remove.contains(r.elementId()))
@@ -485,30 +484,13 @@ final class CompFlattener {
         ias.addAll(keep);
     }
 
-    /**
-     * Species references after merging. A submodel reaction changing a species that the parent replaces with a
-     * conversion factor c changes the replacing species by c times as much (y = c x, so y' = c x' for the part x'
-     * the reaction contributes): its stoichiometry is multiplied by c, the counterpart of the scaled rules and
-     * assignments above.
-     */
     private static List<SpeciesRef> refs(List<SpeciesRef> l, Set<String> remove, Map<String, Expr> alias,
-                                         Map<String, String> rename, Map<String, Expr> assignedScale) {
+                                         Map<String, String> rename) {
         List<SpeciesRef> out = new ArrayList<>();
         for (SpeciesRef s : l) {
             String rid = s.id() == null ? null : remove.contains(s.id()) ? null : s.id();
-            Expr c = assignedScale.get(s.species());
-            Expr math = sub(s.stoichiometryMath(), alias);
-            if (c != null) {
-                if (rid != null) {
-                    // its id would name the scaled value in mathematics that expects the submodel's own
-                    throw new Unhandled("species reference '" + rid + "' of a species replaced with a conversion "
-                            + "factor");
-                }
-                Expr st = math != null ? math
-                        : Expr.constant(Double.isNaN(s.stoichiometry()) ? 1.0 : s.stoichiometry());
-                math = Expr.mul(c, st);
-            }
-            out.add(new SpeciesRef(ren(s.species(), rename), rid, s.stoichiometry(), math, s.constant()));
+            out.add(new SpeciesRef(ren(s.species(), rename), rid, s.stoichiometry(), sub(s.stoichiometryMath(), alias),
+                    s.constant()));
         }
         return out;
     }

@@ -151,18 +151,6 @@ class SbmlFeaturesTest {
     }
 
     @Test
-    void submodelReactionOnASpeciesReplacedWithAConversionFactorIsScaled() {
-        // comp: P = c S (c = 2) replaces the submodel's S, which the submodel degrades at k [S]: P = 6 exp(-0.5 t)
-        // (derived by hand, see the file's comment); without the factor on the reaction P = 6 exp(-0.25 t)
-        double[] times = {0, 1, 2};
-        Trajectory tr = run("comp-replaced-reactant.xml", times, List.of("P"));
-        for (int r = 0; r < times.length; r++) {
-            double exact = 6 * Math.exp(-0.5 * times[r]);
-            assertEquals(exact, tr.value(r, 0), 1e-8 * exact); // integrator tolerance 1e-10: 1e-8 relative
-        }
-    }
-
-    @Test
     void switchingFunctionThatStaysZeroIsNoRootAtEveryStep() {
         // abs(q - r) - m is exactly 0 until the event at t = 1 sets q = 1 (then "watch" fires: seen = 1); x' = -x.
         // Handing the exact 0 to the Dormand-Prince event detection made every step a root and the integration
