@@ -151,6 +151,20 @@ class SbmlFeaturesTest {
     }
 
     @Test
+    void submodelReactionOnASpeciesReplacedWithAConversionFactorKeepsItsStoichiometry() {
+        // comp: P = c S (c = 2) replaces the submodel's S, which the submodel degrades at k [S]: the law reads S as
+        // P / c and the reaction changes P by its own stoichiometry (SBML Test Suite 01778's flattened model), so
+        // P = 6 exp(-0.25 t) (derived by hand, see the file's comment); scaling the stoichiometry by c too would
+        // give 6 exp(-0.5 t)
+        double[] times = {0, 1, 2};
+        Trajectory tr = run("comp-replaced-reactant.xml", times, List.of("P"));
+        for (int r = 0; r < times.length; r++) {
+            double exact = 6 * Math.exp(-0.25 * times[r]);
+            assertEquals(exact, tr.value(r, 0), 1e-8 * exact); // integrator tolerance 1e-10: 1e-8 relative
+        }
+    }
+
+    @Test
     void switchingFunctionThatStaysZeroIsNoRootAtEveryStep() {
         // abs(q - r) - m is exactly 0 until the event at t = 1 sets q = 1 (then "watch" fires: seen = 1); x' = -x.
         // Handing the exact 0 to the Dormand-Prince event detection made every step a root and the integration
