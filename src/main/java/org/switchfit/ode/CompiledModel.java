@@ -366,7 +366,8 @@ public final class CompiledModel implements OdeSystem {
     /**
      * Sensitivities of a state projected by {@link #equilibrateFast} (implicit function theorem, stoichiometry
      * independent of θ): column c of s (dy/dθ_c before the projection, {@code s[c * n + i]}) becomes
-     * {@code s_c - D B⁻¹ (∂g/∂y s_c + ∂g/∂p dp_c)} with B = ∂g/∂y D, evaluated at the projected y.
+     * {@code s_c - D B⁻¹ (∂g/∂y s_c + ∂g/∂p dp_c)} with B = ∂g/∂y D, evaluated at the projected y; unchanged when
+     * B is singular.
      *
      * @param dP dp/dθ, {@code dP[k * nc + c]} for parameter k (null when p does not depend on θ)
      */
@@ -386,8 +387,9 @@ public final class CompiledModel implements OdeSystem {
         }
         DenseLu lu = DenseLu.withPivotThreshold(k, 0.0);
         if (!lu.factor(b)) {
-            throw new IntegrationException(t, "the fast reactions' equilibrium is singular; its sensitivities are "
-                    + "undefined");
+            // a law that does not change along its reaction (a rate constant of 0): the projection moved nothing
+            // (equilibrateFast returns at once when such a law is 0), so neither does its derivative
+            return;
         }
         double[] r = new double[k];
         for (int c = 0; c < nc; c++) {

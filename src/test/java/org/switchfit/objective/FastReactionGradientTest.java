@@ -80,6 +80,23 @@ class FastReactionGradientTest {
     }
 
     @Test
+    void predictionProfileWithFastReactionAndEventIsOneLineUserError() throws IOException {
+        // with an event the re-equilibration has no sensitivity jump: prediction profiles are refused by name
+        Path yaml = problem();
+        String withEvent;
+        try (var in = FastReactionGradientTest.class.getResourceAsStream("/sbml/fast-event.xml")) {
+            withEvent = new String(in.readAllBytes(), java.nio.charset.StandardCharsets.UTF_8);
+        }
+        java.nio.file.Files.writeString(yaml.resolveSibling("model.xml"), withEvent);
+        org.switchfit.problem.EstimationProblem p = ProblemLoader.load(yaml);
+        org.switchfit.util.UserInputException e = org.junit.jupiter.api.Assertions.assertThrows(
+                org.switchfit.util.UserInputException.class,
+                () -> ObservablePrediction.of(p, TIGHT, SteadyState.defaults(), "obs@2"));
+        org.junit.jupiter.api.Assertions.assertTrue(e.getMessage().contains("fast reactions")
+                && e.getMessage().contains("profile parameters only"), e.getMessage());
+    }
+
+    @Test
     void jacobianMatchesCentralDifferencesAwayFromNominal() throws IOException {
         LikelihoodObjective obj = LikelihoodObjective.of(ProblemLoader.load(problem()), TIGHT);
         double[] th = obj.problem().nominalTheta();

@@ -285,6 +285,18 @@ class SbmlFeaturesTest {
         assertEquals(2.0 / 3, s[ib], 1e-12);
         assertEquals(-4.0 / 9, s[n + ia], 1e-12);
         assertEquals(4.0 / 9, s[n + ib], 1e-12);
+        // kf = kr = 0: the law is 0 whatever the extent (B = 0), nothing is projected and the derivative of the
+        // unprojected state stays as it is (a rate constant of 0, as in the SBML Test Suite's case 00988)
+        double[] pd = cm.parameterValues();
+        pd[cm.parameterIndex("kf")] = 0;
+        pd[cm.parameterIndex("kr")] = 0;
+        cm.initialValues(0, pd, y, p);
+        assertEquals(3.0, y[ia], 0.0);
+        double[] s0 = new double[2 * n];
+        s0[ia] = 1.0;
+        cm.projectFastSensitivities(0, y, p, s0, dP, 2);
+        assertEquals(1.0, s0[ia], 0.0);
+        assertEquals(0.0, s0[ib], 0.0);
     }
 
     private static SolverSettings tight() {
