@@ -645,21 +645,7 @@ public final class OdeForm {
                         "write its rate law in the model's quantities");
             }
             fastSymbolic.add(g);
-            Set<String> syms = new LinkedHashSet<>();
-            g.forEach(x -> {
-                if (x.op() == Op.SYMBOL) {
-                    syms.add(x.name());
-                }
-            });
-            List<Expr> terms = new ArrayList<>();
-            terms.add(Derivative.of(g, Expr.TIME, null));
-            for (String sym : syms) {
-                Expr pd = Derivative.of(g, Expr.symbol(sym), null);
-                if (!pd.isConst(0.0)) {
-                    terms.add(Expr.mul(pd, symbolRate(sym)));
-                }
-            }
-            Expr total = Expr.add(terms);
+            Expr total = timeDerivative(g, this::symbolRate);
             for (int l = 0; l < k; l++) {
                 coupling[j][l] = Derivative.of(total, flux[l], null);
             }
@@ -727,6 +713,25 @@ public final class OdeForm {
                 defs.put(r.id(), Expr.add(w, r.kineticLaw() == null ? Expr.ZERO : r.kineticLaw()));
             }
         }
+    }
+
+    /** dE/dt by the chain rule: ∂E/∂t plus ∂E/∂s times the given rate of each symbol s in E. */
+    private static Expr timeDerivative(Expr e, java.util.function.Function<String, Expr> rate) {
+        Set<String> syms = new LinkedHashSet<>();
+        e.forEach(x -> {
+            if (x.op() == Op.SYMBOL) {
+                syms.add(x.name());
+            }
+        });
+        List<Expr> terms = new ArrayList<>();
+        terms.add(Derivative.of(e, Expr.TIME, null));
+        for (String sym : syms) {
+            Expr pd = Derivative.of(e, Expr.symbol(sym), null);
+            if (!pd.isConst(0.0)) {
+                terms.add(Expr.mul(pd, rate.apply(sym)));
+            }
+        }
+        return Expr.add(terms);
     }
 
     private static int root(int[] parent, int j) {
@@ -818,23 +823,7 @@ public final class OdeForm {
                 d = dd;
             }
         } else if (defs.containsKey(id) && types.get(id) != QType.SPECIES) {
-            Expr e = defs.get(id);
-            Set<String> syms = new LinkedHashSet<>();
-            e.forEach(x -> {
-                if (x.op() == Op.SYMBOL) {
-                    syms.add(x.name());
-                }
-            });
-            List<Expr> terms = new ArrayList<>();
-            terms.add(Derivative.of(e, Expr.TIME, null));
-            for (String s : syms) {
-                Expr pd = Derivative.of(e, Expr.symbol(s), null);
-                if (!pd.isConst(0.0)) {
-                    Expr r = rateOf(s);
-                    terms.add(Expr.mul(pd, r));
-                }
-            }
-            d = resolveRateOf(Expr.add(terms));
+            d = resolveRateOf(timeDerivative(defs.get(id), this::rateOf));
         } else {
             d = Expr.ZERO;
         }
