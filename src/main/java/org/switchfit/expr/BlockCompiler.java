@@ -373,6 +373,7 @@ public final class BlockCompiler {
                 case ACOTH:
                 case QUOTIENT:
                 case REM:
+                case DIV_OR_ZERO:
                     return rt + op.name().toLowerCase(Locale.ROOT);
                 default:
                     throw new IllegalStateException("no code rule for " + op);

@@ -78,6 +78,10 @@ public final class Derivative {
                 }
                 return Expr.add(terms);
             }
+            case DIV_OR_ZERO:
+                // as u/v where v != 0; 0 where v == 0, where the value is 0 too
+                return Expr.sub(Expr.call(Op.DIV_OR_ZERO, d[0], a[1]),
+                        Expr.call(Op.DIV_OR_ZERO, Expr.mul(a[0], d[1]), Expr.pow(a[1], Expr.constant(2.0))));
             case DIV:
                 // (u/v)' = u'/v - u v' / v^2
                 return Expr.sub(Expr.div(d[0], a[1]),

@@ -78,6 +78,8 @@ public final class Interpreter {
                 return MathRuntime.quotient(evaluate(e.arg(0), t, y, p, w), evaluate(e.arg(1), t, y, p, w));
             case REM:
                 return MathRuntime.rem(evaluate(e.arg(0), t, y, p, w), evaluate(e.arg(1), t, y, p, w));
+            case DIV_OR_ZERO:
+                return MathRuntime.div_or_zero(evaluate(e.arg(0), t, y, p, w), evaluate(e.arg(1), t, y, p, w));
             case PIECEWISE: {
                 int n = e.argCount();
                 for (int i = 0; i + 1 < n; i += 2) {

@@ -114,6 +114,11 @@ public final class MathRuntime {
         return r;
     }
 
+    /** a / b, and 0 where b == 0 ({@link Op#DIV_OR_ZERO}). */
+    public static double div_or_zero(double a, double b) {
+        return b == 0.0 ? 0.0 : a / b;
+    }
+
     /** Integer quotient truncated towards zero (MathML quotient). */
     public static double quotient(double a, double b) {
         double q = a / b;

@@ -13,6 +13,8 @@ public enum Op {
     ASIN(1), ACOS(1), ATAN(1), ASEC(1), ACSC(1), ACOT(1),
     ASINH(1), ACOSH(1), ATANH(1), ASECH(1), ACSCH(1), ACOTH(1),
     MIN(-1), MAX(-1), QUOTIENT(2), REM(2),
+    /** a / b where b != 0, and 0 where b == 0 (the flux of a fast reaction whose equilibrium is degenerate). */
+    DIV_OR_ZERO(2),
     EQ(2), NEQ(2), LT(2), LE(2), GT(2), GE(2),
     AND(-1), OR(-1), XOR(-1), NOT(1),
     /** Arguments value0, cond0, value1, cond1, ..., [otherwise]. */

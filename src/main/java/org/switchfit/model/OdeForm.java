@@ -702,12 +702,9 @@ public final class OdeForm {
                     cb[a] = c[a].clone();
                     cb[a][b] = rhs[a];
                 }
-                Expr w = Expr.div(determinant(cb), det);
-                if (!det.isConst()) {
-                    w = Expr.call(Op.PIECEWISE, Expr.ZERO, Expr.call(Op.EQ, det, Expr.ZERO), w);
-                } else if (det.isConst(0.0)) {
-                    w = Expr.ZERO;
-                }
+                // no piecewise guard: its condition det == 0 would be a right-hand-side switch
+                Expr w = det.isConst() ? (det.isConst(0.0) ? Expr.ZERO : Expr.div(determinant(cb), det))
+                        : Expr.call(Op.DIV_OR_ZERO, determinant(cb), det);
                 // flux = w + law: w keeps the equilibrium, the law (0 on it) pulls a state that is off it back
                 Reaction r = fast.get(idx.get(b));
                 defs.put(r.id(), Expr.add(w, r.kineticLaw() == null ? Expr.ZERO : r.kineticLaw()));

@@ -372,6 +372,16 @@ public final class CompiledModel implements OdeSystem {
      * @param dP dp/dθ, {@code dP[k * nc + c]} for parameter k (null when p does not depend on θ)
      */
     public void projectFastSensitivities(double t, double[] y, double[] p, double[] s, double[] dP, int nc) {
+        projectFastSensitivities(t, y, p, s, dP, null, nc);
+    }
+
+    /**
+     * As {@link #projectFastSensitivities(double, double[], double[], double[], double[], int)} for a projection
+     * at a moving time t(θ) with {@code tau[c] = dt/dθ_c} (after an event): s holds the total derivatives of the
+     * state there and the correction includes {@code ∂g/∂t τ_c}.
+     */
+    public void projectFastSensitivities(double t, double[] y, double[] p, double[] s, double[] dP, double[] tau,
+                                         int nc) {
         if (nFast == 0 || nc == 0) {
             return;
         }
@@ -384,6 +394,10 @@ public final class CompiledModel implements OdeSystem {
         double[] jp = new double[k * m];
         if (dP != null) {
             fastJacobians()[1].eval(t, y, p, jp);
+        }
+        double[] jt = new double[k];
+        if (tau != null) {
+            fastJacobians()[2].eval(t, y, p, jt);
         }
         DenseLu lu = DenseLu.withPivotThreshold(k, 0.0);
         if (!lu.factor(b)) {
@@ -402,6 +416,9 @@ public final class CompiledModel implements OdeSystem {
                     for (int q = 0; q < m; q++) {
                         v += jp[j * m + q] * dP[q * nc + c];
                     }
+                }
+                if (tau != null) {
+                    v += jt[j] * tau[c];
                 }
                 r[j] = -v;
             }
@@ -444,7 +461,7 @@ public final class CompiledModel implements OdeSystem {
         return r;
     }
 
-    /** Dense ∂g/∂y (k x n) and ∂g/∂p (k x m) of the fast constraints, compiled on first use. */
+    /** Dense ∂g/∂y (k x n), ∂g/∂p (k x m) and ∂g/∂t (k) of the fast constraints, compiled on first use. */
     private CompiledBlock[] fastJacobians() {
         CompiledBlock[] j = fastJac;
         if (j != null) {
@@ -452,7 +469,11 @@ public final class CompiledModel implements OdeSystem {
         }
         synchronized (this) {
             if (fastJac == null) {
-                fastJac = denseJacobians(form.runtime().withOutputs(form.fastConstraints()).prune());
+                Block g = form.runtime().withOutputs(form.fastConstraints()).prune();
+                CompiledBlock[] yp = denseJacobians(g);
+                Derivative.Sparse dt = Derivative.jacobian(g, List.of(Expr.TIME));
+                CompiledBlock t = BlockCompiler.compileAll(List.of(dt.block()), List.of(dt.rows())).get(0);
+                fastJac = new CompiledBlock[] {yp[0], yp[1], t};
             }
             return fastJac;
         }

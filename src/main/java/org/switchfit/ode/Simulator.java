@@ -722,7 +722,7 @@ public final class Simulator {
                         }
                         watchChattering(found);
                         // a switch in a fast rate law moves its equilibrium
-                        reequilibrate();
+                        reequilibrate(true);
                     }
                     found = eventRoots;
                     atRoot = eventRoots.length > 0;
@@ -827,7 +827,7 @@ public final class Simulator {
                 sens.switchJump(this, found);
             }
             if (found.length > 0) {
-                reequilibrate();
+                reequilibrate(true);
             }
             session.restartAt(t, n == 0 ? scratch : y, sensOut());
             if (ne > 0 && handleEvents(false, null)) {
@@ -835,16 +835,25 @@ public final class Simulator {
             }
         }
 
-        /** Brings the state back to the fast reactions' equilibrium (no-op without fast reactions). */
-        private void reequilibrate() {
+        /**
+         * Brings the state back to the fast reactions' equilibrium (no-op without fast reactions). After an event,
+         * the total derivatives of the state at the moving event time ({@code sens.d}) are projected with it
+         * (implicit function theorem, the time term included); at a right-hand-side switch there is no such
+         * projection, so sensitivity runs refuse it.
+         */
+        private void reequilibrate(boolean atSwitch) {
             if (model.fastReactionCount() == 0) {
                 return;
             }
-            if (sens != null) {
-                throw new IllegalArgumentException("sensitivities across events and switches are not available for "
-                        + "models with fast reactions");
+            if (sens != null && atSwitch) {
+                throw new IllegalArgumentException("sensitivities across right-hand-side switches are not available "
+                        + "for models with fast reactions");
             }
             model.equilibrateFast(t, y, p);
+            if (sens != null) {
+                sens.ensureD(this);
+                model.projectFastSensitivities(t, y, p, sens.d, sens.dP, sens.tauC, sens.nc);
+            }
         }
 
         /**
@@ -1006,7 +1015,7 @@ public final class Simulator {
                 pending.remove(next);
                 execute(next.event, next.values, next.dValues);
                 // fast reactions re-equilibrate instantly after the event (before triggers are checked again)
-                reequilibrate();
+                reequilibrate(false);
                 changed = true;
                 if (++executed > MAX_EVENTS_PER_INSTANT) {
                     throw new IntegrationException(t, "more than " + MAX_EVENTS_PER_INSTANT + " event executions at "

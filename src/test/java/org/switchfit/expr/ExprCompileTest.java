@@ -39,6 +39,7 @@ class ExprCompileTest {
         list.add(Expr.call(Op.MAX, Y0, Expr.neg(Y1), P0));
         list.add(Expr.call(Op.QUOTIENT, Expr.mul(Expr.constant(10), Y0), Y1));
         list.add(Expr.call(Op.REM, Expr.mul(Expr.constant(10), Y0), Y1));
+        list.add(Expr.call(Op.DIV_OR_ZERO, Y0, Expr.sub(Y1, P0)));
         list.add(Expr.call(Op.PIECEWISE, Y0, Expr.call(Op.GT, Y0, Y1), Expr.mul(Y1, P0)));
         list.add(Expr.call(Op.PIECEWISE, Y0, Expr.call(Op.AND, Expr.call(Op.GT, Y0, P0),
                 Expr.call(Op.NOT, Expr.call(Op.LE, Y1, P0))), Expr.sub(Y1, Expr.TIME)));

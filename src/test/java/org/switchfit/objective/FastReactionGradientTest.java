@@ -35,10 +35,7 @@ class FastReactionGradientTest {
      * compartment 2, amounts A = 3, B = 1; kf (log10) and k (lin) estimated, kr = 1.
      */
     private Path problem() throws IOException {
-        String model;
-        try (var in = FastReactionGradientTest.class.getResourceAsStream("/sbml/fast-equilibrium.xml")) {
-            model = new String(in.readAllBytes(), java.nio.charset.StandardCharsets.UTF_8);
-        }
+        String model = resource("fast-equilibrium.xml");
         StringBuilder meas = new StringBuilder("observableId | simulationConditionId | measurement | time");
         for (int i = 0; i < T.length; i++) {
             meas.append("\nobs | c0 | ").append(M[i]).append(" | ").append(T[i]);
@@ -79,21 +76,82 @@ class FastReactionGradientTest {
         }
     }
 
-    @Test
-    void predictionProfileWithFastReactionAndEventIsOneLineUserError() throws IOException {
-        // with an event the re-equilibration has no sensitivity jump: prediction profiles are refused by name
-        Path yaml = problem();
-        String withEvent;
-        try (var in = FastReactionGradientTest.class.getResourceAsStream("/sbml/fast-event.xml")) {
-            withEvent = new String(in.readAllBytes(), java.nio.charset.StandardCharsets.UTF_8);
+    private static String resource(String name) throws IOException {
+        try (var in = FastReactionGradientTest.class.getResourceAsStream("/sbml/" + name)) {
+            return new String(in.readAllBytes(), java.nio.charset.StandardCharsets.UTF_8);
         }
-        java.nio.file.Files.writeString(yaml.resolveSibling("model.xml"), withEvent);
+    }
+
+    @Test
+    void predictionProfileWithFastReactionAndSwitchIsOneLineUserError() throws IOException {
+        // a piecewise switch in a rate: the re-equilibration there has no sensitivity jump, so prediction
+        // profiles are refused by name
+        Path yaml = problem();
+        String law = "<apply><times/><ci>k</ci><ci>B</ci><ci>cell</ci></apply>";
+        String model = resource("fast-equilibrium.xml");
+        org.junit.jupiter.api.Assertions.assertTrue(model.contains(law));
+        java.nio.file.Files.writeString(yaml.resolveSibling("model.xml"), model.replace(law, "<piecewise><piece>"
+                + law + "<apply><lt/><csymbol encoding=\"text\" definitionURL=\"http://www.sbml.org/sbml/symbols/"
+                + "time\">t</csymbol><cn>2</cn></apply></piece><otherwise><cn>0</cn></otherwise></piecewise>"));
         org.switchfit.problem.EstimationProblem p = ProblemLoader.load(yaml);
         org.switchfit.util.UserInputException e = org.junit.jupiter.api.Assertions.assertThrows(
                 org.switchfit.util.UserInputException.class,
                 () -> ObservablePrediction.of(p, TIGHT, SteadyState.defaults(), "obs@2"));
         org.junit.jupiter.api.Assertions.assertTrue(e.getMessage().contains("fast reactions")
                 && e.getMessage().contains("profile parameters only"), e.getMessage());
+    }
+
+    @Test
+    void jacobianAcrossAnEventMatchesClosedForm() throws IOException {
+        // fast-event.xml: the same model with an event at t = 1 adding 1 to [A] (2 amount units), which the fast
+        // reaction shares at once. Derived by hand: T = 4 e^{-k q t} + 2 e^{-k q (t-1)} after the event, [B] = q T / V
+        // (V = 2), so d[B]/dk = q/V (-q t 4 e^{-kqt} - q (t-1) 2 e^{-kq(t-1)}) and d[B]/dq = [B]/q + q/V (-k t 4
+        // e^{-kqt} - k (t-1) 2 e^{-kq(t-1)}); before it the formulas of jacobianMatchesClosedForm. The event time
+        // does not depend on θ; the projection after it carries the sensitivities.
+        Path yaml = problem();
+        java.nio.file.Files.writeString(yaml.resolveSibling("model.xml"), resource("fast-event.xml"));
+        LikelihoodObjective obj = LikelihoodObjective.of(ProblemLoader.load(yaml), TIGHT);
+        double[] th = obj.problem().nominalTheta();
+        int nr = obj.residualCount();
+        int np = obj.parameterCount();
+        double[] r = new double[nr];
+        double[] jac = new double[nr * np];
+        obj.evaluate(th, r, jac);
+        double kf = 2;
+        double kr = 1;
+        double k = 0.5;
+        double bigK = kf / kr;
+        double q = bigK / (1 + bigK);
+        double dqdkf = 1 / (kr * (1 + bigK) * (1 + bigK)) * kf * Math.log(10);
+        for (int i = 0; i < T.length; i++) {
+            double t = T[i];
+            double e1 = 4 * Math.exp(-k * q * t);
+            double e2 = t >= 1 ? 2 * Math.exp(-k * q * (t - 1)) : 0; // at t = 1: after the event (SBML)
+            double t2 = t >= 1 ? t - 1 : 0;
+            double b = q * (e1 + e2) / 2;
+            double dk = q / 2 * (-q * t * e1 - q * t2 * e2);
+            double dq = b / q + q / 2 * (-k * t * e1 - k * t2 * e2);
+            double dkf = dq * dqdkf;
+            assertEquals((M[i] - b) / SIGMA, r[i], REL * b / SIGMA, "residual at t = " + t);
+            assertEquals(-dkf / SIGMA, jac[i * np], REL * Math.max(Math.abs(dkf), b) / SIGMA, "dr/dkf at " + t);
+            assertEquals(-dk / SIGMA, jac[i * np + 1], REL * Math.max(Math.abs(dk), b) / SIGMA, "dr/dk at " + t);
+        }
+        th[0] += 0.3;
+        th[1] += 0.4;
+        GradientCheck.assertJacobian(obj, th, 1e-5);
+    }
+
+    @Test
+    void jacobianAcrossStateTriggeredEventsWithATimeDependentEquilibrium() throws IOException {
+        // fast-timed-event.xml: the fast law depends on time and the events fire when [B] falls below 1, at
+        // θ-dependent times (about 0.9, 2.2 and 3.7): the projection after each needs ∂g/∂t dt_event/dθ too
+        Path yaml = problem();
+        java.nio.file.Files.writeString(yaml.resolveSibling("model.xml"), resource("fast-timed-event.xml"));
+        LikelihoodObjective obj = LikelihoodObjective.of(ProblemLoader.load(yaml), TIGHT);
+        double[] th = obj.problem().nominalTheta();
+        th[0] += 0.1;
+        th[1] += 0.1;
+        GradientCheck.assertJacobian(obj, th, 1e-5);
     }
 
     @Test
