@@ -181,16 +181,11 @@ final class ExperimentSimulation {
 
     /**
      * Whether sensitivities across the events and switches are available: the model has no {@code delay()} in its
-     * mathematics (the history of the sensitivities is not kept), no fast reactions together with right-hand-side
-     * switches (their re-equilibration at a switch has no sensitivity jump) and, with events, no time is negative (the states
+     * mathematics (the history of the sensitivities is not kept) and, with events, no time is negative (the states
      * alone then start at the first time, the sensitivities at 0).
      */
     boolean exactEventSensitivities(double[] times) {
         if (!model.form().delaySlots().isEmpty()) {
-            return false;
-        }
-        if (model.fastReactionCount() > 0 && model.rhsSwitchCount() > 0) {
-            // the re-equilibration of fast reactions at a right-hand-side switch has no sensitivity jump here
             return false;
         }
         if (!problem.hasEvents()) {

@@ -141,11 +141,6 @@ public final class ObservablePrediction implements Prediction {
                         + "only");
             }
         }
-        if (problem.compiled().fastReactionCount() > 0 && problem.compiled().rhsSwitchCount() > 0) {
-            throw new UserInputException(where, "prediction '" + spec + "': prediction profiles of a model with fast "
-                    + "reactions and piecewise switches are not supported (no sensitivities for their "
-                    + "re-equilibration at a switch); profile parameters only");
-        }
         int e = candidates.get(0);
         Measurement tmpl = firstMeasurement(problem, problem.experiments().get(e), o);
         return new ObservablePrediction(problem, e, o, t, tmpl, settings, steady, spec.trim(), where);

@@ -838,16 +838,12 @@ public final class Simulator {
         /**
          * Brings the state back to the fast reactions' equilibrium (no-op without fast reactions). After an event,
          * the total derivatives of the state at the moving event time ({@code sens.d}) are projected with it
-         * (implicit function theorem, the time term included); at a right-hand-side switch there is no such
-         * projection, so sensitivity runs refuse it.
+         * (implicit function theorem, the time term included). At a right-hand-side switch in a sensitivity run,
+         * {@link Sens#switchJump} does the projection together with the jump.
          */
         private void reequilibrate(boolean atSwitch) {
-            if (model.fastReactionCount() == 0) {
+            if (model.fastReactionCount() == 0 || sens != null && atSwitch) {
                 return;
-            }
-            if (sens != null && atSwitch) {
-                throw new IllegalArgumentException("sensitivities across right-hand-side switches are not available "
-                        + "for models with fast reactions");
             }
             model.equilibrateFast(t, y, p);
             if (sens != null) {
@@ -1129,19 +1125,43 @@ public final class Simulator {
             for (int c = 0; c < nc; c++) {
                 numZero &= tmp[c] == 0.0;
             }
-            if (numZero) {
-                return;
+            java.util.Arrays.fill(tauC, 0.0);
+            if (!numZero) {
+                double den = ed.alongFlow(row, ent, fMinus);
+                if (!(Math.abs(den) > 0) || !Double.isFinite(den)) {
+                    throw new IntegrationException(r.t, "the condition " + model.rhsSwitchConditions().get(first)
+                            + " of the right-hand side changes where it is tangent to the solution (d g/dt = " + den
+                            + "); its switching time has no derivative with respect to the parameters");
+                }
+                for (int c = 0; c < nc; c++) {
+                    double tau = -tmp[c] / den;
+                    tauC[c] = tau;
+                    for (int i = 0; i < n; i++) {
+                        s[c * n + i] += (fMinus[i] - f[i]) * tau;
+                    }
+                }
             }
-            double den = ed.alongFlow(row, ent, fMinus);
-            if (!(Math.abs(den) > 0) || !Double.isFinite(den)) {
-                throw new IntegrationException(r.t, "the condition " + model.rhsSwitchConditions().get(first)
-                        + " of the right-hand side changes where it is tangent to the solution (d g/dt = " + den
-                        + "); its switching time has no derivative with respect to the parameters");
-            }
-            for (int c = 0; c < nc; c++) {
-                double tau = -tmp[c] / den;
-                for (int i = 0; i < n; i++) {
-                    s[c * n + i] += (fMinus[i] - f[i]) * tau;
+            if (model.fastReactionCount() > 0) {
+                // the new mode moves the fast equilibrium: project the total derivatives d = s⁺ + f⁺ τ at the
+                // moving switching time with the state, then s⁺ = d - f⁺ τ with f⁺ at the projected state
+                for (int k : found) {
+                    if (k >= nr) {
+                        pModes[m + k - nr] = -pModes[m + k - nr];
+                    }
+                }
+                for (int c = 0; c < nc; c++) {
+                    for (int i = 0; i < n; i++) {
+                        d[c * n + i] = s[c * n + i] + f[i] * tauC[c];
+                    }
+                }
+                model.equilibrateFast(r.t, r.y, r.p);
+                model.projectFastSensitivities(r.t, r.y, r.p, d, dP, tauC, nc);
+                System.arraycopy(r.p, 0, pModes, 0, m);
+                model.rhsForced(r.t, r.y, pModes, f);
+                for (int c = 0; c < nc; c++) {
+                    for (int i = 0; i < n; i++) {
+                        s[c * n + i] = d[c * n + i] - f[i] * tauC[c];
+                    }
                 }
             }
         }
