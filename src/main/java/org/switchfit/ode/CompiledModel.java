@@ -243,9 +243,10 @@ public final class CompiledModel implements OdeSystem {
     }
 
     /**
-     * Largest number of pseudo-time steps of {@link #equilibrateFast}. The step grows up to 1000-fold per step as
-     * the residual falls, so the 1e10-fold growth that marks convergence takes a few dozen steps on the test models
-     * and suite cases; 500 leaves room for slow starts (growth 0.1-fold per step is the floor).
+     * Largest number of pseudo-time steps of {@link #equilibrateFast}. The step grows 2- to 1000-fold per step
+     * while the residual does not rise, so the 1e10-fold growth that marks convergence takes at most 34 such steps;
+     * measured: at most 35 on the SBML Test Suite's fast-reaction cases (01565 has 52 fast reactions; 301 before
+     * the doubling). 500 leaves room for starts where the residual rises for a while.
      */
     private static final int FAST_STEPS = 500;
     /** Halvings of a pseudo-time step whose result is not finite: 60 shrink it by 1e18, past any useful size. */
@@ -350,9 +351,11 @@ public final class CompiledModel implements OdeSystem {
                     double r1 = maxAbs(trial, k);
                     if (Double.isFinite(r1) && Double.isFinite(step)) {
                         accepted = true;
-                        // switched evolution relaxation: grow the pseudo-time step as the residual falls
-                        dtau *= r1 == 0.0 ? FAST_MAX_GROWTH
-                                : Math.max(FAST_MIN_GROWTH, Math.min(FAST_MAX_GROWTH, res / r1));
+                        // switched evolution relaxation: grow the pseudo-time step as the residual falls, and at
+                        // least double it while the residual does not rise (the largest |g| can belong to a slow
+                        // reaction that falls slowly while the others have settled)
+                        double ratio = r1 == 0.0 ? FAST_MAX_GROWTH : Math.min(FAST_MAX_GROWTH, res / r1);
+                        dtau *= r1 <= res ? Math.max(2.0, ratio) : Math.max(FAST_MIN_GROWTH, ratio);
                         res = r1;
                         break;
                     }
