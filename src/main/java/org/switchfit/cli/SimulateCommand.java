@@ -11,6 +11,7 @@ import java.util.concurrent.Callable;
 import org.switchfit.model.Model;
 import org.switchfit.model.Species;
 import org.switchfit.ode.CompiledModel;
+import org.switchfit.ode.FastEquilibriumException;
 import org.switchfit.ode.IntegrationException;
 import org.switchfit.ode.Integrators;
 import org.switchfit.ode.ModelCompiler;
@@ -84,6 +85,9 @@ public final class SimulateCommand implements Callable<Integer> {
         Trajectory tr;
         try {
             tr = new Simulator(cm, Integrators.create(settings)).simulate(t, p, outs);
+        } catch (FastEquilibriumException e) {
+            throw new UserInputException(SourceLocation.ofFile(model.toString()), e.getMessage()
+                    + "; check the rate law of fast reaction '" + e.reaction() + "'");
         } catch (IntegrationException e) {
             throw new UserInputException(SourceLocation.ofFile(model.toString()), e.getMessage()
                     + "; try --method bdf or looser tolerances (--rtol, --atol)");

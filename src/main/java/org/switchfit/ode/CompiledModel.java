@@ -283,7 +283,7 @@ public final class CompiledModel implements OdeSystem {
      * steps. A law that is exactly 0 at the start leaves the state as it is. Called by {@link #initialValues};
      * the simulator calls it after events. No-op without fast reactions.
      *
-     * @throws IntegrationException when no equilibrium is found (a law that never vanishes along its reaction)
+     * @throws FastEquilibriumException when no equilibrium is found (a law that never vanishes along its reaction)
      */
     public void equilibrateFast(double t, double[] y, double[] p) {
         if (nFast == 0) {
@@ -301,7 +301,7 @@ public final class CompiledModel implements OdeSystem {
         fast.eval(t, y, p, out);
         double res = maxAbs(out, k);
         if (Double.isNaN(res)) {
-            throw new IntegrationException(t, "a fast reaction's rate is not a number");
+            throw new FastEquilibriumException(t, worstFast(out), "its rate is not a number");
         }
         double dtau = Double.NaN;
         double dtau0 = Double.NaN;
@@ -363,8 +363,8 @@ public final class CompiledModel implements OdeSystem {
                 dtau *= 0.5;
             }
             if (!accepted) {
-                throw new IntegrationException(t, "the fast reactions cannot reach equilibrium (their rates are "
-                        + "not finite along them)");
+                throw new FastEquilibriumException(t, worstFast(out), "no equilibrium along the fast reactions "
+                        + "(their rates are not finite along them)");
             }
             System.arraycopy(y1, 0, y, 0, n);
             System.arraycopy(trial, 0, out, 0, out.length);
@@ -372,8 +372,8 @@ public final class CompiledModel implements OdeSystem {
                 return;
             }
         }
-        throw new IntegrationException(t, "the fast reactions did not reach equilibrium in " + FAST_STEPS
-                + " pseudo-time steps");
+        throw new FastEquilibriumException(t, worstFast(out), "no equilibrium along the fast reactions in "
+                + FAST_STEPS + " pseudo-time steps (its rate is still " + maxAbs(out, nFast) + ")");
     }
 
     /**
@@ -460,6 +460,20 @@ public final class CompiledModel implements OdeSystem {
                 b[j * k + l] = v;
             }
         }
+    }
+
+    /** Id of the fast reaction with the largest |rate| in {@code out} (NaN counts as largest). */
+    private String worstFast(double[] out) {
+        int worst = 0;
+        for (int j = 0; j < nFast; j++) {
+            if (Double.isNaN(out[j]) || Math.abs(out[j]) > Math.abs(out[worst])) {
+                worst = j;
+                if (Double.isNaN(out[j])) {
+                    break;
+                }
+            }
+        }
+        return form.fastReactionIds().get(worst);
     }
 
     private static double maxAbs(double[] v, int len) {

@@ -81,6 +81,12 @@ class SimulateCommandTest {
     }
 
     @Test
+    void fastReactionWithoutEquilibriumIsOneLineUserErrorNamingIt() {
+        assertUserError(run("simulate", res("fast-no-equilibrium.xml"), "--times", "0:1:2"),
+                "fast-no-equilibrium.xml", "fast reaction 'flip'", "no equilibrium", "check the rate law");
+    }
+
+    @Test
     void danglingCompReferenceIsOneLineUserErrorNamingIt() {
         assertUserError(run("simulate", res("comp-dangling-deletion.xml"), "--times", "0:1:2"),
                 "comp-dangling-deletion.xml", "no element has metaid 'no_such'");
