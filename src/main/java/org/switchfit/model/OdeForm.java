@@ -770,7 +770,8 @@ public final class OdeForm {
         if (i == null) {
             return rateOf(id);
         }
-        Expr d = derivSymbolic.get(id);
+        // a rate rule may use rateOf: resolved to its symbol, which Derivative treats as independent
+        Expr d = resolveRateOf(derivSymbolic.get(id));
         if (isAmountStateWithConcSymbol(id)) {
             String c = model.species(id).compartment();
             Expr vol = Expr.symbol(c);
