@@ -15,6 +15,7 @@ import org.switchfit.fit.ParameterScale;
 import org.switchfit.fit.StartResult;
 import org.switchfit.fit.StartStatus;
 import org.switchfit.objective.LikelihoodObjective;
+import org.switchfit.objective.SwitchingFit;
 import org.switchfit.problem.EstimationProblem;
 import org.switchfit.problem.FreeParameter;
 import org.switchfit.problem.Measurement;
@@ -37,7 +38,9 @@ import picocli.CommandLine.Spec;
 /**
  * {@code switchfit fit}: multistart Levenberg-Marquardt on a problem of either format. Each finished start is
  * written atomically to {@code OUT/starts/} as it finishes, so {@code --resume} continues an interrupted run with
- * the same result; at the end {@code result.json}, {@code residuals.csv} and {@code model_fitted.xml} are written.
+ * the same result; at the end {@code result.json}, {@code residuals.csv}, {@code switching_residuals.csv} (problems
+ * with thresholds or dose responses) and {@code model_fitted.xml} are written, and each measured threshold is
+ * printed beside the model's.
  */
 @Command(name = "fit", mixinStandardHelpOptions = true,
         footer = {"", "Examples:", "  switchfit fit datasets/stress_switch.yaml --starts 20 --seed 1 --threads 2 --out fits/mine", "  switchfit fit datasets/stress_switch.yaml --starts 20 --seed 1 --out fits/mine --resume --log fit.log"},
@@ -120,8 +123,8 @@ public final class FitCommand implements Callable<Integer> {
             err.println();
         }
         double wall = (System.nanoTime() - t0) * 1e-9;
-        writeResults(problem, objective, result, wall);
         PrintWriter o = spec.commandLine().getOut();
+        List<SwitchingFit> switching = writeResults(problem, objective, result, wall);
         if (result.bestTheta() == null) {
             o.printf(Locale.ROOT, "all %d starts failed; see %s%n", starts, out.resolve("result.json"));
             o.flush();
@@ -129,6 +132,7 @@ public final class FitCommand implements Callable<Integer> {
         }
         o.printf(Locale.ROOT, "best NLL %.10g; %d of %d starts within %.1f of it; results in %s%n", result.bestNll(),
                 result.startsNearBest(), starts, FitResult.NEAR_BEST_TOLERANCE, out);
+        printThresholds(o, switching);
         o.flush();
         return 0;
     }
@@ -161,8 +165,29 @@ public final class FitCommand implements Callable<Integer> {
         return FitProblem.of(objective, ids, lo, hi).withScales(sc);
     }
 
-    private void writeResults(EstimationProblem problem, LikelihoodObjective objective, FitResult result,
-                              double wall) {
+    /**
+     * One line per measured switching threshold: the model's threshold at the best fit, how it is defined there
+     * (a fold, or the steepest response of a monostable model), the measurement and the standardised residual.
+     */
+    private static void printThresholds(PrintWriter o, List<SwitchingFit> switching) {
+        for (SwitchingFit f : switching) {
+            if (f.data() != SwitchingFit.Data.THRESHOLD) {
+                continue;
+            }
+            o.printf(Locale.ROOT, "switch-%s threshold of %s in %s: model %.6g (%s), measured %.6g +- %.3g, residual "
+                    + "%+.2f%n", f.direction().equals("up") ? "on" : "off", f.control(), f.experiment(), f.model(),
+                    f.note().replace('_', ' '), f.measurement(), f.sigma(), f.residual());
+        }
+    }
+
+    /**
+     * Writes result.json and, when a start succeeded, residuals.csv, switching_residuals.csv (when the problem has
+     * switching thresholds or dose responses), model_fitted.xml and trajectories.json.
+     *
+     * @return the switching data with the model's values at the best fit (empty when none or all starts failed)
+     */
+    private List<SwitchingFit> writeResults(EstimationProblem problem, LikelihoodObjective objective,
+                                            FitResult result, double wall) {
         Map<String, String> versions = new LinkedHashMap<>();
         versions.put("switchfit", new Main.Version().getVersion()[0]);
         versions.put("java", System.getProperty("java.version"));
@@ -176,7 +201,7 @@ public final class FitCommand implements Callable<Integer> {
         FitDirectory.of(out).write(FitFile.RESULT, summary);
         double[] th = result.bestTheta();
         if (th == null) {
-            return;
+            return List.of();
         }
         LikelihoodObjective.Evaluation ev = objective.evaluateDetailed(th);
         Csv csv = new Csv("experiment", "observable", "time", "measurement", "simulation", "sigma", "residual");
@@ -193,12 +218,34 @@ public final class FitCommand implements Callable<Integer> {
                     problem.observables().get(me.observable()).id(), me.time(), me.value(), s, sig, res);
         }
         csv.write(out.resolve("residuals.csv"));
+        if (!ev.switching().isEmpty()) {
+            switchingCsv(ev.switching()).write(out.resolve(SWITCHING_RESIDUALS));
+        }
         Map<String, Double> values = new LinkedHashMap<>();
         for (int k = 0; k < problem.parameterCount(); k++) {
             values.put(problem.parameters().get(k).id(), problem.parameters().get(k).toLinear(th[k]));
         }
         SbmlWriter.writeWithValues(problem.modelFile(), out.resolve("model_fitted.xml"), values);
         writeTrajectories(objective, th);
+        return ev.switching();
+    }
+
+    /** File name of the switching-threshold and dose-response residuals in a fit directory. */
+    public static final String SWITCHING_RESIDUALS = "switching_residuals.csv";
+
+    /**
+     * The switching-threshold and dose-response data with the model's values: one row per datum, residual
+     * {@code (measurement - model) / sigma} on the observable's scale (the sign convention of residuals.csv).
+     */
+    static Csv switchingCsv(List<SwitchingFit> rows) {
+        Csv csv = new Csv("data", "experiment", "control", "direction", "observable", "dose", "measurement", "model",
+                "sigma", "residual", "note");
+        for (SwitchingFit f : rows) {
+            csv.row(f.data().label(), f.experiment(), f.control(), f.direction(), f.observable(),
+                    Double.isNaN(f.dose()) ? null : f.dose(), f.measurement(), f.model(), f.sigma(), f.residual(),
+                    f.note());
+        }
+        return csv;
     }
 
     /**

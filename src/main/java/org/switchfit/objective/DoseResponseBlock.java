@@ -49,6 +49,8 @@ final class DoseResponseBlock implements ResidualBlock {
     private final int size;
     private final double constant;
     private final String label;
+    private final String experimentId;
+    private final String controlId;
 
     DoseResponseBlock(SwitchingModel sm, List<DoseResponsePoint> points, double lower, double upper) {
         this.sm = sm;
@@ -106,6 +108,8 @@ final class DoseResponseBlock implements ResidualBlock {
         }
         size = off;
         constant = c;
+        experimentId = first.experiment();
+        controlId = first.control();
         label = String.format(Locale.ROOT, "dose response in '%s' of experiment '%s' from the %s state",
                 first.control(), first.experiment(), low ? "low" : "high");
     }
@@ -216,6 +220,10 @@ final class DoseResponseBlock implements ResidualBlock {
                     }
                 }
             }
+        }
+        if (ctx.recordsSwitching()) {
+            ctx.record(new SwitchingFit(SwitchingFit.Data.DOSE_RESPONSE, experimentId, controlId, low ? "low" : "high",
+                    od.id(), doses[i], values[i], hv, sigma, od.transformation(), null));
         }
         int status = NoiseResidual.write(od, hv, values[i], sigma, variable[i], NoiseResidual.SIGMA_SHIFT, gradH,
                 gradS, np, r, offset + rowOffset[i], jac);

@@ -16,8 +16,15 @@ public final class EvaluationContext {
     private final double[] dLinear;
     final double[] simulated;
     final double[] sigmas;
+    /** Sink for switching-data rows of a detailed evaluation, or null. */
+    private final java.util.List<SwitchingFit> switching;
 
     EvaluationContext(EstimationProblem problem, double[] theta, double[] simulated, double[] sigmas) {
+        this(problem, theta, simulated, sigmas, null);
+    }
+
+    EvaluationContext(EstimationProblem problem, double[] theta, double[] simulated, double[] sigmas,
+                      java.util.List<SwitchingFit> switching) {
         this.problem = problem;
         this.theta = theta;
         int np = theta.length;
@@ -30,6 +37,7 @@ public final class EvaluationContext {
         }
         this.simulated = simulated;
         this.sigmas = sigmas;
+        this.switching = switching;
     }
 
     /** The problem. */
@@ -87,6 +95,18 @@ public final class EvaluationContext {
         if (simulated != null) {
             simulated[i] = h;
             sigmas[i] = sigma;
+        }
+    }
+
+    /** Whether switching-data rows are being recorded ({@link #record(SwitchingFit)}). */
+    boolean recordsSwitching() {
+        return switching != null;
+    }
+
+    /** Records one switching-threshold or dose-response row (when a sink was requested). */
+    void record(SwitchingFit row) {
+        if (switching != null) {
+            switching.add(row);
         }
     }
 }

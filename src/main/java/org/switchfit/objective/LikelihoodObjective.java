@@ -172,13 +172,14 @@ public final class LikelihoodObjective implements Objective {
         java.util.Arrays.fill(sim, Double.NaN);
         java.util.Arrays.fill(sig, Double.NaN);
         double[] r = new double[size];
-        double nll = run(new EvaluationContext(problem, theta, sim, sig), r, null);
+        List<SwitchingFit> switching = new ArrayList<>();
+        double nll = run(new EvaluationContext(problem, theta, sim, sig, switching), r, null);
         ResidualBlock pb = blocks.get(priorBlock);
         double prior = pb.constant();
         for (int i = offsets[priorBlock]; i < offsets[priorBlock] + pb.size(); i++) {
             prior += 0.5 * r[i] * r[i];
         }
-        return new Evaluation(nll, prior, r, sim, sig);
+        return new Evaluation(nll, prior, r, sim, sig, List.copyOf(switching));
     }
 
     /**
@@ -233,8 +234,10 @@ public final class LikelihoodObjective implements Objective {
      * @param residuals all residuals
      * @param simulated simulated observable value per measurement (untransformed)
      * @param sigmas    noise spread per measurement (on the transformed scale)
+     * @param switching the switching-threshold and dose-response data with the model's values, in block order
+     *                  (thresholds per experiment, control and direction; dose responses per history, by dose)
      */
     public record Evaluation(double nll, double priorPart, double[] residuals, double[] simulated,
-                             double[] sigmas) {
+                             double[] sigmas, List<SwitchingFit> switching) {
     }
 }

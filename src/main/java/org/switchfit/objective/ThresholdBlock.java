@@ -49,6 +49,8 @@ final class ThresholdBlock implements ResidualBlock {
     private final double[] sigmas;
     private final double constant;
     private final String label;
+    private final String experimentId;
+    private final String controlId;
 
     /**
      * @param points  thresholds of one experiment, control and direction (non-empty)
@@ -78,6 +80,8 @@ final class ThresholdBlock implements ResidualBlock {
             c += 0.5 * LOG_2PI + Math.log(t.sigma());
         }
         this.constant = c;
+        this.experimentId = first.experiment();
+        this.controlId = first.control();
         this.label = String.format(Locale.ROOT, "switch-%s threshold of '%s' in experiment '%s'", up ? "on" : "off",
                 first.control(), first.experiment());
     }
@@ -102,9 +106,14 @@ final class ThresholdBlock implements ResidualBlock {
     public void evaluate(EvaluationContext ctx, double[] r, int offset, double[] jac) {
         int np = ctx.parameterCount();
         double[] grad = jac == null ? null : new double[np];
-        double lam = threshold(ctx, grad);
+        String[] note = ctx.recordsSwitching() ? new String[1] : null;
+        double lam = threshold(ctx, grad, note);
         for (int i = 0; i < values.length; i++) {
             r[offset + i] = (lam - values[i]) / sigmas[i];
+            if (note != null) {
+                ctx.record(new SwitchingFit(SwitchingFit.Data.THRESHOLD, experimentId, controlId, up ? "up" : "down",
+                        null, Double.NaN, values[i], lam, sigmas[i], org.switchfit.data.ParameterScale.LIN, note[0]));
+            }
             if (jac != null) {
                 int base = (offset + i) * np;
                 for (int j = 0; j < np; j++) {
@@ -116,6 +125,14 @@ final class ThresholdBlock implements ResidualBlock {
 
     /** Model threshold λ*(θ); its gradient goes into {@code grad} (length np) when not null. */
     double threshold(EvaluationContext ctx, double[] grad) {
+        return threshold(ctx, grad, null);
+    }
+
+    /**
+     * Model threshold λ*(θ) and its gradient (when {@code grad} is not null); {@code note[0]} (when not null) says
+     * which definition applied: {@code fold}, {@code steepest_response} or {@code range_end}.
+     */
+    private double threshold(EvaluationContext ctx, double[] grad, String[] note) {
         double end = up ? lower : upper;
         SwitchingModel.Start s = sm.start(ctx, cond, control, end, grad != null);
         try {
@@ -142,11 +159,17 @@ final class ThresholdBlock implements ResidualBlock {
                     }
                 }
             }
+            if (note != null) {
+                note[0] = t.kind() == Threshold.Kind.FOLD ? "fold" : "steepest_response";
+            }
             return t.value();
         } catch (ContinuationException e) {
             double bound = clampedBound(s, grad);
             if (Double.isNaN(bound)) {
                 throw new ObjectiveException(label + ": " + e.getMessage(), e);
+            }
+            if (note != null) {
+                note[0] = "range_end";
             }
             return bound;
         }

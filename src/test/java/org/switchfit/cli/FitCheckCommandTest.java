@@ -138,6 +138,36 @@ class FitCheckCommandTest {
         assertEquals(64, a.get("inputs").get(0).get("sha256").asText().length());
     }
 
+    @Test
+    void fitReportsTheModelThresholdsBesideTheMeasuredOnes() throws Exception {
+        Path yaml = Path.of(FitCheckCommandTest.class.getResource("/org/switchfit/cli/toggle/problem.yaml").toURI());
+        Path out = dir.resolve("toggle");
+        StringWriter o = new StringWriter();
+        StringWriter err = new StringWriter();
+        assertEquals(0, run(o, err, "fit", yaml.toString(), "--starts", "3", "--seed", "1", "--threads", "1",
+                "--quiet", "--out", out.toString()), err.toString());
+        List<String> printed = o.toString().lines().filter(l -> l.startsWith("switch-")).toList();
+        assertEquals(2, printed.size(), o.toString());
+        assertTrue(printed.get(0).startsWith("switch-on threshold of ind in rest: model "), printed.get(0));
+        assertTrue(printed.get(0).contains("(fold), measured 9.70000 +- 0.300"), printed.get(0));
+        assertTrue(printed.get(1).startsWith("switch-off threshold of ind in rest: model "), printed.get(1));
+        List<String> csv = Files.readAllLines(out.resolve("switching_residuals.csv"));
+        assertEquals("data,experiment,control,direction,observable,dose,measurement,model,sigma,residual,note",
+                csv.get(0));
+        assertEquals(3, csv.size(), String.join("\n", csv));
+        for (String line : csv.subList(1, 3)) {
+            String[] f = line.split(",", -1);
+            assertEquals("threshold", f[0]);
+            assertEquals("fold", f[10]);
+            double meas = Double.parseDouble(f[6]);
+            double model = Double.parseDouble(f[7]);
+            double sigma = Double.parseDouble(f[8]);
+            // the fitted thresholds lie within 2 sigma of the measured ones (both are consistent with the data)
+            assertTrue(Math.abs(meas - model) < 2 * sigma, line);
+            assertEquals((meas - model) / sigma, Double.parseDouble(f[9]), 1e-12);
+        }
+    }
+
     private static JsonNode read(Path p) throws IOException {
         return new ObjectMapper().readTree(p.toFile());
     }

@@ -113,4 +113,43 @@ class SwitchingBlocksTest {
         assertTrue(obj.residualCount() > 6 + 60, "residuals " + obj.residualCount());
         GradientCheck.assertJacobian(obj, th, 1e-5);
     }
+
+    @Test
+    void detailedEvaluationListsEveryThresholdAndDoseResponseWithTheModelValue() {
+        LikelihoodObjective obj = LikelihoodObjective.of(problem, SolverSettings.defaults()
+                .withMethod(SolverSettings.Method.BDF).withTolerances(1e-10, 1e-12));
+        List<SwitchingFit> rows = obj.evaluateDetailed(truth(problem)).switching();
+        long thresholds = rows.stream().filter(f -> f.data() == SwitchingFit.Data.THRESHOLD).count();
+        assertEquals(6, thresholds, "three up and three down thresholds in datasets/stress_switch.yaml");
+        assertEquals(problem.extraData().size() - 6, rows.size() - thresholds, "one row per dose-response point");
+        java.util.Map<String, double[]> low = new java.util.HashMap<>();
+        for (SwitchingFit f : rows) {
+            if (f.data() == SwitchingFit.Data.THRESHOLD) {
+                // the folds at the true values, from the independent sympy computation of
+                // datasets/stress_switch_check.py (30 digits): fold refinement to 1e-11, 1e-8 relative margin
+                double fold = f.direction().equals("up") ? 2.06755334253028 : 0.825486114450160;
+                assertEquals("fold", f.note());
+                assertEquals(fold, f.model(), 1e-8 * fold);
+                assertEquals((f.measurement() - fold) / f.sigma(), f.residual(), 1e-7 / f.sigma());
+            } else if (f.direction().equals("low")) {
+                low.put(f.observable() + "@" + f.dose(), new double[] {f.model()});
+            }
+        }
+        int bistable = 0;
+        for (SwitchingFit f : rows) {
+            double[] l = low.get(f.observable() + "@" + f.dose());
+            if (f.data() == SwitchingFit.Data.DOSE_RESPONSE && f.direction().equals("high") && l != null) {
+                boolean between = f.dose() > 0.825486114450160 && f.dose() < 2.06755334253028;
+                // hysteresis: between the folds the state reached from the high state lies above the low one;
+                // outside them both histories reach the same (only) stable state
+                if (between) {
+                    bistable++;
+                    assertTrue(f.model() > l[0] + 0.1, "dose " + f.dose() + ": high " + f.model() + ", low " + l[0]);
+                } else {
+                    assertEquals(l[0], f.model(), 1e-6, "dose " + f.dose());
+                }
+            }
+        }
+        assertTrue(bistable > 0, "no dose inside the bistable range");
+    }
 }
