@@ -13,6 +13,7 @@ import org.switchfit.ode.Trajectory;
 import org.switchfit.ode.bdf.BdfIntegrator;
 import org.switchfit.ode.bdf.BdfSession;
 import org.switchfit.problem.Condition;
+import org.switchfit.problem.DoseStep;
 import org.switchfit.problem.EstimationProblem;
 import org.switchfit.problem.Measurement;
 import org.switchfit.problem.SimulationExperiment;
@@ -47,6 +48,14 @@ import org.switchfit.util.UserInputException;
  *   models with {@code delay()} are not available (callers check {@link #exactEventSensitivities}).</li>
  * </ul>
  *
+ * <p><b>Doses</b> ({@link SimulationExperiment#doses}, first two routes only; refused with events or
+ * {@code delay()}): the integration stops at each dose time, the dosed state or parameter changes (set or add;
+ * species amounts converted from concentrations with their compartment's size), the fast equilibrium is restored,
+ * and a new integration starts there. The dose time does not depend on θ, so the sensitivities are continuous
+ * except for the dosed quantity: {@code ds_i/dθ} (or {@code dp_eff,k/dθ}) becomes the derivative of the new value.
+ * A measurement at a dose time sees the state after the dose (as SBML output at an event time). Times of +inf lie
+ * after the last dose.
+ *
  * <p>Sensitivity columns: column c is the derivative by θ_{cols[c]}. The residuals use the θ that enter the model
  * through the conditions; the predictions use every θ (their extra columns stay zero but enter the denominator of
  * the BDF's RMS error norm, so the choice is kept as it was when their values were measured).
@@ -74,6 +83,8 @@ final class ExperimentSimulation {
     /** Non-null for models with events, delay() or right-hand-side switches. */
     private final Simulator simulator;
     private final ModelOutputs stateOutputs;
+    /** Doses of the experiment, by time. */
+    private final List<DoseStep> doses;
 
     /** Receives the state at each requested time (the state is in the {@link State} given to {@link #run}). */
     @FunctionalInterface
@@ -112,6 +123,12 @@ final class ExperimentSimulation {
                 active[c.targetTheta(i)] = true;
             }
         }
+        this.doses = exp.doses();
+        for (DoseStep d : doses) {
+            if (d.amount().isTheta()) {
+                active[d.amount().thetaIndex()] = true;
+            }
+        }
         colOf = new int[np];
         Arrays.fill(colOf, -1);
         int nc = 0;
@@ -139,6 +156,11 @@ final class ExperimentSimulation {
         boolean delays = !model.form().delaySlots().isEmpty();
         eventRoute = problem.hasEvents() || delays;
         if (eventRoute) {
+            if (!doses.isEmpty()) {
+                throw new UserInputException(doses.get(0).location(), "doses in a model with "
+                        + (problem.hasEvents() ? "events" : "delay()") + " are not supported; write the dose "
+                        + "into the model as an SBML event");
+            }
             if (pre != null) {
                 throw new UserInputException(where, "pre-equilibration of a model with "
                         + (problem.hasEvents() ? "events" : "delay()") + " is not supported; remove the "
@@ -260,27 +282,90 @@ final class ExperimentSimulation {
             return;
         }
         start(st, linear, dLinear, sens);
+        double t0 = 0.0;
+        int from = 0;
+        for (DoseStep d : doses) {
+            int to = from;
+            while (to < times.length && times[to] < d.time()) {
+                to++;
+            }
+            segment(st, sens, t0, times, from, to, d.time(), sample);
+            applyDose(st, d, linear, dLinear, sens);
+            t0 = Math.max(t0, d.time());
+            from = to;
+        }
+        segment(st, sens, t0, times, from, times.length, Double.NaN, sample);
+    }
+
+    /**
+     * From the state in {@code st} at time t0: samples times[from..to) (the first route's BDF session, or the
+     * simulator), then, when {@code stop} is not NaN, integrates on to {@code stop} (a dose time).
+     */
+    private void segment(State st, boolean sens, double t0, double[] times, int from, int to, double stop,
+                         Sample sample) {
         if (simulator != null) {
-            runOnSimulator(st, sens, times, sample);
+            runOnSimulator(st, sens, t0, times, from, to, stop, sample);
             return;
         }
         BdfSession ses = null;
-        double t = 0.0;
-        for (int i = 0; i < times.length; i++) {
-            double tm = times[i];
+        double t = t0;
+        for (int i = from; i <= to; i++) {
+            double tm = i < to ? times[i] : stop;
             if (tm > t) {
                 if (ses == null) {
                     ses = integrator.start(st.sys, t, st.y, st.pEff, null, sens ? st.sensParams : null,
                             sens ? st.s : null);
                 }
                 if (tm == Double.POSITIVE_INFINITY) {
-                    steady.run(ses, model, st.pEff, st.y, sens ? st.s : null, "condition '" + sim.id() + "'");
+                    steady.run(ses, model, st.sys, st.sensParams, st.pEff, st.y, sens ? st.s : null,
+                            "condition '" + sim.id() + "'");
                 } else {
                     ses.advance(tm, st.y, sens ? st.s : null);
                 }
                 t = tm;
             }
-            sample.at(i, t);
+            if (i < to) {
+                sample.at(i, t);
+            }
+        }
+    }
+
+    /**
+     * Applies a dose at its time to the state (or p_eff) in {@code st} and, when {@code sens}, to the
+     * sensitivities (or dp_eff/dθ, then the {@link ThetaSystem}'s columns); then restores the fast equilibrium.
+     */
+    private void applyDose(State st, DoseStep d, double[] linear, double[] dLinear, boolean sens) {
+        ValueSource a = d.amount();
+        double v = a.isTheta() ? linear[a.thetaIndex()] : a.constant();
+        int cA = a.isTheta() ? colOf[a.thetaIndex()] : -1;
+        double dv = a.isTheta() && sens ? dLinear[a.thetaIndex()] : 0.0;
+        int nc = st.nc;
+        if (d.state() >= 0) {
+            int i = d.state();
+            double size = d.sizeParameter() >= 0 ? st.pEff[d.sizeParameter()] : 1.0;
+            st.y[i] = (d.add() ? st.y[i] : 0.0) + v * size;
+            if (sens) {
+                for (int c = 0; c < nc; c++) {
+                    double ds = (c == cA ? dv * size : 0.0)
+                            + (d.sizeParameter() >= 0 ? v * st.dPeff[d.sizeParameter() * nc + c] : 0.0);
+                    st.s[c * n + i] = (d.add() ? st.s[c * n + i] : 0.0) + ds;
+                }
+            }
+        } else {
+            int k = d.parameter();
+            st.pEff[k] = (d.add() ? st.pEff[k] : 0.0) + v;
+            if (sens) {
+                for (int c = 0; c < nc; c++) {
+                    st.dPeff[k * nc + c] = (d.add() ? st.dPeff[k * nc + c] : 0.0) + (c == cA ? dv : 0.0);
+                }
+                st.sys.setColumns(st.dPeff);
+            }
+        }
+        if (model.fastReactionCount() > 0) {
+            model.equilibrateFast(d.time(), st.y, st.pEff);
+            if (sens) {
+                model.projectFastSensitivities(d.time(), st.y, st.pEff, st.s, st.dPeff, nc);
+            }
         }
     }
 
@@ -298,8 +383,8 @@ final class ExperimentSimulation {
             }
             BdfSession ses = integrator.start(st.sys, 0.0, st.y, st.pEffPre, null, sens ? st.sensParams : null,
                     sens ? st.s : null);
-            steady.run(ses, model, st.pEffPre, st.y, sens ? st.s : null, "pre-equilibration condition '"
-                    + pre.id() + "'");
+            steady.run(ses, model, st.sys, st.sensParams, st.pEffPre, st.y, sens ? st.s : null,
+                    "pre-equilibration condition '" + pre.id() + "'");
             initial(st, sim, linear, dLinear, sens, st.yAux, st.pEff, st.sAux, st.dPeff);
             for (int i : sim.reinit()) {
                 st.y[i] = st.yAux[i];
@@ -331,13 +416,19 @@ final class ExperimentSimulation {
      * Simulator#lastTimeSwitch}, up to {@link SteadyState#maxTime}) and a steady-state run from there (see the class
      * comment). As on the direct route, a time not after the current one is sampled at the current time.
      */
-    private void runOnSimulator(State st, boolean sens, double[] times, Sample sample) {
+    private void runOnSimulator(State st, boolean sens, double t0, double[] allTimes, int from, int to, double stop,
+                                Sample sample) {
+        double[] times = Arrays.copyOfRange(allTimes, from, Double.isNaN(stop) ? to : to + 1);
+        if (!Double.isNaN(stop)) {
+            times[to - from] = stop;
+        }
         int nf = 0;
-        double tLast = 0.0;
+        double tLast = t0;
         while (nf < times.length && times[nf] != Double.POSITIVE_INFINITY) {
             tLast = Math.max(tLast, times[nf]);
             nf++;
         }
+        int ns = Double.isNaN(stop) ? nf : nf - 1;
         double[] simTimes = times;
         if (nf < times.length) {
             // the steady state lies after the last switch on time: until then the state can be at rest
@@ -353,19 +444,20 @@ final class ExperimentSimulation {
         double[] ys = new double[nr * n];
         double[] ss = sens ? new double[nr * nc * n] : null;
         if (sens) {
-            simulator.simulateSensitivities(simTimes, st.sys, 0.0, st.y, st.pEff, st.sensParams, st.s, st.dPeff, ys, ss);
+            simulator.simulateSensitivities(simTimes, st.sys, t0, st.y, st.pEff, st.sensParams, st.s, st.dPeff, ys,
+                    ss);
         } else {
-            simulator.simulateStates(simTimes, st.sys, 0.0, st.y, st.pEff, ys);
+            simulator.simulateStates(simTimes, st.sys, t0, st.y, st.pEff, ys);
         }
-        double t = 0.0;
+        double t = t0;
         for (int i = 0; i < nr; i++) {
             t = Math.max(t, simTimes[i]);
             System.arraycopy(ys, i * n, st.y, 0, n);
             if (sens) {
                 System.arraycopy(ss, i * nc * n, st.s, 0, nc * n);
             }
-            if (i < nf) {
-                sample.at(i, t);
+            if (i < ns) {
+                sample.at(from + i, t);
             }
         }
         if (nf == times.length) {
@@ -373,9 +465,10 @@ final class ExperimentSimulation {
         }
         BdfSession ses = integrator.start(st.sys, tLast, st.y, st.pEff, null, sens ? st.sensParams : null,
                 sens ? st.s : null);
-        steady.run(ses, model, st.pEff, st.y, sens ? st.s : null, "condition '" + sim.id() + "'");
+        steady.run(ses, model, st.sys, st.sensParams, st.pEff, st.y, sens ? st.s : null,
+                "condition '" + sim.id() + "'");
         for (int i = nf; i < times.length; i++) {
-            sample.at(i, Double.POSITIVE_INFINITY);
+            sample.at(from + i, Double.POSITIVE_INFINITY);
         }
     }
 

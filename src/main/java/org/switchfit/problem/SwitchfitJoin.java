@@ -7,6 +7,7 @@ import java.util.LinkedHashSet;
 import java.util.List;
 import java.util.Map;
 import java.util.Set;
+import org.switchfit.data.Dose;
 import org.switchfit.data.EstimatedParameter;
 import org.switchfit.data.Experiment;
 import org.switchfit.data.NoiseModel;
@@ -47,11 +48,6 @@ final class SwitchfitJoin {
                 if (original.species(id) != null) {
                     speciesInit.add(id);
                 }
-            }
-            if (!e.doses().isEmpty()) {
-                throw UserInputException.of(e.doses().get(0).location(), "experiment '%s': doses are not yet "
-                        + "supported by the fitting objective; model the dose as an SBML event or split the "
-                        + "experiment", e.id());
             }
         }
         Model model = ProblemLoader.withSpeciesInitParameters(original, speciesInit);
@@ -174,9 +170,68 @@ final class SwitchfitJoin {
         for (SwitchfitProblem.DataFile df : sp.dataFiles()) {
             inputs.add(df.file());
         }
+        Map<String, List<DoseStep>> doses = new HashMap<>();
+        for (Experiment ex : sp.experiments()) {
+            List<DoseStep> list = new ArrayList<>();
+            for (Dose d : ex.doses()) {
+                list.add(dose(d, ex.id(), model, cm, sources, modelFile)); // checked even without data
+            }
+            doses.put(ex.id(), list);
+        }
+        List<SimulationExperiment> experiments = new ArrayList<>();
+        for (SimulationExperiment se : ProblemLoader.experiments(expIndex, expKeys, meas)) {
+            experiments.add(se.withDoses(doses.get(se.id())));
+        }
         return new EstimationProblem(sp.problemFile(), inputs, sp.modelFile(), model, cm, free, conditions,
-                ProblemLoader.experiments(expIndex, expKeys, meas), observables, meas, globalIds, globalSources,
-                0, 0, extra);
+                experiments, observables, meas, globalIds, globalSources, 0, 0, extra);
+    }
+
+    /**
+     * Resolves a dose: a state (species, or a parameter or compartment that is a state), else an entry of the model
+     * parameter vector. A species is dosed in its SBML units (concentration unless hasOnlySubstanceUnits), as an
+     * SBML event assignment would; when its state is its amount, the amount is converted with the size of its
+     * compartment, which must then be a constant compartment. A compartment keeps the amounts of its species (SBML
+     * semantics), so one that holds a species whose state is its concentration is refused.
+     */
+    private static DoseStep dose(Dose d, String exp, Model model, CompiledModel cm, Map<String, ValueSource> sources,
+                                 String modelFile) {
+        OdeForm form = cm.form();
+        String id = d.target();
+        SourceLocation loc = d.location();
+        ValueSource amount = value(d.amount(), sources, cm, loc, exp);
+        boolean add = d.action() == Dose.Action.ADD;
+        if (model.compartment(id) != null) {
+            for (int i = 0; i < form.stateIds().size(); i++) {
+                String sid = form.stateIds().get(i);
+                if (form.stateKind(i) == OdeForm.StateKind.SPECIES_CONCENTRATION
+                        && model.species(sid).compartment().equals(id)) {
+                    throw UserInputException.of(loc, "experiment '%s': a dose to compartment '%s' is not supported "
+                            + "because species '%s' in it is integrated as a concentration; dose a parameter "
+                            + "instead", exp, id, sid);
+                }
+            }
+        }
+        int si = form.stateIndex(id);
+        if (si >= 0) {
+            int size = -1;
+            if (form.stateKind(si) == OdeForm.StateKind.SPECIES_AMOUNT && !model.species(id).hasOnlySubstanceUnits()) {
+                String comp = model.species(id).compartment();
+                size = cm.parameterIndex(comp);
+                if (size < 0 || form.stateIndex(comp) >= 0) {
+                    throw UserInputException.of(loc, "experiment '%s': species '%s' is dosed as a concentration but "
+                            + "the size of its compartment '%s' changes during the simulation; dose a species in a "
+                            + "constant compartment", exp, id, comp);
+                }
+            }
+            return new DoseStep(d.time(), si, -1, add, amount, size, loc);
+        }
+        int k = cm.parameterIndex(id);
+        if (k < 0 || model.species(id) != null) {
+            throw UserInputException.of(loc, "experiment '%s': dose target '%s' is not a species, parameter or "
+                    + "compartment of model %s that the simulation can change (quantities defined by assignment "
+                    + "rules cannot be dosed); correct the target", exp, id, modelFile);
+        }
+        return new DoseStep(d.time(), -1, k, add, amount, -1, loc);
     }
 
     private static Expr ref(ValueRef v, ProblemLoader.SymbolResolver r, String obs, SourceLocation loc) {

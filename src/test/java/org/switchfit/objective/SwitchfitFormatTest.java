@@ -84,13 +84,17 @@ class SwitchfitFormatTest {
     }
 
     @Test
-    void dosesAreReportedAsUnsupported() throws IOException {
+    void doseToAnUnknownTargetIsReportedOnOneLine() throws IOException {
         Path yaml = ours("{type: gaussian, sigma: 0.1}", "");
         String text = Files.readString(yaml).replace("  - id: e2\n", "  - id: e2\n    doses:\n"
-                + "      - {at: 1, target: X, add: 0.5}\n");
+                + "      - {at: 1, target: Y, add: 0.5}\n");
         Files.writeString(yaml, text);
         UserInputException e = assertThrows(UserInputException.class, () -> ProblemLoader.load(yaml));
         assertFalse(e.getMessage().contains("\n"));
-        assertTrue(e.getMessage().contains("doses"), e.getMessage());
+        assertTrue(e.getMessage().contains("dose target 'Y'"), e.getMessage());
+        assertTrue(e.getMessage().contains("problem.yaml, line"), e.getMessage());
+        // the same dose to the species X loads (doses are simulated; see DoseTest)
+        Files.writeString(yaml, text.replace("target: Y", "target: X"));
+        assertEquals(1, ProblemLoader.load(yaml).experiments().get(1).doses().size());
     }
 }
