@@ -155,6 +155,51 @@ final class CurveCorrector {
         return cos >= MIN_COS_TURN && distance(uPred, uNew, n1) <= MAX_CORRECTION * h ? iters : -1;
     }
 
+    /**
+     * {@link #step} with the arclength measured in the weighted norm {@code |W du|}, W = diag(w) (w &gt; 0): the
+     * unit tangent in the weighted variables v = W u is {@code tv = W t / |W t|}, the predictor
+     * {@code u + h W⁻¹ tv}, the corrector's hyperplane {@code (W tv)ᵀ (u - uPred) = 0} (so h, minStep and the
+     * turn and correction limits are all in the weighted norm). With w = 1 this is {@link #step}.
+     *
+     * @param w      weights per unknown (length {@link #size()})
+     * @param border scratch (length {@link #size()})
+     */
+    int stepWeighted(double[] u, double[] t, double[] w, double h, double minStep, double[] uPred, double[] border,
+                     double[] uNew, double[] tNew) {
+        double nt = 0;
+        for (int i = 0; i < n1; i++) {
+            nt += (w[i] * t[i]) * (w[i] * t[i]);
+        }
+        nt = Math.sqrt(nt);
+        if (!(nt > 0) || !Double.isFinite(nt)) {
+            return -1;
+        }
+        for (int i = 0; i < n1; i++) {
+            double tv = w[i] * t[i] / nt;
+            uPred[i] = u[i] + h * tv / w[i];
+            border[i] = w[i] * tv;
+        }
+        int iters = correct(uPred, border, uNew);
+        if (iters <= 0 || !tangent(uNew, t, tNew)) {
+            return -1;
+        }
+        if (h <= 2 * minStep) {
+            return iters;
+        }
+        double dot = 0;
+        double nn = 0;
+        double dist = 0;
+        for (int i = 0; i < n1; i++) {
+            double a = w[i] * tNew[i];
+            dot += w[i] * t[i] * a;
+            nn += a * a;
+            double d = w[i] * (uPred[i] - uNew[i]);
+            dist += d * d;
+        }
+        double cos = dot / (nt * Math.sqrt(nn));
+        return cos >= MIN_COS_TURN && Math.sqrt(dist) <= MAX_CORRECTION * h ? iters : -1;
+    }
+
     /** Euclidean distance of the first len entries. */
     static double distance(double[] a, double[] b, int len) {
         double s = 0;

@@ -121,6 +121,48 @@ class SwitchCommandsTest {
         }
     }
 
+    /**
+     * The invented toggle switch of the test resources (U' = (a1 + ind)/(1 + V³) - U, V' = a2/(1 + U³) - V, a1 = 0.2,
+     * a2 = 3): its states span two orders of magnitude between the branches (U from 0.007 to 12), which in an
+     * unweighted arclength exhausted the default 2000 points before the second fold. Closed form, derived by hand:
+     * on the steady states ind(U) = U (1 + V(U)³) - a1 with V(U) = a2/(1 + U³), so the folds are the stationary
+     * points of ind(U), dind/dU = 1 + V³ + 3 U V² V'(U) with V' = -3 a2 U²/(1 + U³)², found here by bisection.
+     */
+    @Test
+    void toggleFoldsAcrossOrdersOfMagnitudeMatchClosedForm() throws Exception {
+        String model = Path.of(SwitchCommandsTest.class.getResource("/org/switchfit/cli/toggle/toggle.xml").toURI())
+                .toString();
+        BranchesFile f = branches(model, "--vary", "ind", "--from", "0", "--to", "20");
+        double[] v = foldValues(f);
+        assertEquals(2, v.length, "both folds within the default point budget");
+        java.util.function.DoubleUnaryOperator slope = u -> {
+            double w = 3 / (1 + u * u * u);
+            double dw = -3 * 3 * u * u / ((1 + u * u * u) * (1 + u * u * u));
+            return 1 + w * w * w + 3 * u * w * w * dw;
+        };
+        double[] expected = new double[2];
+        double[][] brackets = {{1.0, 3.0}, {0.3, 1.0}}; // switch-off (minimum of ind), switch-on (maximum)
+        for (int k = 0; k < 2; k++) {
+            double lo = brackets[k][0];
+            double hi = brackets[k][1];
+            for (int it = 0; it < 200; it++) {
+                double mid = 0.5 * (lo + hi);
+                if ((slope.applyAsDouble(mid) > 0) == (slope.applyAsDouble(lo) > 0)) {
+                    lo = mid;
+                } else {
+                    hi = mid;
+                }
+            }
+            double u = 0.5 * (lo + hi);
+            double w = 3 / (1 + u * u * u);
+            expected[k] = u * (1 + w * w * w) - 0.2;
+        }
+        assertEquals(expected[0], v[0], 1e-8 * expected[0]); // refined folds, 1e-8 relative margin as above
+        assertEquals(expected[1], v[1], 1e-8 * expected[1]);
+        assertEquals(2, f.branches().get(0).points().stream().filter(p -> p.value() == 0.0 || p.value() == 20.0)
+                .count(), "the branch reaches both ends of the range");
+    }
+
     @Test
     void demoModelFoldsMatchIndependentValues() {
         BranchesFile f = branches(DEMO, "--vary", "stimulus", "--from", "0", "--to", "4");
