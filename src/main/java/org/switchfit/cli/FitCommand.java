@@ -132,6 +132,7 @@ public final class FitCommand implements Callable<Integer> {
         }
         o.printf(Locale.ROOT, "best NLL %.10g; %d of %d starts within %.1f of it; results in %s%n", result.bestNll(),
                 result.startsNearBest(), starts, FitResult.NEAR_BEST_TOLERANCE, out);
+        printParameters(o, problem, result.bestTheta());
         printThresholds(o, switching);
         o.flush();
         return 0;
@@ -163,6 +164,24 @@ public final class FitCommand implements Callable<Integer> {
             };
         }
         return FitProblem.of(objective, ids, lo, hi).withScales(sc);
+    }
+
+    /**
+     * The best parameters, one per line, with a note for values on a bound (within 1e-6 of the estimation-scale
+     * range: the optimizer's bounds are exact, so such a value is the bound, and its profile will be open there).
+     */
+    private static void printParameters(PrintWriter o, EstimationProblem problem, double[] th) {
+        int w = 9;
+        for (FreeParameter p : problem.parameters()) {
+            w = Math.max(w, p.id().length());
+        }
+        for (int k = 0; k < th.length; k++) {
+            FreeParameter p = problem.parameters().get(k);
+            double range = p.thetaUpper() - p.thetaLower();
+            String note = th[k] <= p.thetaLower() + 1e-6 * range ? "  (at the lower bound)"
+                    : th[k] >= p.thetaUpper() - 1e-6 * range ? "  (at the upper bound)" : "";
+            o.printf(Locale.ROOT, "  %-" + w + "s %.6g%s%n", p.id(), p.toLinear(th[k]), note);
+        }
     }
 
     /**

@@ -146,6 +146,8 @@ class FitCheckCommandTest {
         StringWriter err = new StringWriter();
         assertEquals(0, run(o, err, "fit", yaml.toString(), "--starts", "3", "--seed", "1", "--threads", "1",
                 "--quiet", "--out", out.toString()), err.toString());
+        assertEquals(3, o.toString().lines().filter(l -> l.matches("  (a1|a2|d) +[0-9.e+-]+")).count(),
+                "one line per fitted parameter: " + o);
         List<String> printed = o.toString().lines().filter(l -> l.startsWith("switch-")).toList();
         assertEquals(2, printed.size(), o.toString());
         assertTrue(printed.get(0).startsWith("switch-on threshold of ind in rest: model "), printed.get(0));
