@@ -18,6 +18,9 @@ final class CurveCorrector {
     private final LinearSolver lu;
     private final double tolerance;
     private final int maxIterations;
+    /** Unit weights and scratch of {@link #step}. */
+    private final double[] ones;
+    private final double[] border;
 
     CurveCorrector(CurveProblem problem, double tolerance, int maxIterations) {
         this.problem = problem;
@@ -41,6 +44,9 @@ final class CurveCorrector {
         }
         this.tolerance = tolerance;
         this.maxIterations = maxIterations;
+        this.ones = new double[n1];
+        java.util.Arrays.fill(ones, 1.0);
+        this.border = new double[n1];
     }
 
     int size() {
@@ -138,21 +144,7 @@ final class CurveCorrector {
      * @return the corrector's iterations when the step is regular, else -1
      */
     int step(double[] u, double[] t, double h, double minStep, double[] uPred, double[] uNew, double[] tNew) {
-        for (int i = 0; i < n1; i++) {
-            uPred[i] = u[i] + h * t[i];
-        }
-        int iters = correct(uPred, t, uNew);
-        if (iters <= 0 || !tangent(uNew, t, tNew)) {
-            return -1;
-        }
-        if (h <= 2 * minStep) {
-            return iters;
-        }
-        double cos = 0;
-        for (int i = 0; i < n1; i++) {
-            cos += t[i] * tNew[i];
-        }
-        return cos >= MIN_COS_TURN && distance(uPred, uNew, n1) <= MAX_CORRECTION * h ? iters : -1;
+        return stepWeighted(u, t, ones, h, minStep, uPred, border, uNew, tNew);
     }
 
     /**
