@@ -160,6 +160,18 @@ final class FitReportTables {
             }
         }
         r.table(t);
+        if (br != null && !br.thresholds().isEmpty()) {
+            Table m = new Table("Measured switching thresholds against the fitted model's folds", "threshold",
+                    "direction", "measured", "sigma", "model fold", "model", "residual");
+            for (BranchesFile.Threshold th : br.thresholds()) {
+                BranchesFile.Special s = th.fold() == null ? null : specials.get(th.fold());
+                m.row(th.id(), th.direction(), th.value(), th.sigma(), s == null ? "none matched" : s.id(),
+                        s == null ? null : s.value(), s == null ? null : (th.value() - s.value()) / th.sigma());
+            }
+            r.table(m);
+            r.paragraph("Residual = (measured − model) / sigma; the fit's own values are in "
+                    + "switching_residuals.csv.");
+        }
         if (total > 0) {
             r.paragraph(String.format(Locale.ROOT, "%d of %d profiled fold positions are pinned down (interval "
                     + "closed on both sides). Relative width = (upper \u2212 lower) / |value|.", pinned, total));

@@ -69,6 +69,13 @@ class FitReportTest {
         // fixture's se = 0.1 and value 2 (derived by hand from its quadratic profile); shown with %.6g
         double width = 2 * Math.sqrt(2 * SyntheticFitDirectory.HALF_CHI2) * 0.1 / 2;
         assertEquals(String.format(java.util.Locale.ROOT, "%.6g", width), foldRows.get(0).get(5));
+        // measured thresholds against the model: "up" (1.9 +- 0.15) matched to fold1 at p = 2, residual
+        // (1.9 - 2) / 0.15 (by hand); "down" matched to no fold
+        List<List<String>> meas = tableRows(doc, "Measured switching thresholds");
+        assertEquals(List.of("up", "up", "1.90000", "0.150000", "fold1", "2.00000",
+                String.format(java.util.Locale.ROOT, "%.6g", (1.9 - 2) / 0.15)), meas.get(0));
+        assertEquals("none matched", meas.get(1).get(4));
+        assertEquals("", meas.get(1).get(6));
         assertTrue(html.contains("rank 2 of 3 free parameters; directions the data cannot see: +0.707 log10(k_on)"));
         // prediction-profile table
         List<List<String>> pred = tableRows(doc, "Predictions with 95 %");
