@@ -33,9 +33,10 @@ import picocli.CommandLine.Spec;
  * {@code OdeForm}.
  */
 @Command(name = "branches", mixinStandardHelpOptions = true,
-        footer = {"", "Examples:", "  switchfit branches models/stress_switch.xml --vary stimulus --from 0 --to 4 --json branches.json", "  switchfit branches fits/mine/model_fitted.xml --vary stimulus --from 0 --to 4 --set k_rec=2"},
+        footer = {"", "Examples:", "  switchfit branches models/stress_switch.xml --vary stimulus --from 0 --to 4 --json branches.json", "  switchfit branches fits/mine --vary stimulus --from 0 --to 4", "  switchfit branches fits/mine/model_fitted.xml --vary stimulus --from 0 --to 4 --set k_rec=2"},
         description = "Trace the steady states of an SBML model against one control quantity and report its folds "
-                + "(switching points) and Hopf points.")
+                + "(switching points) and Hopf points. Given a fit folder, the fitted model is traced and "
+                + "branches.json is written into the folder with the measured switching thresholds beside the folds.")
 public final class BranchesCommand implements Callable<Integer> {
 
     @Spec
@@ -135,9 +136,15 @@ public final class BranchesCommand implements Callable<Integer> {
                     + " states, above the eigenvalue limit of the continuation settings"
                     : "stability not computed: the eigenvalue iteration did not converge");
         }
+        Path jsonOut = setup.output(json, "branches.json");
+        if (setup.fitDir() != null) {
+            file = withMeasuredThresholds(file, b, out);
+        }
         out.flush();
-        if (json != null) {
-            Json.write(json, file);
+        if (jsonOut != null) {
+            Json.write(jsonOut, file);
+            out.printf("branches written to %s%n", jsonOut);
+            out.flush();
         }
         if (csv != null) {
             AtomicFiles.writeString(csv, toCsv(file));
@@ -187,6 +194,57 @@ public final class BranchesCommand implements Callable<Integer> {
                 sc.scaleControl(cs.upperBound())).withMaxPoints(cs.maxPoints())
                 .withLinearAlgebra(cs.linearAlgebra());
         return setup.branch(sc, sc.scaleState(s.x), sc.scaleParameters(s.q), s.control.index(), scs);
+    }
+
+    /**
+     * The branch file with the measured switching thresholds of the fit's problem attached (a fit directory was
+     * given): those of the varied control from experiments that set nothing but the control (others were measured
+     * on another model than the one traced and are listed as skipped), each matched to the branch's fold of its
+     * direction (switch-on: a fold where λ turns back from increasing, MAXIMUM; switch-off: MINIMUM; the last such
+     * fold when there are several). One line per threshold is printed.
+     */
+    private BranchesFile withMeasuredThresholds(BranchesFile file, Branch b, PrintWriter out) {
+        Path problemFile = FitDirectoryInput.problemFile(setup.fitDir());
+        String text;
+        try {
+            text = java.nio.file.Files.readString(problemFile);
+        } catch (java.io.IOException e) {
+            throw new UserInputException(org.switchfit.util.SourceLocation.ofFile(problemFile.toString()),
+                    "cannot be read (" + e.getMessage() + "); check the path", e);
+        }
+        if (!text.contains("switchfit_format")) {
+            return file; // PEtab problems hold no switching thresholds
+        }
+        org.switchfit.data.SwitchfitProblem sp = org.switchfit.data.ProblemFileReader.read(problemFile);
+        Map<String, String> foldOf = new LinkedHashMap<>();
+        List<BranchesFile.Special> folds = file.folds().stream().filter(x -> x.kind() == BranchesFile.Kind.FOLD)
+                .toList();
+        for (int i = 0; i < b.folds().size() && i < folds.size(); i++) {
+            foldOf.put(b.folds().get(i).kind() == Fold.Kind.MAXIMUM ? "up" : "down", folds.get(i).id());
+        }
+        List<BranchesFile.Threshold> th = new ArrayList<>();
+        int n = 0;
+        for (org.switchfit.data.SwitchingThreshold t : sp.thresholds()) {
+            if (!t.control().equals(setup.vary)) {
+                continue;
+            }
+            String dir = t.direction() == org.switchfit.data.SwitchingThreshold.Direction.UP ? "up" : "down";
+            org.switchfit.data.Experiment e = sp.experiment(t.experiment()).orElse(null);
+            if (e == null || !e.initialValues().isEmpty() || e.parameterValues().keySet().stream()
+                    .anyMatch(k -> !k.equals(setup.vary))) {
+                out.printf(Locale.ROOT, "measured switch-%s threshold %.6g of experiment '%s' not attached: the "
+                        + "experiment sets other values than %s, so it measures another model%n",
+                        dir.equals("up") ? "on" : "off", t.value(), t.experiment(), setup.vary);
+                continue;
+            }
+            String fold = foldOf.get(dir);
+            th.add(new BranchesFile.Threshold(t.experiment() + "/" + dir + "/" + (++n), t.value(), t.sigma(), dir,
+                    fold));
+            out.printf(Locale.ROOT, "measured switch-%s threshold %.6g +- %.3g (%s): %s%n", dir.equals("up") ? "on"
+                    : "off", t.value(), t.sigma(), t.experiment(), fold == null ? "no fold of that direction on the "
+                    + "branch" : "compared with " + fold);
+        }
+        return new BranchesFile(file.control(), file.range(), file.stateIds(), file.folds(), file.branches(), th);
     }
 
     /**

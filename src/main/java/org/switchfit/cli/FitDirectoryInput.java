@@ -65,17 +65,7 @@ record FitDirectoryInput(Path dir, EstimationProblem problem, SolverSettings set
             throw new UserInputException(SourceLocation.ofFile(result.toString()), "records no successful start (best"
                     + " NLL is null); re-run 'switchfit fit' with more starts or other bounds before profiling");
         }
-        Path problemFile = Path.of(prob.asText());
-        if (!problemFile.isAbsolute() && !Files.exists(problemFile) && dir.getParent() != null) {
-            Path alt = dir.getParent().resolve(problemFile);
-            problemFile = Files.exists(alt) ? alt : problemFile;
-        }
-        if (!Files.exists(problemFile)) {
-            throw new UserInputException(SourceLocation.ofFile(result.toString()), "names problem file '"
-                    + prob.asText() + "', which does not exist (relative to the working directory or to the fit "
-                    + "directory's parent); run from the folder the fit ran in");
-        }
-        EstimationProblem problem = ProblemLoader.load(problemFile);
+        EstimationProblem problem = ProblemLoader.load(resolveProblem(dir, result, prob.asText()));
         JsonNode st = root.path("settings");
         double rtol = st.path("rtol").asDouble(1e-8);
         double atol = st.path("atol").asDouble(1e-12);
@@ -95,6 +85,44 @@ record FitDirectoryInput(Path dir, EstimationProblem problem, SolverSettings set
         }
         double nll = objective.evaluate(theta, new double[objective.residualCount()], null);
         return new FitDirectoryInput(dir, problem, settings, objective, fp, theta, best.asDouble(), nll);
+    }
+
+    /**
+     * The problem file a fit directory's {@code result.json} names (as {@link #load} resolves it), without loading
+     * the problem.
+     *
+     * @throws UserInputException when result.json is missing, unreadable or names no existing problem file
+     */
+    static Path problemFile(Path dir) {
+        Path result = dir.resolve("result.json");
+        JsonNode prob;
+        try {
+            prob = Json.mapper().readTree(result.toFile()).get("problem");
+        } catch (IOException e) {
+            throw new UserInputException(SourceLocation.ofFile(result.toString()), "cannot be read ("
+                    + e.getMessage().lines().findFirst().orElse("") + "); give the --out folder of a finished "
+                    + "'switchfit fit' run", e);
+        }
+        if (prob == null || !prob.isTextual()) {
+            throw new UserInputException(SourceLocation.ofFile(result.toString()), "lacks 'problem'; it was not "
+                    + "written by 'switchfit fit': re-run the fit");
+        }
+        return resolveProblem(dir, result, prob.asText());
+    }
+
+    /** The recorded problem path, relative to the working directory or else to the fit directory's parent. */
+    private static Path resolveProblem(Path dir, Path result, String recorded) {
+        Path problemFile = Path.of(recorded);
+        if (!problemFile.isAbsolute() && !Files.exists(problemFile) && dir.getParent() != null) {
+            Path alt = dir.getParent().resolve(problemFile);
+            problemFile = Files.exists(alt) ? alt : problemFile;
+        }
+        if (!Files.exists(problemFile)) {
+            throw new UserInputException(SourceLocation.ofFile(result.toString()), "names problem file '"
+                    + recorded + "', which does not exist (relative to the working directory or to the fit "
+                    + "directory's parent); run from the folder the fit ran in");
+        }
+        return problemFile;
     }
 
     /** Whether the re-evaluated NLL differs from the recorded one by more than 1e-6 relative (+1e-6 absolute). */

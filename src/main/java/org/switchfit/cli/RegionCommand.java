@@ -90,8 +90,9 @@ public final class RegionCommand implements Callable<Integer> {
                 Math.abs(region.area() * c1.scale() * c2.scale()), c1.label(), c2.label(),
                 region.closedByChord() ? " (polygon closed by a chord)" : "");
         out.flush();
-        if (json != null) {
-            Json.write(json, file);
+        Path jsonOut = setup.output(json, "region.json");
+        if (jsonOut != null) {
+            Json.write(jsonOut, file);
         }
         return 0;
     }

@@ -79,8 +79,9 @@ public final class SweepCommand implements Callable<Integer> {
                     label, j.value(), j.before(), j.after());
         }
         out.flush();
-        if (json != null) {
-            Json.write(json, file);
+        Path jsonOut = setup.output(json, "sweep.json");
+        if (jsonOut != null) {
+            Json.write(jsonOut, file);
         }
         if (csv != null) {
             StringBuilder sb = new StringBuilder("direction,").append(org.switchfit.report.Csv.field(label))

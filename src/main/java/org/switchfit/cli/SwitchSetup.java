@@ -27,8 +27,34 @@ final class SwitchSetup {
     /** Rounds of rules 4 and 5 of {@link ActiveNetwork} (each recomputes the laws). */
     private static final int MAX_FREEZE_ROUNDS = 6;
 
-    @Parameters(index = "0", paramLabel = "MODEL.xml", description = "SBML model file")
+    @Parameters(index = "0", paramLabel = "MODEL", description = "SBML model file, or the folder of a finished "
+            + "'switchfit fit' run: its model_fitted.xml is analysed and the results are written into the folder "
+            + "(unless --json names another file)")
     Path modelFile;
+
+    /** The fit directory when the model argument is one, else null. */
+    Path fitDir() {
+        return modelFile != null && java.nio.file.Files.isDirectory(modelFile) ? modelFile : null;
+    }
+
+    /** The SBML file to load: the model argument, or model_fitted.xml of a fit directory. */
+    Path sbmlFile() {
+        Path dir = fitDir();
+        if (dir == null) {
+            return modelFile;
+        }
+        Path fitted = dir.resolve("model_fitted.xml");
+        if (!java.nio.file.Files.isRegularFile(fitted)) {
+            throw new UserInputException(SourceLocation.ofFile(dir.toString()), "is a folder without "
+                    + "model_fitted.xml; give an SBML file or the --out folder of a finished 'switchfit fit' run");
+        }
+        return fitted;
+    }
+
+    /** The output file: {@code given}, else {@code name} inside the fit directory, else null. */
+    Path output(Path given, String name) {
+        return given != null ? given : fitDir() == null ? null : fitDir().resolve(name);
+    }
 
     @Option(names = "--vary", required = true, paramLabel = "ID", description = "control quantity: a parameter "
             + "or compartment id, init:SPECIES (initial value) or total:SPECIES (conservation total)")
@@ -67,7 +93,7 @@ final class SwitchSetup {
     Start start() {
         checkRange("--from", "--to", from, to);
         Start s = new Start();
-        s.sm = SwitchModel.load(modelFile, s.timing);
+        s.sm = SwitchModel.load(sbmlFile(), s.timing);
         double[] decl = s.sm.declared(sets);
         double[][] ini = s.sm.initial(decl);
         s.pEff = ini[1];
@@ -118,7 +144,7 @@ final class SwitchSetup {
         try {
             s.x = s.sm.steadyState(s.sm.reduced.reducedState(s.startState), s.q, s.pEff);
         } catch (ContinuationException e) {
-            throw new UserInputException(SourceLocation.ofFile(modelFile.toString()), String.format(Locale.ROOT,
+            throw new UserInputException(SourceLocation.ofFile(sbmlFile().toString()), String.format(Locale.ROOT,
                     "no steady state found at %s = %.6g (%s); check the range --from/--to and the --set values, "
                             + "or start inside a range where the model settles", vary, s.startValue, e.getMessage()));
         }
@@ -155,7 +181,7 @@ final class SwitchSetup {
         try {
             return new PseudoArclength(cs).trace(sys, x, q, k);
         } catch (ContinuationException e) {
-            throw new UserInputException(SourceLocation.ofFile(modelFile.toString()), String.format(Locale.ROOT,
+            throw new UserInputException(SourceLocation.ofFile(sbmlFile().toString()), String.format(Locale.ROOT,
                     "continuation in %s over [%.6g, %.6g] failed: %s; try a narrower range or other --set values",
                     vary, from, to, e.getMessage()));
         }

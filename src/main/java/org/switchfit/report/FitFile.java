@@ -29,7 +29,7 @@ public final class FitFile<T> {
             new FitFile<>("sweep.json", SweepFile.class, "switchfit sweep");
     /** {@code phaseplane.json}: nullclines and trajectories of two states. */
     public static final FitFile<PhasePlaneFile> PHASE_PLANE =
-            new FitFile<>("phaseplane.json", PhasePlaneFile.class, "switchfit fit");
+            new FitFile<>("phaseplane.json", PhasePlaneFile.class, "switchfit demo");
 
     /** All files, in report order. */
     public static final List<FitFile<?>> ALL = List.of(RESULT, TRAJECTORIES, PROFILES, BRANCHES, REGION, SWEEP,

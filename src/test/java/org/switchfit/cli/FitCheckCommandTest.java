@@ -168,6 +168,32 @@ class FitCheckCommandTest {
             assertTrue(Math.abs(meas - model) < 2 * sigma, line);
             assertEquals((meas - model) / sigma, Double.parseDouble(f[9]), 1e-12);
         }
+        // the fit directory as the model of branches: model_fitted.xml traced, branches.json written into the
+        // folder with the measured thresholds attached to the folds of their direction
+        StringWriter bo = new StringWriter();
+        assertEquals(0, run(bo, err, "branches", out.toString(), "--vary", "ind", "--from", "0", "--to", "20",
+                "--quiet"), err.toString());
+        JsonNode br = read(out.resolve("branches.json"));
+        assertEquals(2, br.get("thresholds").size(), bo.toString());
+        for (JsonNode t : br.get("thresholds")) {
+            String fold = t.get("fold").asText();
+            JsonNode special = null;
+            for (JsonNode f : br.get("folds")) {
+                special = f.get("id").asText().equals(fold) ? f : special;
+            }
+            // the traced fold is the fitted model's threshold (switching_residuals.csv), up to the fold refinement
+            double model = Double.parseDouble(csv.get(t.get("direction").asText().equals("up") ? 1 : 2)
+                    .split(",")[7]);
+            assertEquals(model, special.get("value").asDouble(), 1e-8 * model, t.toString());
+        }
+        assertEquals(0, run(bo, err, "region", out.toString(), "--vary", "ind", "--from", "0", "--to", "20",
+                "--and", "a2", "--from2", "1", "--to2", "6", "--quiet"), err.toString());
+        assertTrue(Files.isRegularFile(out.resolve("region.json")));
+        Path empty = Files.createDirectories(dir.resolve("empty"));
+        StringWriter ee = new StringWriter();
+        assertEquals(Main.EXIT_USER_ERROR, run(bo, ee, "branches", empty.toString(), "--vary", "ind", "--from",
+                "0", "--to", "20"));
+        assertTrue(ee.toString().contains("without model_fitted.xml"), ee.toString());
     }
 
     private static JsonNode read(Path p) throws IOException {
