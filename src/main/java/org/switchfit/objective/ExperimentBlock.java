@@ -192,12 +192,13 @@ final class ExperimentBlock implements ResidualBlock {
 
     /**
      * States without sensitivities at each time (sorted, +inf only for models without events or delay()) into
-     * {@code y[i]} (new arrays), and p_eff of the simulation condition into {@code pEff} (length m), by the same
+     * {@code y[i]} (new arrays) and p_eff at each time into {@code pAt[i]} (new arrays, length m; doses can change it),
+     * by the same
      * {@link ExperimentSimulation} as the residuals, on this thread's state.
      *
      * @throws IntegrationException when the integration fails or no steady state is reached
      */
-    void states(double[] linear, double[] times, double[][] y, double[] pEff) {
+    void states(double[] linear, double[] times, double[][] y, double[][] pAt) {
         if (simulation.hasEvents()) {
             for (double t : times) {
                 if (t == Double.POSITIVE_INFINITY) {
@@ -207,8 +208,10 @@ final class ExperimentBlock implements ResidualBlock {
             }
         }
         ExperimentSimulation.State st = work.get().st;
-        simulation.run(st, linear, null, false, times, (i, t) -> y[i] = st.y.clone());
-        System.arraycopy(st.pEff, 0, pEff, 0, m);
+        simulation.run(st, linear, null, false, times, (i, t) -> {
+            y[i] = st.y.clone();
+            pAt[i] = Arrays.copyOf(st.pEff, m);
+        });
     }
 
     private double[] dLinear(EvaluationContext ctx) {

@@ -285,6 +285,9 @@ final class ExperimentSimulation {
         double t0 = 0.0;
         int from = 0;
         for (DoseStep d : doses) {
+            if (from == times.length) {
+                return; // no sample left: later doses change nothing that is read
+            }
             int to = from;
             while (to < times.length && times[to] < d.time()) {
                 to++;

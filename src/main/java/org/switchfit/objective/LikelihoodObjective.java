@@ -211,19 +211,24 @@ public final class LikelihoodObjective implements Objective {
                     + problem.experiments().get(experiment).id());
         }
         double[][] y = new double[times.length][];
-        double[] pEff = new double[problem.compiled().parameterCount()];
-        block.states(problem.toLinear(theta), times, y, pEff);
-        return new ExperimentStates(y, pEff);
+        double[][] pAt = new double[times.length][];
+        block.states(problem.toLinear(theta), times, y, pAt);
+        return new ExperimentStates(y, pAt);
     }
 
     /**
      * States of one experiment ({@link #experimentStates}).
      *
-     * @param states              {@code states[i]} the state vector at the i-th requested time
-     * @param effectiveParameters p_eff of the simulation condition (declared parameters after initial assignments),
-     *                            as the observable formulas read them
+     * @param states       {@code states[i]} the state vector at the i-th requested time
+     * @param parametersAt {@code parametersAt[i]} p_eff at the i-th requested time (declared parameters after initial
+     *                     assignments, as the observable formulas read them; doses of parameters change it)
      */
-    public record ExperimentStates(double[][] states, double[] effectiveParameters) {
+    public record ExperimentStates(double[][] states, double[][] parametersAt) {
+
+        /** p_eff at the first requested time (the simulation condition's, when no dose came before it). */
+        public double[] effectiveParameters() {
+            return parametersAt[0];
+        }
     }
 
     /**

@@ -115,9 +115,9 @@ public final class FittedTrajectories {
             int o = en.getKey();
             ObservableDef od = problem.observables().get(o);
             List<Measurement> ms = en.getValue();
-            fillQ(problem, q, sim.effectiveParameters(), m, ms.get(0), linear);
             double[] fitted = new double[grid.length];
             for (int k = 0; k < grid.length; k++) {
+                fillQ(problem, q, sim.parametersAt()[k], m, ms.get(0), linear);
                 problem.evaluateObservable(o, grid[k], sim.states()[k], q, hs);
                 fitted[k] = hs[0];
             }
@@ -127,7 +127,7 @@ public final class FittedTrajectories {
                     continue;
                 }
                 int k = Arrays.binarySearch(grid, me.time());
-                fillQ(problem, q, sim.effectiveParameters(), m, me, linear);
+                fillQ(problem, q, sim.parametersAt()[k], m, me, linear);
                 problem.evaluateObservable(o, me.time(), sim.states()[k], q, hs);
                 double sigma = Double.isFinite(me.fixedSigma()) ? me.fixedSigma() : hs[1];
                 data.add(new double[] {me.time(), me.value(), untransformedSd(od, me.value(), sigma)});

@@ -173,6 +173,24 @@ class DoseTest {
     }
 
     @Test
+    void plottedStatesSeeTheDosedParameterFromTheDoseOn() throws IOException {
+        LikelihoodObjective obj = LikelihoodObjective.of(ProblemLoader.load(problem(model(false), "")), TIGHT);
+        int infuse = -1;
+        for (int e = 0; e < obj.problem().experiments().size(); e++) {
+            infuse = obj.problem().experiments().get(e).id().equals("infuse") ? e : infuse;
+        }
+        double[] times = {0.5, 1.0, 2.0, 5.0};
+        LikelihoodObjective.ExperimentStates s = obj.experimentStates(infuse, obj.problem().nominalTheta(), times);
+        int u = obj.problem().compiled().parameterIndex("u");
+        double[] expectedU = {0, V, V, V}; // u := v at t = 1; a sample at the dose time sees the dose
+        for (int i = 0; i < times.length; i++) {
+            assertEquals(expectedU[i], s.parametersAt()[i][u], 0.0, "u at t = " + times[i]);
+            double x = closedForm("infuse", times[i])[0];
+            assertEquals(x * 2, s.states()[i][0], REL * x * 2, "amount of X (compartment size 2) at " + times[i]);
+        }
+    }
+
+    @Test
     void dosesMatchClosedFormsOnTheSimulatorRoute() throws IOException {
         EstimationProblem p = ProblemLoader.load(problem(model(true), ""));
         assertTrue(p.compiled().rhsSwitchCount() > 0, "the piecewise inflow must make a right-hand-side switch");
