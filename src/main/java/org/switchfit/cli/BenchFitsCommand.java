@@ -152,7 +152,8 @@ public final class BenchFitsCommand implements Callable<Integer> {
         try {
             store = new StartStore(out.resolve(name).resolve("starts"), resume, () -> new UserInputException(null,
                     "'" + out.resolve(name) + "' already holds finished starts; add --resume or choose another --out"
-                    + " folder"));
+                    + " folder"), StartStore.RunIdentity.of(problem.inputFiles(), solver.identity(starts, seed,
+                    false)));
             finished = store.finished();
             multistart.checkFinished(fp, null, finished);
         } catch (UserInputException e) {

@@ -85,7 +85,8 @@ public final class FitCommand implements Callable<Integer> {
         FitProblem fp = fitProblem(problem, objective);
         StartStore store = new StartStore(out.resolve("starts"), resume, () -> new UserInputException(
                 SourceLocation.ofFile(out.toString()), "already holds finished starts; add --resume to continue that "
-                + "run, or choose another --out folder"));
+                + "run, or choose another --out folder"), StartStore.RunIdentity.of(problem.inputFiles(),
+                solver.identity(starts, seed, nominalStart)));
         List<StartResult> finished = store.finished();
         Multistart ms = solver.multistart(starts, seed);
         double[] guess = nominalStart ? problem.nominalTheta() : null;

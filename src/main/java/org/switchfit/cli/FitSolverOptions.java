@@ -31,6 +31,20 @@ final class FitSolverOptions extends ToleranceOptions {
             + " optimizer's steps instead of holding them at their closed-form conditional optimum")
     boolean noClosedFormFactors;
 
+    /** The settings that change a start's result, for {@link StartStore.RunIdentity}. */
+    java.util.Map<String, String> identity(int starts, long seed, boolean nominalStart) {
+        java.util.Map<String, String> m = new java.util.LinkedHashMap<>();
+        m.put("starts", Integer.toString(starts));
+        m.put("seed", Long.toString(seed));
+        m.put("nominal start", Boolean.toString(nominalStart));
+        m.put("rtol", Double.toString(rtol));
+        m.put("atol", Double.toString(atol));
+        m.put("max iterations", Integer.toString(maxIterations));
+        m.put("cost tolerance", Double.toString(costTolerance));
+        m.put("closed-form factors", Boolean.toString(!noClosedFormFactors));
+        return m;
+    }
+
     /** The multistart of the run: Levenberg-Marquardt with {@code --max-iterations} and {@code --cost-tolerance}. */
     Multistart multistart(int starts, long seed) {
         if (!(costTolerance >= 0) || maxIterations < 1) {

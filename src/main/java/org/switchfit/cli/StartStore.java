@@ -31,12 +31,83 @@ final class StartStore {
      * @throws UserInputException from {@code refusal}
      */
     StartStore(Path dir, boolean resume, Supplier<UserInputException> refusal) {
+        this(dir, resume, refusal, null);
+    }
+
+    /**
+     * As {@link #StartStore(Path, boolean, Supplier)}, guarding resumed starts by the run's identity: the SHA-256 of
+     * every input file and the settings that change a start's result ({@link RunIdentity}), kept in
+     * {@code <dir>-run.json} beside the folder. A resumed run whose inputs or settings differ from those the stored
+     * starts were computed with is refused (reusing them would report results of other data under the new files'
+     * checksums), as is a folder of starts without that record.
+     *
+     * @param identity the run's identity, or null for no guard
+     */
+    StartStore(Path dir, boolean resume, Supplier<UserInputException> refusal, RunIdentity identity) {
         store = new ResultStore(dir);
+        Path record = dir.resolveSibling(dir.getFileName() + "-run.json");
         if (!store.keys().isEmpty()) {
             if (!resume) {
                 throw refusal.get();
             }
+            if (identity != null) {
+                identity.requireSameAs(record, dir);
+            }
             finished.addAll(store.readAll(StartResult.class).values());
+        }
+        if (identity != null) {
+            org.switchfit.report.Json.write(record, identity);
+        }
+    }
+
+    /**
+     * What a stored start depends on: the input files' contents (SHA-256, in the problem's order) and the settings
+     * that change a start's path (seed, number of starts, tolerances, optimizer limits; not the thread count, which
+     * never changes a result).
+     *
+     * @param inputs   input files with their SHA-256
+     * @param settings the settings, as {@code name=value} entries
+     */
+    record RunIdentity(List<org.switchfit.report.FitSummary.InputFile> inputs, java.util.Map<String, String> settings) {
+
+        /** The identity of a run on these files with these settings (files hashed now). */
+        static RunIdentity of(List<Path> files, java.util.Map<String, String> settings) {
+            List<org.switchfit.report.FitSummary.InputFile> in = new ArrayList<>();
+            for (Path f : files) {
+                in.add(org.switchfit.report.FitSummary.InputFile.of(f));
+            }
+            return new RunIdentity(List.copyOf(in), new java.util.LinkedHashMap<>(settings));
+        }
+
+        /** Refuses (one line) unless {@code record} holds this identity (file names may differ, contents not). */
+        void requireSameAs(Path record, Path dir) {
+            if (!java.nio.file.Files.isRegularFile(record)) {
+                throw new UserInputException(org.switchfit.util.SourceLocation.ofFile(dir.toString()), "holds "
+                        + "finished starts but no record of the inputs and settings they were computed with ("
+                        + record.getFileName() + "), so they cannot be checked against this run; remove the folder "
+                        + "or run into another --out folder");
+            }
+            RunIdentity old = org.switchfit.report.Json.read(record, RunIdentity.class);
+            for (java.util.Map.Entry<String, String> e : settings.entrySet()) {
+                String was = old.settings().get(e.getKey());
+                if (!e.getValue().equals(was)) {
+                    throw new UserInputException(org.switchfit.util.SourceLocation.ofFile(dir.toString()),
+                            "holds starts computed with " + e.getKey() + " = " + was + ", but this run has "
+                            + e.getValue() + "; rerun with the same setting, or remove the folder");
+                }
+            }
+            if (old.inputs().size() != inputs.size()) {
+                throw new UserInputException(org.switchfit.util.SourceLocation.ofFile(dir.toString()), "holds "
+                        + "starts computed from " + old.inputs().size() + " input files, this run reads "
+                        + inputs.size() + "; remove the folder or run into another --out folder");
+            }
+            for (int i = 0; i < inputs.size(); i++) {
+                if (!inputs.get(i).sha256().equals(old.inputs().get(i).sha256())) {
+                    throw new UserInputException(org.switchfit.util.SourceLocation.ofFile(inputs.get(i).file()),
+                            "changed since the stored starts in " + dir + " were computed (SHA-256 differs), so "
+                            + "they cannot be resumed; remove that folder or restore the file");
+                }
+            }
         }
     }
 

@@ -107,7 +107,8 @@ class BenchCommandsTest {
         String[][] wrong = {{"bench-fits", dir.toString(), "--problems", "decay", "--starts", "4", "--threads", "1",
                 "--out", out.toString(), "--resume"}, {"bench-fits", dir.toString(), "--problems", "decay", "--starts",
                 "3", "--threads", "1", "--out", out.toString()}};
-        String[] expected = {"does not belong to this run", "already holds finished starts"};
+        String[] expected = {"holds starts computed with starts = 3, but this run has 4",
+            "already holds finished starts"};
         for (int w = 0; w < wrong.length; w++) {
             StringWriter e2 = new StringWriter();
             int code = Main.execute(wrong[w], new PrintWriter(new StringWriter(), true), new PrintWriter(e2, true));

@@ -122,6 +122,7 @@ class FitCheckCommandTest {
         for (String k : new String[] {"start-000001.json", "start-000003.json"}) {
             Files.copy(full.resolve("starts").resolve(k), part.resolve("starts").resolve(k));
         }
+        Files.copy(full.resolve("starts-run.json"), part.resolve("starts-run.json"));
         assertEquals(Main.EXIT_USER_ERROR, run(out, err, "fit", p, "--starts", "4", "--seed", "7", "--quiet",
                 "--out", part.toString()), "existing starts without --resume");
         assertEquals(0, run(out, err, "fit", p, "--starts", "4", "--seed", "7", "--threads", "1", "--quiet",
@@ -136,6 +137,36 @@ class FitCheckCommandTest {
         String sbml = Files.readString(part.resolve("model_fitted.xml"));
         assertTrue(sbml.contains("k_conv"), "fitted model written as SBML");
         assertEquals(64, a.get("inputs").get(0).get("sha256").asText().length());
+        // Stored starts are never resumed on other data: a copy of the problem whose measurement table changed
+        // by one value is refused with one line naming that file; starts without their run record too.
+        Path changed = dir.resolve("changed");
+        copyFolder(tiny().getParent(), changed);
+        Path table = changed.resolve("measurements.tsv");
+        List<String> rows = Files.readAllLines(table);
+        String[] cells = rows.get(1).split("\t", -1);
+        int col = java.util.Arrays.asList(rows.get(0).split("\t", -1)).indexOf("measurement");
+        cells[col] = Double.toString(Double.parseDouble(cells[col]) + 0.5);
+        rows.set(1, String.join("\t", cells));
+        Files.write(table, rows);
+        StringWriter e2 = new StringWriter();
+        assertEquals(Main.EXIT_USER_ERROR, run(out, e2, "fit", changed.resolve("problem.yaml").toString(), "--starts",
+                "4", "--seed", "7", "--quiet", "--resume", "--out", part.toString()));
+        assertTrue(e2.toString().contains("measurements.tsv: changed since the stored starts"), e2.toString());
+        assertEquals(1, e2.toString().strip().lines().count(), e2.toString());
+        Files.delete(part.resolve("starts-run.json"));
+        e2 = new StringWriter();
+        assertEquals(Main.EXIT_USER_ERROR, run(out, e2, "fit", p, "--starts", "4", "--seed", "7", "--quiet",
+                "--resume", "--out", part.toString()));
+        assertTrue(e2.toString().contains("no record of the inputs and settings"), e2.toString());
+    }
+
+    private static void copyFolder(Path from, Path to) throws IOException {
+        Files.createDirectories(to);
+        try (var files = Files.list(from)) {
+            for (Path f : files.toList()) {
+                Files.copy(f, to.resolve(f.getFileName()));
+            }
+        }
     }
 
     @Test
