@@ -115,6 +115,16 @@ public final class ProfileCommand implements Callable<Integer> {
             throw new UserInputException(SourceLocation.ofFile(store.dir().toString()), "already holds finished "
                     + "profiles; add --resume to continue that run, or delete the folder to recompute");
         }
+        // stored profiles belong to one optimum of one problem: a refit or changed data must not reuse them
+        java.util.Map<String, String> settings = new java.util.LinkedHashMap<>();
+        settings.put("optimum", java.util.Arrays.toString(in.optimum()));
+        settings.put("integration", in.settings().toString());
+        StartStore.RunIdentity identity = StartStore.RunIdentity.of(in.problem().inputFiles(), settings);
+        Path record = store.dir().resolveSibling("profiles-run.json");
+        if (!store.keys().isEmpty()) {
+            identity.requireSameAs(record, store.dir());
+        }
+        org.switchfit.report.Json.write(record, identity);
         ProfileLikelihood pl = ProfileLikelihood.defaults().withLevel(level);
         ProfileRun run = new ProfileRun(fp, in.optimum(), pl);
         int[] done = {0};

@@ -83,7 +83,7 @@ final class StartStore {
         void requireSameAs(Path record, Path dir) {
             if (!java.nio.file.Files.isRegularFile(record)) {
                 throw new UserInputException(org.switchfit.util.SourceLocation.ofFile(dir.toString()), "holds "
-                        + "finished starts but no record of the inputs and settings they were computed with ("
+                        + "finished results but no record of the inputs and settings they were computed with ("
                         + record.getFileName() + "), so they cannot be checked against this run; remove the folder "
                         + "or run into another --out folder");
             }
@@ -92,19 +92,19 @@ final class StartStore {
                 String was = old.settings().get(e.getKey());
                 if (!e.getValue().equals(was)) {
                     throw new UserInputException(org.switchfit.util.SourceLocation.ofFile(dir.toString()),
-                            "holds starts computed with " + e.getKey() + " = " + was + ", but this run has "
+                            "holds results computed with " + e.getKey() + " = " + was + ", but this run has "
                             + e.getValue() + "; rerun with the same setting, or remove the folder");
                 }
             }
             if (old.inputs().size() != inputs.size()) {
                 throw new UserInputException(org.switchfit.util.SourceLocation.ofFile(dir.toString()), "holds "
-                        + "starts computed from " + old.inputs().size() + " input files, this run reads "
+                        + "results computed from " + old.inputs().size() + " input files, this run reads "
                         + inputs.size() + "; remove the folder or run into another --out folder");
             }
             for (int i = 0; i < inputs.size(); i++) {
                 if (!inputs.get(i).sha256().equals(old.inputs().get(i).sha256())) {
                     throw new UserInputException(org.switchfit.util.SourceLocation.ofFile(inputs.get(i).file()),
-                            "changed since the stored starts in " + dir + " were computed (SHA-256 differs), so "
+                            "changed since the stored results in " + dir + " were computed (SHA-256 differs), so "
                             + "they cannot be resumed; remove that folder or restore the file");
                 }
             }

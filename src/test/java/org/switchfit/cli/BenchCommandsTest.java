@@ -107,7 +107,7 @@ class BenchCommandsTest {
         String[][] wrong = {{"bench-fits", dir.toString(), "--problems", "decay", "--starts", "4", "--threads", "1",
                 "--out", out.toString(), "--resume"}, {"bench-fits", dir.toString(), "--problems", "decay", "--starts",
                 "3", "--threads", "1", "--out", out.toString()}};
-        String[] expected = {"holds starts computed with starts = 3, but this run has 4",
+        String[] expected = {"holds results computed with starts = 3, but this run has 4",
             "already holds finished starts"};
         for (int w = 0; w < wrong.length; w++) {
             StringWriter e2 = new StringWriter();

@@ -151,7 +151,7 @@ class FitCheckCommandTest {
         StringWriter e2 = new StringWriter();
         assertEquals(Main.EXIT_USER_ERROR, run(out, e2, "fit", changed.resolve("problem.yaml").toString(), "--starts",
                 "4", "--seed", "7", "--quiet", "--resume", "--out", part.toString()));
-        assertTrue(e2.toString().contains("measurements.tsv: changed since the stored starts"), e2.toString());
+        assertTrue(e2.toString().contains("measurements.tsv: changed since the stored results"), e2.toString());
         assertEquals(1, e2.toString().strip().lines().count(), e2.toString());
         Files.delete(part.resolve("starts-run.json"));
         e2 = new StringWriter();

@@ -197,6 +197,31 @@ class ProfileCommandTest {
     }
 
     @Test
+    void storedProfilesOfAnotherOptimumAreNotResumed() throws IOException {
+        // a refit (here: the recorded optimum moved) must not reuse the profiles of the old optimum
+        Path d = copyFit("moved", 0.0);
+        Result first = run("profile", d.toString(), "--parameters", "k", "--threads", "1");
+        assertEquals(0, first.code(), first.err());
+        Path moved = copyFit("moved-again", 1e-3);
+        copyTree(d.resolve("profiles"), moved.resolve("profiles"));
+        Files.copy(d.resolve("profiles-run.json"), moved.resolve("profiles-run.json"));
+        Result r = run("profile", moved.toString(), "--parameters", "k", "--resume");
+        assertEquals(2, r.code(), r.err());
+        // the moved optimum also changes the NLL, which the command warns about before refusing
+        String last = r.err().strip().lines().reduce((a, b) -> b).orElse("");
+        assertTrue(last.startsWith("error: ") && last.contains("holds results computed with optimum"), r.err());
+    }
+
+    private static void copyTree(Path from, Path to) throws IOException {
+        Files.createDirectories(to);
+        try (Stream<Path> s = Files.list(from)) {
+            for (Path f : s.toList()) {
+                Files.copy(f, to.resolve(f.getFileName()));
+            }
+        }
+    }
+
+    @Test
     void existingProfilesWithoutResumeIsUserError() {
         assertUserError(run("profile", fitDir.toString()), "profiles", "--resume");
     }
