@@ -48,8 +48,8 @@ import org.switchfit.util.UserInputException;
  *   models with {@code delay()} are not available (callers check {@link #exactEventSensitivities}).</li>
  * </ul>
  *
- * <p><b>Doses</b> ({@link SimulationExperiment#doses}, first two routes only; refused with events or
- * {@code delay()}): the integration stops at each dose time, the dosed state or parameter changes (set or add;
+ * <p><b>Doses</b> ({@link SimulationExperiment#doses}, first two routes only; for models with events or
+ * {@code delay()} the problem writes them into the model as events, and a dose list here is refused): the integration stops at each dose time, the dosed state or parameter changes (set or add;
  * species amounts converted from concentrations with their compartment's size), the fast equilibrium is restored,
  * and a new integration starts there. The dose time does not depend on θ, so the sensitivities are continuous
  * except for the dosed quantity: {@code ds_i/dθ} (or {@code dp_eff,k/dθ}) becomes the derivative of the new value.

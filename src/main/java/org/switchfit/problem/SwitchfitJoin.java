@@ -52,9 +52,21 @@ final class SwitchfitJoin {
         }
         Model model = ProblemLoader.withSpeciesInitParameters(original, speciesInit);
         CompiledModel cm = ModelCompiler.compile(model);
+        String modelFile = sp.modelFile().toString();
+        boolean anyDose = sp.experiments().stream().anyMatch(e -> !e.doses().isEmpty());
+        Map<String, Map<String, ValueSource>> doseSources = new HashMap<>();
+        boolean doseEvents = anyDose && (!cm.form().events().isEmpty() || !cm.form().delaySlots().isEmpty());
+        if (doseEvents) {
+            for (Experiment ex : sp.experiments()) {
+                for (Dose d : ex.doses()) {
+                    dose(d, ex.id(), model, cm, sources, modelFile); // the same checks as without events
+                }
+            }
+            model = withDoseEvents(model, sp, sources, cm, doseSources);
+            cm = ModelCompiler.compile(model);
+        }
         OdeForm form = cm.form();
         int m = cm.parameterCount();
-        String modelFile = sp.modelFile().toString();
         Map<Integer, ValueSource> baseSources = new LinkedHashMap<>();
         for (EstimatedParameter p : sp.parameters()) {
             int k = cm.parameterIndex(p.id());
@@ -90,6 +102,9 @@ final class SwitchfitJoin {
                 if (species && form.stateIndex(id) >= 0) {
                     reinit.add(form.stateIndex(id));
                 }
+            }
+            for (Map.Entry<String, ValueSource> d : doseSources.getOrDefault(e.id(), Map.of()).entrySet()) {
+                src.put(cm.parameterIndex(d.getKey()), d.getValue());
             }
             conditions.add(ProblemLoader.condition(e.id(), base, src, reinit));
             condIndex.put(e.id(), conditions.size() - 1);
@@ -171,7 +186,7 @@ final class SwitchfitJoin {
             inputs.add(df.file());
         }
         Map<String, List<DoseStep>> doses = new HashMap<>();
-        for (Experiment ex : sp.experiments()) {
+        for (Experiment ex : doseEvents ? List.<Experiment>of() : sp.experiments()) {
             List<DoseStep> list = new ArrayList<>();
             for (Dose d : ex.doses()) {
                 list.add(dose(d, ex.id(), model, cm, sources, modelFile)); // checked even without data
@@ -180,10 +195,68 @@ final class SwitchfitJoin {
         }
         List<SimulationExperiment> experiments = new ArrayList<>();
         for (SimulationExperiment se : ProblemLoader.experiments(expIndex, expKeys, meas)) {
-            experiments.add(se.withDoses(doses.get(se.id())));
+            experiments.add(se.withDoses(doseEvents ? List.of() : doses.get(se.id())));
         }
         return new EstimationProblem(sp.problemFile(), inputs, sp.modelFile(), model, cm, free, conditions,
                 experiments, observables, meas, globalIds, globalSources, 0, 0, extra);
+    }
+
+    /**
+     * The model with each dose of a model that has SBML events (or {@code delay()}) written as an SBML event, so
+     * the simulator applies it with its event semantics, sensitivities and ordering: per dose a flag parameter
+     * {@code switchfit_doseK_on} (0 in the model, 1 in the dose's experiment, so other experiments never see it)
+     * and the event {@code time >= at && flag > 0.5 -> target := amount} (or {@code target + amount}), trigger
+     * initially false (a dose at 0 fires at the start). An amount given by an estimated parameter reaches the event
+     * through a parameter {@code switchfit_doseK_amount} that the experiment sets to θ. Parameters a dose assigns
+     * become non-constant (event targets). {@code out} receives, per experiment, the values its condition sets.
+     */
+    private static Model withDoseEvents(Model m, SwitchfitProblem sp, Map<String, ValueSource> sources,
+                                        CompiledModel cm, Map<String, Map<String, ValueSource>> out) {
+        java.util.Set<String> used = new java.util.HashSet<>(cm.form().quantityIds());
+        m.events().forEach(e -> used.add(e.id()));
+        java.util.Set<String> targets = new java.util.HashSet<>();
+        sp.experiments().forEach(e -> e.doses().forEach(d -> targets.add(d.target())));
+        List<org.switchfit.model.Parameter> params = new ArrayList<>();
+        for (org.switchfit.model.Parameter p : m.parameters()) {
+            params.add(targets.contains(p.id()) ? new org.switchfit.model.Parameter(p.id(), p.value(), false) : p);
+        }
+        List<org.switchfit.model.Compartment> comps = new ArrayList<>();
+        for (org.switchfit.model.Compartment c : m.compartments()) {
+            comps.add(targets.contains(c.id()) ? new org.switchfit.model.Compartment(c.id(), c.size(),
+                    c.spatialDimensions(), false) : c);
+        }
+        List<org.switchfit.model.Event> events = new ArrayList<>(m.events());
+        int k = 0;
+        for (Experiment ex : sp.experiments()) {
+            Map<String, ValueSource> src = new LinkedHashMap<>();
+            for (Dose d : ex.doses()) {
+                String base = "switchfit_dose" + (++k);
+                while (used.contains(base) || used.contains(base + "_on") || used.contains(base + "_amount")) {
+                    base = base + "_";
+                }
+                String flag = base + "_on";
+                params.add(new org.switchfit.model.Parameter(flag, 0.0, true));
+                src.put(flag, ValueSource.ofConstant(1.0));
+                ValueSource a = ProblemLoader.lookup(d.amount(), sources, cm);
+                Expr amount;
+                if (a.isTheta()) {
+                    String amt = base + "_amount";
+                    params.add(new org.switchfit.model.Parameter(amt, 0.0, true));
+                    src.put(amt, a);
+                    amount = Expr.symbol(amt);
+                } else {
+                    amount = Expr.constant(a.constant());
+                }
+                Expr value = d.action() == Dose.Action.ADD ? Expr.add(Expr.symbol(d.target()), amount) : amount;
+                Expr trigger = Expr.call(Op.AND, Expr.call(Op.GE, Expr.TIME, Expr.constant(d.time())),
+                        Expr.call(Op.GT, Expr.symbol(flag), Expr.constant(0.5)));
+                events.add(new org.switchfit.model.Event(base, trigger, false, true, null, null, true,
+                        List.of(new org.switchfit.model.Event.Assignment(d.target(), value))));
+            }
+            out.put(ex.id(), src);
+        }
+        return new Model(m.id(), m.source(), comps, m.species(), params, m.reactions(), m.rules(),
+                m.initialAssignments(), events, m.conversionFactor());
     }
 
     /**
