@@ -59,6 +59,7 @@ public final class CheckCommand implements Callable<Integer> {
                 run.problem.measurements().size(), run.problem.parameterCount());
         out.printf(Locale.ROOT, "negative log-likelihood at nominal values: %.10g (priors %.6g)%n",
                 run.evaluation.nll(), run.evaluation.priorPart());
+        FitCommand.printThresholds(out, run.evaluation.switching());
         if (run.reference != null) {
             out.printf(Locale.ROOT, "reference %s: %d of %d match; max abs deviation %.3g, max rel deviation %.3g%n",
                     run.reference.getFileName(), j.get("matched"), run.problem.measurements().size(),

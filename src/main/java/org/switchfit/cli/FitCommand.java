@@ -189,7 +189,7 @@ public final class FitCommand implements Callable<Integer> {
      * One line per measured switching threshold: the model's threshold at the best fit, how it is defined there
      * (a fold, or the steepest response of a monostable model), the measurement and the standardised residual.
      */
-    private static void printThresholds(PrintWriter o, List<SwitchingFit> switching) {
+    static void printThresholds(PrintWriter o, List<SwitchingFit> switching) {
         for (SwitchingFit f : switching) {
             if (f.data() != SwitchingFit.Data.THRESHOLD) {
                 continue;

@@ -170,6 +170,21 @@ class FitCheckCommandTest {
     }
 
     @Test
+    void checkShowsTheModelThresholdsAtTheStartValues() throws Exception {
+        Path yaml = Path.of(FitCheckCommandTest.class.getResource("/org/switchfit/cli/toggle/problem.yaml").toURI());
+        StringWriter o = new StringWriter();
+        StringWriter err = new StringWriter();
+        assertEquals(0, run(o, err, "check", yaml.toString()), err.toString());
+        // at the start values (a1 0.5, a2 1, d 2) the toggle is monostable: both thresholds are the single
+        // branch's steepest response, the same value
+        List<String> lines = o.toString().lines().filter(l -> l.startsWith("switch-")).toList();
+        assertEquals(2, lines.size(), o.toString());
+        assertTrue(lines.get(0).contains("(steepest response)") && lines.get(1).contains("(steepest response)"),
+                o.toString());
+        assertEquals(lines.get(0).split(" model ")[1].split(" ")[0], lines.get(1).split(" model ")[1].split(" ")[0]);
+    }
+
+    @Test
     void fitReportsTheModelThresholdsBesideTheMeasuredOnes() throws Exception {
         Path yaml = Path.of(FitCheckCommandTest.class.getResource("/org/switchfit/cli/toggle/problem.yaml").toURI());
         Path out = dir.resolve("toggle");
