@@ -138,7 +138,14 @@ public final class BranchesCommand implements Callable<Integer> {
         }
         Path jsonOut = setup.output(json, "branches.json");
         if (setup.fitDir() != null) {
-            file = withMeasuredThresholds(file, b, out);
+            try {
+                file = withMeasuredThresholds(file, b, out);
+            } catch (UserInputException e) {
+                // the branch is computed: write it without the thresholds rather than lose it
+                PrintWriter err = spec.commandLine().getErr();
+                err.println("warning: measured thresholds not attached: " + e.getMessage());
+                err.flush();
+            }
         }
         out.flush();
         if (jsonOut != null) {

@@ -240,6 +240,13 @@ class FitCheckCommandTest {
         assertEquals(Main.EXIT_USER_ERROR, run(bo, ee, "branches", empty.toString(), "--vary", "ind", "--from",
                 "0", "--to", "20"));
         assertTrue(ee.toString().contains("without model_fitted.xml"), ee.toString());
+        // a folder with the fitted model but no readable result.json: the branch is still written, with a warning
+        Files.copy(out.resolve("model_fitted.xml"), empty.resolve("model_fitted.xml"));
+        ee = new StringWriter();
+        assertEquals(0, run(bo, ee, "branches", empty.toString(), "--vary", "ind", "--from", "0", "--to", "20",
+                "--quiet"), ee.toString());
+        assertTrue(ee.toString().startsWith("warning: measured thresholds not attached"), ee.toString());
+        assertEquals(0, read(empty.resolve("branches.json")).get("thresholds").size());
     }
 
     private static JsonNode read(Path p) throws IOException {
