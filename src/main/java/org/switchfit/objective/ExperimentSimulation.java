@@ -43,7 +43,8 @@ import org.switchfit.util.UserInputException;
  *   by {@link SteadyState} alone (its switches are stepped across, as before).</li>
  *   <li>Events or {@code delay()} ({@link #hasEvents}): {@link Simulator} with SBML event semantics from the
  *   condition's own initial values (and the delay history), the sensitivities carried across each event by its
- *   jump conditions ({@link Simulator#simulateSensitivities}); pre-equilibration is refused
+ *   jump conditions ({@link Simulator#simulateSensitivities}); with a pre-equilibration, from its steady state
+ *   (events do not fire during it; see {@code runWithEventsAfterSettling}), refused for {@code delay()}
  *   ({@link UserInputException}); times of +inf are not supported (callers refuse them), and the sensitivities of
  *   models with {@code delay()} are not available (callers check {@link #exactEventSensitivities}).</li>
  * </ul>
@@ -161,10 +162,10 @@ final class ExperimentSimulation {
                         + (problem.hasEvents() ? "events" : "delay()") + " are not supported; write the dose "
                         + "into the model as an SBML event");
             }
-            if (pre != null) {
-                throw new UserInputException(where, "pre-equilibration of a model with "
-                        + (problem.hasEvents() ? "events" : "delay()") + " is not supported; remove the "
-                        + "preequilibrationConditionId");
+            if (pre != null && delays) {
+                throw new UserInputException(where, "pre-equilibration of a model with delay() is not supported "
+                        + "(its history before time 0 is undefined); remove the preequilibrationConditionId or "
+                        + "settle_in");
             }
             List<String> names = new ArrayList<>();
             OdeForm f = model.form();
@@ -481,6 +482,10 @@ final class ExperimentSimulation {
      */
     private void runWithEvents(State st, double[] linear, double[] dLinear, boolean sens, double[] times,
                                Sample sample) {
+        if (pre != null) {
+            runWithEventsAfterSettling(st, linear, dLinear, sens, times, sample);
+            return;
+        }
         initial(st, sim, linear, dLinear, sens, st.y, st.pEff, st.s, st.dPeff);
         if (!sens) {
             Trajectory tr = simulator.simulate(times, st.pDecl, stateOutputs);
@@ -501,6 +506,39 @@ final class ExperimentSimulation {
             System.arraycopy(ys, i * n, st.y, 0, n);
             System.arraycopy(ss, i * nc * n, st.s, 0, nc * n);
             sample.at(i, times[i]);
+        }
+    }
+
+    /**
+     * Models with events and a pre-equilibration: the steady state of the pre-equilibration condition as on the other
+     * routes ({@link #start}: integration of states and sensitivities until both settle; events do not fire during
+     * it, as it computes a steady state rather than a history), the simulation condition's re-initialised species on
+     * top, then the simulator with SBML event semantics from that state at time 0 (a trigger true at 0 counts as
+     * its initial value). As elsewhere, a time not after the current one is sampled at the current time.
+     */
+    private void runWithEventsAfterSettling(State st, double[] linear, double[] dLinear, boolean sens,
+                                            double[] times, Sample sample) {
+        start(st, linear, dLinear, sens);
+        double[] at = new double[times.length];
+        double t = 0.0;
+        for (int i = 0; i < times.length; i++) {
+            t = Math.max(t, times[i]);
+            at[i] = t;
+        }
+        int nc = st.nc;
+        double[] ys = new double[times.length * n];
+        double[] ss = sens ? new double[times.length * nc * n] : null;
+        if (sens) {
+            simulator.simulateSensitivities(at, st.sys, 0.0, st.y, st.pEff, st.sensParams, st.s, st.dPeff, ys, ss);
+        } else {
+            simulator.simulateStates(at, st.sys, 0.0, st.y, st.pEff, ys);
+        }
+        for (int i = 0; i < times.length; i++) {
+            System.arraycopy(ys, i * n, st.y, 0, n);
+            if (sens) {
+                System.arraycopy(ss, i * nc * n, st.s, 0, nc * n);
+            }
+            sample.at(i, at[i]);
         }
     }
 
