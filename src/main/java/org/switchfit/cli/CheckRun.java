@@ -58,6 +58,25 @@ final class CheckRun {
         json.put("parameters", problem.parameterCount());
         json.put("nllAtNominal", evaluation.nll());
         json.put("priorPartAtNominal", evaluation.priorPart());
+        if (!evaluation.switching().isEmpty()) {
+            java.util.List<Map<String, Object>> sw = new java.util.ArrayList<>();
+            for (org.switchfit.objective.SwitchingFit f : evaluation.switching()) {
+                Map<String, Object> row = new LinkedHashMap<>();
+                row.put("data", f.data().label());
+                row.put("experiment", f.experiment());
+                row.put("control", f.control());
+                row.put("direction", f.direction());
+                row.put("observable", f.observable());
+                row.put("dose", Double.isNaN(f.dose()) ? null : f.dose());
+                row.put("measurement", f.measurement());
+                row.put("model", f.model());
+                row.put("sigma", f.sigma());
+                row.put("residual", f.residual());
+                row.put("note", f.note());
+                sw.add(row);
+            }
+            json.put("switchingAtNominal", sw);
+        }
         json.put("seconds", seconds);
         if (reference == null) {
             referenceValues = null;

@@ -174,7 +174,36 @@ class FitCheckCommandTest {
         Path yaml = Path.of(FitCheckCommandTest.class.getResource("/org/switchfit/cli/toggle/problem.yaml").toURI());
         StringWriter o = new StringWriter();
         StringWriter err = new StringWriter();
-        assertEquals(0, run(o, err, "check", yaml.toString()), err.toString());
+        Path json = dir.resolve("toggle-check.json");
+        assertEquals(0, run(o, err, "check", yaml.toString(), "--json", json.toString()), err.toString());
+        JsonNode sw = read(json).get("switchingAtNominal");
+        assertEquals(2, sw.size());
+        assertEquals("steepest_response", sw.get(0).get("note").asText());
+        // closed form, derived by hand: on the steady states ind(U) = d U (1 + V³) - a1 with V = a2 / (d (1 + U³)),
+        // so the steepest dU/dind is where dind/dU = d (1 + V³) + 3 d U V² V'(U), V' = -3 a2 U² / (d (1 + U³)²), is
+        // smallest; found here by golden-section search (a1 = 0.5, a2 = 1, d = 2: the start values). Tolerance 1e-5
+        // relative: the steepest-response point is located with inner differences (see continuation.Thresholds).
+        java.util.function.DoubleUnaryOperator slope = u -> {
+            double v = 1 / (2 * (1 + u * u * u));
+            double dv = -3 * u * u / (2 * (1 + u * u * u) * (1 + u * u * u));
+            return 2 * (1 + v * v * v) + 6 * u * v * v * dv;
+        };
+        double lo = 0.1;
+        double hi = 3.0;
+        double g = (Math.sqrt(5) - 1) / 2;
+        for (int it = 0; it < 200; it++) {
+            double a = hi - g * (hi - lo);
+            double b = lo + g * (hi - lo);
+            if (slope.applyAsDouble(a) < slope.applyAsDouble(b)) {
+                hi = b;
+            } else {
+                lo = a;
+            }
+        }
+        double u = 0.5 * (lo + hi);
+        double v = 1 / (2 * (1 + u * u * u));
+        double expected = 2 * u * (1 + v * v * v) - 0.5;
+        assertEquals(expected, sw.get(0).get("model").asDouble(), 1e-5 * expected);
         // at the start values (a1 0.5, a2 1, d 2) the toggle is monostable: both thresholds are the single
         // branch's steepest response, the same value
         List<String> lines = o.toString().lines().filter(l -> l.startsWith("switch-")).toList();
