@@ -199,7 +199,7 @@ public final class BranchesCommand implements Callable<Integer> {
                                       ContinuationSettings cs) {
         ContinuationSettings scs = ContinuationSettings.of(sc.scaleControl(cs.lowerBound()),
                 sc.scaleControl(cs.upperBound())).withMaxPoints(cs.maxPoints())
-                .withLinearAlgebra(cs.linearAlgebra());
+                .withLinearAlgebra(cs.linearAlgebra()).withRelativeSteps(true);
         return setup.branch(sc, sc.scaleState(s.x), sc.scaleParameters(s.q), s.control.index(), scs);
     }
 

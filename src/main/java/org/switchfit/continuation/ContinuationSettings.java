@@ -23,10 +23,17 @@ import java.util.Locale;
  *                          Cayley transform ({@code CayleyArnoldi}: every unstable eigenvalue, plus some stable
  *                          ones) give the stability; for a dense one points carry unstableCount -1
  * @param linearAlgebra     LU of the bordered corrector and tangent systems ({@link LinearAlgebra})
+ * @param relativeSteps     measure the steps of {@link PseudoArclength} in the weighted norm with weights
+ *                          {@code 1 / max(1, |y_i|)} on the states (the control keeps weight 1): meant for unknowns
+ *                          scaled to order one at the start ({@link ScaledSystem}), where a state that grows by
+ *                          orders of magnitude along the branch would otherwise limit every step to the start's
+ *                          absolute resolution. Off by default: in unscaled units, relative steps of the size meant
+ *                          for the control range could cross features of large states.
  */
 public record ContinuationSettings(double lowerBound, double upperBound, double initialStep, double minStep,
                                    double maxStep, int maxPoints, double tolerance, int maxCorrectorSteps,
-                                   int eigenvalueLimit, LinearAlgebra linearAlgebra) {
+                                   int eigenvalueLimit, LinearAlgebra linearAlgebra,
+                                   boolean relativeSteps) {
 
     /** Validates. */
     public ContinuationSettings {
@@ -58,36 +65,42 @@ public record ContinuationSettings(double lowerBound, double upperBound, double 
     public static ContinuationSettings of(double lo, double hi) {
         double scale = hi - lo + 1;
         return new ContinuationSettings(lo, hi, scale / 100, scale * 1e-9, scale / 20, 2000, 1e-11, 8, 100,
-                LinearAlgebra.AUTO);
+                LinearAlgebra.AUTO, false);
     }
 
     /** Copy with other steps. */
     public ContinuationSettings withSteps(double initial, double min, double max) {
         return new ContinuationSettings(lowerBound, upperBound, initial, min, max, maxPoints, tolerance,
-                maxCorrectorSteps, eigenvalueLimit, linearAlgebra);
+                maxCorrectorSteps, eigenvalueLimit, linearAlgebra, relativeSteps);
     }
 
     /** Copy with another point limit. */
     public ContinuationSettings withMaxPoints(int points) {
         return new ContinuationSettings(lowerBound, upperBound, initialStep, minStep, maxStep, points, tolerance,
-                maxCorrectorSteps, eigenvalueLimit, linearAlgebra);
+                maxCorrectorSteps, eigenvalueLimit, linearAlgebra, relativeSteps);
     }
 
     /** Copy with other bounds. */
     public ContinuationSettings withBounds(double lo, double hi) {
         return new ContinuationSettings(lo, hi, initialStep, minStep, maxStep, maxPoints, tolerance,
-                maxCorrectorSteps, eigenvalueLimit, linearAlgebra);
+                maxCorrectorSteps, eigenvalueLimit, linearAlgebra, relativeSteps);
     }
 
     /** Copy with another eigenvalue limit. */
     public ContinuationSettings withEigenvalueLimit(int limit) {
         return new ContinuationSettings(lowerBound, upperBound, initialStep, minStep, maxStep, maxPoints, tolerance,
-                maxCorrectorSteps, limit, linearAlgebra);
+                maxCorrectorSteps, limit, linearAlgebra, relativeSteps);
     }
 
     /** Copy with another choice of LU for the bordered systems. */
     public ContinuationSettings withLinearAlgebra(LinearAlgebra choice) {
         return new ContinuationSettings(lowerBound, upperBound, initialStep, minStep, maxStep, maxPoints, tolerance,
-                maxCorrectorSteps, eigenvalueLimit, choice);
+                maxCorrectorSteps, eigenvalueLimit, choice, relativeSteps);
+    }
+
+    /** Copy with relative steps on or off (see the record's {@code relativeSteps}). */
+    public ContinuationSettings withRelativeSteps(boolean on) {
+        return new ContinuationSettings(lowerBound, upperBound, initialStep, minStep, maxStep, maxPoints, tolerance,
+                maxCorrectorSteps, eigenvalueLimit, linearAlgebra, on);
     }
 }

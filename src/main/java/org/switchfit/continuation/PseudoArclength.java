@@ -15,13 +15,13 @@ import org.switchfit.ode.OdeSystem;
  * <p>Each step: tangent predictor {@code u + h t}, Newton corrector on the bordered system
  * {@code [f(u); t^T (u - u_pred)]}, step halved on corrector failure or when the tangent turns by more than
  * about 25°, grown by 1.5 after fast convergence (at most 3 iterations), shrunk by 0.6 after slow
- * convergence. Step lengths, turns and corrections are measured in the weighted norm {@code |W du|} with
- * {@code w_i = 1 / max(1, |u_i|)} taken at the step's start ({@link CurveCorrector#stepWeighted}): absolute for
- * unknowns of magnitude up to 1 (the caller's units), relative beyond. A switch's states typically differ by orders
- * of magnitude between its branches, and in the plain Euclidean norm a state that has grown a thousandfold along
- * the branch would limit every step to the same absolute change as at the start, exhausting the point budget
- * long before the branch's second fold (measured on an invented toggle switch: 2000 points reached a third of
- * the range). A branch ends when λ leaves [lowerBound, upperBound] (the end point is then corrected onto the
+ * convergence. With {@link ContinuationSettings#relativeSteps} (for unknowns scaled to order one), step lengths,
+ * turns and corrections are measured in the weighted norm {@code |W du|} with {@code w_i = 1 / max(1, |y_i|)} on
+ * the states taken at the step's start and weight 1 on λ ({@link CurveCorrector#stepWeighted}): absolute for states
+ * of magnitude up to 1, relative beyond. A switch's states typically differ by orders of magnitude between its
+ * branches, and in the plain Euclidean norm a state that has grown a thousandfold along the branch would limit
+ * every step to the same absolute change as at the start, exhausting the point budget long before the branch's
+ * second fold (measured on an invented toggle switch: 2000 points reached a third of the range). A branch ends when λ leaves [lowerBound, upperBound] (the end point is then corrected onto the
  * bound), after maxPoints points, or when the step falls below minStep.
  *
  * <p>Test functions (Kuznetsov 2004, Elements of Applied Bifurcation Theory, 3rd ed., sec. 10.2): a fold is
@@ -140,9 +140,10 @@ public final class PseudoArclength {
         double[] border = new double[n1];
         Branch.EndReason end = Branch.EndReason.MAX_POINTS;
         while (pts.size() < settings.maxPoints()) {
-            for (int i = 0; i < n1; i++) {
-                w[i] = 1.0 / Math.max(1.0, Math.abs(u[i]));
+            for (int i = 0; i < n; i++) {
+                w[i] = settings.relativeSteps() ? 1.0 / Math.max(1.0, Math.abs(u[i])) : 1.0;
             }
+            w[n] = 1.0;
             int iters = cc.stepWeighted(u, t, w, h, settings.minStep(), uPred, border, uNew, tNew);
             if (iters < 0) {
                 h *= 0.5;
