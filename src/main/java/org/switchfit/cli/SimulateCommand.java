@@ -38,7 +38,8 @@ public final class SimulateCommand implements Callable<Integer> {
     @Spec
     picocli.CommandLine.Model.CommandSpec spec;
 
-    @Parameters(index = "0", paramLabel = "MODEL.xml", description = "SBML model file")
+    @Parameters(index = "0", paramLabel = "MODEL", description = "SBML model file, or the folder of a finished "
+            + "'switchfit fit' run (its model_fitted.xml)")
     Path model;
 
     @Option(names = "--times", required = true, paramLabel = "START:STEP:END|t1,t2,...",
@@ -66,7 +67,9 @@ public final class SimulateCommand implements Callable<Integer> {
     public Integer call() {
         double[] t = parseTimes(times);
         SolverSettings settings = settings(method, rtol, atol);
-        Model m = SbmlReader.read(model);
+        SwitchSetup where = new SwitchSetup();
+        where.modelFile = model;
+        Model m = SbmlReader.read(where.sbmlFile());
         CompiledModel cm = ModelCompiler.compile(m);
         double[] p = cm.parameterValues();
         for (Map.Entry<String, String> e : overrides.entrySet()) {

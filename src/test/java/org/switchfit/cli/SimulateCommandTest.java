@@ -53,6 +53,16 @@ class SimulateCommandTest {
     }
 
     @Test
+    void aFitFolderIsSimulatedThroughItsFittedModel(@org.junit.jupiter.api.io.TempDir Path dir) throws Exception {
+        java.nio.file.Files.copy(Path.of(res("decay.xml")), dir.resolve("model_fitted.xml"));
+        Result viaFolder = run("simulate", dir.toString(), "--times", "0:0.5:1");
+        assertEquals(0, viaFolder.code(), viaFolder.err());
+        assertEquals(run("simulate", res("decay.xml"), "--times", "0:0.5:1").out(), viaFolder.out());
+        Path empty = java.nio.file.Files.createDirectories(dir.resolve("empty"));
+        assertUserError(run("simulate", empty.toString(), "--times", "0:1:2"), "without model_fitted.xml");
+    }
+
+    @Test
     void truncatedXmlIsOneLineUserError() {
         assertUserError(run("simulate", res("truncated.xml"), "--times", "0:1:2"), "truncated.xml", "XML");
     }
