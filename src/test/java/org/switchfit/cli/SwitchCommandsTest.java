@@ -164,6 +164,16 @@ class SwitchCommandsTest {
     }
 
     @Test
+    void aBranchCutByThePointLimitSaysSo() throws Exception {
+        String model = Path.of(SwitchCommandsTest.class.getResource("/org/switchfit/cli/toggle/toggle.xml").toURI())
+                .toString();
+        Result r = run("branches", model, "--vary", "ind", "--from", "0", "--to", "20", "--max-points", "20");
+        assertEquals(0, r.code(), r.err());
+        assertTrue(r.out().contains("MAX_POINTS"), r.out());
+        assertTrue(r.out().contains("note: a direction stopped at the point limit (20)"), r.out());
+    }
+
+    @Test
     void demoModelFoldsMatchIndependentValues() {
         BranchesFile f = branches(DEMO, "--vary", "stimulus", "--from", "0", "--to", "4");
         double[] v = foldValues(f);
