@@ -83,13 +83,12 @@ final class ExperimentBlock implements ResidualBlock {
         }
         simulation = new ExperimentSimulation(problem, experiment, initD, settings, steady, false,
                 rows.length > 0 ? problem.measurements().get(rows[0]).location() : null);
-        if (simulation.hasEvents()) {
+        if (simulation.hasEvents() && !problem.compiled().form().delaySlots().isEmpty()) {
             for (int row : rows) {
                 Measurement me = problem.measurements().get(row);
                 if (me.time() == Double.POSITIVE_INFINITY) {
                     throw new UserInputException(me.location(), "steady-state measurements of a model with "
-                            + (problem.hasEvents() ? "events" : "delay()") + " are not supported; give a finite "
-                            + "time");
+                            + "delay() are not supported; give a finite time");
                 }
             }
         }

@@ -45,7 +45,8 @@ import org.switchfit.util.UserInputException;
  *   condition's own initial values (and the delay history), the sensitivities carried across each event by its
  *   jump conditions ({@link Simulator#simulateSensitivities}); with a pre-equilibration, from its steady state
  *   (events do not fire during it; see {@code runWithEventsAfterSettling}), refused for {@code delay()}
- *   ({@link UserInputException}); times of +inf are not supported (callers refuse them), and the sensitivities of
+ *   ({@link UserInputException}); times of +inf run on with the events active over t + 10^k until the state and
+ *   sensitivities settle ({@link #eventGrid}; refused for {@code delay()} by the callers), and the sensitivities of
  *   models with {@code delay()} are not available (callers check {@link #exactEventSensitivities}).</li>
  * </ul>
  *
@@ -487,25 +488,92 @@ final class ExperimentSimulation {
             return;
         }
         initial(st, sim, linear, dLinear, sens, st.y, st.pEff, st.s, st.dPeff);
+        double[] grid = eventGrid(times);
+        int nc = st.nc;
+        double[] ys = new double[grid.length * n];
+        double[] ss = sens ? new double[grid.length * nc * n] : null;
         if (!sens) {
-            Trajectory tr = simulator.simulate(times, st.pDecl, stateOutputs);
-            for (int i = 0; i < times.length; i++) {
+            Trajectory tr = simulator.simulate(grid, st.pDecl, stateOutputs);
+            for (int i = 0; i < grid.length; i++) {
                 for (int k = 0; k < n; k++) {
-                    st.y[k] = tr.value(i, k);
+                    ys[i * n + k] = tr.value(i, k);
                 }
-                sample.at(i, times[i]);
             }
+        } else {
+            st.sys.setColumns(st.dPeff);
+            simulator.simulateSensitivities(grid, st.sys, 0.0, st.y, st.pEff, st.sensParams, st.s, st.dPeff, ys, ss);
+        }
+        sampleEventGrid(st, sens, times, grid, ys, ss, sample);
+    }
+
+    /**
+     * The times the event route simulates for {@code times} (sorted): the finite ones as they are, and when some are
+     * +inf (steady state), after the last finite time (or 0) the points {@code t + 10^k}, k = 0, 1, ... up to
+     * {@link SteadyState#maxTime}: the simulator runs on with events active, and the steady state is the first of
+     * these points where the state (and sensitivities) have settled ({@link #sampleEventGrid}).
+     */
+    private double[] eventGrid(double[] times) {
+        int nf = 0;
+        double last = 0.0;
+        while (nf < times.length && times[nf] != Double.POSITIVE_INFINITY) {
+            last = Math.max(last, times[nf]);
+            nf++;
+        }
+        if (nf == times.length) {
+            return times;
+        }
+        List<Double> tail = new ArrayList<>();
+        for (double d = 1.0; last + d <= steady.maxTime(); d *= 10.0) {
+            tail.add(last + d);
+        }
+        double[] grid = Arrays.copyOf(times, nf + tail.size());
+        for (int k = 0; k < tail.size(); k++) {
+            grid[nf + k] = tail.get(k);
+        }
+        return grid;
+    }
+
+    /**
+     * Samples the finite times from the simulated grid and each +inf time at the first tail point of the grid where
+     * {@link SteadyState#settled} holds.
+     *
+     * @throws IntegrationException when no tail point is settled
+     */
+    private void sampleEventGrid(State st, boolean sens, double[] times, double[] grid, double[] ys, double[] ss,
+                                 Sample sample) {
+        int nc = st.nc;
+        int nf = 0;
+        while (nf < times.length && times[nf] != Double.POSITIVE_INFINITY) {
+            nf++;
+        }
+        for (int i = 0; i < nf; i++) {
+            System.arraycopy(ys, i * n, st.y, 0, n);
+            if (sens) {
+                System.arraycopy(ss, i * nc * n, st.s, 0, nc * n);
+            }
+            sample.at(i, grid[i]);
+        }
+        if (nf == times.length) {
             return;
         }
-        int nc = st.nc;
-        st.sys.setColumns(st.dPeff);
-        double[] ys = new double[times.length * n];
-        double[] ss = new double[times.length * nc * n];
-        simulator.simulateSensitivities(times, st.sys, 0.0, st.y, st.pEff, st.sensParams, st.s, st.dPeff, ys, ss);
-        for (int i = 0; i < times.length; i++) {
-            System.arraycopy(ys, i * n, st.y, 0, n);
-            System.arraycopy(ss, i * nc * n, st.s, 0, nc * n);
-            sample.at(i, times[i]);
+        int j = nf;
+        while (j < grid.length) {
+            System.arraycopy(ys, j * n, st.y, 0, n);
+            if (sens) {
+                System.arraycopy(ss, j * nc * n, st.s, 0, nc * n);
+            }
+            if (steady.settled(model, st.sys, st.sensParams, grid[j], st.y, st.pEff, sens ? st.s : null)) {
+                break;
+            }
+            j++;
+        }
+        if (j == grid.length) {
+            throw new IntegrationException(grid[grid.length - 1], String.format(java.util.Locale.ROOT,
+                    "condition '%s': no steady state up to t = %.3g with the model's events", sim.id(),
+                    grid[grid.length - 1]));
+        }
+        for (int i = nf; i < times.length; i++) {
+            sample.at(i, Double.POSITIVE_INFINITY);
         }
     }
 
@@ -525,21 +593,16 @@ final class ExperimentSimulation {
             t = Math.max(t, times[i]);
             at[i] = t;
         }
+        double[] grid = eventGrid(at);
         int nc = st.nc;
-        double[] ys = new double[times.length * n];
-        double[] ss = sens ? new double[times.length * nc * n] : null;
+        double[] ys = new double[grid.length * n];
+        double[] ss = sens ? new double[grid.length * nc * n] : null;
         if (sens) {
-            simulator.simulateSensitivities(at, st.sys, 0.0, st.y, st.pEff, st.sensParams, st.s, st.dPeff, ys, ss);
+            simulator.simulateSensitivities(grid, st.sys, 0.0, st.y, st.pEff, st.sensParams, st.s, st.dPeff, ys, ss);
         } else {
-            simulator.simulateStates(at, st.sys, 0.0, st.y, st.pEff, ys);
+            simulator.simulateStates(grid, st.sys, 0.0, st.y, st.pEff, ys);
         }
-        for (int i = 0; i < times.length; i++) {
-            System.arraycopy(ys, i * n, st.y, 0, n);
-            if (sens) {
-                System.arraycopy(ss, i * nc * n, st.s, 0, nc * n);
-            }
-            sample.at(i, at[i]);
-        }
+        sampleEventGrid(st, sens, at, grid, ys, ss, sample);
     }
 
     /**

@@ -102,6 +102,24 @@ public record SteadyState(double rtol, double atol, double maxTime) {
         }
     }
 
+    /**
+     * Whether (y, s) at time t is settled by the criteria of {@link #run}: |f| and, when {@code s} is not null, the
+     * sensitivities' rate within tolerance.
+     */
+    boolean settled(CompiledModel model, org.switchfit.ode.OdeSystem sys, int[] sensParams, double t, double[] y,
+                    double[] p, double[] s) {
+        int n = model.stateCount();
+        double[] f = new double[n];
+        model.rhs(t, y, p, f);
+        for (int i = 0; i < n; i++) {
+            if (!(Math.abs(f[i]) <= atol + rtol * Math.abs(y[i]))) {
+                return false;
+            }
+        }
+        return s == null || sensParams.length == 0
+                || new SensitivityRate(sys, sensParams).worst(t, y, p, s, atol, rtol) <= 1.0;
+    }
+
     /** ṡ = J s + ∂f/∂θ of a sensitivity system, for the settling test of {@link #run}. */
     private static final class SensitivityRate {
         private final org.switchfit.ode.OdeSystem sys;
