@@ -238,12 +238,7 @@ public final class BranchesCommand implements Callable<Integer> {
             return file; // PEtab problems hold no switching thresholds
         }
         org.switchfit.data.SwitchfitProblem sp = org.switchfit.data.ProblemFileReader.read(problemFile);
-        Map<String, String> foldOf = new LinkedHashMap<>();
-        List<BranchesFile.Special> folds = file.folds().stream().filter(x -> x.kind() == BranchesFile.Kind.FOLD)
-                .toList();
-        for (int i = 0; i < b.folds().size() && i < folds.size(); i++) {
-            foldOf.put(b.folds().get(i).kind() == Fold.Kind.MAXIMUM ? "up" : "down", folds.get(i).id());
-        }
+        Map<String, String> foldOf = foldIdsByDirection(b, file);
         List<BranchesFile.Threshold> th = new ArrayList<>();
         int n = 0;
         for (org.switchfit.data.SwitchingThreshold t : sp.thresholds()) {
@@ -267,6 +262,21 @@ public final class BranchesCommand implements Callable<Integer> {
                     + "branch" : "compared with " + fold);
         }
         return new BranchesFile(file.control(), file.range(), file.stateIds(), file.folds(), file.branches(), th);
+    }
+
+    /**
+     * The fold each measured direction is compared with: {@code up} (switch-on) the branch's MAXIMUM-kind fold, where
+     * λ turns back from increasing, {@code down} its MINIMUM-kind fold; the last of each kind when there are several.
+     * Values are the fold ids of {@code traced} (the record of {@code b}).
+     */
+    static Map<String, String> foldIdsByDirection(Branch b, BranchesFile traced) {
+        Map<String, String> out = new LinkedHashMap<>();
+        List<BranchesFile.Special> folds = traced.folds().stream().filter(x -> x.kind() == BranchesFile.Kind.FOLD)
+                .toList();
+        for (int i = 0; i < b.folds().size() && i < folds.size(); i++) {
+            out.put(b.folds().get(i).kind() == Fold.Kind.MAXIMUM ? "up" : "down", folds.get(i).id());
+        }
+        return out;
     }
 
     /**

@@ -62,17 +62,10 @@ final class CheckRun {
             java.util.List<Map<String, Object>> sw = new java.util.ArrayList<>();
             for (org.switchfit.objective.SwitchingFit f : evaluation.switching()) {
                 Map<String, Object> row = new LinkedHashMap<>();
-                row.put("data", f.data().label());
-                row.put("experiment", f.experiment());
-                row.put("control", f.control());
-                row.put("direction", f.direction());
-                row.put("observable", f.observable());
-                row.put("dose", Double.isNaN(f.dose()) ? null : f.dose());
-                row.put("measurement", f.measurement());
-                row.put("model", f.model());
-                row.put("sigma", f.sigma());
-                row.put("residual", f.residual());
-                row.put("note", f.note());
+                java.util.List<Object> v = f.values();
+                for (int c = 0; c < v.size(); c++) {
+                    row.put(org.switchfit.objective.SwitchingFit.COLUMNS.get(c), v.get(c));
+                }
                 sw.add(row);
             }
             json.put("switchingAtNominal", sw);

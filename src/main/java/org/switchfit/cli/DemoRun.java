@@ -258,18 +258,15 @@ final class DemoRun {
         r.start = st;
         BranchesFile traced = BranchesCommand.toFile(st, r.branch, setup.from, setup.to);
         StringBuilder msg = new StringBuilder();
-        Map<SwitchingThreshold.Direction, String> foldIds = new LinkedHashMap<>();
-        for (int i = 0; i < r.branch.folds().size(); i++) {
-            Fold f = r.branch.folds().get(i);
-            foldIds.put(f.kind() == Fold.Kind.MAXIMUM ? SwitchingThreshold.Direction.UP
-                    : SwitchingThreshold.Direction.DOWN, traced.folds().get(i).id());
+        Map<String, String> foldIds = BranchesCommand.foldIdsByDirection(r.branch, traced);
+        for (Fold f : r.branch.folds()) {
             msg.append(String.format(Locale.ROOT, "%s%.10g", msg.length() == 0 ? "" : ", ", f.parameter()));
         }
         List<BranchesFile.Threshold> th = new ArrayList<>();
         int n = 0;
         for (SwitchingThreshold t : r.problem.thresholds()) {
-            th.add(new BranchesFile.Threshold("threshold" + (++n), t.value(), t.sigma(),
-                    t.direction().name().toLowerCase(Locale.ROOT), foldIds.get(t.direction())));
+            String dir = t.direction().name().toLowerCase(Locale.ROOT);
+            th.add(new BranchesFile.Threshold("threshold" + (++n), t.value(), t.sigma(), dir, foldIds.get(dir)));
         }
         dir.write(FitFile.BRANCHES, new BranchesFile(traced.control(), traced.range(), traced.stateIds(),
                 traced.folds(), traced.branches(), th));

@@ -229,11 +229,8 @@ public final class FitCommand implements Callable<Integer> {
             Measurement me = problem.measurements().get(i);
             double s = ev.simulated()[i];
             double sig = ev.sigmas()[i];
-            double res = switch (problem.observables().get(me.observable()).transformation()) {
-                case LOG -> (Math.log(me.value()) - Math.log(s)) / sig;
-                case LOG10 -> (Math.log10(me.value()) - Math.log10(s)) / sig;
-                default -> (me.value() - s) / sig;
-            };
+            double res = SwitchingFit.standardised(problem.observables().get(me.observable()).transformation(),
+                    me.value(), s, sig);
             csv.row(problem.experiments().get(me.experiment()).id(),
                     problem.observables().get(me.observable()).id(), me.time(), me.value(), s, sig, res);
         }
@@ -258,12 +255,9 @@ public final class FitCommand implements Callable<Integer> {
      * {@code (measurement - model) / sigma} on the observable's scale (the sign convention of residuals.csv).
      */
     static Csv switchingCsv(List<SwitchingFit> rows) {
-        Csv csv = new Csv("data", "experiment", "control", "direction", "observable", "dose", "measurement", "model",
-                "sigma", "residual", "note");
+        Csv csv = new Csv(SwitchingFit.COLUMNS.toArray(new String[0]));
         for (SwitchingFit f : rows) {
-            csv.row(f.data().label(), f.experiment(), f.control(), f.direction(), f.observable(),
-                    Double.isNaN(f.dose()) ? null : f.dose(), f.measurement(), f.model(), f.sigma(), f.residual(),
-                    f.note());
+            csv.row(f.values().toArray());
         }
         return csv;
     }

@@ -119,12 +119,7 @@ public final class ProfileCommand implements Callable<Integer> {
         java.util.Map<String, String> settings = new java.util.LinkedHashMap<>();
         settings.put("optimum", java.util.Arrays.toString(in.optimum()));
         settings.put("integration", in.settings().toString());
-        StartStore.RunIdentity identity = StartStore.RunIdentity.of(in.problem().inputFiles(), settings);
-        Path record = store.dir().resolveSibling("profiles-run.json");
-        if (!store.keys().isEmpty()) {
-            identity.requireSameAs(record, store.dir());
-        }
-        org.switchfit.report.Json.write(record, identity);
+        StartStore.RunIdentity.of(in.problem().inputFiles(), settings).guard(store.dir(), !store.keys().isEmpty());
         ProfileLikelihood pl = ProfileLikelihood.defaults().withLevel(level);
         ProfileRun run = new ProfileRun(fp, in.optimum(), pl);
         int[] done = {0};

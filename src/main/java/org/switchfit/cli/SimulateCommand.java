@@ -67,9 +67,7 @@ public final class SimulateCommand implements Callable<Integer> {
     public Integer call() {
         double[] t = parseTimes(times);
         SolverSettings settings = settings(method, rtol, atol);
-        SwitchSetup where = new SwitchSetup();
-        where.modelFile = model;
-        Model m = SbmlReader.read(where.sbmlFile());
+        Model m = SbmlReader.read(SwitchSetup.sbmlFile(model));
         CompiledModel cm = ModelCompiler.compile(m);
         double[] p = cm.parameterValues();
         for (Map.Entry<String, String> e : overrides.entrySet()) {

@@ -45,18 +45,15 @@ final class StartStore {
      */
     StartStore(Path dir, boolean resume, Supplier<UserInputException> refusal, RunIdentity identity) {
         store = new ResultStore(dir);
-        Path record = dir.resolveSibling(dir.getFileName() + "-run.json");
-        if (!store.keys().isEmpty()) {
-            if (!resume) {
-                throw refusal.get();
-            }
-            if (identity != null) {
-                identity.requireSameAs(record, dir);
-            }
-            finished.addAll(store.readAll(StartResult.class).values());
+        boolean stored = !store.keys().isEmpty();
+        if (stored && !resume) {
+            throw refusal.get();
         }
         if (identity != null) {
-            org.switchfit.report.Json.write(record, identity);
+            identity.guard(dir, stored);
+        }
+        if (stored) {
+            finished.addAll(store.readAll(StartResult.class).values());
         }
     }
 
@@ -79,8 +76,20 @@ final class StartStore {
             return new RunIdentity(List.copyOf(in), new java.util.LinkedHashMap<>(settings));
         }
 
+        /**
+         * Guards the results stored in folder {@code dir}: when it holds some ({@code stored}), refuses (one line)
+         * unless {@code <dir>-run.json} beside it records this identity; then records this identity there.
+         */
+        void guard(Path dir, boolean stored) {
+            Path record = dir.resolveSibling(dir.getFileName() + "-run.json");
+            if (stored) {
+                requireSameAs(record, dir);
+            }
+            org.switchfit.report.Json.write(record, this);
+        }
+
         /** Refuses (one line) unless {@code record} holds this identity (file names may differ, contents not). */
-        void requireSameAs(Path record, Path dir) {
+        private void requireSameAs(Path record, Path dir) {
             if (!java.nio.file.Files.isRegularFile(record)) {
                 throw new UserInputException(org.switchfit.util.SourceLocation.ofFile(dir.toString()), "holds "
                         + "finished results but no record of the inputs and settings they were computed with ("

@@ -39,10 +39,19 @@ final class SwitchSetup {
 
     /** The SBML file to load: the model argument, or model_fitted.xml of a fit directory. */
     Path sbmlFile() {
-        Path dir = fitDir();
-        if (dir == null) {
-            return modelFile;
+        return sbmlFile(modelFile);
+    }
+
+    /**
+     * The SBML file a model argument names: the file itself, or model_fitted.xml of a fit directory.
+     *
+     * @throws UserInputException for a folder without model_fitted.xml
+     */
+    static Path sbmlFile(Path modelOrFitDir) {
+        if (modelOrFitDir == null || !java.nio.file.Files.isDirectory(modelOrFitDir)) {
+            return modelOrFitDir;
         }
+        Path dir = modelOrFitDir;
         Path fitted = dir.resolve("model_fitted.xml");
         if (!java.nio.file.Files.isRegularFile(fitted)) {
             throw new UserInputException(SourceLocation.ofFile(dir.toString()), "is a folder without "

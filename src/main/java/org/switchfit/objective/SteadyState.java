@@ -13,8 +13,8 @@ import org.switchfit.ode.IntegrationSession;
  * over every entry, with {@code ṡ = J s + ∂f/∂θ} (forward sensitivity equations). Without that test a state that
  * starts at (or very near) its steady state would stop at once with the sensitivities of the start, not those of
  * the steady state, which they approach only on the system's own time scale (found by a closed-form test: a
- * pre-equilibration starting exactly at the steady state gave dX/dk 4 times too small). A run that needs more than {@link #MAX_STEPS} solver steps stops with an
- * {@link IntegrationException}: the approach to a stable steady state lets the step size grow with time (a few
+ * pre-equilibration starting exactly at the steady state gave dX/dk 4 times too small). A run that needs more than
+ * {@link #MAX_STEPS} solver steps stops with an {@link IntegrationException}: the approach to a stable steady state lets the step size grow with time (a few
  * hundred steps in all: at most 751 measured over the pre-equilibrations of the PEtab benchmarks Brannmark,
  * Isensee, Raimundez and Zheng at their nominal values), while a solution that keeps oscillating holds the step
  * size at a fraction of its period and would otherwise run the integrator's full step limit (500000 per call,
@@ -64,14 +64,7 @@ public record SteadyState(double rtol, double atol, double maxTime) {
         double lastLength = 0.0;
         long lastSteps = 0;
         while (true) {
-            model.rhs(t, y, p, f);
-            double worst = 0.0;
-            for (int i = 0; i < n; i++) {
-                worst = Math.max(worst, Math.abs(f[i]) / (atol + rtol * Math.abs(y[i])));
-            }
-            if (worst <= 1.0 && rate != null) {
-                worst = rate.worst(t, y, p, s, atol, rtol);
-            }
+            double worst = worst(model, rate, t, y, p, s, f);
             if (worst <= 1.0) {
                 return;
             }
@@ -108,16 +101,22 @@ public record SteadyState(double rtol, double atol, double maxTime) {
      */
     boolean settled(CompiledModel model, org.switchfit.ode.OdeSystem sys, int[] sensParams, double t, double[] y,
                     double[] p, double[] s) {
-        int n = model.stateCount();
-        double[] f = new double[n];
+        SensitivityRate rate = s != null && sensParams.length > 0 ? new SensitivityRate(sys, sensParams) : null;
+        return worst(model, rate, t, y, p, s, new double[model.stateCount()]) <= 1.0;
+    }
+
+    /**
+     * The settling measure of {@link #run}: max |f_i| / (atol + rtol |y_i|), and, when it is at most 1 and
+     * {@code rate} is not null, the sensitivities' ({@link SensitivityRate#worst}). {@code f} is scratch (length n).
+     */
+    private double worst(CompiledModel model, SensitivityRate rate, double t, double[] y, double[] p, double[] s,
+                         double[] f) {
         model.rhs(t, y, p, f);
-        for (int i = 0; i < n; i++) {
-            if (!(Math.abs(f[i]) <= atol + rtol * Math.abs(y[i]))) {
-                return false;
-            }
+        double worst = 0.0;
+        for (int i = 0; i < f.length; i++) {
+            worst = Math.max(worst, Math.abs(f[i]) / (atol + rtol * Math.abs(y[i])));
         }
-        return s == null || sensParams.length == 0
-                || new SensitivityRate(sys, sensParams).worst(t, y, p, s, atol, rtol) <= 1.0;
+        return worst <= 1.0 && rate != null ? rate.worst(t, y, p, s, atol, rtol) : worst;
     }
 
     /** ṡ = J s + ∂f/∂θ of a sensitivity system, for the settling test of {@link #run}. */

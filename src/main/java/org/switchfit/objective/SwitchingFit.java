@@ -42,10 +42,25 @@ public record SwitchingFit(Data data, String experiment, String control, String 
      * convention of the timecourse residuals: positive when the measurement lies above the model.
      */
     public double residual() {
+        return standardised(scale, measurement, model, sigma);
+    }
+
+    /** {@code (m' - y') / σ} with ' the transformation {@code scale} (also used for the timecourse residuals). */
+    public static double standardised(ParameterScale scale, double measurement, double model, double sigma) {
         return switch (scale) {
             case LOG -> (Math.log(measurement) - Math.log(model)) / sigma;
             case LOG10 -> (Math.log10(measurement) - Math.log10(model)) / sigma;
             default -> (measurement - model) / sigma;
         };
+    }
+
+    /** Column names of {@link #values()}, the layout of switching_residuals.csv and of check's JSON rows. */
+    public static final java.util.List<String> COLUMNS = java.util.List.of("data", "experiment", "control",
+            "direction", "observable", "dose", "measurement", "model", "sigma", "residual", "note");
+
+    /** The row's values in {@link #COLUMNS} order (null for what does not apply: observable, dose, note). */
+    public java.util.List<Object> values() {
+        return java.util.Arrays.asList(data.label(), experiment, control, direction, observable,
+                Double.isNaN(dose) ? null : dose, measurement, model, sigma, residual(), note);
     }
 }

@@ -53,15 +53,20 @@ final class SwitchfitJoin {
         Model model = ProblemLoader.withSpeciesInitParameters(original, speciesInit);
         CompiledModel cm = ModelCompiler.compile(model);
         String modelFile = sp.modelFile().toString();
-        boolean anyDose = sp.experiments().stream().anyMatch(e -> !e.doses().isEmpty());
+        // every dose is resolved (and checked, even in experiments without data) against the model as read
+        Map<String, List<DoseStep>> doses = new HashMap<>();
+        boolean anyDose = false;
+        for (Experiment ex : sp.experiments()) {
+            List<DoseStep> list = new ArrayList<>();
+            for (Dose d : ex.doses()) {
+                list.add(dose(d, ex.id(), model, cm, sources, modelFile));
+            }
+            doses.put(ex.id(), list);
+            anyDose |= !list.isEmpty();
+        }
         Map<String, Map<String, ValueSource>> doseSources = new HashMap<>();
         boolean doseEvents = anyDose && (!cm.form().events().isEmpty() || !cm.form().delaySlots().isEmpty());
         if (doseEvents) {
-            for (Experiment ex : sp.experiments()) {
-                for (Dose d : ex.doses()) {
-                    dose(d, ex.id(), model, cm, sources, modelFile); // the same checks as without events
-                }
-            }
             model = withDoseEvents(model, sp, sources, cm, doseSources);
             cm = ModelCompiler.compile(model);
         }
@@ -184,14 +189,6 @@ final class SwitchfitJoin {
         inputs.add(sp.modelFile());
         for (SwitchfitProblem.DataFile df : sp.dataFiles()) {
             inputs.add(df.file());
-        }
-        Map<String, List<DoseStep>> doses = new HashMap<>();
-        for (Experiment ex : doseEvents ? List.<Experiment>of() : sp.experiments()) {
-            List<DoseStep> list = new ArrayList<>();
-            for (Dose d : ex.doses()) {
-                list.add(dose(d, ex.id(), model, cm, sources, modelFile)); // checked even without data
-            }
-            doses.put(ex.id(), list);
         }
         List<SimulationExperiment> experiments = new ArrayList<>();
         for (SimulationExperiment se : ProblemLoader.experiments(expIndex, expKeys, meas)) {
