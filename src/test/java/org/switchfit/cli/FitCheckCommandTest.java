@@ -281,4 +281,51 @@ class FitCheckCommandTest {
     private static JsonNode read(Path p) throws IOException {
         return new ObjectMapper().readTree(p.toFile());
     }
+
+    /**
+     * An invented phosphorylation cycle with positive feedback (cycle.xml: conserved total X + Xp = 1, compartment
+     * of size 2, the feedback in an assignment rule, a local rate constant). On its steady states
+     * s(x) = x/(1-x) - kf x^2/(K^2+x^2) with x = Xp, so the folds are the stationary points of s(x) and the cusp in
+     * (s, kf) is where s'(x) = s''(x) = 0. Reference values computed with sympy (nroots and nsolve at 30 digits):
+     * at kf = 0.8, K = 0.3 the folds lie at s = 0.034030219477663255 and 0.0022752285939395080; the cusp at
+     * s = 0.047595083314170279, kf = 0.64414997657352784.
+     */
+    @Test
+    void switchOfAnInventedCycleMatchesItsClosedFormAndItsThresholdsAloneGiveBackTheParameters() throws Exception {
+        Path model = Path.of(FitCheckCommandTest.class.getResource("/org/switchfit/cli/cycle/cycle.xml").toURI());
+        StringWriter o = new StringWriter();
+        StringWriter err = new StringWriter();
+        Path bj = dir.resolve("cycle-branches.json");
+        assertEquals(0, run(o, err, "branches", model.toString(), "--vary", "s", "--from", "0", "--to", "0.1",
+                "--quiet", "--json", bj.toString()), err.toString());
+        JsonNode folds = read(bj).get("folds");
+        assertEquals(2, folds.size(), o.toString());
+        double[] expected = {0.034030219477663255, 0.0022752285939395080};
+        for (int k = 0; k < 2; k++) {
+            // 1e-10 relative: folds are refined by Newton on the fold system to rounding (the continuation's
+            // corrector tolerance is 1e-10; measured agreement 1e-15)
+            assertEquals(expected[k], folds.get(k).get("value").asDouble(), 1e-10 * expected[k]);
+        }
+        Path rj = dir.resolve("cycle-region.json");
+        assertEquals(0, run(o, err, "region", model.toString(), "--vary", "s", "--from", "0", "--to", "0.1",
+                "--and", "kf", "--from2", "0.3", "--to2", "2", "--quiet", "--json", rj.toString()), err.toString());
+        JsonNode cusps = read(rj).get("cusps");
+        assertEquals(1, cusps.size(), o.toString());
+        assertEquals(0.047595083314170279, cusps.get(0).get("p1").asDouble(), 1e-9);
+        assertEquals(0.64414997657352784, cusps.get(0).get("p2").asDouble(), 1e-9);
+
+        // The two thresholds alone, at sigma 0.001: two data for two parameters, so the optimum reproduces them
+        // exactly and the NLL is the Gaussian constant 2 (0.5 log 2 pi + log 0.001).
+        Path yaml = Path.of(FitCheckCommandTest.class.getResource("/org/switchfit/cli/cycle/thresholds.yaml")
+                .toURI());
+        Path out = dir.resolve("cycle-fit");
+        assertEquals(0, run(o, err, "fit", yaml.toString(), "--starts", "8", "--seed", "1", "--threads", "1",
+                "--quiet", "--out", out.toString()), err.toString());
+        JsonNode r = read(out.resolve("result.json"));
+        assertEquals(2 * (0.5 * Math.log(2 * Math.PI) + Math.log(0.001)), r.get("bestNll").asDouble(), 1e-9);
+        // measured error 3e-15 (the residuals are zero at the optimum, so Gauss-Newton converges quadratically);
+        // 1e-6 leaves the stopping tests room without admitting a wrong optimum (the others lie decades away)
+        assertEquals(0.8, r.get("parameters").get("kf").asDouble(), 1e-6);
+        assertEquals(0.3, r.get("parameters").get("K").asDouble(), 1e-6);
+    }
 }
