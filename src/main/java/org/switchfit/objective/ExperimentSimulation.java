@@ -562,7 +562,9 @@ final class ExperimentSimulation {
             if (sens) {
                 System.arraycopy(ss, j * nc * n, st.s, 0, nc * n);
             }
-            if (steady.settled(model, st.sys, st.sensParams, grid[j], st.y, st.pEff, sens ? st.s : null)) {
+            double[] previous = j > nf ? Arrays.copyOfRange(ys, (j - 1) * n, j * n) : null;
+            if (steady.settled(model, st.sys, st.sensParams, grid[j], st.y, st.pEff, sens ? st.s : null,
+                    previous)) {
                 break;
             }
             j++;

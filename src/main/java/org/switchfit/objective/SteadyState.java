@@ -8,7 +8,9 @@ import org.switchfit.ode.IntegrationSession;
 /**
  * Steady state by simulation: integrates (states and, when given, sensitivities) over growing intervals
  * (1, 10, 100, ... time units) until the right-hand side is negligible in the weighted max norm
- * {@code max_i |f_i| / (atol + rtol |y_i|) <= 1}. Robust with conservation laws (no Jacobian inversion); the
+ * {@code max_i |f_i| / (atol + rtol |y_i|) <= 1} and the state changed by at most {@link #CHANGE_FACTOR} rtol over
+ * the last interval (so a state that grows without limit is not taken as steady once its rate is small beside
+ * itself). Robust with conservation laws (no Jacobian inversion); the
  * sensitivities, when integrated, must have settled by the same measure: {@code max |ṡ| / (atol + rtol |s|) <= 1}
  * over every entry, with {@code ṡ = J s + ∂f/∂θ} (forward sensitivity equations). Without that test a state that
  * starts at (or very near) its steady state would stop at once with the sensitivities of the start, not those of
@@ -28,6 +30,17 @@ public record SteadyState(double rtol, double atol, double maxTime) {
 
     /** Solver steps allowed for one steady-state run: 50000, about 65 times the most measured (see above). */
     public static final long MAX_STEPS = 50_000;
+
+    /**
+     * Bound on the state's change over the last interval (relative, in units of rtol) for a steady state reached by
+     * integration. A small rate alone, |f| <= atol + rtol |y|, is not enough: it holds for a state that grows
+     * without limit once |y| >= |f| / rtol (x' = k passed at x = 1e8 k, t = 1e8, and was taken as steady), and on a
+     * slow approach (time scale 1/d) it leaves y off by |f| / d (1.5e-5 relative measured at d = 1e-6). Over an
+     * interval of 0.9 t (the run's decades) a growing state changes by about itself, and an exponential approach
+     * that changed by at most 100 rtol over the last decade has settled to well below that. 100 rtol rather than
+     * rtol: the integrator holds a settled state only to its own local tolerance, step after step.
+     */
+    static final double CHANGE_FACTOR = 100.0;
 
     /** Defaults: rtol 1e-8, atol 1e-12, max time 1e10. */
     public static SteadyState defaults() {
@@ -63,14 +76,19 @@ public record SteadyState(double rtol, double atol, double maxTime) {
         long steps0 = session.stats().steps();
         double lastLength = 0.0;
         long lastSteps = 0;
+        double[] before = null;
         while (true) {
             double worst = worst(model, rate, t, y, p, s, f);
-            if (worst <= 1.0) {
+            if (worst <= 1.0 && (before == null || change(before, y) <= 1.0)) {
                 return;
             }
             if (t >= maxTime) {
                 throw new IntegrationException(t, String.format(Locale.ROOT, "%s: no steady state up to t = %.3g "
-                        + "(right-hand side still %.3g times the tolerance)", what, t, worst));
+                        + "(%s)", what, t, worst > 1.0
+                                ? String.format(Locale.ROOT, "right-hand side still %.3g times the tolerance", worst)
+                                : String.format(Locale.ROOT, "the state still changed by %.3g times the tolerance "
+                                        + "over the last decade of time, as a state that grows without limit does",
+                                        change(before, y))));
             }
             long used = session.stats().steps() - steps0;
             if (used > MAX_STEPS) {
@@ -85,9 +103,11 @@ public record SteadyState(double rtol, double atol, double maxTime) {
                 double affordable = lastLength * (double) (MAX_STEPS - used) / lastSteps;
                 length = Math.min(dt, Math.max(lastLength, affordable));
             }
-            long before = session.stats().steps();
+            long stepsBefore = session.stats().steps();
+            before = before == null ? y.clone() : before;
+            System.arraycopy(y, 0, before, 0, n);
             t = session.advance(t + length, y, s);
-            lastSteps = session.stats().steps() - before;
+            lastSteps = session.stats().steps() - stepsBefore;
             lastLength = length;
             if (length == dt) {
                 dt *= 10.0;
@@ -97,12 +117,26 @@ public record SteadyState(double rtol, double atol, double maxTime) {
 
     /**
      * Whether (y, s) at time t is settled by the criteria of {@link #run}: |f| and, when {@code s} is not null, the
-     * sensitivities' rate within tolerance.
+     * sensitivities' rate within tolerance, and y changed by at most {@link #CHANGE_FACTOR} rtol since
+     * {@code previous} (the state one interval before; null at the first point).
      */
     boolean settled(CompiledModel model, org.switchfit.ode.OdeSystem sys, int[] sensParams, double t, double[] y,
-                    double[] p, double[] s) {
+                    double[] p, double[] s, double[] previous) {
         SensitivityRate rate = s != null && sensParams.length > 0 ? new SensitivityRate(sys, sensParams) : null;
-        return worst(model, rate, t, y, p, s, new double[model.stateCount()]) <= 1.0;
+        return worst(model, rate, t, y, p, s, new double[model.stateCount()]) <= 1.0
+                && (previous == null || change(previous, y) <= 1.0);
+    }
+
+    /**
+     * max_i |y_i - before_i| / (atol + CHANGE_FACTOR rtol |y_i|): the state's change over the last interval
+     * in units of its tolerance. See {@link #CHANGE_FACTOR}.
+     */
+    private double change(double[] before, double[] y) {
+        double worst = 0.0;
+        for (int i = 0; i < y.length; i++) {
+            worst = Math.max(worst, Math.abs(y[i] - before[i]) / (atol + CHANGE_FACTOR * rtol * Math.abs(y[i])));
+        }
+        return worst;
     }
 
     /**
