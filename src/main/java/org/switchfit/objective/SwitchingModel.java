@@ -292,11 +292,15 @@ final class SwitchingModel {
             for (int a = 0; a < nr; a++) {
                 change = Math.max(change, Math.abs(x[a] - xp[a]) / (1 + Math.abs(xp[a])));
             }
-            if (!converged || change > 0.1 || !physical(x, q)) {
+            boolean negative = converged && change <= 0.1 && !physical(x, q);
+            if (!converged || change > 0.1 || negative) {
                 System.arraycopy(xp, 0, x, 0, nr);
                 dt *= 0.25;
                 if (dt < 1e-12 || ++rejected > 200) {
-                    throw new ObjectiveException(what + ": pseudo-time stepping to a steady state failed");
+                    throw new ObjectiveException(what + ": pseudo-time stepping to a steady state failed" + (negative
+                            ? " (each step drove a species below 0: at these values the steady state has a negative "
+                            + "species, e.g. from a negative rate or control value; use values for which the model "
+                            + "stays non-negative)" : ""));
                 }
                 continue;
             }
