@@ -308,7 +308,7 @@ public final class LevenbergMarquardt {
                     break;
                 }
                 if (scaledProjectedGradient(g, d) <= gradientTolerance) {
-                    why = Termination.GRADIENT;
+                    why = iters == 0 && allZero(g) ? Termination.FLAT : Termination.GRADIENT;
                     break;
                 }
                 int[] work = workingSet(g);
@@ -432,7 +432,7 @@ public final class LevenbergMarquardt {
             gradient(g, r, jac);
             double pgNorm = projectedGradientNorm(g);
             if (why != Termination.ZERO_RESIDUAL && scaledProjectedGradient(g, d) <= gradientTolerance) {
-                why = Termination.GRADIENT;
+                why = iters == 0 && allZero(g) && cost > 0.0 ? Termination.FLAT : Termination.GRADIENT;
             }
             int[] active = new int[n];
             for (int k = 0; k < n; k++) {
@@ -849,5 +849,19 @@ public final class LevenbergMarquardt {
             return v;
         }
         throw new IllegalArgumentException(name + " must be >= 0, got " + v);
+    }
+
+    /**
+     * Whether every gradient entry is exactly 0 (not merely small): no parameter moves the cost, as on a plateau of
+     * the objective ({@link Termination#FLAT} when that holds at the start). A bound-constrained optimum has a
+     * non-zero gradient pointing out of the box, so it is not taken for one.
+     */
+    private static boolean allZero(double[] g) {
+        for (double v : g) {
+            if (v != 0.0) {
+                return false;
+            }
+        }
+        return true;
     }
 }

@@ -21,7 +21,14 @@ public enum Termination {
      * gain above (a margin times) the objective's measured evaluation noise: a local optimum to within the
      * accuracy of the integration.
      */
-    WITHIN_NOISE;
+    WITHIN_NOISE,
+    /**
+     * The gradient is exactly zero at the start although the cost is not: the objective does not change with any
+     * estimated parameter there (a flat region, such as switching thresholds held at the end of their control
+     * range), so the run never moved and located nothing. (A run that descends onto a plateau and stops there ends
+     * with {@link #GRADIENT}: it did find lower cost.)
+     */
+    FLAT;
 
     /** True for the reasons that indicate convergence (a local optimum on the box). */
     public boolean converged() {

@@ -194,4 +194,24 @@ class BoundedLevenbergMarquardtTest {
         assertTrue(e.getMessage().contains("'b'") && e.getMessage().contains("correct the bounds"),
                 e.getMessage());
     }
+
+    @Test
+    void aStartOnAPlateauIsReportedFlatNotConverged() {
+        // y = min(b, 1) x with data y = 3x: for b >= 1 the model ignores b, so the gradient is exactly 0 there while
+        // the cost 0.5 sum ((3 - 1) x / 0.5)^2 stays positive (derived by hand). Started there, the run cannot move.
+        CurveObjective capped = new CurveObjective(X, new double[] {0, 3, 6, 9, 12}, 0.5, 1, (x, b, g) -> {
+            g[0] = b[0] < 1 ? x : 0.0;
+            return Math.min(b[0], 1.0) * x;
+        });
+        FitProblem p = FitProblem.of(capped, new String[] {"b"}, new double[] {-10}, new double[] {10});
+        LocalFit flat = LevenbergMarquardt.defaults().minimize(p, new double[] {2});
+        assertEquals(Termination.FLAT, flat.termination());
+        assertTrue(!flat.termination().converged());
+        assertEquals(0, flat.iterations());
+        // Started below the cap, the run descends (the cost falls as b grows to 1) and may end on the plateau, where
+        // every point is a minimiser: it found lower cost, so that end counts as converged.
+        LocalFit moved = LevenbergMarquardt.defaults().minimize(p, new double[] {0});
+        assertTrue(moved.termination().converged(), moved.termination().toString());
+        assertTrue(moved.theta()[0] > 0.99, "b = " + moved.theta()[0]);
+    }
 }
