@@ -39,7 +39,8 @@ public final class CheckCommand implements Callable<Integer> {
     Path json;
 
     @Option(names = "--simulations", paramLabel = "FILE",
-            description = "write the measurement table with a simulation column (TSV)")
+            description = "write the measurement table(s) with a simulation column (TSV; the rows of all "
+                    + "measurement files, in file order)")
     Path simulations;
 
     @Option(names = "--reference", paramLabel = "FILE",

@@ -293,31 +293,52 @@ final class CheckRun {
     }
 
 
-    /** Measurement table with a simulation column after measurement (PEtab); one row per measurement row. */
+    /**
+     * The measurement tables with a simulation column after measurement (PEtab): every row of every measurement
+     * file, in file order, each with the simulation of its own measurement. Files with different columns are
+     * written under the union of their columns (first-seen order), cells a file lacks left empty. Problems whose
+     * measurements do not come from TSV files get a table of experiment, observable, time, measurement, simulation.
+     */
     String simulationsTsv() {
-        Path measFile = null;
-        String f = problem.measurements().isEmpty() ? null : problem.measurements().get(0).location().file();
-        if (f != null) {
-            measFile = Path.of(f);
-        }
-        StringBuilder sb = new StringBuilder();
-        if (measFile != null && Files.isRegularFile(measFile) && f.endsWith(".tsv")) {
-            TextTable t = DelimitedReader.read(measFile, '\t');
-            List<String> cols = t.columns();
-            Map<Integer, Integer> byLine = new HashMap<>();
-            for (int i = 0; i < problem.measurements().size(); i++) {
-                byLine.put(problem.measurements().get(i).location().line(), i);
+        List<String> files = new ArrayList<>();
+        Map<String, Integer> byRow = new HashMap<>();
+        for (int i = 0; i < problem.measurements().size(); i++) {
+            SourceLocation loc = problem.measurements().get(i).location();
+            String f = loc == null ? null : loc.file();
+            if (f == null || !f.endsWith(".tsv") || !Files.isRegularFile(Path.of(f))) {
+                return simulationsPlain();
             }
-            List<String> header = new ArrayList<>();
-            for (String c : cols) {
-                header.add(c);
-                if (c.equals("measurement")) {
-                    header.add("simulation");
+            if (!files.contains(f)) {
+                files.add(f);
+            }
+            byRow.put(f + '\u0000' + loc.line(), i);
+        }
+        if (files.isEmpty()) {
+            return simulationsPlain();
+        }
+        List<TextTable> tables = new ArrayList<>();
+        List<String> cols = new ArrayList<>();
+        for (String f : files) {
+            TextTable t = DelimitedReader.read(Path.of(f), '\t');
+            tables.add(t);
+            for (String c : t.columns()) {
+                if (!cols.contains(c)) {
+                    cols.add(c);
                 }
             }
-            sb.append(String.join("\t", header)).append('\n');
-            for (TextTable.Row r : t.rows()) {
-                Integer i = byLine.get(r.line());
+        }
+        StringBuilder sb = new StringBuilder();
+        List<String> header = new ArrayList<>();
+        for (String c : cols) {
+            header.add(c);
+            if (c.equals("measurement")) {
+                header.add("simulation");
+            }
+        }
+        sb.append(String.join("\t", header)).append('\n');
+        for (int k = 0; k < tables.size(); k++) {
+            for (TextTable.Row r : tables.get(k).rows()) {
+                Integer i = byRow.get(files.get(k) + '\u0000' + r.line());
                 List<String> cells = new ArrayList<>();
                 for (String c : cols) {
                     cells.add(r.text(c));
@@ -327,8 +348,12 @@ final class CheckRun {
                 }
                 sb.append(String.join("\t", cells)).append('\n');
             }
-            return sb.toString();
         }
+        return sb.toString();
+    }
+
+    private String simulationsPlain() {
+        StringBuilder sb = new StringBuilder();
         sb.append("experiment\tobservable\ttime\tmeasurement\tsimulation\n");
         for (int i = 0; i < problem.measurements().size(); i++) {
             Measurement me = problem.measurements().get(i);

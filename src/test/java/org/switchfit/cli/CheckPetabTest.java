@@ -1,0 +1,72 @@
+package org.switchfit.cli;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.IOException;
+import java.io.PrintWriter;
+import java.io.StringWriter;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.List;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import org.switchfit.testsystems.DecaySbml;
+import org.switchfit.testsystems.PetabFiles;
+
+/**
+ * {@code check} on small SYNTHETIC PEtab problems around the decay of {@link DecaySbml} (X' = -k X, X(0) = x0;
+ * closed form X(t) = x0 e^{-k t}, derived by hand).
+ */
+class CheckPetabTest {
+    private static final String PARAMS = "parameterId | parameterScale | lowerBound | upperBound | nominalValue | "
+            + "estimate\nk | lin | 0.01 | 2 | 0.3 | 1";
+    private static final String CONDS = "conditionId | x0\nlow | 1.0\nhigh | 2.0";
+    private static final String OBS = "observableId | observableFormula | noiseFormula\nobs | X | 0.1";
+
+    @TempDir
+    Path dir;
+
+    private static int run(StringWriter out, StringWriter err, String... args) {
+        return Main.execute(args, new PrintWriter(out, true), new PrintWriter(err, true));
+    }
+
+    /** Rewrites the problem YAML with the given extra lines under the problem entry and at the top level. */
+    private static void yaml(Path yaml, String measurementFiles, String problemExtra, String topExtra)
+            throws IOException {
+        Files.writeString(yaml, "format_version: 1\nparameter_file: parameters.tsv\nproblems:\n"
+                + "  - sbml_files: [model.xml]\n    condition_files: [conditions.tsv]\n"
+                + "    measurement_files: [" + measurementFiles + "]\n    observable_files: [observables.tsv]\n"
+                + problemExtra + topExtra);
+    }
+
+    /** Two measurement files (one with an extra column): every row of both, in file order, its own simulation. */
+    @Test
+    void simulationsOfSeveralMeasurementFiles() throws Exception {
+        Path yaml = PetabFiles.write(dir, DecaySbml.MODEL, PARAMS, CONDS, OBS,
+                "observableId | simulationConditionId | measurement | time\nobs | low | 0.7 | 1\nobs | low | 0.5 | 2");
+        Files.writeString(dir.resolve("m2.tsv"), "observableId\tsimulationConditionId\tmeasurement\ttime\t"
+                + "datasetId\nobs\thigh\t1.5\t1\td2\n");
+        yaml(yaml, "measurements.tsv, m2.tsv", "", "");
+        Path sims = dir.resolve("sims.tsv");
+        StringWriter out = new StringWriter();
+        StringWriter err = new StringWriter();
+        assertEquals(0, run(out, err, "check", yaml.toString(), "--simulations", sims.toString()), err.toString());
+        List<String> lines = Files.readAllLines(sims);
+        assertEquals(4, lines.size(), String.join("\n", lines));
+        List<String> header = List.of(lines.get(0).split("\t"));
+        int sim = header.indexOf("simulation");
+        assertEquals(header.indexOf("measurement") + 1, sim);
+        String[] condition = {"low", "low", "high"};
+        double[] expected = {Math.exp(-0.3), Math.exp(-0.6), 2 * Math.exp(-0.3)};
+        for (int i = 0; i < 3; i++) {
+            String[] cells = lines.get(i + 1).split("\t", -1);
+            assertEquals(header.size(), cells.length, lines.get(i + 1));
+            assertEquals(condition[i], cells[header.indexOf("simulationConditionId")]);
+            // rtol 1e-8 of the default integration; 1e-6 leaves a margin
+            assertEquals(expected[i], Double.parseDouble(cells[sim]), 1e-6 * expected[i], lines.get(i + 1));
+        }
+        assertEquals("d2", lines.get(3).split("\t", -1)[header.indexOf("datasetId")]);
+        assertEquals("", lines.get(1).split("\t", -1)[header.indexOf("datasetId")]);
+    }
+}
