@@ -60,6 +60,10 @@ public final class CheckCommand implements Callable<Integer> {
                 run.problem.measurements().size(), run.problem.parameterCount());
         out.printf(Locale.ROOT, "negative log-likelihood at nominal values: %.10g (priors %.6g)%n",
                 run.evaluation.nll(), run.evaluation.priorPart());
+        if (run.evaluation.outsidePrior() != null) {
+            out.printf(Locale.ROOT, "note: %s; move its nominalValue into the support or correct the prior%n",
+                    run.evaluation.outsidePrior());
+        }
         FitCommand.printThresholds(out, run.evaluation.switching());
         if (run.reference != null) {
             out.printf(Locale.ROOT, "reference %s: %d of %d match; max abs deviation %.3g, max rel deviation %.3g%n",

@@ -58,6 +58,9 @@ final class CheckRun {
         json.put("parameters", problem.parameterCount());
         json.put("nllAtNominal", evaluation.nll());
         json.put("priorPartAtNominal", evaluation.priorPart());
+        if (evaluation.outsidePrior() != null) {
+            json.put("outsidePriorSupport", evaluation.outsidePrior());
+        }
         if (!evaluation.switching().isEmpty()) {
             java.util.List<Map<String, Object>> sw = new java.util.ArrayList<>();
             for (org.switchfit.objective.SwitchingFit f : evaluation.switching()) {

@@ -106,9 +106,17 @@ public final class ProblemLoader {
                 checkBounds(p.id(), p.scale(), p.lower(), p.upper(), p.location());
                 double nominal = Double.isFinite(p.nominal()) ? p.nominal()
                         : p.scale().toLinear(0.5 * (p.scale().toScale(p.lower()) + p.scale().toScale(p.upper())));
+                FreeParameter fp = new FreeParameter(p.id(), p.scale(), p.lower(), p.upper(), nominal,
+                        p.objectivePrior(), p.location());
+                if (!(fp.thetaFeasibleLower() < fp.thetaFeasibleUpper())) {
+                    throw UserInputException.of(p.location(), "parameter '%s': the support [%s, %s] of its %s prior "
+                            + "does not overlap its bounds [%s, %s], so the prior density is 0 everywhere; correct "
+                            + "objectivePriorParameters or the bounds", p.id(), p.objectivePrior().parameter(0),
+                            p.objectivePrior().parameter(1), p.objectivePrior().type().petabName(), p.lower(),
+                            p.upper());
+                }
                 sources.put(p.id(), ValueSource.ofTheta(free.size()));
-                free.add(new FreeParameter(p.id(), p.scale(), p.lower(), p.upper(), nominal, p.objectivePrior(),
-                        p.location()));
+                free.add(fp);
             } else {
                 if (!Double.isFinite(p.nominal())) {
                     throw UserInputException.of(p.location(), "parameter '%s' is not estimated but has no finite "

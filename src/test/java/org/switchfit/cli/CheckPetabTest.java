@@ -69,4 +69,29 @@ class CheckPetabTest {
         assertEquals("d2", lines.get(3).split("\t", -1)[header.indexOf("datasetId")]);
         assertEquals("", lines.get(1).split("\t", -1)[header.indexOf("datasetId")]);
     }
+    /**
+     * A nominal value outside a uniform prior's support: check reports an infinite NLL naming the parameter (PEtab
+     * v1: density 0 outside [a, b]), JSON stays valid (null), and a fit's box is the support, so starts and steps
+     * stay where the NLL is finite.
+     */
+    @Test
+    void uniformPriorSupport() throws Exception {
+        Path yaml = PetabFiles.write(dir, DecaySbml.MODEL, "parameterId | parameterScale | lowerBound | upperBound | "
+                + "nominalValue | estimate | objectivePriorType | objectivePriorParameters\n"
+                + "k | log10 | 0.01 | 2 | 0.3 | 1 | uniform | 0.5;1", CONDS, OBS,
+                "observableId | simulationConditionId | measurement | time\nobs | low | 0.7 | 1");
+        Path json = dir.resolve("check.json");
+        StringWriter out = new StringWriter();
+        StringWriter err = new StringWriter();
+        assertEquals(0, run(out, err, "check", yaml.toString(), "--json", json.toString()), err.toString());
+        assertTrue(out.toString().contains("note: parameter 'k' = 0.300000 lies outside the support [0.500000, "
+                + "1.00000] of its uniform prior"), out.toString());
+        assertTrue(new com.fasterxml.jackson.databind.ObjectMapper().readTree(json.toFile()).get("nllAtNominal")
+                .isNull());
+        org.switchfit.problem.EstimationProblem p = org.switchfit.problem.ProblemLoader.load(yaml);
+        org.switchfit.fit.FitProblem fp = FitCommand.fitProblem(p,
+                org.switchfit.objective.LikelihoodObjective.of(p, org.switchfit.ode.SolverSettings.defaults()));
+        assertEquals(Math.log10(0.5), fp.lower(0), 1e-15);
+        assertEquals(0.0, fp.upper(0), 1e-15);
+    }
 }

@@ -77,4 +77,11 @@ class ProblemErrorsTest {
         failure(PARAMS, CONDS, "observableId | observableFormula | noiseFormula\nobs | X * (1 + | 0.1", MEAS,
                 "observables.tsv", "cannot parse formula");
     }
+    @Test
+    void uniformPriorSupportOutsideTheBounds() {
+        failure("parameterId | parameterScale | lowerBound | upperBound | nominalValue | estimate | "
+                + "objectivePriorType | objectivePriorParameters\nk | log10 | 1e-3 | 10 | 0.3 | 1 | uniform | 20;30",
+                CONDS, OBS, MEAS, "parameters.tsv", "line 2", "'k'", "does not overlap its bounds",
+                "correct objectivePriorParameters");
+    }
 }
