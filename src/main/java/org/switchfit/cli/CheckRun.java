@@ -17,6 +17,7 @@ import org.switchfit.data.PetabMeasurement;
 import org.switchfit.data.PetabReader;
 import org.switchfit.data.TextTable;
 import org.switchfit.objective.LikelihoodObjective;
+import org.switchfit.objective.UnusablePredictionException;
 import org.switchfit.ode.SolverSettings;
 import org.switchfit.problem.EstimationProblem;
 import org.switchfit.problem.Measurement;
@@ -49,7 +50,12 @@ final class CheckRun {
         long t0 = System.nanoTime();
         problem = ProblemLoader.load(problemFile);
         objective = LikelihoodObjective.of(problem, settings);
-        evaluation = objective.evaluateDetailed(problem.nominalTheta());
+        try {
+            evaluation = objective.evaluateDetailed(problem.nominalTheta());
+        } catch (UnusablePredictionException e) {
+            // the nominal values are the user's choice: a row they make unusable is an input error
+            throw new UserInputException(e.location(), "at the nominal parameter values, " + e.detail(), e);
+        }
         seconds = (System.nanoTime() - t0) * 1e-9;
         reference = referenceFile != null ? referenceFile : findReference(problemFile);
         int nm = problem.measurements().size();

@@ -166,6 +166,13 @@ public final class PetabReader {
             }
             Prior init = prior(r, "initializationPriorType", "initializationPriorParameters", id);
             Prior obj = prior(r, "objectivePriorType", "objectivePriorParameters", id);
+            if (estimate && obj != null && (obj.type() == Prior.Type.LOG_NORMAL
+                    || obj.type() == Prior.Type.LOG_LAPLACE) && !(lower > 0)) {
+                throw Messages.error(r.location("lowerBound"), "parameter '%s': a %s prior is defined for positive"
+                        + " values only, but lowerBound %s lets the parameter be 0 or negative; give a positive"
+                        + " lowerBound or another objectivePriorType", id, obj.type().petabName(),
+                        r.text("lowerBound"));
+            }
             out.add(new PetabParameter(id, r.text("parameterName"), scale, lower, upper, nominal, estimate, init,
                     obj, r.location()));
         }
@@ -201,6 +208,23 @@ public final class PetabReader {
         if (values.size() != type.arity() && !(values.isEmpty() && type.parametersOptional())) {
             throw Messages.error(r.location(paramsColumn), "parameter '%s': prior %s needs %d parameters"
                     + " separated by ';', got '%s'", id, type.petabName(), type.arity(), p);
+        }
+        if (!values.isEmpty()) {
+            double a = values.get(0);
+            double b = values.get(1);
+            boolean uniform = type == Prior.Type.UNIFORM || type == Prior.Type.PARAMETER_SCALE_UNIFORM;
+            if (uniform && !(Double.isFinite(a) && Double.isFinite(b) && a < b)) {
+                throw Messages.error(r.location(paramsColumn), "parameter '%s': prior %s needs finite limits"
+                        + " lower;upper with lower < upper, got '%s'; correct %s", id, type.petabName(), p,
+                        paramsColumn);
+            }
+            if (!uniform && !(Double.isFinite(a) && b > 0 && b < Double.POSITIVE_INFINITY)) {
+                throw Messages.error(r.location(paramsColumn), "parameter '%s': prior %s needs a finite %s and a"
+                        + " positive finite %s, got '%s'; correct %s", id, type.petabName(),
+                        type == Prior.Type.LOG_NORMAL || type == Prior.Type.LOG_LAPLACE ? "mu" : "location",
+                        type == Prior.Type.NORMAL || type == Prior.Type.PARAMETER_SCALE_NORMAL
+                                || type == Prior.Type.LOG_NORMAL ? "standard deviation" : "scale", p, paramsColumn);
+            }
         }
         return new Prior(type, values);
     }
@@ -271,17 +295,29 @@ public final class PetabReader {
         return out;
     }
 
+    /**
+     * The values of an observableParameters / noiseParameters field; an empty field or a lone NaN (written by
+     * dataframe tools for "none") gives none, a NaN among several values is an error.
+     */
     private static List<ValueRef> overrides(TextTable.Row r, String column) {
         String text = r.text(column);
         if (text.isEmpty()) {
             return List.of();
         }
+        String[] parts = text.split(";", -1);
         List<ValueRef> out = new ArrayList<>();
-        for (String part : text.split(";", -1)) {
-            ValueRef v = ValueRef.parse(part);
+        for (int i = 0; i < parts.length; i++) {
+            ValueRef v = ValueRef.parse(parts[i]);
             if (v == null) {
                 throw Messages.error(r.location(column), "column '%s': '%s' is neither a number nor a"
-                        + " parameter id; write values separated by ';', e.g. 1.5;scale_a", column, part.strip());
+                        + " parameter id; write values separated by ';', e.g. 1.5;scale_a", column, parts[i].strip());
+            }
+            if (v.isNumber() && Double.isNaN(v.number())) {
+                if (parts.length == 1) {
+                    return List.of();
+                }
+                throw Messages.error(r.location(column), "column '%s': value %d of '%s' is NaN; give a number or"
+                        + " a parameter-table id for every placeholder", column, i + 1, text);
             }
             out.add(v);
         }

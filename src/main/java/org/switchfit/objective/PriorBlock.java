@@ -6,6 +6,7 @@ import java.util.Locale;
 import org.switchfit.data.Prior;
 import org.switchfit.problem.EstimationProblem;
 import org.switchfit.problem.FreeParameter;
+import org.switchfit.util.UserInputException;
 
 /**
  * Objective priors as residuals: the negative log density of each prior (PEtab v1 parameter table, "priors")
@@ -70,6 +71,11 @@ final class PriorBlock implements ResidualBlock {
                     break;
                 case LOG_NORMAL:
                 case LOG_LAPLACE:
+                    if (!(p.lower() > 0)) {
+                        throw UserInputException.of(p.location(), "parameter '%s': a %s prior is defined for "
+                                + "positive values only, but its lower bound %s lets it be 0 or negative; give a "
+                                + "positive lower bound or another prior", p.id(), pr.type().petabName(), p.lower());
+                    }
                     shift = 1.0 - 2.0 * Math.log(p.lower());
                     c += (pr.type() == Prior.Type.LOG_NORMAL ? 0.5 * LOG_2PI + Math.log(b) : Math.log(2.0 * b))
                             - 0.5 * shift;
@@ -149,8 +155,11 @@ final class PriorBlock implements ResidualBlock {
                 // x = ln(value): the density's 1/value factor contributes + ln(value) to the NLL
                 double arg = 2.0 * x + t.shift();
                 if (!(arg > 0)) {
-                    throw new ObjectiveException("parameter " + ctx.problem().parameters().get(j).id()
-                            + " is below its lower bound; the log-prior term is undefined");
+                    // the constructor makes arg positive on the box; only a value below the lower bound gets here
+                    throw new ObjectiveException(String.format(Locale.ROOT, "parameter '%s' = %.6g is below its "
+                            + "lower bound %.6g, where the %s prior's term is undefined",
+                            ctx.problem().parameters().get(j).id(), ctx.linear(j),
+                            ctx.problem().parameters().get(j).lower(), t.type().petabName()));
                 }
                 double rs = Math.sqrt(arg);
                 r[row + 1] = rs;

@@ -94,4 +94,23 @@ class CheckPetabTest {
         assertEquals(Math.log10(0.5), fp.lower(0), 1e-15);
         assertEquals(0.0, fp.upper(0), 1e-15);
     }
+    /**
+     * A log-transformed observable whose prediction at the nominal values is 0 (X(0) = x0 = 0): check refuses with one
+     * line naming the row, the experiment, the time and what to do, exit code 2.
+     */
+    @Test
+    void logObservableWithZeroPredictionAtTheNominalValues() throws Exception {
+        Path yaml = PetabFiles.write(dir, DecaySbml.MODEL, PARAMS, "conditionId | x0\nzero | 0",
+                "observableId | observableFormula | noiseFormula | observableTransformation\nobsL | X | 0.1 | log",
+                "observableId | simulationConditionId | measurement | time\nobsL | zero | 1 | 0");
+        StringWriter out = new StringWriter();
+        StringWriter err = new StringWriter();
+        assertEquals(Main.EXIT_USER_ERROR, run(out, err, "check", yaml.toString()));
+        String msg = err.toString().strip();
+        assertEquals(1, msg.lines().count(), msg);
+        for (String s : List.of("error: ", "measurements.tsv, line 2", "nominal parameter values", "experiment 'zero'",
+                "t = 0", "observable 'obsL' is log-transformed", "prediction is 0", "add an offset")) {
+            assertTrue(msg.contains(s), "'" + s + "' missing in: " + msg);
+        }
+    }
 }
