@@ -288,6 +288,11 @@ public final class PetabReader {
                 throw Messages.error(r.location("time"), "time '%s' is not allowed; give a finite time or inf"
                         + " for a steady-state measurement", r.text("time"));
             }
+            if (time < 0) {
+                throw Messages.error(r.location("time"), "time %s is negative, but simulations start at t = 0;"
+                        + " give times >= 0 (shift the time axis so that the experiment starts at 0)",
+                        r.text("time"));
+            }
             out.add(new PetabMeasurement(obs, sim, pre.isEmpty() ? null : pre, value, time,
                     overrides(r, "observableParameters"), overrides(r, "noiseParameters"), r.text("datasetId"),
                     r.text("replicateId"), r.location()));

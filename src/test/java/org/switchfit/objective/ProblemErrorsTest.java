@@ -123,4 +123,10 @@ class ProblemErrorsTest {
         failure(PRIOR_PARAMS + "k | lin | -1 | 1 | 0.3 | 1 | logNormal | 0;1", CONDS, OBS, MEAS,
                 "parameters.tsv", "line 2", "column 3", "positive values only", "lowerBound -1");
     }
+    /** PEtab simulations start at t = 0, so a negative measurement time is refused at its cell. */
+    @Test
+    void negativeMeasurementTime() {
+        failure(PARAMS, CONDS, OBS, "observableId | simulationConditionId | measurement | time\nobs | c0 | 1.0 | 1\n"
+                + "obs | c0 | 1.0 | -1", "measurements.tsv", "line 3", "column 4", "negative", "t = 0");
+    }
 }
