@@ -52,6 +52,8 @@ public final class PetabReader {
         root.requireMap("format_version: 1");
         List<String> notes = new ArrayList<>();
         noteUnknownKeys(root, TOP_KEYS, notes);
+        refuseIfGiven(root, "extensions", "this reader implements PEtab v1 without extensions; remove the key and"
+                + " what depends on it, or use a tool that supports the extension");
         YamlNode version = root.require("format_version", "1");
         String v = version.scalar("1").strip();
         if (!(v.equals("1") || v.startsWith("1.") || v.equals("1.0"))) {
@@ -84,9 +86,8 @@ public final class PetabReader {
                 observables.addAll(readObservables(p));
             }
             visualization.addAll(files(base, item, "visualization_files", false));
-            if (item.has("mapping_files")) {
-                notes.add(item.location() + ": mapping_files are not read");
-            }
+            refuseIfGiven(item, "mapping_files", "mapping tables are not applied by this reader; remove the key and"
+                    + " write the model's ids in the tables");
         }
         checkUniqueIds(conditions, PetabCondition::id, PetabCondition::location, "condition");
         checkUniqueIds(observables, PetabObservable::id, PetabObservable::location, "observable");
@@ -94,6 +95,26 @@ public final class PetabReader {
         checkOverrideIds(measurements, parameters);
         return new PetabProblem(yamlFile, 1, parameters, sbml, conditions, measurements, observables, visualization,
                 notes);
+    }
+
+    /**
+     * Refuses a key whose content this reader would otherwise ignore silently (an empty value is allowed: it asks
+     * for nothing).
+     */
+    private static void refuseIfGiven(YamlNode map, String key, String hint) {
+        if (!map.has(key)) {
+            return;
+        }
+        YamlNode n = map.get(key);
+        boolean empty = switch (n.kind()) {
+            case NULL -> true;
+            case LIST -> n.requireList("[]").isEmpty();
+            case MAP -> n.entries().isEmpty();
+            case SCALAR -> n.scalar("").isBlank();
+        };
+        if (!empty) {
+            throw Messages.error(n.location(), "key '%s' is not supported: " + hint, key);
+        }
     }
 
     private static void noteUnknownKeys(YamlNode map, List<String> allowed, List<String> notes) {

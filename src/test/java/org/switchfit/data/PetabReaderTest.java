@@ -200,4 +200,17 @@ class PetabReaderTest {
         assertEquals("fed", rows.get(0).simulationConditionId());
         assertEquals(0.5, rows.get(0).value(), 0.0);
     }
+    /** Keys whose content the reader would ignore are refused by name; empty values ask for nothing. */
+    @Test
+    void mappingFilesAndExtensionsAreRefused() throws Exception {
+        Path f = TestFiles.copyFolder("petab-tiny", dir.resolve("keys"));
+        String yaml = Files.readString(f.resolve("problem.yaml"));
+        Files.writeString(f.resolve("mapping.tsv"), "petabEntityId\tmodelEntityId\nk\tk_conv\n");
+        Files.writeString(f.resolve("problem.yaml"), yaml + "    mapping_files:\n      - mapping.tsv\n");
+        fails(f, "problem.yaml, line 13", "key 'mapping_files' is not supported", "remove the key");
+        Files.writeString(f.resolve("problem.yaml"), yaml + "    mapping_files: []\n");
+        PetabReader.read(f.resolve("problem.yaml"));
+        Files.writeString(f.resolve("problem.yaml"), yaml + "extensions:\n  sbml_extra: {version: 1}\n");
+        fails(f, "problem.yaml, line 13", "key 'extensions' is not supported", "remove the key");
+    }
 }
