@@ -102,6 +102,13 @@ public final class ProblemLoader {
         Map<String, ValueSource> sources = new HashMap<>();
         for (PetabParameter p : pp.parameters()) {
             table.put(p.id(), p);
+            if (original.species(p.id()) != null) {
+                // the row would otherwise have no effect at all
+                throw UserInputException.of(p.location(), "parameter table row '%s' names a species of the model; "
+                        + "PEtab v1 sets species values in the condition table: remove the row and add a column '%s' "
+                        + "to the condition table (its value may be a parameter-table id to estimate it)", p.id(),
+                        p.id());
+            }
             if (p.estimate()) {
                 checkBounds(p.id(), p.scale(), p.lower(), p.upper(), p.location());
                 double nominal = Double.isFinite(p.nominal()) ? p.nominal()

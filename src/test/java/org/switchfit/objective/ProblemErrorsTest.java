@@ -129,4 +129,12 @@ class ProblemErrorsTest {
         failure(PARAMS, CONDS, OBS, "observableId | simulationConditionId | measurement | time\nobs | c0 | 1.0 | 1\n"
                 + "obs | c0 | 1.0 | -1", "measurements.tsv", "line 3", "column 4", "negative", "t = 0");
     }
+    /** PEtab v1 sets species values in the condition table; a species row in the parameter table is refused. */
+    @Test
+    void speciesInTheParameterTable() {
+        failure(PARAMS + "\nX | lin | 0.1 | 10 | 0.9 | 1", CONDS, OBS, MEAS, "parameters.tsv", "line 3", "'X'",
+                "names a species", "condition table");
+        failure(PARAMS + "\nX | lin | 0.1 | 10 | 0.9 | 0", CONDS, OBS, MEAS, "parameters.tsv", "line 3", "'X'",
+                "names a species", "condition table");
+    }
 }
