@@ -53,7 +53,7 @@ public final class CheckCommand implements Callable<Integer> {
     @Override
     public Integer call() {
         SolverSettings settings = tolerances.settings();
-        CheckRun run = new CheckRun(problem, reference, settings);
+        CheckRun run = new CheckRun(problem, reference, settings, spec.commandLine().getErr());
         PrintWriter out = spec.commandLine().getOut();
         Map<String, Object> j = run.json;
         out.printf(Locale.ROOT, "%s: %d measurements, %d estimated parameters%n", problem,

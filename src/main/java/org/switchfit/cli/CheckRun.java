@@ -47,8 +47,16 @@ final class CheckRun {
     final Map<String, Object> json = new LinkedHashMap<>();
 
     CheckRun(Path problemFile, Path referenceFile, SolverSettings settings) {
+        this(problemFile, referenceFile, settings, null);
+    }
+
+    /** @param warnings receives the problem's notes before the evaluation, or null */
+    CheckRun(Path problemFile, Path referenceFile, SolverSettings settings, java.io.PrintWriter warnings) {
         long t0 = System.nanoTime();
         problem = ProblemLoader.load(problemFile);
+        if (warnings != null) {
+            FitCommand.printNotes(warnings, problem);
+        }
         objective = LikelihoodObjective.of(problem, settings);
         try {
             evaluation = objective.evaluateDetailed(problem.nominalTheta());
@@ -62,6 +70,7 @@ final class CheckRun {
         json.put("problem", problemFile.toString());
         json.put("measurements", nm);
         json.put("parameters", problem.parameterCount());
+        json.put("warnings", problem.notes());
         json.put("nllAtNominal", evaluation.nll());
         json.put("priorPartAtNominal", evaluation.priorPart());
         if (evaluation.outsidePrior() != null) {

@@ -81,6 +81,7 @@ public final class FitCommand implements Callable<Integer> {
                     + threads);
         }
         EstimationProblem problem = ProblemLoader.load(problemFile);
+        printNotes(spec.commandLine().getErr(), problem);
         LikelihoodObjective objective = LikelihoodObjective.of(problem, solver.settings());
         FitProblem fp = fitProblem(problem, objective);
         StartStore store = new StartStore(out.resolve("starts"), resume, () -> new UserInputException(
@@ -137,6 +138,14 @@ public final class FitCommand implements Callable<Integer> {
         printThresholds(o, switching);
         o.flush();
         return 0;
+    }
+
+    /** Prints the problem's notes ({@link EstimationProblem#notes()}), one {@code warning:} line each. */
+    static void printNotes(PrintWriter err, EstimationProblem problem) {
+        for (String n : problem.notes()) {
+            err.println("warning: " + n);
+        }
+        err.flush();
     }
 
     /**

@@ -32,7 +32,40 @@ public final class PetabReader {
     static final List<String> PROBLEM_KEYS = List.of("sbml_files", "condition_files", "measurement_files",
             "observable_files", "visualization_files", "mapping_files");
 
+    /** Standard columns of the tables (PEtab v1 specification, from memory). */
+    static final List<String> PARAMETER_COLUMNS = List.of("parameterId", "parameterName", "parameterScale",
+            "lowerBound", "upperBound", "nominalValue", "estimate", "initializationPriorType",
+            "initializationPriorParameters", "objectivePriorType", "objectivePriorParameters");
+    static final List<String> CONDITION_COLUMNS = List.of("conditionId", "conditionName");
+    static final List<String> MEASUREMENT_COLUMNS = List.of("observableId", "preequilibrationConditionId",
+            "simulationConditionId", "measurement", "time", "observableParameters", "noiseParameters", "datasetId",
+            "replicateId");
+    static final List<String> OBSERVABLE_COLUMNS = List.of("observableId", "observableName", "observableFormula",
+            "observableTransformation", "noiseFormula", "noiseDistribution");
+
     private PetabReader() {
+    }
+
+    /**
+     * Adds a note for each column that is not a standard column of its table but close to one (equal ignoring case,
+     * or within an edit distance of 2): PEtab allows extra columns, so such a column is read as an extra one and
+     * the standard column it was meant to be is missing; likely a typo.
+     */
+    static void noteNearColumns(TextTable t, List<String> standard, List<String> notes) {
+        for (String c : t.columns()) {
+            if (standard.contains(c)) {
+                continue;
+            }
+            for (String s : standard) {
+                if (Spelling.distance(c.toLowerCase(java.util.Locale.ROOT), s.toLowerCase(java.util.Locale.ROOT))
+                        <= 2) {
+                    notes.add(String.format(java.util.Locale.ROOT, "%s: column '%s' is not a PEtab column and is "
+                            + "ignored as an extra column; did you mean '%s'? (rename it if so)",
+                            t.headerLocation(), Messages.shown(c), s));
+                    break;
+                }
+            }
+        }
     }
 
     /** Reads the problem described by a PEtab v1 YAML file and all tables it lists. */
@@ -63,7 +96,7 @@ public final class PetabReader {
         Path base = yamlFile.toAbsolutePath().getParent();
         List<PetabParameter> parameters = new ArrayList<>();
         for (Path p : files(base, root, "parameter_file", true)) {
-            parameters.addAll(readParameters(p));
+            parameters.addAll(readParameters(p, notes));
         }
         checkUniqueIds(parameters, PetabParameter::id, PetabParameter::location, "parameter");
         List<Path> sbml = new ArrayList<>();
@@ -77,13 +110,13 @@ public final class PetabReader {
             noteUnknownKeys(item, PROBLEM_KEYS, notes);
             sbml.addAll(files(base, item, "sbml_files", true));
             for (Path p : files(base, item, "condition_files", true)) {
-                conditions.addAll(readConditions(p));
+                conditions.addAll(readConditions(p, notes));
             }
             for (Path p : files(base, item, "measurement_files", true)) {
-                measurements.addAll(readMeasurements(p));
+                measurements.addAll(readMeasurements(p, notes));
             }
             for (Path p : files(base, item, "observable_files", true)) {
-                observables.addAll(readObservables(p));
+                observables.addAll(readObservables(p, notes));
             }
             visualization.addAll(files(base, item, "visualization_files", false));
             refuseIfGiven(item, "mapping_files", "mapping tables are not applied by this reader; remove the key and"
@@ -147,7 +180,13 @@ public final class PetabReader {
 
     /** Reads a PEtab v1 parameter table. */
     public static List<PetabParameter> readParameters(Path file) {
+        return readParameters(file, new ArrayList<>());
+    }
+
+    /** Reads a parameter table, adding a note for each column that looks like a misspelt standard column. */
+    static List<PetabParameter> readParameters(Path file, List<String> notes) {
         TextTable t = DelimitedReader.read(file, '\t');
+        noteNearColumns(t, PARAMETER_COLUMNS, notes);
         t.requireColumns("PEtab parameter table", "parameterId", "parameterScale", "lowerBound", "upperBound",
                 "nominalValue", "estimate");
         List<PetabParameter> out = new ArrayList<>();
@@ -252,7 +291,13 @@ public final class PetabReader {
 
     /** Reads a PEtab v1 condition table. */
     public static List<PetabCondition> readConditions(Path file) {
+        return readConditions(file, new ArrayList<>());
+    }
+
+    /** Reads a condition table, adding a note for each column that looks like a misspelt standard column. */
+    static List<PetabCondition> readConditions(Path file, List<String> notes) {
         TextTable t = DelimitedReader.read(file, '\t');
+        noteNearColumns(t, CONDITION_COLUMNS, notes);
         t.requireColumns("PEtab condition table", "conditionId");
         List<PetabCondition> out = new ArrayList<>();
         for (TextTable.Row r : t.rows()) {
@@ -277,8 +322,15 @@ public final class PetabReader {
 
     /** Reads a PEtab v1 measurement table. */
     public static List<PetabMeasurement> readMeasurements(Path file) {
-        return readMeasurementRows(DelimitedReader.read(file, '\t'), "measurement", "simulationConditionId",
-                "preequilibrationConditionId", "PEtab measurement table");
+        return readMeasurements(file, new ArrayList<>());
+    }
+
+    /** Reads a measurement table, adding a note for each column that looks like a misspelt standard column. */
+    static List<PetabMeasurement> readMeasurements(Path file, List<String> notes) {
+        TextTable t = DelimitedReader.read(file, '\t');
+        noteNearColumns(t, MEASUREMENT_COLUMNS, notes);
+        return readMeasurementRows(t, "measurement", "simulationConditionId", "preequilibrationConditionId",
+                "PEtab measurement table");
     }
 
     /**
@@ -352,7 +404,13 @@ public final class PetabReader {
 
     /** Reads a PEtab v1 observable table. */
     public static List<PetabObservable> readObservables(Path file) {
+        return readObservables(file, new ArrayList<>());
+    }
+
+    /** Reads an observable table, adding a note for each column that looks like a misspelt standard column. */
+    static List<PetabObservable> readObservables(Path file, List<String> notes) {
         TextTable t = DelimitedReader.read(file, '\t');
+        noteNearColumns(t, OBSERVABLE_COLUMNS, notes);
         t.requireColumns("PEtab observable table", "observableId", "observableFormula", "noiseFormula");
         List<PetabObservable> out = new ArrayList<>();
         for (TextTable.Row r : t.rows()) {

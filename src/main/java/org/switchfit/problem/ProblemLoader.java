@@ -267,8 +267,63 @@ public final class ProblemLoader {
         inputs.add(pp.yamlFile());
         inputs.add(sbml);
         inputs.addAll(tableFiles(pp));
+        List<String> notes = new ArrayList<>(pp.notes());
+        notes.addAll(missingNominalNotes(pp, free));
+        notes.addAll(unusedParameterNotes(free, conditions, globalSources, meas));
         return new EstimationProblem(pp.yamlFile(), inputs, sbml, model, cm, free, conditions, experiments,
-                observables, meas, globalIds, globalSources, maxObs, maxNoise, List.of());
+                observables, meas, globalIds, globalSources, maxObs, maxNoise, List.of(), notes);
+    }
+
+    /** One note per estimated parameter without a nominal value: what check and --nominal-start use instead. */
+    private static List<String> missingNominalNotes(PetabProblem pp, List<FreeParameter> free) {
+        List<String> out = new ArrayList<>();
+        int j = 0;
+        for (PetabParameter p : pp.parameters()) {
+            if (!p.estimate()) {
+                continue;
+            }
+            if (!Double.isFinite(p.nominal())) {
+                out.add(String.format(java.util.Locale.ROOT, "%s: estimated parameter '%s' has no nominalValue; "
+                        + "check evaluates at (and fit --nominal-start starts from) the midpoint of its bounds on its "
+                        + "%s scale, %.6g", p.location(), p.id(), p.scale().token(), free.get(j).nominal()));
+            }
+            j++;
+        }
+        return out;
+    }
+
+    /**
+     * One note per estimated parameter that nothing reads: no condition passes it to the model (parameter-table ids
+     * of model parameters, condition-table values), no observable or noise formula names it, no measurement row
+     * overrides a placeholder with it. The data cannot determine such a parameter.
+     */
+    private static List<String> unusedParameterNotes(List<FreeParameter> free, List<Condition> conditions,
+                                                     List<ValueSource> globalSources, List<Measurement> meas) {
+        boolean[] used = new boolean[free.size()];
+        for (Condition c : conditions) {
+            for (int i = 0; i < c.targetCount(); i++) {
+                used[c.targetTheta(i)] = true;
+            }
+        }
+        List<ValueSource> reads = new ArrayList<>(globalSources);
+        for (Measurement me : meas) {
+            reads.addAll(me.obsParameters());
+            reads.addAll(me.noiseParameters());
+        }
+        for (ValueSource v : reads) {
+            if (v.isTheta()) {
+                used[v.thetaIndex()] = true;
+            }
+        }
+        List<String> out = new ArrayList<>();
+        for (int j = 0; j < used.length; j++) {
+            if (!used[j]) {
+                out.add(String.format(java.util.Locale.ROOT, "%s: estimated parameter '%s' is used by no model "
+                        + "element, observable or noise formula, condition or measurement row, so the data cannot "
+                        + "determine it; correct its id, or remove the row", free.get(j).location(), free.get(j).id()));
+            }
+        }
+        return out;
     }
 
     private static List<Path> tableFiles(PetabProblem pp) {

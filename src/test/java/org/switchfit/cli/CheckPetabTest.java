@@ -113,4 +113,32 @@ class CheckPetabTest {
             assertTrue(msg.contains(s), "'" + s + "' missing in: " + msg);
         }
     }
+    /**
+     * Input that loads but is probably not what was meant gives warning lines (stderr, and "warnings" in the JSON):
+     * a misspelt optional column, an estimated parameter without nominal value (check uses the midpoint of its
+     * bounds on its scale: lin bounds 0.01 and 2 give 1.005) and an estimated parameter nothing uses.
+     */
+    @Test
+    void warningsForMisspeltColumnMissingNominalValueAndUnusedParameter() throws Exception {
+        Path yaml = PetabFiles.write(dir, DecaySbml.MODEL, PARAMS.replace("0.3 | 1", " | 1")
+                + "\nscale_typo | log10 | 0.01 | 100 | 1 | 1", CONDS, OBS,
+                "observableId | simulationConditionId | measurement | time | datasetID\nobs | low | 0.7 | 1 | d1");
+        Path json = dir.resolve("check.json");
+        StringWriter out = new StringWriter();
+        StringWriter err = new StringWriter();
+        assertEquals(0, run(out, err, "check", yaml.toString(), "--json", json.toString()), err.toString());
+        List<String> warnings = err.toString().strip().lines().toList();
+        assertEquals(3, warnings.size(), err.toString());
+        for (String w : warnings) {
+            assertTrue(w.startsWith("warning: "), w);
+        }
+        assertTrue(warnings.get(0).contains("measurements.tsv, line 1: column 'datasetID'")
+                && warnings.get(0).contains("did you mean 'datasetId'?"), warnings.get(0));
+        assertTrue(warnings.get(1).contains("parameters.tsv, line 2: estimated parameter 'k' has no nominalValue")
+                && warnings.get(1).contains("midpoint of its bounds on its lin scale, 1.00500"), warnings.get(1));
+        assertTrue(warnings.get(2).contains("parameters.tsv, line 3: estimated parameter 'scale_typo' is used by no "
+                + "model element"), warnings.get(2));
+        assertEquals(3, new com.fasterxml.jackson.databind.ObjectMapper().readTree(json.toFile()).get("warnings")
+                .size());
+    }
 }
