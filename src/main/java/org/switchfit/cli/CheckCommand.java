@@ -24,7 +24,12 @@ import picocli.CommandLine.Spec;
         footer = {"", "Examples:", "  switchfit check datasets/stress_switch.yaml", "  switchfit check problem.yaml --json check.json --simulations simulated.tsv"},
         description = "Validate a problem (PEtab YAML or switchfit problem file), evaluate the negative "
                 + "log-likelihood at the nominal parameter values and compare simulations with the reference "
-                + "simulatedData table when there is one.")
+                + "simulatedData table when there is one.",
+        exitCodeListHeading = "%nExit codes:%n",
+        exitCodeList = {"0:everything matches the reference (or there is none)",
+            "3:some simulated value differs from the reference table",
+            "2:user error in the problem (one line on stderr: what, where, what to do)",
+            "1:internal failure"})
 public final class CheckCommand implements Callable<Integer> {
     /** Exit code when simulations differ from the reference. */
     static final int EXIT_MISMATCH = 3;
@@ -66,16 +71,17 @@ public final class CheckCommand implements Callable<Integer> {
         }
         FitCommand.printThresholds(out, run.evaluation.switching());
         if (run.reference != null) {
-            out.printf(Locale.ROOT, "reference %s: %d of %d match; max abs deviation %.3g, max rel deviation %.3g%n",
-                    run.reference.getFileName(), j.get("matched"), run.problem.measurements().size(),
-                    j.get("maxAbsDeviation"), j.get("maxRelDeviation"));
+            out.printf(Locale.ROOT, "reference %s: %d of %d match; max abs deviation %.3g, max rel deviation %s "
+                    + "(over nonzero references)%n", run.reference.getFileName(), j.get("matched"),
+                    run.problem.measurements().size(), j.get("maxAbsDeviation"),
+                    CheckRun.relative(j.get("maxRelDeviation")));
             @SuppressWarnings("unchecked")
             List<Map<String, Object>> obs = (List<Map<String, Object>>) j.get("observables");
             for (Map<String, Object> o : obs) {
                 if (((Integer) o.get("mismatches")) > 0) {
-                    out.printf(Locale.ROOT, "  observable %s: %d of %d differ (max abs %.3g, max rel %.3g)%n",
+                    out.printf(Locale.ROOT, "  observable %s: %d of %d differ (max abs %.3g, max rel %s)%n",
                             o.get("id"), o.get("mismatches"), o.get("measurements"), o.get("maxAbsDeviation"),
-                            o.get("maxRelDeviation"));
+                            CheckRun.relative(o.get("maxRelDeviation")));
                 }
             }
         } else {

@@ -29,7 +29,8 @@ import org.switchfit.util.UserInputException;
  * Shared logic of {@code check} and {@code bench-petab}: load, evaluate at the nominal parameters, compare the
  * simulated observables with a reference simulation table. Tolerance: a value matches when
  * {@code |sim - ref| <= REL_TOL |ref| + ABS_TOL_FRACTION * range}, range = max - min of the observable's reference
- * values (its largest |ref| when the range is 0).
+ * values (its largest |ref| when the range is 0). The reported maximal relative deviation is taken over the nonzero
+ * reference values (NaN, null in JSON, when there are none).
  */
 final class CheckRun {
     /** Relative tolerance of the comparison with reference simulations. */
@@ -114,11 +115,13 @@ final class CheckRun {
             }
         }
         double maxAbs = 0.0;
-        double maxRel = 0.0;
+        // relative deviations over the nonzero references only (NaN, written null / n/a, when there is none)
+        double maxRel = Double.NaN;
         int matched = 0;
         List<Map<String, Object>> perObs = new ArrayList<>();
         double[] oAbs = new double[no];
         double[] oRel = new double[no];
+        java.util.Arrays.fill(oRel, Double.NaN);
         int[] oCount = new int[no];
         int[] oBad = new int[no];
         int firstBad = -1;
@@ -128,7 +131,7 @@ final class CheckRun {
             double sim = evaluation.simulated()[i];
             double range = hi[o] - lo[o] > 0 ? hi[o] - lo[o] : big[o];
             double d = Math.abs(sim - ref);
-            double rel = ref != 0 ? d / Math.abs(ref) : (d == 0 ? 0 : Double.POSITIVE_INFINITY);
+            double rel = ref != 0 ? d / Math.abs(ref) : Double.NaN;
             boolean ok = Double.isFinite(sim) && d <= REL_TOL * Math.abs(ref) + ABS_TOL_FRACTION * range;
             matches[i] = ok;
             if (ok) {
@@ -143,8 +146,12 @@ final class CheckRun {
                 maxAbs = Double.POSITIVE_INFINITY;
                 oAbs[o] = Double.POSITIVE_INFINITY;
             }
-            maxRel = Math.max(maxRel, Double.isNaN(rel) ? Double.POSITIVE_INFINITY : rel);
-            oRel[o] = Math.max(oRel[o], Double.isNaN(rel) ? Double.POSITIVE_INFINITY : rel);
+            if (ref != 0) {
+                // a NaN deviation (simulation not finite) counts as infinitely far
+                double relOrInf = Double.isNaN(rel) ? Double.POSITIVE_INFINITY : rel;
+                maxRel = Double.isNaN(maxRel) ? relOrInf : Math.max(maxRel, relOrInf);
+                oRel[o] = Double.isNaN(oRel[o]) ? relOrInf : Math.max(oRel[o], relOrInf);
+            }
             oCount[o]++;
             oBad[o] += ok ? 0 : 1;
         }
@@ -381,6 +388,11 @@ final class CheckRun {
                     .append(fmt(evaluation.simulated()[i])).append('\n');
         }
         return sb.toString();
+    }
+
+    /** A relative deviation for the terminal: 3 digits, or n/a when no reference value was nonzero. */
+    static String relative(Object v) {
+        return v instanceof Double d && !Double.isNaN(d) ? String.format(Locale.ROOT, "%.3g", d) : "n/a";
     }
 
     static String fmt(double v) {

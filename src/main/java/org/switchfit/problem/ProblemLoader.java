@@ -166,7 +166,9 @@ public final class ProblemLoader {
                 boolean species = model.species(col) != null;
                 int k = cm.parameterIndex(conditionTarget(cm, col));
                 if (k < 0) {
-                    throw UserInputException.of(c.location().withElement(col), "condition table column '%s' is not "
+                    // the column is the problem, so the location is the header line
+                    SourceLocation header = new SourceLocation(c.location().file(), 1, 0, col);
+                    throw UserInputException.of(header, "condition table column '%s' is not "
                             + "a parameter, species or compartment of the model that a condition can set; remove "
                             + "the column or correct the id", col);
                 }

@@ -141,4 +141,43 @@ class CheckPetabTest {
         assertEquals(3, new com.fasterxml.jackson.databind.ObjectMapper().readTree(json.toFile()).get("warnings")
                 .size());
     }
+    /**
+     * The maximal relative deviation from a reference is taken over the nonzero reference values: a reference 0
+     * beside a simulation of 7.4e-10 (x0 = 1e-9) no longer makes it infinite; with only zero references it is n/a
+     * (null in JSON). Reference for 'low': e^{-0.3} (1 + 5e-4), closed form of the decay (the integration error,
+     * about 1e-7 relative at rtol 1e-8, leaves the 3 digits shown).
+     */
+    @Test
+    void relativeDeviationOverNonzeroReferences() throws Exception {
+        Path yaml = PetabFiles.write(dir, DecaySbml.MODEL, PARAMS, "conditionId | x0\nlow | 1.0\ntiny | 1e-9", OBS,
+                "observableId | simulationConditionId | measurement | time\nobs | low | 0.7 | 1\nobs | tiny | 0 | 1");
+        Path ref = dir.resolve("ref.tsv");
+        Files.writeString(ref, "observableId\tsimulationConditionId\tsimulation\ttime\nobs\tlow\t"
+                + Math.exp(-0.3) * (1 + 5e-4) + "\t1\nobs\ttiny\t0\t1\n");
+        Path json = dir.resolve("check.json");
+        StringWriter out = new StringWriter();
+        StringWriter err = new StringWriter();
+        assertEquals(0, run(out, err, "check", yaml.toString(), "--reference", ref.toString(), "--json",
+                json.toString()), out + "\n" + err);
+        assertTrue(out.toString().contains("max rel deviation 0.000500 (over nonzero references)"), out.toString());
+        Files.writeString(ref, "observableId\tsimulationConditionId\tsimulation\ttime\nobs\tlow\t0\t1\n"
+                + "obs\ttiny\t0\t1\n");
+        out = new StringWriter();
+        assertEquals(CheckCommand.EXIT_MISMATCH, run(out, err, "check", yaml.toString(), "--reference",
+                ref.toString(), "--json", json.toString()), out + "\n" + err);
+        assertTrue(out.toString().contains("max rel deviation n/a"), out.toString());
+        com.fasterxml.jackson.databind.JsonNode j = new com.fasterxml.jackson.databind.ObjectMapper()
+                .readTree(json.toFile());
+        assertTrue(j.get("maxRelDeviation").isNull(), j.toString());
+        assertTrue(j.get("observables").get(0).get("maxRelDeviation").isNull(), j.toString());
+    }
+
+    /** Exit code 3 (simulations differ from the reference) is listed in the command's help. */
+    @Test
+    void helpListsTheMismatchExitCode() {
+        StringWriter out = new StringWriter();
+        run(out, new StringWriter(), "check", "--help");
+        assertTrue(out.toString().contains("Exit codes:") && out.toString().contains("3   some simulated value "
+                + "differs from the reference table"), out.toString());
+    }
 }

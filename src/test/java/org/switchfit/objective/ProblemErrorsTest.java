@@ -56,7 +56,8 @@ class ProblemErrorsTest {
 
     @Test
     void conditionColumnThatIsNotAModelEntity() {
-        failure(PARAMS, "conditionId | kk\nc0 | 1", OBS, MEAS, "conditions.tsv", "'kk'", "remove the column");
+        // the column is wrong, not a row: the location is the header line
+        failure(PARAMS, "conditionId | kk\nc0 | 1", OBS, MEAS, "conditions.tsv, line 1", "'kk'", "remove the column");
     }
 
     @Test
