@@ -24,7 +24,12 @@ import picocli.CommandLine.Spec;
         footer = {"", "Examples:", "  switchfit check datasets/stress_switch.yaml", "  switchfit check problem.yaml --json check.json --simulations simulated.tsv"},
         description = "Validate a problem (PEtab YAML or switchfit problem file), evaluate the negative "
                 + "log-likelihood at the nominal parameter values and compare simulations with the reference "
-                + "simulatedData table when there is one.")
+                + "simulatedData table when there is one.",
+        exitCodeListHeading = "%nExit codes:%n",
+        exitCodeList = {"0:everything matches the reference (or there is none)",
+            "3:some simulated value differs from the reference table",
+            "2:user error in the problem (one line on stderr: what, where, what to do)",
+            "1:internal failure"})
 public final class CheckCommand implements Callable<Integer> {
     /** Exit code when simulations differ from the reference. */
     static final int EXIT_MISMATCH = 3;
@@ -39,7 +44,8 @@ public final class CheckCommand implements Callable<Integer> {
     Path json;
 
     @Option(names = "--simulations", paramLabel = "FILE",
-            description = "write the measurement table with a simulation column (TSV)")
+            description = "write the measurement table(s) with a simulation column (TSV; the rows of all "
+                    + "measurement files, in file order)")
     Path simulations;
 
     @Option(names = "--reference", paramLabel = "FILE",
@@ -52,25 +58,30 @@ public final class CheckCommand implements Callable<Integer> {
     @Override
     public Integer call() {
         SolverSettings settings = tolerances.settings();
-        CheckRun run = new CheckRun(problem, reference, settings);
+        CheckRun run = new CheckRun(problem, reference, settings, spec.commandLine().getErr());
         PrintWriter out = spec.commandLine().getOut();
         Map<String, Object> j = run.json;
         out.printf(Locale.ROOT, "%s: %d measurements, %d estimated parameters%n", problem,
                 run.problem.measurements().size(), run.problem.parameterCount());
         out.printf(Locale.ROOT, "negative log-likelihood at nominal values: %.10g (priors %.6g)%n",
                 run.evaluation.nll(), run.evaluation.priorPart());
+        if (run.evaluation.outsidePrior() != null) {
+            out.printf(Locale.ROOT, "note: %s; move its nominalValue into the support or correct the prior%n",
+                    run.evaluation.outsidePrior());
+        }
         FitCommand.printThresholds(out, run.evaluation.switching());
         if (run.reference != null) {
-            out.printf(Locale.ROOT, "reference %s: %d of %d match; max abs deviation %.3g, max rel deviation %.3g%n",
-                    run.reference.getFileName(), j.get("matched"), run.problem.measurements().size(),
-                    j.get("maxAbsDeviation"), j.get("maxRelDeviation"));
+            out.printf(Locale.ROOT, "reference %s: %d of %d match; max abs deviation %.3g, max rel deviation %s "
+                    + "(over nonzero references)%n", run.reference.getFileName(), j.get("matched"),
+                    run.problem.measurements().size(), j.get("maxAbsDeviation"),
+                    CheckRun.relative(j.get("maxRelDeviation")));
             @SuppressWarnings("unchecked")
             List<Map<String, Object>> obs = (List<Map<String, Object>>) j.get("observables");
             for (Map<String, Object> o : obs) {
                 if (((Integer) o.get("mismatches")) > 0) {
-                    out.printf(Locale.ROOT, "  observable %s: %d of %d differ (max abs %.3g, max rel %.3g)%n",
+                    out.printf(Locale.ROOT, "  observable %s: %d of %d differ (max abs %.3g, max rel %s)%n",
                             o.get("id"), o.get("mismatches"), o.get("measurements"), o.get("maxAbsDeviation"),
-                            o.get("maxRelDeviation"));
+                            CheckRun.relative(o.get("maxRelDeviation")));
                 }
             }
         } else {

@@ -17,6 +17,7 @@ import org.switchfit.data.PetabMeasurement;
 import org.switchfit.data.PetabReader;
 import org.switchfit.data.TextTable;
 import org.switchfit.objective.LikelihoodObjective;
+import org.switchfit.objective.UnusablePredictionException;
 import org.switchfit.ode.SolverSettings;
 import org.switchfit.problem.EstimationProblem;
 import org.switchfit.problem.Measurement;
@@ -28,7 +29,8 @@ import org.switchfit.util.UserInputException;
  * Shared logic of {@code check} and {@code bench-petab}: load, evaluate at the nominal parameters, compare the
  * simulated observables with a reference simulation table. Tolerance: a value matches when
  * {@code |sim - ref| <= REL_TOL |ref| + ABS_TOL_FRACTION * range}, range = max - min of the observable's reference
- * values (its largest |ref| when the range is 0).
+ * values (its largest |ref| when the range is 0). The reported maximal relative deviation is taken over the nonzero
+ * reference values (NaN, null in JSON, when there are none).
  */
 final class CheckRun {
     /** Relative tolerance of the comparison with reference simulations. */
@@ -46,18 +48,35 @@ final class CheckRun {
     final Map<String, Object> json = new LinkedHashMap<>();
 
     CheckRun(Path problemFile, Path referenceFile, SolverSettings settings) {
+        this(problemFile, referenceFile, settings, null);
+    }
+
+    /** @param warnings receives the problem's notes before the evaluation, or null */
+    CheckRun(Path problemFile, Path referenceFile, SolverSettings settings, java.io.PrintWriter warnings) {
         long t0 = System.nanoTime();
         problem = ProblemLoader.load(problemFile);
+        if (warnings != null) {
+            FitCommand.printNotes(warnings, problem);
+        }
         objective = LikelihoodObjective.of(problem, settings);
-        evaluation = objective.evaluateDetailed(problem.nominalTheta());
+        try {
+            evaluation = objective.evaluateDetailed(problem.nominalTheta());
+        } catch (UnusablePredictionException e) {
+            // the nominal values are the user's choice: a row they make unusable is an input error
+            throw new UserInputException(e.location(), "at the nominal parameter values, " + e.detail(), e);
+        }
         seconds = (System.nanoTime() - t0) * 1e-9;
         reference = referenceFile != null ? referenceFile : findReference(problemFile);
         int nm = problem.measurements().size();
         json.put("problem", problemFile.toString());
         json.put("measurements", nm);
         json.put("parameters", problem.parameterCount());
+        json.put("warnings", problem.notes());
         json.put("nllAtNominal", evaluation.nll());
         json.put("priorPartAtNominal", evaluation.priorPart());
+        if (evaluation.outsidePrior() != null) {
+            json.put("outsidePriorSupport", evaluation.outsidePrior());
+        }
         if (!evaluation.switching().isEmpty()) {
             java.util.List<Map<String, Object>> sw = new java.util.ArrayList<>();
             for (org.switchfit.objective.SwitchingFit f : evaluation.switching()) {
@@ -96,11 +115,13 @@ final class CheckRun {
             }
         }
         double maxAbs = 0.0;
-        double maxRel = 0.0;
+        // relative deviations over the nonzero references only (NaN, written null / n/a, when there is none)
+        double maxRel = Double.NaN;
         int matched = 0;
         List<Map<String, Object>> perObs = new ArrayList<>();
         double[] oAbs = new double[no];
         double[] oRel = new double[no];
+        java.util.Arrays.fill(oRel, Double.NaN);
         int[] oCount = new int[no];
         int[] oBad = new int[no];
         int firstBad = -1;
@@ -110,7 +131,7 @@ final class CheckRun {
             double sim = evaluation.simulated()[i];
             double range = hi[o] - lo[o] > 0 ? hi[o] - lo[o] : big[o];
             double d = Math.abs(sim - ref);
-            double rel = ref != 0 ? d / Math.abs(ref) : (d == 0 ? 0 : Double.POSITIVE_INFINITY);
+            double rel = ref != 0 ? d / Math.abs(ref) : Double.NaN;
             boolean ok = Double.isFinite(sim) && d <= REL_TOL * Math.abs(ref) + ABS_TOL_FRACTION * range;
             matches[i] = ok;
             if (ok) {
@@ -125,8 +146,12 @@ final class CheckRun {
                 maxAbs = Double.POSITIVE_INFINITY;
                 oAbs[o] = Double.POSITIVE_INFINITY;
             }
-            maxRel = Math.max(maxRel, Double.isNaN(rel) ? Double.POSITIVE_INFINITY : rel);
-            oRel[o] = Math.max(oRel[o], Double.isNaN(rel) ? Double.POSITIVE_INFINITY : rel);
+            if (ref != 0) {
+                // a NaN deviation (simulation not finite) counts as infinitely far
+                double relOrInf = Double.isNaN(rel) ? Double.POSITIVE_INFINITY : rel;
+                maxRel = Double.isNaN(maxRel) ? relOrInf : Math.max(maxRel, relOrInf);
+                oRel[o] = Double.isNaN(oRel[o]) ? relOrInf : Math.max(oRel[o], relOrInf);
+            }
             oCount[o]++;
             oBad[o] += ok ? 0 : 1;
         }
@@ -293,31 +318,52 @@ final class CheckRun {
     }
 
 
-    /** Measurement table with a simulation column after measurement (PEtab); one row per measurement row. */
+    /**
+     * The measurement tables with a simulation column after measurement (PEtab): every row of every measurement
+     * file, in file order, each with the simulation of its own measurement. Files with different columns are
+     * written under the union of their columns (first-seen order), cells a file lacks left empty. Problems whose
+     * measurements do not come from TSV files get a table of experiment, observable, time, measurement, simulation.
+     */
     String simulationsTsv() {
-        Path measFile = null;
-        String f = problem.measurements().isEmpty() ? null : problem.measurements().get(0).location().file();
-        if (f != null) {
-            measFile = Path.of(f);
-        }
-        StringBuilder sb = new StringBuilder();
-        if (measFile != null && Files.isRegularFile(measFile) && f.endsWith(".tsv")) {
-            TextTable t = DelimitedReader.read(measFile, '\t');
-            List<String> cols = t.columns();
-            Map<Integer, Integer> byLine = new HashMap<>();
-            for (int i = 0; i < problem.measurements().size(); i++) {
-                byLine.put(problem.measurements().get(i).location().line(), i);
+        List<String> files = new ArrayList<>();
+        Map<String, Integer> byRow = new HashMap<>();
+        for (int i = 0; i < problem.measurements().size(); i++) {
+            SourceLocation loc = problem.measurements().get(i).location();
+            String f = loc == null ? null : loc.file();
+            if (f == null || !f.endsWith(".tsv") || !Files.isRegularFile(Path.of(f))) {
+                return simulationsPlain();
             }
-            List<String> header = new ArrayList<>();
-            for (String c : cols) {
-                header.add(c);
-                if (c.equals("measurement")) {
-                    header.add("simulation");
+            if (!files.contains(f)) {
+                files.add(f);
+            }
+            byRow.put(f + '\u0000' + loc.line(), i);
+        }
+        if (files.isEmpty()) {
+            return simulationsPlain();
+        }
+        List<TextTable> tables = new ArrayList<>();
+        List<String> cols = new ArrayList<>();
+        for (String f : files) {
+            TextTable t = DelimitedReader.read(Path.of(f), '\t');
+            tables.add(t);
+            for (String c : t.columns()) {
+                if (!cols.contains(c)) {
+                    cols.add(c);
                 }
             }
-            sb.append(String.join("\t", header)).append('\n');
-            for (TextTable.Row r : t.rows()) {
-                Integer i = byLine.get(r.line());
+        }
+        StringBuilder sb = new StringBuilder();
+        List<String> header = new ArrayList<>();
+        for (String c : cols) {
+            header.add(c);
+            if (c.equals("measurement")) {
+                header.add("simulation");
+            }
+        }
+        sb.append(String.join("\t", header)).append('\n');
+        for (int k = 0; k < tables.size(); k++) {
+            for (TextTable.Row r : tables.get(k).rows()) {
+                Integer i = byRow.get(files.get(k) + '\u0000' + r.line());
                 List<String> cells = new ArrayList<>();
                 for (String c : cols) {
                     cells.add(r.text(c));
@@ -327,8 +373,12 @@ final class CheckRun {
                 }
                 sb.append(String.join("\t", cells)).append('\n');
             }
-            return sb.toString();
         }
+        return sb.toString();
+    }
+
+    private String simulationsPlain() {
+        StringBuilder sb = new StringBuilder();
         sb.append("experiment\tobservable\ttime\tmeasurement\tsimulation\n");
         for (int i = 0; i < problem.measurements().size(); i++) {
             Measurement me = problem.measurements().get(i);
@@ -338,6 +388,11 @@ final class CheckRun {
                     .append(fmt(evaluation.simulated()[i])).append('\n');
         }
         return sb.toString();
+    }
+
+    /** A relative deviation for the terminal: 3 digits, or n/a when no reference value was nonzero. */
+    static String relative(Object v) {
+        return v instanceof Double d && !Double.isNaN(d) ? String.format(Locale.ROOT, "%.3g", d) : "n/a";
     }
 
     static String fmt(double v) {

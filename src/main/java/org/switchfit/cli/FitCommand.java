@@ -81,6 +81,7 @@ public final class FitCommand implements Callable<Integer> {
                     + threads);
         }
         EstimationProblem problem = ProblemLoader.load(problemFile);
+        printNotes(spec.commandLine().getErr(), problem);
         LikelihoodObjective objective = LikelihoodObjective.of(problem, solver.settings());
         FitProblem fp = fitProblem(problem, objective);
         StartStore store = new StartStore(out.resolve("starts"), resume, () -> new UserInputException(
@@ -139,9 +140,18 @@ public final class FitCommand implements Callable<Integer> {
         return 0;
     }
 
+    /** Prints the problem's notes ({@link EstimationProblem#notes()}), one {@code warning:} line each. */
+    static void printNotes(PrintWriter err, EstimationProblem problem) {
+        for (String n : problem.notes()) {
+            err.println("warning: " + n);
+        }
+        err.flush();
+    }
+
     /**
      * The fit problem of a loaded problem (library entry point): the objective with the bounds and estimation scales
-     * of the problem file, all parameters free.
+     * of the problem file, all parameters free. A uniform prior with explicit limits narrows the box to its support
+     * (the prior density is 0 outside, PEtab v1), so starts are drawn, and steps taken, only where the NLL is finite.
      *
      * @param problem   the problem, e.g. from {@code ProblemLoader.load(path)}
      * @param objective its negative log-likelihood, e.g. {@code LikelihoodObjective.of(problem, settings)}
@@ -156,8 +166,8 @@ public final class FitCommand implements Callable<Integer> {
         for (int j = 0; j < np; j++) {
             FreeParameter p = problem.parameters().get(j);
             ids[j] = p.id();
-            lo[j] = p.thetaLower();
-            hi[j] = p.thetaUpper();
+            lo[j] = p.thetaFeasibleLower();
+            hi[j] = p.thetaFeasibleUpper();
             sc[j] = switch (p.scale()) {
                 case LOG -> ParameterScale.LN;
                 case LOG10 -> ParameterScale.LOG10;
@@ -168,8 +178,9 @@ public final class FitCommand implements Callable<Integer> {
     }
 
     /**
-     * The best parameters, one per line, with a note for values on a bound (within 1e-6 of the estimation-scale
-     * range: the optimizer's bounds are exact, so such a value is the bound, and its profile will be open there).
+     * The best parameters, one per line, with a note for values on a bound or on the end of a uniform prior's support
+     * (within 1e-6 of the estimation-scale range: the optimizer's bounds are exact, so such a value is the bound, and
+     * its profile will be open there).
      */
     private static void printParameters(PrintWriter o, EstimationProblem problem, double[] th) {
         int w = 9;
@@ -178,9 +189,13 @@ public final class FitCommand implements Callable<Integer> {
         }
         for (int k = 0; k < th.length; k++) {
             FreeParameter p = problem.parameters().get(k);
-            double range = p.thetaUpper() - p.thetaLower();
-            String note = th[k] <= p.thetaLower() + 1e-6 * range ? "  (at the lower bound)"
-                    : th[k] >= p.thetaUpper() - 1e-6 * range ? "  (at the upper bound)" : "";
+            double lo = p.thetaFeasibleLower();
+            double hi = p.thetaFeasibleUpper();
+            double range = hi - lo;
+            String note = th[k] <= lo + 1e-6 * range ? (lo > p.thetaLower() ? "  (at the lower end of its prior's "
+                    + "support)" : "  (at the lower bound)")
+                    : th[k] >= hi - 1e-6 * range ? (hi < p.thetaUpper() ? "  (at the upper end of its prior's "
+                    + "support)" : "  (at the upper bound)") : "";
             o.printf(Locale.ROOT, "  %-" + w + "s %.6g%s%n", p.id(), p.toLinear(th[k]), note);
         }
     }

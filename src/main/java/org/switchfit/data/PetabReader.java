@@ -32,7 +32,40 @@ public final class PetabReader {
     static final List<String> PROBLEM_KEYS = List.of("sbml_files", "condition_files", "measurement_files",
             "observable_files", "visualization_files", "mapping_files");
 
+    /** Standard columns of the tables (PEtab v1 specification, from memory). */
+    static final List<String> PARAMETER_COLUMNS = List.of("parameterId", "parameterName", "parameterScale",
+            "lowerBound", "upperBound", "nominalValue", "estimate", "initializationPriorType",
+            "initializationPriorParameters", "objectivePriorType", "objectivePriorParameters");
+    static final List<String> CONDITION_COLUMNS = List.of("conditionId", "conditionName");
+    static final List<String> MEASUREMENT_COLUMNS = List.of("observableId", "preequilibrationConditionId",
+            "simulationConditionId", "measurement", "time", "observableParameters", "noiseParameters", "datasetId",
+            "replicateId");
+    static final List<String> OBSERVABLE_COLUMNS = List.of("observableId", "observableName", "observableFormula",
+            "observableTransformation", "noiseFormula", "noiseDistribution");
+
     private PetabReader() {
+    }
+
+    /**
+     * Adds a note for each column that is not a standard column of its table but close to one (equal ignoring case,
+     * or within an edit distance of 2): PEtab allows extra columns, so such a column is read as an extra one and
+     * the standard column it was meant to be is missing; likely a typo.
+     */
+    static void noteNearColumns(TextTable t, List<String> standard, List<String> notes) {
+        for (String c : t.columns()) {
+            if (standard.contains(c)) {
+                continue;
+            }
+            for (String s : standard) {
+                if (Spelling.distance(c.toLowerCase(java.util.Locale.ROOT), s.toLowerCase(java.util.Locale.ROOT))
+                        <= 2) {
+                    notes.add(String.format(java.util.Locale.ROOT, "%s: column '%s' is not a PEtab column and is "
+                            + "ignored as an extra column; did you mean '%s'? (rename it if so)",
+                            t.headerLocation(), Messages.shown(c), s));
+                    break;
+                }
+            }
+        }
     }
 
     /** Reads the problem described by a PEtab v1 YAML file and all tables it lists. */
@@ -52,6 +85,8 @@ public final class PetabReader {
         root.requireMap("format_version: 1");
         List<String> notes = new ArrayList<>();
         noteUnknownKeys(root, TOP_KEYS, notes);
+        refuseIfGiven(root, "extensions", "this reader implements PEtab v1 without extensions; remove the key and"
+                + " what depends on it, or use a tool that supports the extension");
         YamlNode version = root.require("format_version", "1");
         String v = version.scalar("1").strip();
         if (!(v.equals("1") || v.startsWith("1.") || v.equals("1.0"))) {
@@ -61,7 +96,7 @@ public final class PetabReader {
         Path base = yamlFile.toAbsolutePath().getParent();
         List<PetabParameter> parameters = new ArrayList<>();
         for (Path p : files(base, root, "parameter_file", true)) {
-            parameters.addAll(readParameters(p));
+            parameters.addAll(readParameters(p, notes));
         }
         checkUniqueIds(parameters, PetabParameter::id, PetabParameter::location, "parameter");
         List<Path> sbml = new ArrayList<>();
@@ -75,18 +110,17 @@ public final class PetabReader {
             noteUnknownKeys(item, PROBLEM_KEYS, notes);
             sbml.addAll(files(base, item, "sbml_files", true));
             for (Path p : files(base, item, "condition_files", true)) {
-                conditions.addAll(readConditions(p));
+                conditions.addAll(readConditions(p, notes));
             }
             for (Path p : files(base, item, "measurement_files", true)) {
-                measurements.addAll(readMeasurements(p));
+                measurements.addAll(readMeasurements(p, notes));
             }
             for (Path p : files(base, item, "observable_files", true)) {
-                observables.addAll(readObservables(p));
+                observables.addAll(readObservables(p, notes));
             }
             visualization.addAll(files(base, item, "visualization_files", false));
-            if (item.has("mapping_files")) {
-                notes.add(item.location() + ": mapping_files are not read");
-            }
+            refuseIfGiven(item, "mapping_files", "mapping tables are not applied by this reader; remove the key and"
+                    + " write the model's ids in the tables");
         }
         checkUniqueIds(conditions, PetabCondition::id, PetabCondition::location, "condition");
         checkUniqueIds(observables, PetabObservable::id, PetabObservable::location, "observable");
@@ -94,6 +128,26 @@ public final class PetabReader {
         checkOverrideIds(measurements, parameters);
         return new PetabProblem(yamlFile, 1, parameters, sbml, conditions, measurements, observables, visualization,
                 notes);
+    }
+
+    /**
+     * Refuses a key whose content this reader would otherwise ignore silently (an empty value is allowed: it asks
+     * for nothing).
+     */
+    private static void refuseIfGiven(YamlNode map, String key, String hint) {
+        if (!map.has(key)) {
+            return;
+        }
+        YamlNode n = map.get(key);
+        boolean empty = switch (n.kind()) {
+            case NULL -> true;
+            case LIST -> n.requireList("[]").isEmpty();
+            case MAP -> n.entries().isEmpty();
+            case SCALAR -> n.scalar("").isBlank();
+        };
+        if (!empty) {
+            throw Messages.error(n.location(), "key '%s' is not supported: " + hint, key);
+        }
     }
 
     private static void noteUnknownKeys(YamlNode map, List<String> allowed, List<String> notes) {
@@ -126,7 +180,13 @@ public final class PetabReader {
 
     /** Reads a PEtab v1 parameter table. */
     public static List<PetabParameter> readParameters(Path file) {
+        return readParameters(file, new ArrayList<>());
+    }
+
+    /** Reads a parameter table, adding a note for each column that looks like a misspelt standard column. */
+    static List<PetabParameter> readParameters(Path file, List<String> notes) {
         TextTable t = DelimitedReader.read(file, '\t');
+        noteNearColumns(t, PARAMETER_COLUMNS, notes);
         t.requireColumns("PEtab parameter table", "parameterId", "parameterScale", "lowerBound", "upperBound",
                 "nominalValue", "estimate");
         List<PetabParameter> out = new ArrayList<>();
@@ -166,6 +226,13 @@ public final class PetabReader {
             }
             Prior init = prior(r, "initializationPriorType", "initializationPriorParameters", id);
             Prior obj = prior(r, "objectivePriorType", "objectivePriorParameters", id);
+            if (estimate && obj != null && (obj.type() == Prior.Type.LOG_NORMAL
+                    || obj.type() == Prior.Type.LOG_LAPLACE) && !(lower > 0)) {
+                throw Messages.error(r.location("lowerBound"), "parameter '%s': a %s prior is defined for positive"
+                        + " values only, but lowerBound %s lets the parameter be 0 or negative; give a positive"
+                        + " lowerBound or another objectivePriorType", id, obj.type().petabName(),
+                        r.text("lowerBound"));
+            }
             out.add(new PetabParameter(id, r.text("parameterName"), scale, lower, upper, nominal, estimate, init,
                     obj, r.location()));
         }
@@ -202,12 +269,35 @@ public final class PetabReader {
             throw Messages.error(r.location(paramsColumn), "parameter '%s': prior %s needs %d parameters"
                     + " separated by ';', got '%s'", id, type.petabName(), type.arity(), p);
         }
+        if (!values.isEmpty()) {
+            double a = values.get(0);
+            double b = values.get(1);
+            boolean uniform = type == Prior.Type.UNIFORM || type == Prior.Type.PARAMETER_SCALE_UNIFORM;
+            if (uniform && !(Double.isFinite(a) && Double.isFinite(b) && a < b)) {
+                throw Messages.error(r.location(paramsColumn), "parameter '%s': prior %s needs finite limits"
+                        + " lower;upper with lower < upper, got '%s'; correct %s", id, type.petabName(), p,
+                        paramsColumn);
+            }
+            if (!uniform && !(Double.isFinite(a) && b > 0 && b < Double.POSITIVE_INFINITY)) {
+                throw Messages.error(r.location(paramsColumn), "parameter '%s': prior %s needs a finite %s and a"
+                        + " positive finite %s, got '%s'; correct %s", id, type.petabName(),
+                        type == Prior.Type.LOG_NORMAL || type == Prior.Type.LOG_LAPLACE ? "mu" : "location",
+                        type == Prior.Type.NORMAL || type == Prior.Type.PARAMETER_SCALE_NORMAL
+                                || type == Prior.Type.LOG_NORMAL ? "standard deviation" : "scale", p, paramsColumn);
+            }
+        }
         return new Prior(type, values);
     }
 
     /** Reads a PEtab v1 condition table. */
     public static List<PetabCondition> readConditions(Path file) {
+        return readConditions(file, new ArrayList<>());
+    }
+
+    /** Reads a condition table, adding a note for each column that looks like a misspelt standard column. */
+    static List<PetabCondition> readConditions(Path file, List<String> notes) {
         TextTable t = DelimitedReader.read(file, '\t');
+        noteNearColumns(t, CONDITION_COLUMNS, notes);
         t.requireColumns("PEtab condition table", "conditionId");
         List<PetabCondition> out = new ArrayList<>();
         for (TextTable.Row r : t.rows()) {
@@ -232,8 +322,15 @@ public final class PetabReader {
 
     /** Reads a PEtab v1 measurement table. */
     public static List<PetabMeasurement> readMeasurements(Path file) {
-        return readMeasurementRows(DelimitedReader.read(file, '\t'), "measurement", "simulationConditionId",
-                "preequilibrationConditionId", "PEtab measurement table");
+        return readMeasurements(file, new ArrayList<>());
+    }
+
+    /** Reads a measurement table, adding a note for each column that looks like a misspelt standard column. */
+    static List<PetabMeasurement> readMeasurements(Path file, List<String> notes) {
+        TextTable t = DelimitedReader.read(file, '\t');
+        noteNearColumns(t, MEASUREMENT_COLUMNS, notes);
+        return readMeasurementRows(t, "measurement", "simulationConditionId", "preequilibrationConditionId",
+                "PEtab measurement table");
     }
 
     /**
@@ -264,6 +361,11 @@ public final class PetabReader {
                 throw Messages.error(r.location("time"), "time '%s' is not allowed; give a finite time or inf"
                         + " for a steady-state measurement", r.text("time"));
             }
+            if (time < 0) {
+                throw Messages.error(r.location("time"), "time %s is negative, but simulations start at t = 0;"
+                        + " give times >= 0 (shift the time axis so that the experiment starts at 0)",
+                        r.text("time"));
+            }
             out.add(new PetabMeasurement(obs, sim, pre.isEmpty() ? null : pre, value, time,
                     overrides(r, "observableParameters"), overrides(r, "noiseParameters"), r.text("datasetId"),
                     r.text("replicateId"), r.location()));
@@ -271,17 +373,29 @@ public final class PetabReader {
         return out;
     }
 
+    /**
+     * The values of an observableParameters / noiseParameters field; an empty field or a lone NaN (written by
+     * dataframe tools for "none") gives none, a NaN among several values is an error.
+     */
     private static List<ValueRef> overrides(TextTable.Row r, String column) {
         String text = r.text(column);
         if (text.isEmpty()) {
             return List.of();
         }
+        String[] parts = text.split(";", -1);
         List<ValueRef> out = new ArrayList<>();
-        for (String part : text.split(";", -1)) {
-            ValueRef v = ValueRef.parse(part);
+        for (int i = 0; i < parts.length; i++) {
+            ValueRef v = ValueRef.parse(parts[i]);
             if (v == null) {
                 throw Messages.error(r.location(column), "column '%s': '%s' is neither a number nor a"
-                        + " parameter id; write values separated by ';', e.g. 1.5;scale_a", column, part.strip());
+                        + " parameter id; write values separated by ';', e.g. 1.5;scale_a", column, parts[i].strip());
+            }
+            if (v.isNumber() && Double.isNaN(v.number())) {
+                if (parts.length == 1) {
+                    return List.of();
+                }
+                throw Messages.error(r.location(column), "column '%s': value %d of '%s' is NaN; give a number or"
+                        + " a parameter-table id for every placeholder", column, i + 1, text);
             }
             out.add(v);
         }
@@ -290,7 +404,13 @@ public final class PetabReader {
 
     /** Reads a PEtab v1 observable table. */
     public static List<PetabObservable> readObservables(Path file) {
+        return readObservables(file, new ArrayList<>());
+    }
+
+    /** Reads an observable table, adding a note for each column that looks like a misspelt standard column. */
+    static List<PetabObservable> readObservables(Path file, List<String> notes) {
         TextTable t = DelimitedReader.read(file, '\t');
+        noteNearColumns(t, OBSERVABLE_COLUMNS, notes);
         t.requireColumns("PEtab observable table", "observableId", "observableFormula", "noiseFormula");
         List<PetabObservable> out = new ArrayList<>();
         for (TextTable.Row r : t.rows()) {

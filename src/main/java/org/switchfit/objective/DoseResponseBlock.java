@@ -228,8 +228,8 @@ final class DoseResponseBlock implements ResidualBlock {
         int status = NoiseResidual.write(od, hv, values[i], sigma, variable[i], NoiseResidual.SIGMA_SHIFT, gradH,
                 gradS, np, r, offset + rowOffset[i], jac);
         if (status == NoiseResidual.UNUSABLE) {
-            throw new ObjectiveException(String.format(Locale.ROOT, "%s, observable '%s' at dose %.6g: prediction %s"
-                    + " or noise spread %s is not usable", label, od.id(), doses[i], hv, sigma));
+            throw new UnusablePredictionException(null, String.format(Locale.ROOT, "%s, at dose %.6g: %s", label,
+                    doses[i], NoiseResidual.whyUnusable(od, hv, sigma)));
         }
         if (status == NoiseResidual.SIGMA_BELOW_SHIFT) {
             throw new ObjectiveException(String.format(Locale.ROOT, "%s: noise spread %.3g is too small", label,

@@ -68,10 +68,10 @@ final class ExperimentBlock implements ResidualBlock {
             off += NoiseResidual.size(sigmaVariable[i]);
             if (sigmaVariable[i]) {
                 shift[i] = sigmaShift(me, od);
-            } else if (!(s > 0)) {
+            } else if (!(s > 0) || s == Double.POSITIVE_INFINITY) {
                 throw new UserInputException(me.location(), String.format(Locale.ROOT,
-                        "noise spread of observable '%s' evaluates to %s; it must be positive: correct the noise "
-                        + "formula or the noiseParameters", od.id(), s));
+                        "noise spread of observable '%s' evaluates to %s with this row's noiseParameters; it must be "
+                        + "positive and finite: correct the noise formula or column noiseParameters", od.id(), s));
             }
             c = NoiseResidual.addConstant(c, od, me.value(), sigmaVariable[i], s, shift[i]);
         }
@@ -101,11 +101,7 @@ final class ExperimentBlock implements ResidualBlock {
         if (od.sigma().op() != org.switchfit.expr.Op.PARAM || od.sigma().index() < m) {
             return NoiseResidual.SIGMA_SHIFT;
         }
-        int k = od.sigma().index();
-        int oOff = problem.obsPlaceholderOffset();
-        int nOff = problem.noisePlaceholderOffset();
-        ValueSource src = k < oOff ? problem.globalSources().get(k - m)
-                : k < nOff ? me.obsParameters().get(k - oOff) : me.noiseParameters().get(k - nOff);
+        ValueSource src = slotSource(me, od.sigma().index());
         if (!src.isTheta()) {
             return NoiseResidual.SIGMA_SHIFT;
         }
@@ -113,33 +109,40 @@ final class ExperimentBlock implements ResidualBlock {
         return lower > 0 ? Math.max(1.0, 1.0 - 2.0 * Math.log(lower)) : NoiseResidual.SIGMA_SHIFT;
     }
 
-    /** σ when it is a constant for this row, else NaN. */
+    /** Where q slot {@code k >= m} of a row gets its value: a global, an observable or a noise placeholder. */
+    private ValueSource slotSource(Measurement me, int k) {
+        int oOff = problem.obsPlaceholderOffset();
+        int nOff = problem.noisePlaceholderOffset();
+        return k < oOff ? problem.globalSources().get(k - m)
+                : k < nOff ? me.obsParameters().get(k - oOff) : me.noiseParameters().get(k - nOff);
+    }
+
+    /**
+     * σ when it is a constant for this row, else NaN. The row's constant globals and placeholders are put into the
+     * noise formula first, so a term they zero (noiseParameters {@code 0.2;0} of {@code a + b * X}) does not make
+     * σ variable.
+     */
     private double constantSigma(Measurement me, ObservableDef od) {
         if (Double.isFinite(me.fixedSigma())) {
             return me.fixedSigma();
         }
-        int gOff = m;
-        int oOff = problem.obsPlaceholderOffset();
-        int nOff = problem.noisePlaceholderOffset();
-        boolean variable = od.sigma().contains(e -> {
+        org.switchfit.expr.Expr sigma = od.sigma().mapLeaves(e -> {
+            if (e.op() != org.switchfit.expr.Op.PARAM || e.index() < m || slotSource(me, e.index()).isTheta()) {
+                return e;
+            }
+            return org.switchfit.expr.Expr.constant(slotSource(me, e.index()).constant());
+        });
+        if (sigma.isConst()) {
+            return sigma.value();
+        }
+        boolean variable = sigma.contains(e -> {
             switch (e.op()) {
                 case STATE:
                 case LOCAL:
                 case TIME:
                     return true;
-                case PARAM: {
-                    int k = e.index();
-                    if (k < gOff) {
-                        return true;
-                    }
-                    if (k < oOff) {
-                        return problem.globalSources().get(k - gOff).isTheta();
-                    }
-                    if (k < nOff) {
-                        return me.obsParameters().get(k - oOff).isTheta();
-                    }
-                    return me.noiseParameters().get(k - nOff).isTheta();
-                }
+                case PARAM:
+                    return e.index() < m || slotSource(me, e.index()).isTheta();
                 default:
                     return false;
             }
@@ -242,9 +245,8 @@ final class ExperimentBlock implements ResidualBlock {
         int status = NoiseResidual.write(od, h, me.value(), sigma, sigmaVariable[i], shift[i], w.gradH, w.gradS, np,
                 r, offset + rowOffset[i], jac);
         if (status == NoiseResidual.UNUSABLE) {
-            throw new ObjectiveException(String.format(Locale.ROOT, "experiment '%s', observable '%s' at t = %.6g:"
-                    + " prediction %s or noise spread %s is not usable (%s)", exp.id(), od.id(), t, h, sigma,
-                    me.location()));
+            throw new UnusablePredictionException(me.location(), String.format(Locale.ROOT, "experiment '%s' at t = "
+                    + "%.6g: %s", exp.id(), t, NoiseResidual.whyUnusable(od, h, sigma)));
         }
         if (status == NoiseResidual.SIGMA_BELOW_SHIFT) {
             throw new ObjectiveException(String.format(Locale.ROOT, "experiment '%s', observable '%s': noise "

@@ -138,17 +138,37 @@ public final class LikelihoodObjective implements Objective {
         return size;
     }
 
+    /**
+     * {@inheritDoc}
+     *
+     * @throws PriorSupportException when θ lies outside the support of a uniform prior (NLL +infinity)
+     */
     @Override
     public double evaluate(double[] theta, double[] residuals, double[] jacobian) {
-        return run(new EvaluationContext(problem, theta, null, null), residuals, jacobian);
+        return run(new EvaluationContext(problem, theta, null, null), residuals, jacobian, null);
     }
 
-    private double run(EvaluationContext ctx, double[] residuals, double[] jacobian) {
+    /**
+     * @param outside null to throw {@link PriorSupportException}; else the prior block's residuals are left 0,
+     *                {@code outside[0]} receives the message and the NLL is +infinity
+     */
+    private double run(EvaluationContext ctx, double[] residuals, double[] jacobian, String[] outside) {
         if (jacobian != null) {
             java.util.Arrays.fill(jacobian, 0, size * problem.parameterCount(), 0.0);
         }
         for (int b = 0; b < blocks.size(); b++) {
-            blocks.get(b).evaluate(ctx, residuals, offsets[b], jacobian);
+            try {
+                blocks.get(b).evaluate(ctx, residuals, offsets[b], jacobian);
+            } catch (PriorSupportException e) {
+                if (outside == null) {
+                    throw e;
+                }
+                java.util.Arrays.fill(residuals, offsets[b], offsets[b] + blocks.get(b).size(), 0.0);
+                outside[0] = e.getMessage();
+            }
+        }
+        if (outside != null && outside[0] != null) {
+            return Double.POSITIVE_INFINITY;
         }
         double s = 0.0;
         for (int i = 0; i < size; i++) {
@@ -163,7 +183,8 @@ public final class LikelihoodObjective implements Objective {
 
     /**
      * Evaluates at θ and returns the simulated observable values and noise spreads per measurement (problem
-     * order), the NLL and its prior part.
+     * order), the NLL and its prior part. Outside the support of a uniform prior the simulations are still
+     * returned, with NLL and prior part +infinity and the reason in {@link Evaluation#outsidePrior()}.
      */
     public Evaluation evaluateDetailed(double[] theta) {
         int nm = problem.measurements().size();
@@ -173,13 +194,17 @@ public final class LikelihoodObjective implements Objective {
         java.util.Arrays.fill(sig, Double.NaN);
         double[] r = new double[size];
         List<SwitchingFit> switching = new ArrayList<>();
-        double nll = run(new EvaluationContext(problem, theta, sim, sig, switching), r, null);
+        String[] outside = new String[1];
+        double nll = run(new EvaluationContext(problem, theta, sim, sig, switching), r, null, outside);
         ResidualBlock pb = blocks.get(priorBlock);
         double prior = pb.constant();
         for (int i = offsets[priorBlock]; i < offsets[priorBlock] + pb.size(); i++) {
             prior += 0.5 * r[i] * r[i];
         }
-        return new Evaluation(nll, prior, r, sim, sig, List.copyOf(switching));
+        if (outside[0] != null) {
+            prior = Double.POSITIVE_INFINITY;
+        }
+        return new Evaluation(nll, prior, r, sim, sig, List.copyOf(switching), outside[0]);
     }
 
     /**
@@ -241,8 +266,9 @@ public final class LikelihoodObjective implements Objective {
      * @param sigmas    noise spread per measurement (on the transformed scale)
      * @param switching the switching-threshold and dose-response data with the model's values, in block order
      *                  (thresholds per experiment, control and direction; dose responses per history, by dose)
+     * @param outsidePrior  null, or why nll is +infinity: which parameter lies outside its uniform prior's support
      */
     public record Evaluation(double nll, double priorPart, double[] residuals, double[] simulated,
-                             double[] sigmas, List<SwitchingFit> switching) {
+                             double[] sigmas, List<SwitchingFit> switching, String outsidePrior) {
     }
 }

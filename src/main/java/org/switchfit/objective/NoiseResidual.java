@@ -1,5 +1,6 @@
 package org.switchfit.objective;
 
+import java.util.Locale;
 import org.switchfit.data.ParameterScale;
 import org.switchfit.problem.ObservableDef;
 
@@ -30,6 +31,26 @@ final class NoiseResidual {
     private static final double LOG_2PI = Math.log(2.0 * Math.PI);
 
     private NoiseResidual() {
+    }
+
+    /**
+     * Why {@link #write} returned {@link #UNUSABLE} for prediction h and noise spread σ, and what to change: one
+     * clause for a message that names the row before it.
+     */
+    static String whyUnusable(ObservableDef od, double h, double sigma) {
+        if (Double.isNaN(h) || Double.isInfinite(h)) {
+            return String.format(Locale.ROOT, "the prediction of observable '%s' is %s; check its formula and the "
+                    + "row's observableParameters, or use other nominal or start values", od.id(), h);
+        }
+        if (od.transformation() != ParameterScale.LIN && !(h > 0)) {
+            return String.format(Locale.ROOT, "observable '%s' is %s-transformed but its prediction is %.6g (a log "
+                    + "needs a positive value); use nominal or start values where it is positive, add an offset to the "
+                    + "observable formula, or model the data on the linear scale", od.id(),
+                    od.transformation().token(), h);
+        }
+        return String.format(Locale.ROOT, "the noise spread of observable '%s' is %.6g, not positive and finite; "
+                + "correct the noise formula, the row's noiseParameters or the values of the parameters it uses",
+                od.id(), sigma);
     }
 
     /** Number of residuals of a row: 2 when σ is variable, else 1. */

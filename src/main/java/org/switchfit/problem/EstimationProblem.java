@@ -39,6 +39,7 @@ public final class EstimationProblem {
     private final int maxObs;
     private final int maxNoise;
     private final List<Object> extraData;
+    private final List<String> notes;
     private final CompiledBlock[] obsValues;
     private final CompiledBlock[] obsDerivs;
     private final int[][] obsDerivRows;
@@ -49,6 +50,16 @@ public final class EstimationProblem {
                       List<SimulationExperiment> experiments, List<ObservableDef> observables,
                       List<Measurement> measurements, List<String> globalIds, List<ValueSource> globalSources,
                       int maxObs, int maxNoise, List<Object> extraData) {
+        this(problemFile, inputFiles, modelFile, model, compiled, parameters, conditions, experiments, observables,
+                measurements, globalIds, globalSources, maxObs, maxNoise, extraData, List.of());
+    }
+
+    EstimationProblem(Path problemFile, List<Path> inputFiles, Path modelFile, Model model, CompiledModel compiled,
+                      List<FreeParameter> parameters, List<Condition> conditions,
+                      List<SimulationExperiment> experiments, List<ObservableDef> observables,
+                      List<Measurement> measurements, List<String> globalIds, List<ValueSource> globalSources,
+                      int maxObs, int maxNoise, List<Object> extraData, List<String> notes) {
+        this.notes = List.copyOf(notes);
         this.problemFile = problemFile;
         this.inputFiles = List.copyOf(inputFiles);
         this.modelFile = modelFile;
@@ -171,6 +182,15 @@ public final class EstimationProblem {
     /** Data that only other objective blocks understand (dose-response points, switching thresholds). */
     public List<Object> extraData() {
         return extraData;
+    }
+
+    /**
+     * Warnings about the input that did not stop the loading, one line each with its location (unknown keys, likely
+     * misspelt columns, defaults used for missing values, estimated parameters nothing uses). The commands print
+     * them; library code does not.
+     */
+    public List<String> notes() {
+        return notes;
     }
 
     /** Length of q: m + G + P + N. */

@@ -50,4 +50,39 @@ public record FreeParameter(String id, ParameterScale scale, double lower, doubl
     public double thetaUpper() {
         return scale.toScale(upper);
     }
+
+    /**
+     * The support of a uniform prior with explicit limits on the estimation scale, {@code {a, b}} (PEtab v1: the
+     * density is 0 outside [a, b]; {@code uniform} limits are linear values, {@code parameterScaleUniform} ones are
+     * on the estimation scale; a linear limit at or below 0 on a log scale is -infinity), or null when the prior is
+     * none of these (a uniform prior without limits spans the bounds).
+     */
+    public double[] thetaPriorSupport() {
+        if (prior == null || prior.parameters().isEmpty()) {
+            return null;
+        }
+        double a = prior.parameter(0);
+        double b = prior.parameter(1);
+        switch (prior.type()) {
+            case PARAMETER_SCALE_UNIFORM:
+                return new double[] {a, b};
+            case UNIFORM:
+                return new double[] {scale.needsPositive() && !(a > 0) ? Double.NEGATIVE_INFINITY : toTheta(a),
+                    toTheta(b)};
+            default:
+                return null;
+        }
+    }
+
+    /** Lower end of the values θ can take: the lower bound, raised to a uniform prior's support. */
+    public double thetaFeasibleLower() {
+        double[] s = thetaPriorSupport();
+        return s == null ? thetaLower() : Math.max(thetaLower(), s[0]);
+    }
+
+    /** Upper end of the values θ can take: the upper bound, lowered to a uniform prior's support. */
+    public double thetaFeasibleUpper() {
+        double[] s = thetaPriorSupport();
+        return s == null ? thetaUpper() : Math.min(thetaUpper(), s[1]);
+    }
 }

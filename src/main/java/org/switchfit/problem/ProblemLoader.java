@@ -44,14 +44,17 @@ import org.switchfit.util.UserInputException;
  * <p>PEtab semantics implemented: parameter-table values (θ for estimate = 1, the nominal value otherwise) for
  * model parameters in every condition; condition-table columns override parameters and compartment sizes
  * directly, and species initial values through an added parameter {@code petab_init__S} with an initial
- * assignment {@code S = petab_init__S} (so the value is in the species' own units and replaces any initial
- * assignment of the model); NaN keeps the model value (after pre-equilibration: the pre-equilibrated state);
+ * assignment {@code S = petab_init__S} (so the value is in the species' own units); a condition's value replaces
+ * the model's initial assignment of its target, NaN keeps the model value, initial assignment included
+ * ({@link #withConditionTargets}; after pre-equilibration NaN keeps the pre-equilibrated state);
  * observable and noise formulas over model entities, parameter-table ids and the row-wise placeholders
  * {@code observableParameter{i}_{obs}} / {@code noiseParameter{i}_{obs}}. Stateless.
  */
 public final class ProblemLoader {
-    /** Prefix of parameters added for condition-table species columns. */
+    /** Prefix of parameters added for condition-table species columns and columns with initial assignments. */
     public static final String INIT_PREFIX = "petab_init__";
+    /** Prefix of the flags that choose a condition's value over the model's initial assignment. */
+    public static final String SET_PREFIX = "petab_set__";
 
     private static final Pattern PLACEHOLDER = Pattern.compile("(observable|noise)Parameter(\\d+)_([A-Za-z_][A-Za-z0-9_]*)");
 
@@ -99,13 +102,28 @@ public final class ProblemLoader {
         Map<String, ValueSource> sources = new HashMap<>();
         for (PetabParameter p : pp.parameters()) {
             table.put(p.id(), p);
+            if (original.species(p.id()) != null) {
+                // the row would otherwise have no effect at all
+                throw UserInputException.of(p.location(), "parameter table row '%s' names a species of the model; "
+                        + "PEtab v1 sets species values in the condition table: remove the row and add a column '%s' "
+                        + "to the condition table (its value may be a parameter-table id to estimate it)", p.id(),
+                        p.id());
+            }
             if (p.estimate()) {
                 checkBounds(p.id(), p.scale(), p.lower(), p.upper(), p.location());
                 double nominal = Double.isFinite(p.nominal()) ? p.nominal()
                         : p.scale().toLinear(0.5 * (p.scale().toScale(p.lower()) + p.scale().toScale(p.upper())));
+                FreeParameter fp = new FreeParameter(p.id(), p.scale(), p.lower(), p.upper(), nominal,
+                        p.objectivePrior(), p.location());
+                if (!(fp.thetaFeasibleLower() < fp.thetaFeasibleUpper())) {
+                    throw UserInputException.of(p.location(), "parameter '%s': the support [%s, %s] of its %s prior "
+                            + "does not overlap its bounds [%s, %s], so the prior density is 0 everywhere; correct "
+                            + "objectivePriorParameters or the bounds", p.id(), p.objectivePrior().parameter(0),
+                            p.objectivePrior().parameter(1), p.objectivePrior().type().petabName(), p.lower(),
+                            p.upper());
+                }
                 sources.put(p.id(), ValueSource.ofTheta(free.size()));
-                free.add(new FreeParameter(p.id(), p.scale(), p.lower(), p.upper(), nominal, p.objectivePrior(),
-                        p.location()));
+                free.add(fp);
             } else {
                 if (!Double.isFinite(p.nominal())) {
                     throw UserInputException.of(p.location(), "parameter '%s' is not estimated but has no finite "
@@ -115,12 +133,12 @@ public final class ProblemLoader {
             }
         }
 
-        // Condition columns: species get an added parameter and initial assignment.
+        // Condition columns: species and targets of initial assignments get added parameters.
         Set<String> columns = new LinkedHashSet<>();
         for (PetabCondition c : pp.conditions()) {
             columns.addAll(c.values().keySet());
         }
-        Model model = withSpeciesInitParameters(original, columns);
+        Model model = withConditionTargets(original, columns);
         CompiledModel cm = ModelCompiler.compile(model);
         OdeForm form = cm.form();
         int m = cm.parameterCount();
@@ -146,10 +164,11 @@ public final class ProblemLoader {
                 String col = e.getKey();
                 ValueRef v = e.getValue();
                 boolean species = model.species(col) != null;
-                String target = species ? INIT_PREFIX + col : col;
-                int k = cm.parameterIndex(target);
+                int k = cm.parameterIndex(conditionTarget(cm, col));
                 if (k < 0) {
-                    throw UserInputException.of(c.location().withElement(col), "condition table column '%s' is not "
+                    // the column is the problem, so the location is the header line
+                    SourceLocation header = new SourceLocation(c.location().file(), 1, 0, col);
+                    throw UserInputException.of(header, "condition table column '%s' is not "
                             + "a parameter, species or compartment of the model that a condition can set; remove "
                             + "the column or correct the id", col);
                 }
@@ -157,6 +176,9 @@ public final class ProblemLoader {
                     continue;
                 }
                 src.put(k, resolve(v, sources, cm, c.location().withElement(col), "condition '" + c.id() + "'"));
+                if (conditionFlag(cm, col) >= 0) {
+                    src.put(conditionFlag(cm, col), ValueSource.ofConstant(1.0));
+                }
                 if (species && form.stateIndex(col) >= 0) {
                     reinit.add(form.stateIndex(col));
                 }
@@ -247,8 +269,63 @@ public final class ProblemLoader {
         inputs.add(pp.yamlFile());
         inputs.add(sbml);
         inputs.addAll(tableFiles(pp));
+        List<String> notes = new ArrayList<>(pp.notes());
+        notes.addAll(missingNominalNotes(pp, free));
+        notes.addAll(unusedParameterNotes(free, conditions, globalSources, meas));
         return new EstimationProblem(pp.yamlFile(), inputs, sbml, model, cm, free, conditions, experiments,
-                observables, meas, globalIds, globalSources, maxObs, maxNoise, List.of());
+                observables, meas, globalIds, globalSources, maxObs, maxNoise, List.of(), notes);
+    }
+
+    /** One note per estimated parameter without a nominal value: what check and --nominal-start use instead. */
+    private static List<String> missingNominalNotes(PetabProblem pp, List<FreeParameter> free) {
+        List<String> out = new ArrayList<>();
+        int j = 0;
+        for (PetabParameter p : pp.parameters()) {
+            if (!p.estimate()) {
+                continue;
+            }
+            if (!Double.isFinite(p.nominal())) {
+                out.add(String.format(java.util.Locale.ROOT, "%s: estimated parameter '%s' has no nominalValue; "
+                        + "check evaluates at (and fit --nominal-start starts from) the midpoint of its bounds on its "
+                        + "%s scale, %.6g", p.location(), p.id(), p.scale().token(), free.get(j).nominal()));
+            }
+            j++;
+        }
+        return out;
+    }
+
+    /**
+     * One note per estimated parameter that nothing reads: no condition passes it to the model (parameter-table ids
+     * of model parameters, condition-table values), no observable or noise formula names it, no measurement row
+     * overrides a placeholder with it. The data cannot determine such a parameter.
+     */
+    private static List<String> unusedParameterNotes(List<FreeParameter> free, List<Condition> conditions,
+                                                     List<ValueSource> globalSources, List<Measurement> meas) {
+        boolean[] used = new boolean[free.size()];
+        for (Condition c : conditions) {
+            for (int i = 0; i < c.targetCount(); i++) {
+                used[c.targetTheta(i)] = true;
+            }
+        }
+        List<ValueSource> reads = new ArrayList<>(globalSources);
+        for (Measurement me : meas) {
+            reads.addAll(me.obsParameters());
+            reads.addAll(me.noiseParameters());
+        }
+        for (ValueSource v : reads) {
+            if (v.isTheta()) {
+                used[v.thetaIndex()] = true;
+            }
+        }
+        List<String> out = new ArrayList<>();
+        for (int j = 0; j < used.length; j++) {
+            if (!used[j]) {
+                out.add(String.format(java.util.Locale.ROOT, "%s: estimated parameter '%s' is used by no model "
+                        + "element, observable or noise formula, condition or measurement row, so the data cannot "
+                        + "determine it; correct its id, or remove the row", free.get(j).location(), free.get(j).id()));
+            }
+        }
+        return out;
     }
 
     private static List<Path> tableFiles(PetabProblem pp) {
@@ -370,46 +447,82 @@ public final class ProblemLoader {
     }
 
     /**
-     * Adds {@code petab_init__S} parameters and initial assignments for species columns, and drops the model's
-     * initial assignments of the other columns (the condition's value replaces them).
+     * Prepares a model for values set per condition (PEtab condition-table columns, initial values of switchfit
+     * experiments). A species column gets a parameter {@code petab_init__S} holding its declared initial value (in
+     * the species' own units, NaN when it declares none) and the initial assignment {@code S = petab_init__S}.
+     * When the model sets the column's target (species, parameter or compartment) by an initial assignment, the
+     * target gets {@code petab_init__X} and a flag {@code petab_set__X} (declared 0) instead, and its assignment
+     * becomes {@code piecewise(petab_init__X, petab_set__X > 0.5, original)}: a condition that gives a value
+     * writes it to {@code petab_init__X} and sets the flag to 1; one that gives NaN leaves the flag at 0, so the
+     * model's initial assignment applies (PEtab v1: NaN keeps the model's value; SBML: an initial assignment
+     * overrides the declared value). Both are declared parameters, the flag a constant per condition, so initial
+     * sensitivities through the initial block stay exact on either branch. Other columns are set directly.
+     * Where a condition's value goes: {@link #conditionTarget}; its flag: {@link #conditionFlag}.
      */
-    static Model withSpeciesInitParameters(Model m, Set<String> columns) {
+    static Model withConditionTargets(Model m, Set<String> columns) {
         List<Parameter> params = new ArrayList<>(m.parameters());
-        List<InitialAssignment> ias = new ArrayList<>();
-        Set<String> targets = new LinkedHashSet<>();
+        Map<String, InitialAssignment> modelIas = new HashMap<>();
+        for (InitialAssignment ia : m.initialAssignments()) {
+            modelIas.put(ia.symbol(), ia);
+        }
+        Map<String, InitialAssignment> replaced = new HashMap<>();
+        List<InitialAssignment> added = new ArrayList<>();
         for (String col : columns) {
             Species s = m.species(col);
-            if (s == null) {
+            InitialAssignment original = modelIas.get(col);
+            if (s == null && original == null) {
                 continue;
             }
-            targets.add(col);
-            double size = Double.NaN;
-            if (m.compartment(s.compartment()) != null) {
-                size = m.compartment(s.compartment()).size();
+            params.add(new Parameter(INIT_PREFIX + col, declaredValue(m, col), true));
+            Expr value = Expr.symbol(INIT_PREFIX + col);
+            if (original == null) {
+                added.add(new InitialAssignment(col, value));
+                continue;
             }
-            double v;
-            if (s.hasOnlySubstanceUnits()) {
-                v = !Double.isNaN(s.initialAmount()) ? s.initialAmount() : s.initialConcentration() * size;
-            } else {
-                v = !Double.isNaN(s.initialConcentration()) ? s.initialConcentration() : s.initialAmount() / size;
-            }
-            params.add(new Parameter(INIT_PREFIX + col, v, true));
-            ias.add(new InitialAssignment(col, Expr.symbol(INIT_PREFIX + col)));
+            params.add(new Parameter(SET_PREFIX + col, 0.0, true));
+            replaced.put(col, new InitialAssignment(col, Expr.call(Op.PIECEWISE, value,
+                    Expr.call(Op.GT, Expr.symbol(SET_PREFIX + col), Expr.constant(0.5)), original.math())));
         }
-        // A value set by a condition replaces the model's initial assignment of a parameter or compartment too.
-        boolean removed = false;
-        for (InitialAssignment ia : m.initialAssignments()) {
-            if (!targets.contains(ia.symbol()) && !columns.contains(ia.symbol())) {
-                ias.add(ia);
-            } else if (!targets.contains(ia.symbol())) {
-                removed = true;
-            }
-        }
-        if (targets.isEmpty() && !removed) {
+        if (replaced.isEmpty() && added.isEmpty()) {
             return m;
+        }
+        List<InitialAssignment> ias = new ArrayList<>(added);
+        for (InitialAssignment ia : m.initialAssignments()) {
+            ias.add(replaced.getOrDefault(ia.symbol(), ia));
         }
         return new Model(m.id(), m.source(), m.compartments(), m.species(), params, m.reactions(), m.rules(), ias,
                 m.events(), m.conversionFactor());
+    }
+
+    /** The declared value of a species (its own units), parameter or compartment; NaN when none is declared. */
+    private static double declaredValue(Model m, String id) {
+        Species s = m.species(id);
+        if (s == null) {
+            for (Parameter p : m.parameters()) {
+                if (p.id().equals(id)) {
+                    return p.value();
+                }
+            }
+            return m.compartment(id) != null ? m.compartment(id).size() : Double.NaN;
+        }
+        double size = m.compartment(s.compartment()) != null ? m.compartment(s.compartment()).size() : Double.NaN;
+        if (s.hasOnlySubstanceUnits()) {
+            return !Double.isNaN(s.initialAmount()) ? s.initialAmount() : s.initialConcentration() * size;
+        }
+        return !Double.isNaN(s.initialConcentration()) ? s.initialConcentration() : s.initialAmount() / size;
+    }
+
+    /** The parameter a condition's value of {@code column} is written to (see {@link #withConditionTargets}). */
+    static String conditionTarget(CompiledModel cm, String column) {
+        return cm.parameterIndex(INIT_PREFIX + column) >= 0 ? INIT_PREFIX + column : column;
+    }
+
+    /**
+     * Index of the flag a condition that gives a value of {@code column} sets to 1 (see
+     * {@link #withConditionTargets}), or -1 when the column has none.
+     */
+    static int conditionFlag(CompiledModel cm, String column) {
+        return cm.parameterIndex(SET_PREFIX + column);
     }
 
     // ------------------------------------------------------------------------------------------------ switchfit

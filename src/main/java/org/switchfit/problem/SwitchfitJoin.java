@@ -50,7 +50,7 @@ final class SwitchfitJoin {
                 }
             }
         }
-        Model model = ProblemLoader.withSpeciesInitParameters(original, speciesInit);
+        Model model = ProblemLoader.withConditionTargets(original, speciesInit);
         CompiledModel cm = ModelCompiler.compile(model);
         String modelFile = sp.modelFile().toString();
         // every dose is resolved (and checked, even in experiments without data) against the model as read
@@ -104,6 +104,10 @@ final class SwitchfitJoin {
                             e.id(), id, modelFile);
                 }
                 src.put(k, value(v.getValue(), sources, cm, e.location(), e.id()));
+                if (species && ProblemLoader.conditionFlag(cm, id) >= 0) {
+                    // the species has an initial assignment in the model: the experiment's value replaces it
+                    src.put(ProblemLoader.conditionFlag(cm, id), ValueSource.ofConstant(1.0));
+                }
                 if (species && form.stateIndex(id) >= 0) {
                     reinit.add(form.stateIndex(id));
                 }

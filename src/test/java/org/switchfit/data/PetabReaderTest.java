@@ -200,4 +200,37 @@ class PetabReaderTest {
         assertEquals("fed", rows.get(0).simulationConditionId());
         assertEquals(0.5, rows.get(0).value(), 0.0);
     }
+    /** Keys whose content the reader would ignore are refused by name; empty values ask for nothing. */
+    @Test
+    void mappingFilesAndExtensionsAreRefused() throws Exception {
+        Path f = TestFiles.copyFolder("petab-tiny", dir.resolve("keys"));
+        String yaml = Files.readString(f.resolve("problem.yaml"));
+        Files.writeString(f.resolve("mapping.tsv"), "petabEntityId\tmodelEntityId\nk\tk_conv\n");
+        Files.writeString(f.resolve("problem.yaml"), yaml + "    mapping_files:\n      - mapping.tsv\n");
+        fails(f, "problem.yaml, line 13", "key 'mapping_files' is not supported", "remove the key");
+        Files.writeString(f.resolve("problem.yaml"), yaml + "    mapping_files: []\n");
+        PetabReader.read(f.resolve("problem.yaml"));
+        Files.writeString(f.resolve("problem.yaml"), yaml + "extensions:\n  sbml_extra: {version: 1}\n");
+        fails(f, "problem.yaml, line 13", "key 'extensions' is not supported", "remove the key");
+    }
+    /**
+     * A column close to a standard one (case or up to 2 edits) is still read as an extra column (PEtab allows extra
+     * columns) but noted with the standard name; other extra columns are not.
+     */
+    @Test
+    void nearMissColumnsAreNoted() throws Exception {
+        Path f = copy();
+        replaceLine(f.resolve("measurements.tsv"), 1, "observableId\tpreequilibrationConditionID\t"
+                + "simulationConditionId\tmeasurement\ttime\tobservableParameters\tnoiseParameters\tdatasetId\t"
+                + "replicate");
+        replaceLine(f.resolve("observables.tsv"), 1, "observableId\tobservableName\tobservableFormula\tnoiseFormula\t"
+                + "observableTransformation\tnoiseDistribution\tcomment");
+        PetabProblem p = PetabReader.read(f.resolve("problem.yaml"));
+        assertEquals(2, p.notes().size(), p.notes().toString());
+        assertTrue(p.notes().get(0).contains("measurements.tsv, line 1: column 'preequilibrationConditionID' is not a "
+                + "PEtab column"), p.notes().get(0));
+        assertTrue(p.notes().get(0).contains("did you mean 'preequilibrationConditionId'?"), p.notes().get(0));
+        assertTrue(p.notes().get(1).contains("column 'replicate'") && p.notes().get(1).contains("'replicateId'"),
+                p.notes().get(1));
+    }
 }

@@ -56,7 +56,8 @@ class ProblemErrorsTest {
 
     @Test
     void conditionColumnThatIsNotAModelEntity() {
-        failure(PARAMS, "conditionId | kk\nc0 | 1", OBS, MEAS, "conditions.tsv", "'kk'", "remove the column");
+        // the column is wrong, not a row: the location is the header line
+        failure(PARAMS, "conditionId | kk\nc0 | 1", OBS, MEAS, "conditions.tsv, line 1", "'kk'", "remove the column");
     }
 
     @Test
@@ -76,5 +77,65 @@ class ProblemErrorsTest {
     void unparsableFormula() {
         failure(PARAMS, CONDS, "observableId | observableFormula | noiseFormula\nobs | X * (1 + | 0.1", MEAS,
                 "observables.tsv", "cannot parse formula");
+    }
+    @Test
+    void uniformPriorSupportOutsideTheBounds() {
+        failure("parameterId | parameterScale | lowerBound | upperBound | nominalValue | estimate | "
+                + "objectivePriorType | objectivePriorParameters\nk | log10 | 1e-3 | 10 | 0.3 | 1 | uniform | 20;30",
+                CONDS, OBS, MEAS, "parameters.tsv", "line 2", "'k'", "does not overlap its bounds",
+                "correct objectivePriorParameters");
+    }
+    private static final String PRIOR_PARAMS = "parameterId | parameterScale | lowerBound | upperBound | "
+            + "nominalValue | estimate | objectivePriorType | objectivePriorParameters\n";
+    private static final String NOISE_OBS = "observableId | observableFormula | noiseFormula\n"
+            + "obs | observableParameter1_obs * X | noiseParameter1_obs + noiseParameter2_obs * X";
+
+    /** Numeric noiseParameters that make σ = a + b X constant and not positive: refused at the row. */
+    @Test
+    void noiseParametersGivingNonPositiveSpread() {
+        String meas = "observableId | simulationConditionId | measurement | time | observableParameters | "
+                + "noiseParameters\nobs | c0 | 1.0 | 1 | 1 | 0.1;0.05\nobs | c0 | 1.0 | 2 | 1 | %s";
+        failure(PARAMS, CONDS, NOISE_OBS, String.format(meas, "-0.2;0"), "measurements.tsv", "line 3", "-0.2",
+                "must be positive", "noiseParameters");
+        failure(PARAMS, CONDS, NOISE_OBS, String.format(meas, "0;0"), "measurements.tsv", "line 3", "0.0",
+                "must be positive", "noiseParameters");
+    }
+
+    @Test
+    void nanAmongObservableParameters() {
+        failure(PARAMS, CONDS, NOISE_OBS, "observableId | simulationConditionId | measurement | time | "
+                + "observableParameters | noiseParameters\nobs | c0 | 1.0 | 1 | NaN;1 | 0.1;0",
+                "measurements.tsv", "line 2", "column 5", "observableParameters", "value 1", "NaN");
+    }
+
+    @Test
+    void priorParametersOutsideTheirDomain() {
+        failure(PRIOR_PARAMS + "k | log10 | 1e-3 | 10 | 0.3 | 1 | normal | 1;-0.5", CONDS, OBS, MEAS,
+                "parameters.tsv", "line 2", "column 8", "positive finite standard deviation", "'1;-0.5'");
+        failure(PRIOR_PARAMS + "k | log10 | 1e-3 | 10 | 0.3 | 1 | laplace | 1;0", CONDS, OBS, MEAS,
+                "parameters.tsv", "line 2", "column 8", "positive finite scale", "'1;0'");
+        failure(PRIOR_PARAMS + "k | log10 | 1e-3 | 10 | 0.3 | 1 | uniform | 5;1", CONDS, OBS, MEAS,
+                "parameters.tsv", "line 2", "column 8", "lower < upper", "'5;1'");
+    }
+
+    /** A log-normal prior on a parameter that may be 0 or negative: said as such, at the lowerBound cell. */
+    @Test
+    void logNormalPriorOnAParameterThatCanBeNonPositive() {
+        failure(PRIOR_PARAMS + "k | lin | -1 | 1 | 0.3 | 1 | logNormal | 0;1", CONDS, OBS, MEAS,
+                "parameters.tsv", "line 2", "column 3", "positive values only", "lowerBound -1");
+    }
+    /** PEtab simulations start at t = 0, so a negative measurement time is refused at its cell. */
+    @Test
+    void negativeMeasurementTime() {
+        failure(PARAMS, CONDS, OBS, "observableId | simulationConditionId | measurement | time\nobs | c0 | 1.0 | 1\n"
+                + "obs | c0 | 1.0 | -1", "measurements.tsv", "line 3", "column 4", "negative", "t = 0");
+    }
+    /** PEtab v1 sets species values in the condition table; a species row in the parameter table is refused. */
+    @Test
+    void speciesInTheParameterTable() {
+        failure(PARAMS + "\nX | lin | 0.1 | 10 | 0.9 | 1", CONDS, OBS, MEAS, "parameters.tsv", "line 3", "'X'",
+                "names a species", "condition table");
+        failure(PARAMS + "\nX | lin | 0.1 | 10 | 0.9 | 0", CONDS, OBS, MEAS, "parameters.tsv", "line 3", "'X'",
+                "names a species", "condition table");
     }
 }

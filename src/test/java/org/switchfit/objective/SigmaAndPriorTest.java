@@ -1,6 +1,8 @@
 package org.switchfit.objective;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertThrows;
+import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.nio.file.Path;
 import org.junit.jupiter.api.Test;
@@ -90,5 +92,31 @@ class SigmaAndPriorTest {
         }
         assertEquals(mu, f.theta()[0], 1e-9, "mu");
         assertEquals(nll, f.nll(), 1e-10, "NLL including the prior density");
+    }
+    /**
+     * Uniform prior U(1.2, 1.4) on mu (bounds [-10, 10]), known sigma 0.5: the density is 1/0.2 inside and 0
+     * outside (PEtab v1 specification, from memory). Inside, the NLL is the Gaussian NLL plus log 0.2 (derived by
+     * hand); outside, evaluate throws PriorSupportException (a point the optimizer rejects) and evaluateDetailed
+     * gives +infinity naming the parameter. The sample mean 8.3/7 = 1.186 lies below the support, so a local fit in
+     * the wider box of the bounds ends at the support's lower end without ever accepting a point outside it.
+     */
+    @Test
+    void uniformPriorIsZeroOutsideItsSupport() {
+        Path yaml = problem("mu | lin | -10 | 10 | 1.3 | 1 | uniform | 1.2;1.4", "0.5");
+        LikelihoodObjective obj = LikelihoodObjective.of(ProblemLoader.load(yaml), SETTINGS);
+        double sigma = 0.5;
+        double nll = Math.log(0.2);
+        for (double v : M) {
+            nll += 0.5 * Math.log(2 * Math.PI * sigma * sigma) + 0.5 * Math.pow((v - 1.3) / sigma, 2);
+        }
+        assertEquals(nll, obj.evaluateDetailed(new double[] {1.3}).nll(), 1e-12, "inside: closed form");
+        assertThrows(PriorSupportException.class, () -> obj.evaluate(new double[] {1.0},
+                new double[obj.residualCount()], null));
+        LikelihoodObjective.Evaluation out = obj.evaluateDetailed(new double[] {1.41});
+        assertEquals(Double.POSITIVE_INFINITY, out.nll());
+        assertTrue(out.outsidePrior().contains("'mu' = 1.41"), out.outsidePrior());
+        assertTrue(out.outsidePrior().contains("[1.20000, 1.40000]"), out.outsidePrior());
+        LocalFit f = fit(obj);
+        assertTrue(f.theta()[0] >= 1.2 && f.theta()[0] < 1.2 + 1e-3, "mu " + f.theta()[0]);
     }
 }
