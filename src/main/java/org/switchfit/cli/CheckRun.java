@@ -64,6 +64,12 @@ final class CheckRun {
         } catch (UnusablePredictionException e) {
             // the nominal values are the user's choice: a row they make unusable is an input error
             throw new UserInputException(e.location(), "at the nominal parameter values, " + e.detail(), e);
+        } catch (org.switchfit.objective.ObjectiveException e) {
+            // no steady state, a failed integration or relaxation at the values the problem file gives: a property
+            // of the model and those values, which the user chose (not a fault of the program)
+            throw new UserInputException(org.switchfit.util.SourceLocation.ofFile(problemFile.toString()), "the problem cannot be "
+                    + "evaluated at its nominal parameter values: " + e.getMessage() + "; check the model and these "
+                    + "values", e);
         }
         seconds = (System.nanoTime() - t0) * 1e-9;
         reference = referenceFile != null ? referenceFile : findReference(problemFile);

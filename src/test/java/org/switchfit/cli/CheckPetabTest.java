@@ -180,4 +180,37 @@ class CheckPetabTest {
         assertTrue(out.toString().contains("Exit codes:") && out.toString().contains("3   some simulated value "
                 + "differs from the reference table"), out.toString());
     }
+
+    /**
+     * A steady-state measurement of x' = k (x = k t grows without limit, so it has none): check says so in one
+     * line and exits 2 instead of reporting an internal error (the values are the user's; nothing failed inside).
+     */
+    @Test
+    void noSteadyStateAtTheNominalValuesIsOneUserErrorLine() throws Exception {
+        String model = """
+                <?xml version="1.0" encoding="UTF-8"?>
+                <sbml xmlns="http://www.sbml.org/sbml/level3/version2/core" level="3" version="2">
+                  <model id="inflow">
+                    <listOfParameters>
+                      <parameter id="k" value="1" constant="true"/>
+                      <parameter id="x" value="0" constant="false"/>
+                    </listOfParameters>
+                    <listOfRules>
+                      <rateRule variable="x"><math xmlns="http://www.w3.org/1998/Math/MathML"><ci>k</ci></math>
+                      </rateRule>
+                    </listOfRules>
+                  </model>
+                </sbml>
+                """;
+        Path yaml = PetabFiles.write(dir, model, PARAMS, "conditionId\nc0",
+                "observableId | observableFormula | noiseFormula\nobs | x | 0.1",
+                "observableId | simulationConditionId | measurement | time\nobs | c0 | 1.0 | inf");
+        StringWriter out = new StringWriter();
+        StringWriter err = new StringWriter();
+        assertEquals(2, run(out, err, "check", yaml.toString()), err.toString());
+        String[] lines = err.toString().strip().split("\n");
+        assertEquals(1, lines.length, err.toString());
+        assertTrue(lines[0].startsWith("error: ") && lines[0].contains("no steady state")
+                && lines[0].contains("grows without limit"), lines[0]);
+    }
 }
