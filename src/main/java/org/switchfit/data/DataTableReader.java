@@ -36,6 +36,11 @@ final class DataTableReader {
                 throw Messages.error(r.location("time"), "time %s is not finite; timecourse times must be"
                         + " finite (put steady-state data in a dose-response table)", r.text("time"));
             }
+            if (time < 0) {
+                throw Messages.error(r.location("time"), "time %s is negative; experiments start at t = 0 (a"
+                        + " settle_in experiment runs before that), so shift the times to start at 0",
+                        r.text("time"));
+            }
             double value = value(r);
             double sigma = sigma(r);
             out.add(new TimecoursePoint(exp, obs, time, value, sigma, r.location()));

@@ -208,6 +208,12 @@ class ProblemFileReaderTest {
         e = fails(HEAD + EXP_OBS + "data:\n  timecourses:\n    - file: tc.csv\n");
         assertMessage(e, "time inf is not finite", "line 2", "dose-response table");
 
+        TestFiles.write(dir.resolve("tc.csv"), "experiment,observable,time,value\nfed,q_obs,0,0.5\n"
+                + "fed,q_obs,-1,0.4\n");
+        e = fails(HEAD + EXP_OBS + "data:\n  timecourses:\n    - file: tc.csv\n");
+        assertMessage(e, "tc.csv, line 3, column 3", "time -1 is negative", "experiments start at t = 0",
+                "shift the times");
+
         TestFiles.write(dir.resolve("tc.csv"), "experiment,observable,time,value\nfed,q_obs,1,nan\n");
         e = fails(HEAD + EXP_OBS + "data:\n  timecourses:\n    - file: tc.csv\n");
         assertMessage(e, "'value': nan is not a finite measurement", "remove the row");
