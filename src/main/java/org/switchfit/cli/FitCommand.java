@@ -81,6 +81,12 @@ public final class FitCommand implements Callable<Integer> {
                     + threads);
         }
         EstimationProblem problem = ProblemLoader.load(problemFile);
+        if (problem.measurements().isEmpty() && problem.extraData().isEmpty()) {
+            // with nothing to fit, every start "converges" at NLL 0 (or at the priors' minimum)
+            throw new UserInputException(SourceLocation.ofFile(problemFile.toString()), "no data: the problem has no "
+                    + "measurements, dose-response points or switching thresholds (are its data tables empty?); add "
+                    + "data rows before fitting");
+        }
         LikelihoodObjective objective = LikelihoodObjective.of(problem, solver.settings());
         FitProblem fp = fitProblem(problem, objective);
         StartStore store = new StartStore(out.resolve("starts"), resume, () -> new UserInputException(

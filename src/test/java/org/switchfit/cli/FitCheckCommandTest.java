@@ -108,6 +108,25 @@ class FitCheckCommandTest {
         assertTrue(err.toString().startsWith("error: "), err.toString());
     }
 
+    /** A timecourse table with its header only: nothing to fit, so fit refuses instead of reporting NLL 0. */
+    @Test
+    void fitWithoutDataIsRefused() throws Exception {
+        Files.writeString(dir.resolve("model.xml"), org.switchfit.testsystems.DecaySbml.MODEL);
+        Files.writeString(dir.resolve("tc.csv"), "experiment,observable,time,value\n");
+        Path yaml = Files.writeString(dir.resolve("nodata.yaml"), "switchfit_format: 1\nmodel: model.xml\n"
+                + "parameters:\n  - {id: k, lower: 0.01, upper: 10, start: 0.3}\nexperiments:\n  - id: e1\n"
+                + "observables:\n  - {id: obs, formula: X, noise: {type: gaussian, sigma: 0.1}}\n"
+                + "data:\n  timecourses:\n    - file: tc.csv\n");
+        StringWriter out = new StringWriter();
+        StringWriter err = new StringWriter();
+        assertEquals(Main.EXIT_USER_ERROR, run(out, err, "fit", yaml.toString(), "--starts", "2", "--seed", "1",
+                "--quiet", "--out", dir.resolve("f").toString()), out.toString());
+        String e = err.toString().strip();
+        assertEquals(1, e.lines().count(), e);
+        assertTrue(e.startsWith("error: " + yaml + ": no data") && e.contains("add data rows"), e);
+        assertTrue(!Files.exists(dir.resolve("f").resolve("result.json")));
+    }
+
     @Test
     void resumedFitEqualsUninterruptedFit() throws Exception {
         Path full = dir.resolve("full");
