@@ -318,16 +318,22 @@ public final class ProblemFileReader {
         switch (type) {
             case "gaussian":
                 n.checkKeys(List.of("type", "sigma"));
-                return new NoiseModel.Gaussian(spread(n, "sigma", id));
+                return new NoiseModel.Gaussian(spread(n, "sigma", id, true));
             case "proportional":
                 n.checkKeys(List.of("type", "absolute", "relative"));
-                return new NoiseModel.Proportional(spread(n, "absolute", id), spread(n, "relative", id));
+                ValueRef a = spread(n, "absolute", id, false);
+                ValueRef r = spread(n, "relative", id, false);
+                if (a.isNumber() && r.isNumber() && a.number() == 0 && r.number() == 0) {
+                    throw Messages.error(n.location(), "observable '%s': proportional noise with absolute 0 and"
+                            + " relative 0 has no spread; give absolute > 0 or relative > 0 (both >= 0)", id);
+                }
+                return new NoiseModel.Proportional(a, r);
             case "laplace":
                 n.checkKeys(List.of("type", "scale"));
-                return new NoiseModel.Laplace(spread(n, "scale", id));
+                return new NoiseModel.Laplace(spread(n, "scale", id, true));
             case "lognormal":
                 n.checkKeys(List.of("type", "sigma"));
-                return new NoiseModel.LogNormal(spread(n, "sigma", id));
+                return new NoiseModel.LogNormal(spread(n, "sigma", id, true));
             default:
                 throw Messages.error(n.get("type").location(), "observable '%s': unknown noise type '%s'%s;"
                         + " use gaussian, proportional, laplace or lognormal", id, type,
@@ -335,12 +341,17 @@ public final class ProblemFileReader {
         }
     }
 
-    private static ValueRef spread(YamlNode n, String key, String id) {
+    /**
+     * A noise value: an estimated parameter id, or a finite number that is positive ({@code positive}: the spread
+     * itself) or at least 0 (a part of the proportional spread, which may vanish if the other part does not).
+     */
+    private static ValueRef spread(YamlNode n, String key, String id, boolean positive) {
         YamlNode v = n.require(key, "0.1 or sigma_" + id);
         ValueRef r = v.valueRef("0.1 or sigma_" + id);
-        if (r.isNumber() && !(r.number() >= 0 && Double.isFinite(r.number()))) {
-            throw Messages.error(v.location(), "observable '%s': noise %s %s must be a finite number >= 0"
-                    + " or an estimated parameter id; correct it", id, key, v.scalar("0.1"));
+        double x = r.isNumber() ? r.number() : 1.0;
+        if (!(positive ? x > 0 : x >= 0) || !Double.isFinite(x)) {
+            throw Messages.error(v.location(), "observable '%s': noise %s %s must be a finite number %s or an"
+                    + " estimated parameter id; correct it", id, key, v.scalar("0.1"), positive ? "> 0" : ">= 0");
         }
         return r;
     }

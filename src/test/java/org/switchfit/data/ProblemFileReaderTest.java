@@ -258,7 +258,25 @@ class ProblemFileReaderTest {
                 + " sigma: 1}}\n");
         assertMessage(e, "unknown noise type 'gausian'", "did you mean 'gaussian'?", "line 4");
         e = fails(HEAD + "observables:\n  - {id: y, formula: Q, noise: {type: gaussian, sigma: -1}}\n");
-        assertMessage(e, "noise sigma -1 must be a finite number >= 0", "line 4");
+        assertMessage(e, "noise sigma -1 must be a finite number > 0", "line 4");
+        // a zero spread makes the likelihood infinite: refused at the noise entry, with what is allowed
+        e = fails(HEAD + "observables:\n  - id: y\n    formula: Q\n    noise: {type: gaussian, sigma: 0}\n");
+        assertMessage(e, "p.yaml, line 6", "observable 'y': noise sigma 0 must be a finite number > 0",
+                "or an estimated parameter id");
+        e = fails(HEAD + "observables:\n  - {id: y, formula: Q, noise: {type: laplace, scale: 0}}\n");
+        assertMessage(e, "noise scale 0 must be a finite number > 0", "line 4");
+        e = fails(HEAD + "observables:\n  - {id: y, formula: Q, noise: {type: lognormal, sigma: 0.0}}\n");
+        assertMessage(e, "noise sigma 0.0 must be a finite number > 0", "line 4");
+        e = fails(HEAD + "observables:\n  - {id: y, formula: Q, noise: {type: proportional, absolute: 0, relative:"
+                + " 0}}\n");
+        assertMessage(e, "absolute 0 and relative 0 has no spread", "give absolute > 0 or relative > 0", "line 4");
+        e = fails(HEAD + "observables:\n  - {id: y, formula: Q, noise: {type: proportional, absolute: -1, relative:"
+                + " 0.1}}\n");
+        assertMessage(e, "noise absolute -1 must be a finite number >= 0", "line 4");
+        // one part of the proportional spread may be 0
+        SwitchfitProblem ok = ProblemFileReader.read(problem(HEAD + "observables:\n  - {id: y, formula: Q, noise: "
+                + "{type: proportional, absolute: 0, relative: 0.1}}\n"));
+        assertEquals(1, ok.observables().size());
         e = fails(HEAD + "observables:\n  - {id: y, formula: Q, noise: {type: proportional, absolute: 1}}\n");
         assertMessage(e, "has no 'relative'", "add it");
         e = fails(HEAD + "observables:\n  - {id: y, formula: Q}\n");

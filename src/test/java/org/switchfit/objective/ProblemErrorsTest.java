@@ -73,6 +73,13 @@ class ProblemErrorsTest {
     }
 
     @Test
+    void zeroNoiseNamesTheDataRowAndTheObservableDefinition() {
+        failure(PARAMS, CONDS, "observableId | observableFormula | noiseFormula\nobs | X | 0", MEAS,
+                "measurements.tsv, line 2", "noise spread of observable 'obs' evaluates to 0.0", "must be positive",
+                "noise definition (", "observables.tsv, line 2)");
+    }
+
+    @Test
     void unparsableFormula() {
         failure(PARAMS, CONDS, "observableId | observableFormula | noiseFormula\nobs | X * (1 + | 0.1", MEAS,
                 "observables.tsv", "cannot parse formula");
