@@ -221,6 +221,13 @@ class ProblemFileReaderTest {
         TestFiles.write(dir.resolve("dr.csv"), "experiment,observable,dose,value,history\nfed,q_obs,1,0.5,mid\n");
         e = fails(HEAD + EXP_OBS + "data:\n  dose_responses:\n    - {file: dr.csv, control: feed}\n");
         assertMessage(e, "dr.csv, line 2, column 5", "'mid' is unknown", "use low", "or high");
+        // history is required (documented so): as a column and in every row
+        TestFiles.write(dir.resolve("dr.csv"), "experiment,observable,dose,value\nfed,q_obs,1,0.5\n");
+        e = fails(HEAD + EXP_OBS + "data:\n  dose_responses:\n    - {file: dr.csv, control: feed}\n");
+        assertMessage(e, "dose-response table has no column 'history'", "dr.csv, line 1");
+        TestFiles.write(dir.resolve("dr.csv"), "experiment,observable,dose,value,history\nfed,q_obs,1,0.5,\n");
+        e = fails(HEAD + EXP_OBS + "data:\n  dose_responses:\n    - {file: dr.csv, control: feed}\n");
+        assertMessage(e, "dr.csv, line 2, column 5", "history");
 
         TestFiles.write(dir.resolve("th.csv"), "experiment,control,direction,value,sigma\nfed,feed,upward,1,0.1\n");
         e = fails(HEAD + EXP_OBS + "data:\n  thresholds:\n    - file: th.csv\n");
