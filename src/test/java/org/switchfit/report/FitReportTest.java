@@ -118,6 +118,26 @@ class FitReportTest {
         assertTrue(html.contains("not profiled"));
     }
 
+    /** profiles.json with parameter profiles only: the fold section says no fold was profiled, not "missing". */
+    @Test
+    void profilesWithoutFoldsSayNoFoldWasProfiled() throws Exception {
+        FitDirectory d = FitDirectory.of(tmp.resolve("nofolds"));
+        d.write(FitFile.RESULT, SyntheticFitDirectory.result());
+        ProfilesFile all = SyntheticFitDirectory.profiles();
+        d.write(FitFile.PROFILES, new ProfilesFile(all.level(), all.bestNll(), all.thresholds(),
+                all.betterOptimumFound(), all.bestNllFound(), all.folds(), all.rankCheck(), all.profiles().stream()
+                .filter(e -> e.kind() == ProfilesFile.Kind.PARAMETER).toList()));
+        String html = FitReport.build(d, null).toHtml();
+        SampleReportTest.parse(html);
+        assertFalse(html.contains("Skipped: profiles.json"), "profiles.json is there");
+        assertTrue(html.contains("No fold positions were profiled"), "fold section note");
+        assertTrue(html.contains("--folds&#39; computes them"), "how to request them");
+        // with branches.json too, the folds are listed as not profiled and the note stays
+        d.write(FitFile.BRANCHES, SyntheticFitDirectory.branches());
+        html = FitReport.build(d, null).toHtml();
+        assertTrue(html.contains("not profiled") && html.contains("No fold positions were profiled"));
+    }
+
     @Test
     void malformedFileIsOneLineUserError() throws Exception {
         FitDirectory d = SyntheticFitDirectory.create(tmp.resolve("bad"));
