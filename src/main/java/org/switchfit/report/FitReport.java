@@ -117,12 +117,12 @@ public final class FitReport {
                 FitReportFigures.profiles(prof.get(), ProfilesFile.Kind.FOLD, "fold-profiles", "Fold profiles")
                         .ifPresent(f -> r.figure(f, "Profile likelihoods of the fold positions. "
                                 + profileCaption(prof.get())));
+            } else if (!prof.isPresent()) {
+                missing(r, dir, FitFile.PROFILES);
             }
-        }
-        if (!foldProfiles && prof.isPresent()) {
-            r.note(HtmlReport.NoteKind.INFO, "No fold positions were profiled: " + dir.pathOf(FitFile.PROFILES)
-                    + " holds no fold profiles; 'switchfit profile " + dir.path() + " --folds' computes them.");
-        } else if (!foldProfiles) {
+        } else if (prof.isPresent()) {
+            r.note(HtmlReport.NoteKind.INFO, FitReportTables.NO_FOLD_PROFILES);
+        } else {
             missing(r, dir, FitFile.PROFILES);
         }
 
