@@ -195,6 +195,11 @@ class FitCheckCommandTest {
         StringWriter err = new StringWriter();
         Path json = dir.resolve("toggle-check.json");
         assertEquals(0, run(o, err, "check", yaml.toString(), "--json", json.toString()), err.toString());
+        // every kind of data counted (timecourses.csv has 20 rows, problem.yaml two inline thresholds)
+        assertEquals(yaml + ": 20 measurements, 0 dose-response points, 2 switching thresholds; 3 estimated "
+                + "parameters", o.toString().lines().findFirst().orElse(""));
+        assertEquals(2, read(json).get("thresholds").asInt());
+        assertEquals(0, read(json).get("doseResponsePoints").asInt());
         JsonNode sw = read(json).get("switchingAtNominal");
         assertEquals(2, sw.size());
         assertEquals("steepest_response", sw.get(0).get("note").asText());
