@@ -81,7 +81,14 @@ class ProblemErrorsTest {
 
     @Test
     void unparsableFormula() {
-        failure(PARAMS, CONDS, "observableId | observableFormula | noiseFormula\nobs | X * (1 + | 0.1", MEAS,
-                "observables.tsv", "cannot parse formula");
+        String m = failure(PARAMS, CONDS, "observableId | observableFormula | noiseFormula\nobs | X * (1 + | 0.1",
+                MEAS, "observables.tsv", "cannot parse formula 'X * (1 +': it ends too early", "write an infix");
+        assertFalse(m.contains("Exception") || m.contains("org."), "no Java class names: " + m);
+        // column 4 of 'X +* 2' is the second operator (1-based, as the message says)
+        m = failure(PARAMS, CONDS, "observableId | observableFormula | noiseFormula\nobs | X +* 2 | 0.1", MEAS,
+                "cannot parse formula 'X +* 2': unexpected '* 2' at column 4");
+        assertFalse(m.contains("Exception") || m.contains("org."), "no Java class names: " + m);
+        failure(PARAMS, CONDS, "observableId | observableFormula | noiseFormula\nobs | X $ 2 | 0.1", MEAS,
+                "unexpected '$ 2' at column 3");
     }
 }
