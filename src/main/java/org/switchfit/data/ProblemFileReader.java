@@ -47,14 +47,21 @@ public final class ProblemFileReader {
     /** Reads, validates and returns the problem in {@code yamlFile}. */
     public static SwitchfitProblem read(Path yamlFile) {
         String content;
+        if (Files.isDirectory(yamlFile)) {
+            throw new UserInputException(SourceLocation.ofFile(yamlFile.toString()),
+                    "is a folder, not a problem file; pass the problem YAML file");
+        }
         try {
             content = Files.readString(yamlFile, StandardCharsets.UTF_8);
         } catch (NoSuchFileException e) {
             throw new UserInputException(SourceLocation.ofFile(yamlFile.toString()),
                     "problem file not found; check the path", e);
+        } catch (java.nio.charset.CharacterCodingException e) {
+            throw new UserInputException(SourceLocation.ofFile(yamlFile.toString()),
+                    "the problem file is not UTF-8 text; pass the problem YAML file, saved as UTF-8", e);
         } catch (IOException e) {
             throw new UserInputException(SourceLocation.ofFile(yamlFile.toString()),
-                    "cannot read problem file (" + e.getMessage() + "); check that it is UTF-8 text and readable", e);
+                    "cannot read problem file (" + e.getMessage() + "); check that it is readable", e);
         }
         return parse(content, yamlFile);
     }
@@ -134,6 +141,10 @@ public final class ProblemFileReader {
     private static Path existingFile(Path base, YamlNode node, String what) {
         String name = node.scalar("path/to/file");
         Path p = base.resolve(name).normalize();
+        if (Files.isDirectory(p)) {
+            throw Messages.error(node.location(), "%s '%s' is a folder (%s), not a file; name the file itself,"
+                    + " relative to the problem file's folder", what, name, p);
+        }
         if (!Files.isRegularFile(p)) {
             throw Messages.error(node.location(), "%s '%s' does not exist (looked for %s); correct the path,"
                     + " which is relative to the problem file's folder", what, name, p);

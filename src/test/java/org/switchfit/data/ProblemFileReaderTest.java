@@ -129,6 +129,8 @@ class ProblemFileReaderTest {
         UserInputException e = assertThrows(UserInputException.class, () -> ProblemFileReader.read(
                 TestFiles.write(dir.resolve("q.yaml"), "switchfit_format: 1\nmodel: nowhere.xml\n")));
         assertMessage(e, "'nowhere.xml' does not exist", "q.yaml, line 2", "correct the path");
+        e = fails("switchfit_format: 1\nmodel: .\n");
+        assertMessage(e, "the SBML model '.' is a folder", "p.yaml, line 2", "name the file itself");
         e = fails(HEAD + EXP_OBS + "data:\n  timecourses:\n    - file: data/none.csv\n");
         assertMessage(e, "timecourse table 'data/none.csv' does not exist", "line 10", "relative to the problem");
         e = assertThrows(UserInputException.class, () -> ProblemFileReader.read(dir.resolve("absent.yaml")));
@@ -304,5 +306,20 @@ class ProblemFileReaderTest {
         assertMessage(e, "not valid YAML", "check indentation");
         e = fails("- just\n- a list\n");
         assertMessage(e, "must be a map", "line 1");
+        // a second document after '---' would be ignored: refused at its first line
+        e = fails(HEAD + "---\nfoo: 1\n");
+        assertMessage(e, "p.yaml, line 4", "a second YAML document starts here", "remove the '---' line");
+        // not UTF-8 (a byte 0xFF can start no UTF-8 sequence)
+        Path binary = dir.resolve("binary.yaml");
+        try {
+            java.nio.file.Files.write(binary, new byte[] {(byte) 0xFF, (byte) 0xFE, 'x', '\n'});
+        } catch (java.io.IOException io) {
+            throw new java.io.UncheckedIOException(io);
+        }
+        e = assertThrows(UserInputException.class, () -> ProblemFileReader.read(binary));
+        assertMessage(e, "binary.yaml", "the problem file is not UTF-8 text", "saved as UTF-8");
+        assertTrue(!e.getMessage().contains("Input length"), e.getMessage());
+        e = assertThrows(UserInputException.class, () -> ProblemFileReader.read(dir));
+        assertMessage(e, "is a folder, not a problem file", "pass the problem YAML file");
     }
 }

@@ -79,6 +79,16 @@ class ProblemErrorsTest {
                 "noise definition (", "observables.tsv, line 2)");
     }
 
+    /** The format dispatcher reads the file first: a binary file or a folder gets a message saying so. */
+    @Test
+    void notUtf8OrAFolder() throws java.io.IOException {
+        Path binary = java.nio.file.Files.write(dir.resolve("problem.yaml"), new byte[] {(byte) 0xFF, 'x'});
+        UserInputException e = assertThrows(UserInputException.class, () -> ProblemLoader.load(binary));
+        assertTrue(e.getMessage().contains("problem.yaml: the problem file is not UTF-8 text"), e.getMessage());
+        e = assertThrows(UserInputException.class, () -> ProblemLoader.load(dir));
+        assertTrue(e.getMessage().contains("is a folder, not a problem file"), e.getMessage());
+    }
+
     @Test
     void unparsableFormula() {
         String m = failure(PARAMS, CONDS, "observableId | observableFormula | noiseFormula\nobs | X * (1 + | 0.1",
