@@ -127,6 +127,32 @@ class FitCheckCommandTest {
         assertTrue(!Files.exists(dir.resolve("f").resolve("result.json")));
     }
 
+    /** Resuming a fit folder with another problem file names both files instead of calling the new one changed. */
+    @Test
+    void resumeWithAnotherProblemFileSaysSo() throws Exception {
+        Files.writeString(dir.resolve("model.xml"), org.switchfit.testsystems.DecaySbml.MODEL);
+        Files.writeString(dir.resolve("tc.csv"), "experiment,observable,time,value\ne1,obs,1,1.5\ne1,obs,2,1.1\n");
+        String body = "switchfit_format: 1\nmodel: model.xml\nparameters:\n"
+                + "  - {id: k, lower: 0.01, upper: 10, start: START}\nexperiments:\n  - id: e1\n"
+                + "observables:\n  - {id: obs, formula: X, noise: {type: gaussian, sigma: 0.1}}\n"
+                + "data:\n  timecourses:\n    - file: tc.csv\n";
+        Path a = Files.writeString(dir.resolve("p_a.yaml"), body.replace("START", "0.3"));
+        Path b = Files.writeString(dir.resolve("p_b.yaml"), body.replace("START", "0.5"));
+        Path out = dir.resolve("fa");
+        StringWriter o = new StringWriter();
+        StringWriter err = new StringWriter();
+        assertEquals(0, run(o, err, "fit", a.toString(), "--starts", "1", "--seed", "1", "--quiet", "--out",
+                out.toString()), err.toString());
+        err = new StringWriter();
+        assertEquals(Main.EXIT_USER_ERROR, run(o, err, "fit", b.toString(), "--starts", "1", "--seed", "1",
+                "--quiet", "--resume", "--out", out.toString()));
+        String e = err.toString().strip();
+        assertEquals(1, e.lines().count(), e);
+        assertTrue(e.contains("holds results of another problem file, " + a.toAbsolutePath().normalize() + ", not "
+                + b.toAbsolutePath().normalize()) && e.contains("another --out folder"), e);
+        assertTrue(!e.contains("changed since"), e);
+    }
+
     @Test
     void resumedFitEqualsUninterruptedFit() throws Exception {
         Path full = dir.resolve("full");
