@@ -282,6 +282,13 @@ public final class ProblemFileReader {
                         + " experiment '%s'%s; declare it under experiments", e.getKey(), target,
                         Spelling.didYouMean(target, seen.keySet()));
             }
+            if (settleNodes.containsKey(target)) {
+                // settling runs the named experiment's settings to steady state, not that experiment's own
+                // history, so a settle_in of the named experiment would be ignored
+                throw Messages.error(e.getValue().location(), "experiment '%s' settles in '%s', which itself has"
+                        + " settle_in; settle_in is one level: name an experiment without settle_in", e.getKey(),
+                        target);
+            }
         }
         return out;
     }

@@ -250,6 +250,11 @@ class ProblemFileReaderTest {
         assertMessage(e, "settle_in names undeclared experiment 'b'", "line 4", "declare it");
         e = fails(HEAD + "experiments:\n  - {id: a, settle_in: a}\n");
         assertMessage(e, "experiment 'a' settles in itself", "remove settle_in");
+        // settle_in is one level: a chain or a cycle is refused at the settle_in naming an experiment that has one
+        e = fails(HEAD + "experiments:\n  - {id: a, settle_in: b}\n  - {id: b, settle_in: a}\n");
+        assertMessage(e, "experiment 'a' settles in 'b', which itself has settle_in", "line 4", "one level");
+        e = fails(HEAD + "experiments:\n  - {id: a}\n  - {id: b, settle_in: a}\n  - {id: c, settle_in: b}\n");
+        assertMessage(e, "experiment 'c' settles in 'b', which itself has settle_in", "line 6");
         e = fails(HEAD + "experiments:\n  - id: a\n    doses:\n      - {at: 1, target: s, set: 1, add: 2}\n");
         assertMessage(e, "exactly one of 'set'", "line 6");
         e = fails(HEAD + "experiments:\n  - id: a\n    doses:\n      - {at: 3, target: s, set: 1}\n"
