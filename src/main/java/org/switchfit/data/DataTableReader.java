@@ -2,7 +2,6 @@ package org.switchfit.data;
 
 import java.util.ArrayList;
 import java.util.List;
-import java.util.Locale;
 import java.util.Set;
 import org.switchfit.util.SourceLocation;
 
@@ -62,7 +61,7 @@ final class DataTableReader {
             }
             double value = value(r);
             double sigma = sigma(r);
-            String h = r.requireText("history").toLowerCase(Locale.ROOT);
+            String h = ProblemFileReader.keyword(r.requireText("history"));
             DoseResponsePoint.History history;
             if ("low".equals(h)) {
                 history = DoseResponsePoint.History.LOW;
@@ -104,7 +103,7 @@ final class DataTableReader {
     }
 
     static SwitchingThreshold.Direction direction(String text) {
-        switch (text.strip().toLowerCase(Locale.ROOT)) {
+        switch (ProblemFileReader.keyword(text)) {
             case "up":
                 return SwitchingThreshold.Direction.UP;
             case "down":

@@ -201,6 +201,14 @@ public final class ProblemFileReader {
         }
     }
 
+    /**
+     * An enumerated keyword value (noise and prior types; scales, directions and histories are read the same way)
+     * in the form it is compared in: keyword values are case-insensitive, keys and ids are not.
+     */
+    static String keyword(String value) {
+        return value.strip().toLowerCase(Locale.ROOT);
+    }
+
     static String fmt(double v) {
         return String.format(Locale.ROOT, "%.6g", v).replaceFirst("\\.?0+(e|$)", "$1");
     }
@@ -210,7 +218,7 @@ public final class ProblemFileReader {
         String type = n.string("type", "normal");
         double a;
         double b;
-        switch (type) {
+        switch (keyword(type)) {
             case "normal":
                 n.checkKeys(List.of("type", "mean", "sd"));
                 a = n.number("mean", "1.0");
@@ -230,7 +238,7 @@ public final class ProblemFileReader {
             throw Messages.error(n.location(), "parameter '%s': prior %s needs a finite centre and a positive"
                     + " finite spread (got %s, %s); correct the values", id, type, fmt(a), fmt(b));
         }
-        return "normal".equals(type) ? Prior.normal(a, b) : Prior.logNormal(a, b);
+        return "normal".equals(keyword(type)) ? Prior.normal(a, b) : Prior.logNormal(a, b);
     }
 
     private static List<Experiment> readExperiments(YamlNode root) {
@@ -333,7 +341,7 @@ public final class ProblemFileReader {
     private static NoiseModel readNoise(YamlNode n, String id) {
         n.requireMap("{type: gaussian, sigma: 0.1}");
         String type = n.string("type", "gaussian");
-        switch (type) {
+        switch (keyword(type)) {
             case "gaussian":
                 n.checkKeys(List.of("type", "sigma"));
                 return new NoiseModel.Gaussian(spread(n, "sigma", id, true));

@@ -299,6 +299,27 @@ class ProblemFileReaderTest {
         assertMessage(e, "observable 'y' has an empty formula", "line 4");
     }
 
+    /** Keyword values (scale, noise and prior type, direction, history) are case-insensitive; keys are not. */
+    @Test
+    void keywordValuesIgnoreCase() {
+        TestFiles.write(dir.resolve("dr.csv"), "experiment,observable,dose,value,history\nfed,q_obs,1,0.5,High\n");
+        SwitchfitProblem p = ProblemFileReader.read(problem(HEAD + "parameters:\n  - {id: k1, lower: 1, upper: 3,"
+                + " scale: LOG10, start: 2, prior: {type: LogNormal, mu: 0, sigma: 1}}\n"
+                + "experiments:\n  - id: fed\nobservables:\n  - {id: q_obs, formula: Q, noise: {type: Gaussian,"
+                + " sigma: 0.1}}\n  - {id: p_obs, formula: P, noise: {type: LAPLACE, scale: 0.1}}\n"
+                + "data:\n  dose_responses:\n    - {file: dr.csv, control: feed}\n"
+                + "  thresholds:\n    - {experiment: fed, control: feed, direction: Up, value: 1, sigma: 0.1}\n"));
+        assertEquals(ParameterScale.LOG10, p.parameter("k1").orElseThrow().scale());
+        assertEquals(Prior.logNormal(0, 1), p.parameter("k1").orElseThrow().prior());
+        assertEquals(new NoiseModel.Gaussian(ValueRef.ofNumber(0.1)), p.observable("q_obs").orElseThrow().noise());
+        assertEquals(new NoiseModel.Laplace(ValueRef.ofNumber(0.1)), p.observable("p_obs").orElseThrow().noise());
+        assertEquals(DoseResponsePoint.History.HIGH, p.doseResponses().get(0).history());
+        assertEquals(SwitchingThreshold.Direction.UP, p.thresholds().get(0).direction());
+        // keys stay case-sensitive
+        UserInputException e = fails(HEAD + "parameters:\n  - {ID: k1, lower: 1, upper: 3, start: 2}\n");
+        assertMessage(e, "unknown key 'ID'", "did you mean 'id'?");
+    }
+
     @Test
     void documentErrors() {
         UserInputException e = fails("switchfit_format: 2\nmodel: model.xml\n");
