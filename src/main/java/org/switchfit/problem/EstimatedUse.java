@@ -5,12 +5,15 @@ import java.util.HashSet;
 import java.util.List;
 import java.util.Set;
 import org.switchfit.data.Dose;
+import org.switchfit.data.DoseResponsePoint;
 import org.switchfit.data.EstimatedParameter;
 import org.switchfit.data.Experiment;
 import org.switchfit.data.NoiseModel;
 import org.switchfit.data.Observable;
 import org.switchfit.data.Spelling;
 import org.switchfit.data.SwitchfitProblem;
+import org.switchfit.data.SwitchingThreshold;
+import org.switchfit.data.TimecoursePoint;
 import org.switchfit.data.ValueRef;
 import org.switchfit.expr.Expr;
 import org.switchfit.expr.Op;
@@ -32,7 +35,8 @@ import org.switchfit.util.UserInputException;
  * mathematics, or as a species, compartment or species reference) nor the observables, noise models or
  * experiments use; a model parameter that a rule or initial assignment of the model overwrites; and a global
  * parameter that every kinetic law mentioning its name hides behind a local parameter of the same name (SBML
- * scoping: the local one wins inside its law). Stateless.
+ * scoping: the local one wins inside its law); and the control of dose-response or threshold data whose estimated
+ * value nothing else reads (the data set the control themselves). Stateless.
  */
 final class EstimatedUse {
     private EstimatedUse() {
@@ -52,6 +56,13 @@ final class EstimatedUse {
                 throw UserInputException.of(loc, "estimated parameter '%s' is set by %s of model %s, which "
                         + "overwrites any estimated value; estimate the quantities that %s uses instead", id, setBy,
                         modelFile, setBy.startsWith("an assignment") ? "the rule" : "it");
+            }
+            SourceLocation controlData = controlOnly(sp, id);
+            if (controlData != null) {
+                throw UserInputException.of(loc, "estimated parameter '%s' is the control of the switching data "
+                        + "at %s, which set its value (each dose, or the sweep to the fold), and no timecourse, other "
+                        + "data, experiment value or noise model uses its estimated value; remove it from parameters",
+                        id, controlData);
             }
             boolean parameter = isGlobalParameter(model, id);
             boolean otherEntity = !parameter && (model.species(id) != null || model.compartment(id) != null
@@ -85,6 +96,55 @@ final class EstimatedUse {
             }
         }
         return out;
+    }
+
+    /**
+     * Where the first dose-response point or threshold with control {@code id} is, when {@code id} is such a control
+     * and its estimated value reaches nothing else (those data set the control to each dose, or sweep it to find
+     * the fold); null otherwise. Its value is used when an experiment's value or dose reads it, or a noise model,
+     * or when a timecourse experiment (or the experiment it settles in), or switching data of another control,
+     * runs with the model's value of {@code id}, i.e. without setting it.
+     */
+    private static SourceLocation controlOnly(SwitchfitProblem sp, String id) {
+        SourceLocation first = null;
+        for (DoseResponsePoint d : sp.doseResponses()) {
+            if (d.control().equals(id)) {
+                first = first == null ? d.location() : first;
+            } else if (keeps(sp, d.experiment(), id)) {
+                return null;
+            }
+        }
+        for (SwitchingThreshold t : sp.thresholds()) {
+            if (t.control().equals(id)) {
+                first = first == null ? t.location() : first;
+            } else if (keeps(sp, t.experiment(), id)) {
+                return null;
+            }
+        }
+        if (first == null) {
+            return null;
+        }
+        for (TimecoursePoint tp : sp.timecourses()) {
+            Experiment e = sp.experiment(tp.experiment()).orElse(null);
+            if (keeps(sp, tp.experiment(), id) || (e != null && e.settleIn() != null && keeps(sp, e.settleIn(), id))) {
+                return null;
+            }
+        }
+        Set<String> reads = new HashSet<>();
+        for (Experiment e : sp.experiments()) {
+            e.parameterValues().values().forEach(v -> add(reads, v));
+            e.initialValues().values().forEach(v -> add(reads, v));
+            e.doses().forEach(d -> add(reads, d.amount()));
+        }
+        for (Observable o : sp.observables()) {
+            addNoise(reads, o.noise());
+        }
+        return reads.contains(id) ? null : first;
+    }
+
+    /** Whether experiment {@code exp} runs with the problem's (estimated) value of {@code id}: it does not set it. */
+    private static boolean keeps(SwitchfitProblem sp, String exp, String id) {
+        return sp.experiment(exp).map(e -> !e.parameterValues().containsKey(id)).orElse(false);
     }
 
     /**
@@ -177,17 +237,7 @@ final class EstimatedUse {
             symbols(Formulas.parse(o.formula(), loc), s);
             add(s, o.scaleParameter());
             add(s, o.offsetParameter());
-            NoiseModel nm = o.noise();
-            if (nm instanceof NoiseModel.Gaussian g) {
-                add(s, g.sigma());
-            } else if (nm instanceof NoiseModel.Proportional pr) {
-                add(s, pr.absolute());
-                add(s, pr.relative());
-            } else if (nm instanceof NoiseModel.Laplace lp) {
-                add(s, lp.scale());
-            } else if (nm instanceof NoiseModel.LogNormal ln) {
-                add(s, ln.sigma());
-            }
+            addNoise(s, o.noise());
         }
         for (Experiment e : sp.experiments()) {
             e.parameterValues().values().forEach(v -> add(s, v));
@@ -197,6 +247,19 @@ final class EstimatedUse {
             }
         }
         return s;
+    }
+
+    private static void addNoise(Set<String> s, NoiseModel nm) {
+        if (nm instanceof NoiseModel.Gaussian g) {
+            add(s, g.sigma());
+        } else if (nm instanceof NoiseModel.Proportional pr) {
+            add(s, pr.absolute());
+            add(s, pr.relative());
+        } else if (nm instanceof NoiseModel.Laplace lp) {
+            add(s, lp.scale());
+        } else if (nm instanceof NoiseModel.LogNormal ln) {
+            add(s, ln.sigma());
+        }
     }
 
     private static void add(Set<String> s, ValueRef v) {

@@ -121,6 +121,28 @@ class EstimatedUseTest {
                 "'kd2' is set by an initial assignment");
     }
 
+    /**
+     * The control of dose-response data is set by the table at each dose: estimating it is refused unless a
+     * timecourse experiment runs with its estimated value.
+     */
+    @Test
+    void aControlUsedOnlyByItsDoseResponseIsRefused() throws IOException {
+        Path yaml = problem(KD, "", "0.1");
+        Files.writeString(dir.resolve("dr.csv"), "experiment,observable,dose,value,history\ne1,b,0.5,0.2,low\n");
+        String text = Files.readString(yaml);
+        String dr = "  dose_responses:\n    - {file: dr.csv, control: kd}\n";
+        // timecourses of e1 run with the estimated kd: it is used
+        Files.writeString(yaml, text + dr);
+        assertEquals(1, ProblemLoader.load(yaml).parameterCount());
+        // without the timecourses nothing reads the estimated kd
+        Files.writeString(yaml, text.replace("  timecourses:\n    - file: tc.csv\n", "") + dr);
+        refused(yaml, "estimated parameter 'kd' is the control of the switching data at", "dr.csv, line 2",
+                "remove it from parameters", "p.yaml, line 4");
+        // nor when the only timecourse experiment sets kd itself
+        Files.writeString(yaml, text.replace("  - id: e1\n", "  - id: e1\n    parameters: {kd: 0.3}\n") + dr);
+        refused(yaml, "estimated parameter 'kd' is the control");
+    }
+
     @Test
     void aGlobalParameterHiddenByLocalsIsRefused() throws IOException {
         refused(problem("  - {id: kc, lower: 0.01, upper: 100, start: 1}\n" + KD, "", "0.1"),
