@@ -154,7 +154,7 @@ public final class FitAudit {
         List<Claim> out = new ArrayList<>();
         Set<Path> recorded = new HashSet<>();
         for (FitSummary.InputFile f : in.summary().inputs()) {
-            Path p = resolve(in.fitDir(), f.file());
+            Path p = FitSummary.resolveRecorded(in.fitDir(), f.file());
             recorded.add(p.toAbsolutePath().normalize());
             String id = "input " + f.file();
             if (!Files.isRegularFile(p)) {
@@ -179,18 +179,6 @@ public final class FitAudit {
                     Map.of()));
         }
         return out;
-    }
-
-    /** A recorded path: as written, else relative to the fit directory's parent (as the fit command resolves it). */
-    static Path resolve(Path fitDir, String file) {
-        Path p = Path.of(file);
-        if (!p.isAbsolute() && !Files.exists(p) && fitDir.toAbsolutePath().getParent() != null) {
-            Path alt = fitDir.toAbsolutePath().getParent().resolve(p);
-            if (Files.exists(alt)) {
-                return alt;
-            }
-        }
-        return p;
     }
 
     private static String shortHash(String h) {

@@ -6,7 +6,11 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 import java.util.concurrent.Callable;
+import org.switchfit.data.DoseResponsePoint;
+import org.switchfit.data.SwitchingThreshold;
 import org.switchfit.ode.SolverSettings;
+import org.switchfit.problem.EstimationProblem;
+import org.switchfit.report.DataCounts;
 import org.switchfit.report.Json;
 import org.switchfit.util.AtomicFiles;
 import picocli.CommandLine.Command;
@@ -61,8 +65,11 @@ public final class CheckCommand implements Callable<Integer> {
         CheckRun run = new CheckRun(problem, reference, settings, spec.commandLine().getErr());
         PrintWriter out = spec.commandLine().getOut();
         Map<String, Object> j = run.json;
-        out.printf(Locale.ROOT, "%s: %d measurements, %d estimated parameters%n", problem,
-                run.problem.measurements().size(), run.problem.parameterCount());
+        DataCounts counts = counts(run.problem);
+        j.put("doseResponsePoints", counts.doseResponse());
+        j.put("thresholds", counts.thresholds());
+        out.printf(Locale.ROOT, "%s: %s; %d estimated parameters%n", problem, counts.summary(),
+                run.problem.parameterCount());
         out.printf(Locale.ROOT, "negative log-likelihood at nominal values: %.10g (priors %.6g)%n",
                 run.evaluation.nll(), run.evaluation.priorPart());
         if (run.evaluation.outsidePrior() != null) {
@@ -95,5 +102,19 @@ public final class CheckCommand implements Callable<Integer> {
             AtomicFiles.writeString(simulations, run.simulationsTsv());
         }
         return run.allMatch() ? 0 : EXIT_MISMATCH;
+    }
+
+    /** The data of each kind in {@code p}: measurement-table rows, dose-response points, switching thresholds. */
+    static DataCounts counts(EstimationProblem p) {
+        int dose = 0;
+        int thresholds = 0;
+        for (Object o : p.extraData()) {
+            if (o instanceof DoseResponsePoint) {
+                dose++;
+            } else if (o instanceof SwitchingThreshold) {
+                thresholds++;
+            }
+        }
+        return new DataCounts(p.measurements().size(), dose, thresholds);
     }
 }

@@ -21,6 +21,7 @@ import org.switchfit.problem.FreeParameter;
 import org.switchfit.problem.Measurement;
 import org.switchfit.problem.ProblemLoader;
 import org.switchfit.report.Csv;
+import org.switchfit.report.DataCounts;
 import org.switchfit.report.FitDirectory;
 import org.switchfit.report.FitFile;
 import org.switchfit.report.FitSummary;
@@ -82,6 +83,12 @@ public final class FitCommand implements Callable<Integer> {
         }
         EstimationProblem problem = ProblemLoader.load(problemFile);
         printNotes(spec.commandLine().getErr(), problem);
+        if (problem.measurements().isEmpty() && problem.extraData().isEmpty()) {
+            // with nothing to fit, every start "converges" at NLL 0 (or at the priors' minimum)
+            throw new UserInputException(SourceLocation.ofFile(problemFile.toString()), "no data: the problem has no "
+                    + "measurements, dose-response points or switching thresholds (are its data tables empty?); add "
+                    + "data rows before fitting");
+        }
         LikelihoodObjective objective = LikelihoodObjective.of(problem, solver.settings());
         FitProblem fp = fitProblem(problem, objective);
         StartStore store = new StartStore(out.resolve("starts"), resume, () -> new UserInputException(
@@ -249,7 +256,7 @@ public final class FitCommand implements Callable<Integer> {
             csv.row(problem.experiments().get(me.experiment()).id(),
                     problem.observables().get(me.observable()).id(), me.time(), me.value(), s, sig, res);
         }
-        csv.write(out.resolve("residuals.csv"));
+        csv.write(out.resolve(DataCounts.RESIDUALS));
         if (!ev.switching().isEmpty()) {
             switchingCsv(ev.switching()).write(out.resolve(SWITCHING_RESIDUALS));
         }
@@ -263,7 +270,7 @@ public final class FitCommand implements Callable<Integer> {
     }
 
     /** File name of the switching-threshold and dose-response residuals in a fit directory. */
-    public static final String SWITCHING_RESIDUALS = "switching_residuals.csv";
+    public static final String SWITCHING_RESIDUALS = DataCounts.SWITCHING_RESIDUALS;
 
     /**
      * The switching-threshold and dose-response data with the model's values: one row per datum, residual

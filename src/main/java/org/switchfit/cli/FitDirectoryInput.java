@@ -10,6 +10,7 @@ import org.switchfit.objective.LikelihoodObjective;
 import org.switchfit.ode.SolverSettings;
 import org.switchfit.problem.EstimationProblem;
 import org.switchfit.problem.ProblemLoader;
+import org.switchfit.report.FitSummary;
 import org.switchfit.report.Json;
 import org.switchfit.util.SourceLocation;
 import org.switchfit.util.UserInputException;
@@ -110,17 +111,14 @@ record FitDirectoryInput(Path dir, EstimationProblem problem, SolverSettings set
         return resolveProblem(dir, result, prob.asText());
     }
 
-    /** The recorded problem path, relative to the working directory or else to the fit directory's parent. */
+    /** The recorded problem path, resolved as {@link FitSummary#resolveRecorded} does. */
     private static Path resolveProblem(Path dir, Path result, String recorded) {
-        Path problemFile = Path.of(recorded);
-        if (!problemFile.isAbsolute() && !Files.exists(problemFile) && dir.getParent() != null) {
-            Path alt = dir.getParent().resolve(problemFile);
-            problemFile = Files.exists(alt) ? alt : problemFile;
-        }
+        Path problemFile = FitSummary.resolveRecorded(dir, recorded);
         if (!Files.exists(problemFile)) {
             throw new UserInputException(SourceLocation.ofFile(result.toString()), "names problem file '"
-                    + recorded + "', which does not exist (relative to the working directory or to the fit "
-                    + "directory's parent); run from the folder the fit ran in");
+                    + recorded + "', which does not exist" + (Path.of(recorded).isAbsolute() ? "" : " (relative to "
+                    + "the working directory, the fit directory's parent or the fit directory)") + "; restore the "
+                    + "file, or run from the folder the fit ran in");
         }
         return problemFile;
     }

@@ -32,7 +32,8 @@ import picocli.CommandLine.Spec;
  * the parameters of a finished fit, and prediction profiles (Kreutz et al. 2012, doi:10.1186/1752-0509-6-120) of
  * observables at given times and of fold positions. Each finished profile is written atomically to
  * {@code FITDIR/profiles/} (so {@code --resume} skips it), then {@code FITDIR/profiles.json} and one CSV per
- * profile next to its stored result.
+ * profile next to its stored result. profiles.json lists every profile stored for this optimum: a resumed run that
+ * names fewer profiles than an earlier one keeps the earlier ones in it.
  */
 @Command(name = "profile", mixinStandardHelpOptions = true,
         footer = {"", "Examples:", "  switchfit profile fits/mine --threads 2", "  switchfit profile fits/mine --parameters k_stim,K_inh --folds --level 0.95"},
@@ -131,7 +132,14 @@ public final class ProfileCommand implements Callable<Integer> {
                     s.entry().kind().token(), s.entry().id(), s.entry().classification().token());
             progress.flush();
         });
-        ProfilesFile file = assemble(in, fp, pl, results, foldStatus, seed);
+        // profiles.json lists every finished profile of this optimum, also those of an earlier run not asked for now
+        List<ProfilesFile.Stored> all = ProfileRun.withEarlier(tasks, results, store, level, List.of(fp.ids()),
+                w -> err.println("warning: " + w));
+        long foldCount = all.stream().filter(s -> s.entry().kind() == ProfilesFile.Kind.FOLD).count();
+        if (foldTasks.isEmpty() && foldCount > 0 && !folds) {
+            foldStatus = foldCount + " fold positions profiled (by an earlier run)";
+        }
+        ProfilesFile file = assemble(in, fp, pl, all, foldStatus, seed);
         FitDirectory.of(fitDir).write(FitFile.PROFILES, file);
         for (int i = 0; i < tasks.size(); i++) {
             ProfileRun.writeCsv(store.dir().resolve(tasks.get(i).key() + ".csv"), results.get(i), file.bestNll());

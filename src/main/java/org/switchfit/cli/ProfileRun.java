@@ -98,6 +98,39 @@ final class ProfileRun {
         return out;
     }
 
+    /**
+     * The results of this run's {@code tasks} together with every other profile stored in {@code store} at the same
+     * level: what profiles.json should hold after a resumed run that asked for fewer profiles than an earlier one
+     * (the store's run identity already guarantees the same inputs and optimum). Order: parameters in the fit's
+     * order, then fold positions, then predictions, each kind in the order this run and then the store (sorted
+     * keys) name them. Stored profiles of another level are left out, with one line each to {@code warn}.
+     *
+     * @param ids the fit's parameter ids, in θ order
+     */
+    static List<ProfilesFile.Stored> withEarlier(List<Task> tasks, List<ProfilesFile.Stored> results,
+                                                 ResultStore store, double level, List<String> ids,
+                                                 Consumer<String> warn) {
+        List<ProfilesFile.Stored> all = new ArrayList<>(results);
+        java.util.Set<String> ran = new java.util.HashSet<>();
+        tasks.forEach(t -> ran.add(t.key()));
+        for (String key : store.keys()) {
+            if (ran.contains(key)) {
+                continue;
+            }
+            ProfilesFile.Stored s = store.get(key, ProfilesFile.Stored.class).orElseThrow();
+            if (s.level() != level) {
+                warn.accept(String.format(Locale.ROOT, "%s was computed at level %s, not %s; not included in "
+                        + "profiles.json", store.dir().resolve(key + ".json"), s.level(), level));
+            } else {
+                all.add(s);
+            }
+        }
+        all.sort(java.util.Comparator.comparingInt((ProfilesFile.Stored s) -> s.entry().kind().ordinal())
+                .thenComparingInt(s -> s.entry().kind() == ProfilesFile.Kind.PARAMETER
+                        ? ids.indexOf(s.entry().id()) : 0));
+        return all;
+    }
+
     /** Profiles one task; a failure becomes a failed profile, not an abort. */
     Profile compute(Task t) {
         try {

@@ -97,6 +97,15 @@ final class StartStore {
                         + "or run into another --out folder");
             }
             RunIdentity old = org.switchfit.report.Json.read(record, RunIdentity.class);
+            // a run of another problem file first: its settings and inputs differ as a consequence
+            String oldProblem = old.inputs().isEmpty() ? null : old.inputs().get(0).file();
+            if (!inputs.isEmpty() && oldProblem != null
+                    && !inputs.get(0).sha256().equals(old.inputs().get(0).sha256())
+                    && !sameFile(oldProblem, inputs.get(0).file())) {
+                throw new UserInputException(org.switchfit.util.SourceLocation.ofFile(dir.toString()), "holds "
+                        + "results of another problem file, " + oldProblem + ", not " + inputs.get(0).file()
+                        + "; run into another --out folder, or remove this one");
+            }
             for (java.util.Map.Entry<String, String> e : settings.entrySet()) {
                 String was = old.settings().get(e.getKey());
                 if (!e.getValue().equals(was)) {
@@ -118,6 +127,19 @@ final class StartStore {
                 }
             }
         }
+    }
+
+    /**
+     * Whether two recorded paths name the same file: equal absolute paths, or, when one was recorded relative
+     * (older records), equal file names.
+     */
+    static boolean sameFile(String a, String b) {
+        Path pa = Path.of(a);
+        Path pb = Path.of(b);
+        if (pa.isAbsolute() && pb.isAbsolute()) {
+            return pa.normalize().equals(pb.normalize());
+        }
+        return java.util.Objects.equals(pa.getFileName(), pb.getFileName());
     }
 
     /** The starts found when the folder was opened (unmodifiable). */

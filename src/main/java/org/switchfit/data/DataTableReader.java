@@ -2,7 +2,6 @@ package org.switchfit.data;
 
 import java.util.ArrayList;
 import java.util.List;
-import java.util.Locale;
 import java.util.Set;
 import org.switchfit.util.SourceLocation;
 
@@ -36,6 +35,11 @@ final class DataTableReader {
                 throw Messages.error(r.location("time"), "time %s is not finite; timecourse times must be"
                         + " finite (put steady-state data in a dose-response table)", r.text("time"));
             }
+            if (time < 0) {
+                throw Messages.error(r.location("time"), "time %s is negative; experiments start at t = 0 (a"
+                        + " settle_in experiment runs before that), so shift the times to start at 0",
+                        r.text("time"));
+            }
             double value = value(r);
             double sigma = sigma(r);
             out.add(new TimecoursePoint(exp, obs, time, value, sigma, r.location()));
@@ -57,7 +61,7 @@ final class DataTableReader {
             }
             double value = value(r);
             double sigma = sigma(r);
-            String h = r.requireText("history").toLowerCase(Locale.ROOT);
+            String h = ProblemFileReader.keyword(r.requireText("history"));
             DoseResponsePoint.History history;
             if ("low".equals(h)) {
                 history = DoseResponsePoint.History.LOW;
@@ -99,7 +103,7 @@ final class DataTableReader {
     }
 
     static SwitchingThreshold.Direction direction(String text) {
-        switch (text.strip().toLowerCase(Locale.ROOT)) {
+        switch (ProblemFileReader.keyword(text)) {
             case "up":
                 return SwitchingThreshold.Direction.UP;
             case "down":

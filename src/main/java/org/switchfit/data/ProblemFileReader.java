@@ -47,14 +47,21 @@ public final class ProblemFileReader {
     /** Reads, validates and returns the problem in {@code yamlFile}. */
     public static SwitchfitProblem read(Path yamlFile) {
         String content;
+        if (Files.isDirectory(yamlFile)) {
+            throw new UserInputException(SourceLocation.ofFile(yamlFile.toString()),
+                    "is a folder, not a problem file; pass the problem YAML file");
+        }
         try {
             content = Files.readString(yamlFile, StandardCharsets.UTF_8);
         } catch (NoSuchFileException e) {
             throw new UserInputException(SourceLocation.ofFile(yamlFile.toString()),
                     "problem file not found; check the path", e);
+        } catch (java.nio.charset.CharacterCodingException e) {
+            throw new UserInputException(SourceLocation.ofFile(yamlFile.toString()),
+                    "the problem file is not UTF-8 text; pass the problem YAML file, saved as UTF-8", e);
         } catch (IOException e) {
             throw new UserInputException(SourceLocation.ofFile(yamlFile.toString()),
-                    "cannot read problem file (" + e.getMessage() + "); check that it is UTF-8 text and readable", e);
+                    "cannot read problem file (" + e.getMessage() + "); check that it is readable", e);
         }
         return parse(content, yamlFile);
     }
@@ -134,6 +141,10 @@ public final class ProblemFileReader {
     private static Path existingFile(Path base, YamlNode node, String what) {
         String name = node.scalar("path/to/file");
         Path p = base.resolve(name).normalize();
+        if (Files.isDirectory(p)) {
+            throw Messages.error(node.location(), "%s '%s' is a folder (%s), not a file; name the file itself,"
+                    + " relative to the problem file's folder", what, name, p);
+        }
         if (!Files.isRegularFile(p)) {
             throw Messages.error(node.location(), "%s '%s' does not exist (looked for %s); correct the path,"
                     + " which is relative to the problem file's folder", what, name, p);
@@ -190,6 +201,14 @@ public final class ProblemFileReader {
         }
     }
 
+    /**
+     * An enumerated keyword value (noise and prior types; scales, directions and histories are read the same way)
+     * in the form it is compared in: keyword values are case-insensitive, keys and ids are not.
+     */
+    static String keyword(String value) {
+        return value.strip().toLowerCase(Locale.ROOT);
+    }
+
     static String fmt(double v) {
         return String.format(Locale.ROOT, "%.6g", v).replaceFirst("\\.?0+(e|$)", "$1");
     }
@@ -199,7 +218,7 @@ public final class ProblemFileReader {
         String type = n.string("type", "normal");
         double a;
         double b;
-        switch (type) {
+        switch (keyword(type)) {
             case "normal":
                 n.checkKeys(List.of("type", "mean", "sd"));
                 a = n.number("mean", "1.0");
@@ -219,7 +238,7 @@ public final class ProblemFileReader {
             throw Messages.error(n.location(), "parameter '%s': prior %s needs a finite centre and a positive"
                     + " finite spread (got %s, %s); correct the values", id, type, fmt(a), fmt(b));
         }
-        return "normal".equals(type) ? Prior.normal(a, b) : Prior.logNormal(a, b);
+        return "normal".equals(keyword(type)) ? Prior.normal(a, b) : Prior.logNormal(a, b);
     }
 
     private static List<Experiment> readExperiments(YamlNode root) {
@@ -271,6 +290,13 @@ public final class ProblemFileReader {
                         + " experiment '%s'%s; declare it under experiments", e.getKey(), target,
                         Spelling.didYouMean(target, seen.keySet()));
             }
+            if (settleNodes.containsKey(target)) {
+                // settling runs the named experiment's settings to steady state, not that experiment's own
+                // history, so a settle_in of the named experiment would be ignored
+                throw Messages.error(e.getValue().location(), "experiment '%s' settles in '%s', which itself has"
+                        + " settle_in; settle_in is one level: name an experiment without settle_in", e.getKey(),
+                        target);
+            }
         }
         return out;
     }
@@ -315,19 +341,25 @@ public final class ProblemFileReader {
     private static NoiseModel readNoise(YamlNode n, String id) {
         n.requireMap("{type: gaussian, sigma: 0.1}");
         String type = n.string("type", "gaussian");
-        switch (type) {
+        switch (keyword(type)) {
             case "gaussian":
                 n.checkKeys(List.of("type", "sigma"));
-                return new NoiseModel.Gaussian(spread(n, "sigma", id));
+                return new NoiseModel.Gaussian(spread(n, "sigma", id, true));
             case "proportional":
                 n.checkKeys(List.of("type", "absolute", "relative"));
-                return new NoiseModel.Proportional(spread(n, "absolute", id), spread(n, "relative", id));
+                ValueRef a = spread(n, "absolute", id, false);
+                ValueRef r = spread(n, "relative", id, false);
+                if (a.isNumber() && r.isNumber() && a.number() == 0 && r.number() == 0) {
+                    throw Messages.error(n.location(), "observable '%s': proportional noise with absolute 0 and"
+                            + " relative 0 has no spread; give absolute > 0 or relative > 0 (both >= 0)", id);
+                }
+                return new NoiseModel.Proportional(a, r);
             case "laplace":
                 n.checkKeys(List.of("type", "scale"));
-                return new NoiseModel.Laplace(spread(n, "scale", id));
+                return new NoiseModel.Laplace(spread(n, "scale", id, true));
             case "lognormal":
                 n.checkKeys(List.of("type", "sigma"));
-                return new NoiseModel.LogNormal(spread(n, "sigma", id));
+                return new NoiseModel.LogNormal(spread(n, "sigma", id, true));
             default:
                 throw Messages.error(n.get("type").location(), "observable '%s': unknown noise type '%s'%s;"
                         + " use gaussian, proportional, laplace or lognormal", id, type,
@@ -335,12 +367,17 @@ public final class ProblemFileReader {
         }
     }
 
-    private static ValueRef spread(YamlNode n, String key, String id) {
+    /**
+     * A noise value: an estimated parameter id, or a finite number that is positive ({@code positive}: the spread
+     * itself) or at least 0 (a part of the proportional spread, which may vanish if the other part does not).
+     */
+    private static ValueRef spread(YamlNode n, String key, String id, boolean positive) {
         YamlNode v = n.require(key, "0.1 or sigma_" + id);
         ValueRef r = v.valueRef("0.1 or sigma_" + id);
-        if (r.isNumber() && !(r.number() >= 0 && Double.isFinite(r.number()))) {
-            throw Messages.error(v.location(), "observable '%s': noise %s %s must be a finite number >= 0"
-                    + " or an estimated parameter id; correct it", id, key, v.scalar("0.1"));
+        double x = r.isNumber() ? r.number() : 1.0;
+        if (!(positive ? x > 0 : x >= 0) || !Double.isFinite(x)) {
+            throw Messages.error(v.location(), "observable '%s': noise %s %s must be a finite number %s or an"
+                    + " estimated parameter id; correct it", id, key, v.scalar("0.1"), positive ? "> 0" : ">= 0");
         }
         return r;
     }

@@ -4,7 +4,7 @@ import java.util.Collection;
 import java.util.Locale;
 
 /** "Did you mean" suggestions by edit distance (Levenshtein 1966; common practice for such hints). */
-final class Spelling {
+public final class Spelling {
 
     private Spelling() {
     }
@@ -13,7 +13,7 @@ final class Spelling {
      * Returns {@code " (did you mean 'x'?)"} for the closest candidate within an edit distance of about a third of
      * the word's length (at least 2), or an empty string when nothing is close.
      */
-    static String didYouMean(String word, Collection<String> candidates) {
+    public static String didYouMean(String word, Collection<String> candidates) {
         String best = null;
         int bestDistance = Integer.MAX_VALUE;
         String w = word.toLowerCase(Locale.ROOT);

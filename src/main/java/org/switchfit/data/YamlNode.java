@@ -64,7 +64,14 @@ final class YamlNode {
             if (t == null) {
                 return new YamlNode(source, Kind.NULL, null, "", null, null, null);
             }
-            return read(p, source, "");
+            YamlNode root = read(p, source, "");
+            if (p.nextToken() != null) {
+                // a '---' starts another document, which would otherwise be ignored silently
+                throw Messages.error(SourceLocation.ofLine(source, p.currentTokenLocation().getLineNr()),
+                        "a second YAML document starts here (after '---'); the file must hold one document: remove"
+                        + " the '---' line and merge what follows into the first document, or delete it");
+            }
+            return root;
         } catch (JsonProcessingException e) {
             JsonLocation loc = e.getLocation();
             int line = loc == null ? 0 : loc.getLineNr();

@@ -9,6 +9,7 @@ import org.switchfit.problem.Measurement;
 import org.switchfit.problem.ObservableDef;
 import org.switchfit.problem.SimulationExperiment;
 import org.switchfit.problem.ValueSource;
+import org.switchfit.util.SourceLocation;
 import org.switchfit.util.UserInputException;
 
 /**
@@ -70,8 +71,10 @@ final class ExperimentBlock implements ResidualBlock {
                 shift[i] = sigmaShift(me, od);
             } else if (!(s > 0) || s == Double.POSITIVE_INFINITY) {
                 throw new UserInputException(me.location(), String.format(Locale.ROOT,
-                        "noise spread of observable '%s' evaluates to %s with this row's noiseParameters; it must be "
-                        + "positive and finite: correct the noise formula or column noiseParameters", od.id(), s));
+                        "noise spread of observable '%s' evaluates to %s for this data point; it must be positive and finite: "
+                        + "correct the observable's noise definition (%s) or the noise values given for this point",
+                        od.id(), s, od.location() == null ? "" : new SourceLocation(od.location().file(),
+                        od.location().line(), 0, null)));
             }
             c = NoiseResidual.addConstant(c, od, me.value(), sigmaVariable[i], s, shift[i]);
         }

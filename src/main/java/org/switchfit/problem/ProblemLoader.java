@@ -69,8 +69,15 @@ public final class ProblemLoader {
      */
     public static EstimationProblem load(Path file) {
         String text;
+        if (Files.isDirectory(file)) {
+            throw new UserInputException(SourceLocation.ofFile(file.toString()), "is a folder, not a problem file; "
+                    + "pass the problem YAML file");
+        }
         try {
             text = Files.readString(file, StandardCharsets.UTF_8);
+        } catch (java.nio.charset.CharacterCodingException e) {
+            throw new UserInputException(SourceLocation.ofFile(file.toString()), "the problem file is not UTF-8 "
+                    + "text; pass the problem YAML file, saved as UTF-8", e);
         } catch (IOException e) {
             throw new UserInputException(SourceLocation.ofFile(file.toString()), "cannot read the problem file ("
                     + e.getMessage() + "); check the path", e);

@@ -34,6 +34,7 @@ final class SwitchfitJoin {
 
     static EstimationProblem join(SwitchfitProblem sp) {
         Model original = SbmlReader.read(sp.modelFile());
+        EstimatedUse.check(sp, original);
         List<FreeParameter> free = new ArrayList<>();
         Map<String, ValueSource> sources = new HashMap<>();
         for (EstimatedParameter p : sp.parameters()) {
@@ -87,6 +88,7 @@ final class SwitchfitJoin {
             List<Integer> reinit = new ArrayList<>();
             for (Map.Entry<String, ValueRef> v : e.parameterValues().entrySet()) {
                 int k = cm.parameterIndex(v.getKey());
+                requireNotRuleSet(model, v.getKey(), e, modelFile);
                 if (k < 0 || model.species(v.getKey()) != null) {
                     throw UserInputException.of(e.location().withElement(v.getKey()), "experiment '%s' sets '%s', "
                             + "which is not a parameter of model %s; use a parameter id (species go under "
@@ -98,6 +100,7 @@ final class SwitchfitJoin {
                 String id = v.getKey();
                 boolean species = model.species(id) != null;
                 int k = cm.parameterIndex(species ? ProblemLoader.INIT_PREFIX + id : id);
+                requireNotRuleSet(model, id, e, modelFile);
                 if (k < 0 || (!species && model.compartment(id) == null)) {
                     throw UserInputException.of(e.location().withElement(id), "experiment '%s' sets the initial "
                             + "value of '%s', which is not a species or compartment of model %s; correct the id",
@@ -306,6 +309,15 @@ final class SwitchfitJoin {
                     + "rules cannot be dosed); correct the target", exp, id, modelFile);
         }
         return new DoseStep(d.time(), -1, k, add, amount, -1, loc);
+    }
+
+    /** Refuses an experiment value for a quantity an assignment rule defines (the rule would overwrite it). */
+    private static void requireNotRuleSet(Model model, String id, Experiment e, String modelFile) {
+        if ("an assignment rule".equals(EstimatedUse.overwrittenBy(model, id))) {
+            throw UserInputException.of(e.location().withElement(id), "experiment '%s' sets '%s', which an "
+                    + "assignment rule of model %s defines at every time, so the value would be overwritten; set "
+                    + "the quantities the rule uses instead", e.id(), id, modelFile);
+        }
     }
 
     private static Expr ref(ValueRef v, ProblemLoader.SymbolResolver r, String obs, SourceLocation loc) {

@@ -76,8 +76,14 @@ public final class FitReport {
         }
 
         r.section(S_TRAJ);
+        Optional<DataCounts> counts = DataCounts.read(dir.path());
+        counts.ifPresent(c -> r.paragraph("Data fitted: " + c.summary() + " (" + DataCounts.RESIDUALS + ", "
+                + DataCounts.SWITCHING_RESIDUALS + ")."));
         if (traj.isPresent() && !traj.get().experiments().isEmpty()) {
             r.figure(FitReportFigures.trajectories(traj.get()), trajectoryCaption(traj.get()));
+        } else if (traj.isPresent() && counts.isPresent() && counts.get().timecourse() == 0) {
+            r.note(HtmlReport.NoteKind.INFO, "No timecourse data to plot; the dose-response points and "
+                    + "thresholds beside the fitted model's values are in " + DataCounts.SWITCHING_RESIDUALS + ".");
         } else if (traj.isPresent()) {
             r.note(HtmlReport.NoteKind.INFO, dir.pathOf(FitFile.TRAJECTORIES) + " lists no experiments.");
         } else {
@@ -120,6 +126,8 @@ public final class FitReport {
             } else if (!prof.isPresent()) {
                 missing(r, dir, FitFile.PROFILES);
             }
+        } else if (prof.isPresent()) {
+            r.note(HtmlReport.NoteKind.INFO, FitReportTables.NO_FOLD_PROFILES);
         } else {
             missing(r, dir, FitFile.PROFILES);
         }

@@ -176,10 +176,13 @@ final class FitReportTables {
             r.paragraph(String.format(Locale.ROOT, "%d of %d profiled fold positions are pinned down (interval "
                     + "closed on both sides). Relative width = (upper \u2212 lower) / |value|.", pinned, total));
         } else {
-            r.note(HtmlReport.NoteKind.INFO, "No fold positions were profiled ('switchfit profile' with fold "
-                    + "targets writes them into profiles.json).");
+            r.note(HtmlReport.NoteKind.INFO, NO_FOLD_PROFILES);
         }
     }
+
+    /** The fold section's note when profiles.json holds no fold profiles. */
+    static final String NO_FOLD_PROFILES = "No fold positions were profiled; 'switchfit profile FITDIR --folds "
+            + "--resume' adds them to profiles.json.";
 
     /** Table of the prediction profiles (Kreutz et al. 2012), when profiles.json has any. */
     static void predictions(HtmlReport r, ProfilesFile prof) {

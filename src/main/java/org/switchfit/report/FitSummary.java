@@ -90,9 +90,35 @@ public record FitSummary(String problem, double bestNll, Map<String, Double> par
             st.add(new Start(r.index(), r.nll(), r.status().name(), r.termination() == null ? null
                     : r.termination().name(), r.iterations(), r.evaluations(), r.reason()));
         }
-        return new FitSummary(problem.problemFile().toString(), result.bestNll(), lin, est, sc, bd,
+        return new FitSummary(absolute(problem.problemFile()), result.bestNll(), lin, est, sc, bd,
                 result.startsNearBest(), FitResult.NEAR_BEST_TOLERANCE, result.failedCount(), st, settings,
                 wallSeconds, versions, inputs);
+    }
+
+    /** {@code p} absolute and normalised, as paths are recorded (independent of the working directory). */
+    private static String absolute(Path p) {
+        return p.toAbsolutePath().normalize().toString();
+    }
+
+    /**
+     * A file path recorded in {@code result.json} of fit directory {@code fitDir}, as a path to open. Paths are
+     * recorded absolute; a relative one (written by older versions, relative to the working directory of the fit)
+     * is tried relative to the working directory, then to the fit directory's parent (the usual working directory
+     * of {@code fit --out NAME}), then to the fit directory itself. The first that exists wins; when none does,
+     * the path as recorded.
+     */
+    public static Path resolveRecorded(Path fitDir, String recorded) {
+        Path p = Path.of(recorded);
+        if (p.isAbsolute() || Files.exists(p)) {
+            return p;
+        }
+        Path dir = fitDir.toAbsolutePath().normalize();
+        for (Path base : new Path[] {dir.getParent(), dir}) {
+            if (base != null && Files.exists(base.resolve(p))) {
+                return base.resolve(p);
+            }
+        }
+        return p;
     }
 
     private static <V> Map<String, V> copy(Map<String, V> m) {
@@ -159,12 +185,13 @@ public record FitSummary(String problem, double bestNll, Map<String, Double> par
     public record InputFile(String file, String sha256) {
 
         /**
-         * The file as named by {@code path} with the SHA-256 (FIPS 180-4) of its current bytes.
+         * The file named by {@code path} (recorded absolute and normalised, so the record does not depend on the
+         * working directory) with the SHA-256 (FIPS 180-4) of its current bytes.
          *
          * @throws UserInputException when the file cannot be read
          */
         public static InputFile of(Path path) {
-            return new InputFile(path.toString(), sha256(path));
+            return new InputFile(absolute(path), sha256(path));
         }
 
         /**

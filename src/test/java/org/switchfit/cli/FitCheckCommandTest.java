@@ -108,6 +108,51 @@ class FitCheckCommandTest {
         assertTrue(err.toString().startsWith("error: "), err.toString());
     }
 
+    /** A timecourse table with its header only: nothing to fit, so fit refuses instead of reporting NLL 0. */
+    @Test
+    void fitWithoutDataIsRefused() throws Exception {
+        Files.writeString(dir.resolve("model.xml"), org.switchfit.testsystems.DecaySbml.MODEL);
+        Files.writeString(dir.resolve("tc.csv"), "experiment,observable,time,value\n");
+        Path yaml = Files.writeString(dir.resolve("nodata.yaml"), "switchfit_format: 1\nmodel: model.xml\n"
+                + "parameters:\n  - {id: k, lower: 0.01, upper: 10, start: 0.3}\nexperiments:\n  - id: e1\n"
+                + "observables:\n  - {id: obs, formula: X, noise: {type: gaussian, sigma: 0.1}}\n"
+                + "data:\n  timecourses:\n    - file: tc.csv\n");
+        StringWriter out = new StringWriter();
+        StringWriter err = new StringWriter();
+        assertEquals(Main.EXIT_USER_ERROR, run(out, err, "fit", yaml.toString(), "--starts", "2", "--seed", "1",
+                "--quiet", "--out", dir.resolve("f").toString()), out.toString());
+        String e = err.toString().strip();
+        assertEquals(1, e.lines().count(), e);
+        assertTrue(e.startsWith("error: " + yaml + ": no data") && e.contains("add data rows"), e);
+        assertTrue(!Files.exists(dir.resolve("f").resolve("result.json")));
+    }
+
+    /** Resuming a fit folder with another problem file names both files instead of calling the new one changed. */
+    @Test
+    void resumeWithAnotherProblemFileSaysSo() throws Exception {
+        Files.writeString(dir.resolve("model.xml"), org.switchfit.testsystems.DecaySbml.MODEL);
+        Files.writeString(dir.resolve("tc.csv"), "experiment,observable,time,value\ne1,obs,1,1.5\ne1,obs,2,1.1\n");
+        String body = "switchfit_format: 1\nmodel: model.xml\nparameters:\n"
+                + "  - {id: k, lower: 0.01, upper: 10, start: START}\nexperiments:\n  - id: e1\n"
+                + "observables:\n  - {id: obs, formula: X, noise: {type: gaussian, sigma: 0.1}}\n"
+                + "data:\n  timecourses:\n    - file: tc.csv\n";
+        Path a = Files.writeString(dir.resolve("p_a.yaml"), body.replace("START", "0.3"));
+        Path b = Files.writeString(dir.resolve("p_b.yaml"), body.replace("START", "0.5"));
+        Path out = dir.resolve("fa");
+        StringWriter o = new StringWriter();
+        StringWriter err = new StringWriter();
+        assertEquals(0, run(o, err, "fit", a.toString(), "--starts", "1", "--seed", "1", "--quiet", "--out",
+                out.toString()), err.toString());
+        err = new StringWriter();
+        assertEquals(Main.EXIT_USER_ERROR, run(o, err, "fit", b.toString(), "--starts", "1", "--seed", "1",
+                "--quiet", "--resume", "--out", out.toString()));
+        String e = err.toString().strip();
+        assertEquals(1, e.lines().count(), e);
+        assertTrue(e.contains("holds results of another problem file, " + a.toAbsolutePath().normalize() + ", not "
+                + b.toAbsolutePath().normalize()) && e.contains("another --out folder"), e);
+        assertTrue(!e.contains("changed since"), e);
+    }
+
     @Test
     void resumedFitEqualsUninterruptedFit() throws Exception {
         Path full = dir.resolve("full");
@@ -176,6 +221,11 @@ class FitCheckCommandTest {
         StringWriter err = new StringWriter();
         Path json = dir.resolve("toggle-check.json");
         assertEquals(0, run(o, err, "check", yaml.toString(), "--json", json.toString()), err.toString());
+        // every kind of data counted (timecourses.csv has 20 rows, problem.yaml two inline thresholds)
+        assertEquals(yaml + ": 20 measurements, 0 dose-response points, 2 switching thresholds; 3 estimated "
+                + "parameters", o.toString().lines().findFirst().orElse(""));
+        assertEquals(2, read(json).get("thresholds").asInt());
+        assertEquals(0, read(json).get("doseResponsePoints").asInt());
         JsonNode sw = read(json).get("switchingAtNominal");
         assertEquals(2, sw.size());
         assertEquals("steepest_response", sw.get(0).get("note").asText());

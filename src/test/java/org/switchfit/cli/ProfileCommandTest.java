@@ -212,6 +212,38 @@ class ProfileCommandTest {
         assertTrue(last.startsWith("error: ") && last.contains("holds results computed with optimum"), r.err());
     }
 
+    /**
+     * A resumed run asking for other profiles keeps the earlier ones of the same optimum in profiles.json (in the
+     * fit's parameter order, unchanged), and leaves out with a warning those of another confidence level.
+     */
+    @Test
+    void resumeWithOtherProfilesKeepsTheEarlierOnes() throws IOException {
+        Path d = copyFit("partial", 0.0);
+        Result first = run("profile", d.toString(), "--parameters", "k", "--threads", "1");
+        assertEquals(0, first.code(), first.err());
+        JsonNode k = entry(Json.mapper().readTree(d.resolve("profiles.json").toFile()), "k");
+        Result second = run("profile", d.toString(), "--parameters", "x0", "--resume", "--threads", "1");
+        assertEquals(0, second.code(), second.err());
+        JsonNode both = Json.mapper().readTree(d.resolve("profiles.json").toFile());
+        List<String> ids = new java.util.ArrayList<>();
+        both.get("profiles").forEach(e -> ids.add(e.get("id").asText()));
+        List<String> fitOrder = new java.util.ArrayList<>();
+        Json.mapper().readTree(d.resolve("result.json").toFile()).get("parametersEstimationScale").fieldNames()
+                .forEachRemaining(fitOrder::add);
+        assertEquals(fitOrder, ids, "both parameters, in the fit's order");
+        assertEquals(k, entry(both, "k"), "the earlier profile, as it was");
+        Path d2 = copyFit("partial-levels", 0.0);
+        assertEquals(0, run("profile", d2.toString(), "--parameters", "k", "--threads", "1").code());
+        Result other = run("profile", d2.toString(), "--parameters", "x0", "--resume", "--level", "0.9",
+                "--threads", "1");
+        assertEquals(0, other.code(), other.err());
+        assertTrue(other.err().contains("was computed at level 0.95, not 0.9; not included in profiles.json"),
+                other.err());
+        JsonNode p = Json.mapper().readTree(d2.resolve("profiles.json").toFile()).get("profiles");
+        assertEquals(1, p.size(), p.toString());
+        assertEquals("x0", p.get(0).get("id").asText());
+    }
+
     private static void copyTree(Path from, Path to) throws IOException {
         Files.createDirectories(to);
         try (Stream<Path> s = Files.list(from)) {

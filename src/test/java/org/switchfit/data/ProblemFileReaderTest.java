@@ -129,6 +129,8 @@ class ProblemFileReaderTest {
         UserInputException e = assertThrows(UserInputException.class, () -> ProblemFileReader.read(
                 TestFiles.write(dir.resolve("q.yaml"), "switchfit_format: 1\nmodel: nowhere.xml\n")));
         assertMessage(e, "'nowhere.xml' does not exist", "q.yaml, line 2", "correct the path");
+        e = fails("switchfit_format: 1\nmodel: .\n");
+        assertMessage(e, "the SBML model '.' is a folder", "p.yaml, line 2", "name the file itself");
         e = fails(HEAD + EXP_OBS + "data:\n  timecourses:\n    - file: data/none.csv\n");
         assertMessage(e, "timecourse table 'data/none.csv' does not exist", "line 10", "relative to the problem");
         e = assertThrows(UserInputException.class, () -> ProblemFileReader.read(dir.resolve("absent.yaml")));
@@ -208,6 +210,12 @@ class ProblemFileReaderTest {
         e = fails(HEAD + EXP_OBS + "data:\n  timecourses:\n    - file: tc.csv\n");
         assertMessage(e, "time inf is not finite", "line 2", "dose-response table");
 
+        TestFiles.write(dir.resolve("tc.csv"), "experiment,observable,time,value\nfed,q_obs,0,0.5\n"
+                + "fed,q_obs,-1,0.4\n");
+        e = fails(HEAD + EXP_OBS + "data:\n  timecourses:\n    - file: tc.csv\n");
+        assertMessage(e, "tc.csv, line 3, column 3", "time -1 is negative", "experiments start at t = 0",
+                "shift the times");
+
         TestFiles.write(dir.resolve("tc.csv"), "experiment,observable,time,value\nfed,q_obs,1,nan\n");
         e = fails(HEAD + EXP_OBS + "data:\n  timecourses:\n    - file: tc.csv\n");
         assertMessage(e, "'value': nan is not a finite measurement", "remove the row");
@@ -215,6 +223,13 @@ class ProblemFileReaderTest {
         TestFiles.write(dir.resolve("dr.csv"), "experiment,observable,dose,value,history\nfed,q_obs,1,0.5,mid\n");
         e = fails(HEAD + EXP_OBS + "data:\n  dose_responses:\n    - {file: dr.csv, control: feed}\n");
         assertMessage(e, "dr.csv, line 2, column 5", "'mid' is unknown", "use low", "or high");
+        // history is required (documented so): as a column and in every row
+        TestFiles.write(dir.resolve("dr.csv"), "experiment,observable,dose,value\nfed,q_obs,1,0.5\n");
+        e = fails(HEAD + EXP_OBS + "data:\n  dose_responses:\n    - {file: dr.csv, control: feed}\n");
+        assertMessage(e, "dose-response table has no column 'history'", "dr.csv, line 1");
+        TestFiles.write(dir.resolve("dr.csv"), "experiment,observable,dose,value,history\nfed,q_obs,1,0.5,\n");
+        e = fails(HEAD + EXP_OBS + "data:\n  dose_responses:\n    - {file: dr.csv, control: feed}\n");
+        assertMessage(e, "dr.csv, line 2, column 5", "history");
 
         TestFiles.write(dir.resolve("th.csv"), "experiment,control,direction,value,sigma\nfed,feed,upward,1,0.1\n");
         e = fails(HEAD + EXP_OBS + "data:\n  thresholds:\n    - file: th.csv\n");
@@ -235,6 +250,11 @@ class ProblemFileReaderTest {
         assertMessage(e, "settle_in names undeclared experiment 'b'", "line 4", "declare it");
         e = fails(HEAD + "experiments:\n  - {id: a, settle_in: a}\n");
         assertMessage(e, "experiment 'a' settles in itself", "remove settle_in");
+        // settle_in is one level: a chain or a cycle is refused at the settle_in naming an experiment that has one
+        e = fails(HEAD + "experiments:\n  - {id: a, settle_in: b}\n  - {id: b, settle_in: a}\n");
+        assertMessage(e, "experiment 'a' settles in 'b', which itself has settle_in", "line 4", "one level");
+        e = fails(HEAD + "experiments:\n  - {id: a}\n  - {id: b, settle_in: a}\n  - {id: c, settle_in: b}\n");
+        assertMessage(e, "experiment 'c' settles in 'b', which itself has settle_in", "line 6");
         e = fails(HEAD + "experiments:\n  - id: a\n    doses:\n      - {at: 1, target: s, set: 1, add: 2}\n");
         assertMessage(e, "exactly one of 'set'", "line 6");
         e = fails(HEAD + "experiments:\n  - id: a\n    doses:\n      - {at: 3, target: s, set: 1}\n"
@@ -252,13 +272,52 @@ class ProblemFileReaderTest {
                 + " sigma: 1}}\n");
         assertMessage(e, "unknown noise type 'gausian'", "did you mean 'gaussian'?", "line 4");
         e = fails(HEAD + "observables:\n  - {id: y, formula: Q, noise: {type: gaussian, sigma: -1}}\n");
-        assertMessage(e, "noise sigma -1 must be a finite number >= 0", "line 4");
+        assertMessage(e, "noise sigma -1 must be a finite number > 0", "line 4");
+        // a zero spread makes the likelihood infinite: refused at the noise entry, with what is allowed
+        e = fails(HEAD + "observables:\n  - id: y\n    formula: Q\n    noise: {type: gaussian, sigma: 0}\n");
+        assertMessage(e, "p.yaml, line 6", "observable 'y': noise sigma 0 must be a finite number > 0",
+                "or an estimated parameter id");
+        e = fails(HEAD + "observables:\n  - {id: y, formula: Q, noise: {type: laplace, scale: 0}}\n");
+        assertMessage(e, "noise scale 0 must be a finite number > 0", "line 4");
+        e = fails(HEAD + "observables:\n  - {id: y, formula: Q, noise: {type: lognormal, sigma: 0.0}}\n");
+        assertMessage(e, "noise sigma 0.0 must be a finite number > 0", "line 4");
+        e = fails(HEAD + "observables:\n  - {id: y, formula: Q, noise: {type: proportional, absolute: 0, relative:"
+                + " 0}}\n");
+        assertMessage(e, "absolute 0 and relative 0 has no spread", "give absolute > 0 or relative > 0", "line 4");
+        e = fails(HEAD + "observables:\n  - {id: y, formula: Q, noise: {type: proportional, absolute: -1, relative:"
+                + " 0.1}}\n");
+        assertMessage(e, "noise absolute -1 must be a finite number >= 0", "line 4");
+        // one part of the proportional spread may be 0
+        SwitchfitProblem ok = ProblemFileReader.read(problem(HEAD + "observables:\n  - {id: y, formula: Q, noise: "
+                + "{type: proportional, absolute: 0, relative: 0.1}}\n"));
+        assertEquals(1, ok.observables().size());
         e = fails(HEAD + "observables:\n  - {id: y, formula: Q, noise: {type: proportional, absolute: 1}}\n");
         assertMessage(e, "has no 'relative'", "add it");
         e = fails(HEAD + "observables:\n  - {id: y, formula: Q}\n");
         assertMessage(e, "has no 'noise'", "line 4");
         e = fails(HEAD + "observables:\n  - {id: y, formula: '  ', noise: {type: laplace, scale: 1}}\n");
         assertMessage(e, "observable 'y' has an empty formula", "line 4");
+    }
+
+    /** Keyword values (scale, noise and prior type, direction, history) are case-insensitive; keys are not. */
+    @Test
+    void keywordValuesIgnoreCase() {
+        TestFiles.write(dir.resolve("dr.csv"), "experiment,observable,dose,value,history\nfed,q_obs,1,0.5,High\n");
+        SwitchfitProblem p = ProblemFileReader.read(problem(HEAD + "parameters:\n  - {id: k1, lower: 1, upper: 3,"
+                + " scale: LOG10, start: 2, prior: {type: LogNormal, mu: 0, sigma: 1}}\n"
+                + "experiments:\n  - id: fed\nobservables:\n  - {id: q_obs, formula: Q, noise: {type: Gaussian,"
+                + " sigma: 0.1}}\n  - {id: p_obs, formula: P, noise: {type: LAPLACE, scale: 0.1}}\n"
+                + "data:\n  dose_responses:\n    - {file: dr.csv, control: feed}\n"
+                + "  thresholds:\n    - {experiment: fed, control: feed, direction: Up, value: 1, sigma: 0.1}\n"));
+        assertEquals(ParameterScale.LOG10, p.parameter("k1").orElseThrow().scale());
+        assertEquals(Prior.logNormal(0, 1), p.parameter("k1").orElseThrow().prior());
+        assertEquals(new NoiseModel.Gaussian(ValueRef.ofNumber(0.1)), p.observable("q_obs").orElseThrow().noise());
+        assertEquals(new NoiseModel.Laplace(ValueRef.ofNumber(0.1)), p.observable("p_obs").orElseThrow().noise());
+        assertEquals(DoseResponsePoint.History.HIGH, p.doseResponses().get(0).history());
+        assertEquals(SwitchingThreshold.Direction.UP, p.thresholds().get(0).direction());
+        // keys stay case-sensitive
+        UserInputException e = fails(HEAD + "parameters:\n  - {ID: k1, lower: 1, upper: 3, start: 2}\n");
+        assertMessage(e, "unknown key 'ID'", "did you mean 'id'?");
     }
 
     @Test
@@ -273,5 +332,20 @@ class ProblemFileReaderTest {
         assertMessage(e, "not valid YAML", "check indentation");
         e = fails("- just\n- a list\n");
         assertMessage(e, "must be a map", "line 1");
+        // a second document after '---' would be ignored: refused at its first line
+        e = fails(HEAD + "---\nfoo: 1\n");
+        assertMessage(e, "p.yaml, line 4", "a second YAML document starts here", "remove the '---' line");
+        // not UTF-8 (a byte 0xFF can start no UTF-8 sequence)
+        Path binary = dir.resolve("binary.yaml");
+        try {
+            java.nio.file.Files.write(binary, new byte[] {(byte) 0xFF, (byte) 0xFE, 'x', '\n'});
+        } catch (java.io.IOException io) {
+            throw new java.io.UncheckedIOException(io);
+        }
+        e = assertThrows(UserInputException.class, () -> ProblemFileReader.read(binary));
+        assertMessage(e, "binary.yaml", "the problem file is not UTF-8 text", "saved as UTF-8");
+        assertTrue(!e.getMessage().contains("Input length"), e.getMessage());
+        e = assertThrows(UserInputException.class, () -> ProblemFileReader.read(dir));
+        assertMessage(e, "is a folder, not a problem file", "pass the problem YAML file");
     }
 }

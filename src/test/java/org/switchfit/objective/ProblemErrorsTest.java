@@ -74,9 +74,33 @@ class ProblemErrorsTest {
     }
 
     @Test
+    void zeroNoiseNamesTheDataRowAndTheObservableDefinition() {
+        failure(PARAMS, CONDS, "observableId | observableFormula | noiseFormula\nobs | X | 0", MEAS,
+                "measurements.tsv, line 2", "noise spread of observable 'obs' evaluates to 0.0", "must be positive",
+                "noise definition (", "observables.tsv, line 2)");
+    }
+
+    /** The format dispatcher reads the file first: a binary file or a folder gets a message saying so. */
+    @Test
+    void notUtf8OrAFolder() throws java.io.IOException {
+        Path binary = java.nio.file.Files.write(dir.resolve("problem.yaml"), new byte[] {(byte) 0xFF, 'x'});
+        UserInputException e = assertThrows(UserInputException.class, () -> ProblemLoader.load(binary));
+        assertTrue(e.getMessage().contains("problem.yaml: the problem file is not UTF-8 text"), e.getMessage());
+        e = assertThrows(UserInputException.class, () -> ProblemLoader.load(dir));
+        assertTrue(e.getMessage().contains("is a folder, not a problem file"), e.getMessage());
+    }
+
+    @Test
     void unparsableFormula() {
-        failure(PARAMS, CONDS, "observableId | observableFormula | noiseFormula\nobs | X * (1 + | 0.1", MEAS,
-                "observables.tsv", "cannot parse formula");
+        String m = failure(PARAMS, CONDS, "observableId | observableFormula | noiseFormula\nobs | X * (1 + | 0.1",
+                MEAS, "observables.tsv", "cannot parse formula 'X * (1 +': it ends too early", "write an infix");
+        assertFalse(m.contains("Exception") || m.contains("org."), "no Java class names: " + m);
+        // column 4 of 'X +* 2' is the second operator (1-based, as the message says)
+        m = failure(PARAMS, CONDS, "observableId | observableFormula | noiseFormula\nobs | X +* 2 | 0.1", MEAS,
+                "cannot parse formula 'X +* 2': unexpected '* 2' at column 4");
+        assertFalse(m.contains("Exception") || m.contains("org."), "no Java class names: " + m);
+        failure(PARAMS, CONDS, "observableId | observableFormula | noiseFormula\nobs | X $ 2 | 0.1", MEAS,
+                "unexpected '$ 2' at column 3");
     }
     @Test
     void uniformPriorSupportOutsideTheBounds() {

@@ -83,6 +83,36 @@ class SwitchfitFormatTest {
         GradientCheck.assertJacobian(LikelihoodObjective.of(p, TIGHT), new double[] {-0.3, 0.4}, 1e-5);
     }
 
+    /**
+     * A table's {@code sigma} replaces the observable's spread in the terms of its noise model (as documented in
+     * docs/problem-format.md). One point v = 1.3 at t = 1 with sigma s = 0.2, prediction y = 2 e^{-0.3} (k = 0.3,
+     * x0 = 2). Closed forms, by hand from the densities: Laplace with scale s: log(2 s) + |v - y| / s; log-normal
+     * with s the SD of ln x: 0.5 log(2 pi) + log s + (ln v - ln y)^2 / (2 s^2) + ln v (the log-data Jacobian, as
+     * PEtab v1 defines it, from memory); proportional with s the SD of x: 0.5 log(2 pi) + log s + (v - y)^2 / (2 s^2).
+     */
+    @Test
+    void tableSigmaIsTheSpreadOfTheNoiseModel() throws IOException {
+        double v = 1.3;
+        double s = 0.2;
+        double y = 2 * Math.exp(-0.3);
+        double[] expected = {Math.log(2 * s) + Math.abs(v - y) / s,
+            0.5 * Math.log(2 * Math.PI) + Math.log(s) + Math.pow(Math.log(v) - Math.log(y), 2) / (2 * s * s)
+                    + Math.log(v),
+            0.5 * Math.log(2 * Math.PI) + Math.log(s) + Math.pow(v - y, 2) / (2 * s * s)};
+        String[] noise = {"{type: laplace, scale: 5}", "{type: lognormal, sigma: 5}",
+            "{type: proportional, absolute: 5, relative: 5}"};
+        for (int i = 0; i < noise.length; i++) {
+            Path yaml = ours(noise[i], "");
+            Files.writeString(dir.resolve("tc.csv"), "experiment,observable,time,value,sigma\ne1,obs,1," + v + ","
+                    + s + "\n");
+            EstimationProblem p = ProblemLoader.load(yaml);
+            double[] theta = {Math.log10(0.3), Math.log(2.0)};
+            double nll = LikelihoodObjective.of(p, TIGHT).evaluateDetailed(theta).nll();
+            // tolerance: integration at rtol 1e-10 moves y by about 1e-10 relative
+            assertEquals(expected[i], nll, 1e-8, noise[i]);
+        }
+    }
+
     @Test
     void doseToAnUnknownTargetIsReportedOnOneLine() throws IOException {
         Path yaml = ours("{type: gaussian, sigma: 0.1}", "");

@@ -118,6 +118,49 @@ class FitReportTest {
         assertTrue(html.contains("not profiled"));
     }
 
+    /** profiles.json with parameter profiles only: the fold section says no fold was profiled, not "missing". */
+    @Test
+    void profilesWithoutFoldsSayNoFoldWasProfiled() throws Exception {
+        FitDirectory d = FitDirectory.of(tmp.resolve("nofolds"));
+        d.write(FitFile.RESULT, SyntheticFitDirectory.result());
+        ProfilesFile all = SyntheticFitDirectory.profiles();
+        d.write(FitFile.PROFILES, new ProfilesFile(all.level(), all.bestNll(), all.thresholds(),
+                all.betterOptimumFound(), all.bestNllFound(), all.folds(), all.rankCheck(), all.profiles().stream()
+                .filter(e -> e.kind() == ProfilesFile.Kind.PARAMETER).toList()));
+        String html = FitReport.build(d, null).toHtml();
+        SampleReportTest.parse(html);
+        assertFalse(html.contains("Skipped: profiles.json"), "profiles.json is there");
+        String note = "No fold positions were profiled; &#39;switchfit profile FITDIR --folds --resume&#39; adds them";
+        assertEquals(1, html.split(note, -1).length - 1, "the fold section says so once, with how to request them");
+        // with branches.json too, the folds are listed as not profiled and the note stays (once)
+        d.write(FitFile.BRANCHES, SyntheticFitDirectory.branches());
+        html = FitReport.build(d, null).toHtml();
+        assertTrue(html.contains("not profiled"));
+        assertEquals(1, html.split(note, -1).length - 1);
+        assertFalse(html.contains("Skipped: profiles.json"));
+    }
+
+    /** A fit to switching data only: the data section counts each kind instead of "lists no experiments". */
+    @Test
+    void switchingDataOnlyAreCountedInTheDataSection() throws Exception {
+        FitDirectory d = FitDirectory.of(tmp.resolve("switching-only"));
+        d.write(FitFile.RESULT, SyntheticFitDirectory.result());
+        d.write(FitFile.TRAJECTORIES, new TrajectoriesFile(null, List.of()));
+        Files.writeString(d.path().resolve("residuals.csv"),
+                "experiment,observable,time,measurement,simulation,sigma,residual\n");
+        Files.writeString(d.path().resolve("switching_residuals.csv"),
+                "data,experiment,control,direction,observable,dose,measurement,model,sigma,residual,note\n"
+                + "threshold,base,S,up,,,0.3,0.32,0.02,-1.2,fold\n"
+                + "dose_response,base,S,low,xo,0.1,0.2,0.19,0.05,0.26,\n"
+                + "dose_response,base,S,high,xo,0.4,1.6,1.64,0.05,-0.86,\n");
+        String html = FitReport.build(d, null).toHtml();
+        SampleReportTest.parse(html);
+        assertTrue(html.contains("Data fitted: 0 measurements, 2 dose-response points, 1 switching threshold "
+                + "(residuals.csv, switching_residuals.csv)."), html);
+        assertTrue(html.contains("No timecourse data to plot"));
+        assertFalse(html.contains("lists no experiments"));
+    }
+
     @Test
     void malformedFileIsOneLineUserError() throws Exception {
         FitDirectory d = SyntheticFitDirectory.create(tmp.resolve("bad"));

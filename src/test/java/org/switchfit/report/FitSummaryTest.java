@@ -47,4 +47,37 @@ class FitSummaryTest {
         d.write(FitFile.RESULT, s);
         assertEquals(Json.toJson(s), Json.toJson(d.read(FitFile.RESULT)));
     }
+
+    /** Paths are recorded absolute and normalised, so a fit directory can be read from any working directory. */
+    @Test
+    void pathsAreRecordedAbsolute() throws Exception {
+        Path yaml = DecayProblem.write(dir);
+        Path roundabout = dir.resolve("sub").resolve("..").resolve(yaml.getFileName());
+        java.nio.file.Files.createDirectories(dir.resolve("sub"));
+        EstimationProblem p = ProblemLoader.load(roundabout);
+        FitResult r = new FitResult(new String[] {"k", "x0"}, new ParameterScale[] {ParameterScale.LOG10,
+            ParameterScale.LOG10}, null, Double.NaN, List.of(), 0, 1);
+        FitSummary s = FitSummary.of(p, r, null, 0, Map.of(), List.of(FitSummary.InputFile.of(roundabout)));
+        String expected = yaml.toAbsolutePath().normalize().toString();
+        assertEquals(expected, s.problem());
+        assertEquals(expected, s.inputs().get(0).file());
+    }
+
+    /**
+     * Relative paths of older result.json files: the working directory first (here it holds no such file), then
+     * the fit directory's parent, then the fit directory; the path as written when none has it.
+     */
+    @Test
+    void relativeRecordedPathsResolveBesideTheFitDirectory() throws Exception {
+        Path fit = java.nio.file.Files.createDirectories(dir.resolve("fits").resolve("a"));
+        String name = "switchfit-test-" + Long.toHexString(System.nanoTime()) + ".yaml";
+        assertEquals(Path.of(name), FitSummary.resolveRecorded(fit, name), "found nowhere");
+        java.nio.file.Files.writeString(fit.resolve(name), "x");
+        assertEquals(fit.toAbsolutePath().normalize().resolve(name), FitSummary.resolveRecorded(fit, name));
+        java.nio.file.Files.writeString(fit.getParent().resolve(name), "x");
+        assertEquals(fit.toAbsolutePath().normalize().getParent().resolve(name), FitSummary.resolveRecorded(fit,
+                name), "the parent before the fit directory (the older rule)");
+        Path abs = dir.resolve("elsewhere.yaml").toAbsolutePath();
+        assertEquals(abs, FitSummary.resolveRecorded(fit, abs.toString()));
+    }
 }
