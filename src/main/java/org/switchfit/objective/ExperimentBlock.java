@@ -71,8 +71,9 @@ final class ExperimentBlock implements ResidualBlock {
                 shift[i] = sigmaShift(me, od);
             } else if (!(s > 0) || s == Double.POSITIVE_INFINITY) {
                 throw new UserInputException(me.location(), String.format(Locale.ROOT,
-                        "noise spread of observable '%s' evaluates to %s for this data point; it must be positive and finite: "
-                        + "correct the observable's noise definition (%s) or the noise values given for this point",
+                        "noise spread of observable '%s' evaluates to %s for this data point; it must be positive and "
+                        + "finite: correct the observable's noise definition (%s) or the noise values given for this "
+                        + "point (its sigma, or in PEtab its noiseParameters)",
                         od.id(), s, od.location() == null ? "" : new SourceLocation(od.location().file(),
                         od.location().line(), 0, null)));
             }
