@@ -119,7 +119,8 @@ public final class SweepCommand implements Callable<Integer> {
 
     /**
      * The ramp in user units. The sweep's readout is on the reduced state; the constant part of a dependent
-     * species (its total divided by its coefficient) is added back per sample.
+     * species (its total divided by its coefficient) is added back per sample, and the amount is reported as
+     * {@code simulate} reports the species (concentration unless hasOnlySubstanceUnits).
      */
     private static SweepFile.Run run(SweepFile.Direction d, SweepResult r, SwitchSetup.Start s, int ri) {
         ControlQuantity c = s.control;
@@ -131,7 +132,12 @@ public final class SweepCommand implements Callable<Integer> {
         for (int i = 0; i < v.length; i++) {
             v[i] = c.toUser(lam[i]);
             q[c.index()] = lam[i];
-            y[i] += s.sm.reduced.fullState(zero, q)[ri];
+            double[] full = s.sm.reduced.fullState(zero, q);
+            y[i] += full[ri];
+            // the readout as simulate reports it: the amount held in the state divided by the compartment size
+            // of this sample (a concentration unless hasOnlySubstanceUnits)
+            full[ri] = y[i];
+            y[i] = s.sm.reportedAt(full, q, s.pEff)[ri];
         }
         double jq = r.jumpParameter();
         int i = 0;

@@ -50,6 +50,11 @@ final class SwitchModel {
     final List<String> states;
     /** The active part of the network the laws were computed on, or null for the whole stoichiometry. */
     final ActiveNetwork network;
+    /**
+     * The states as {@code simulate} reports them (species: concentration unless hasOnlySubstanceUnits), while the
+     * state vector holds species amounts: the two differ by the compartment size, which may depend on the control.
+     */
+    private final ModelOutputs reportedStates;
 
     private SwitchModel(Path file, Model model, CompiledModel compiled, ConservationLaws laws,
                         ActiveNetwork network) {
@@ -60,6 +65,30 @@ final class SwitchModel {
         this.network = network;
         this.reduced = laws.reduce(compiled);
         this.states = compiled.form().stateIds();
+        this.reportedStates = ModelOutputs.of(compiled, states);
+    }
+
+    /**
+     * The full state y (amounts, as the ODE holds them) converted to the quantities {@code simulate} reports for
+     * the same ids: concentrations for species with hasOnlySubstanceUnits=false, whatever the compartment size.
+     *
+     * @param y    full state
+     * @param pEff effective parameters with the control (and any --set) applied; compartment sizes are read here
+     */
+    double[] reported(double[] y, double[] pEff) {
+        double[] out = new double[states.size()];
+        reportedStates.evaluate(0, y, pEff, out);
+        return out;
+    }
+
+    /**
+     * {@link #reported} at reduced parameters q: the original parameters of q are copied over {@code pEff}, so a
+     * varied compartment size is the one of the point.
+     */
+    double[] reportedAt(double[] y, double[] q, double[] pEff) {
+        double[] p = pEff.clone();
+        System.arraycopy(q, 0, p, 0, Math.min(p.length, reduced.originalParameterCount()));
+        return reported(y, p);
     }
 
     /** Reads, compiles and reduces. Timings of the two phases go to {@code timing} (seconds) when non-null. */

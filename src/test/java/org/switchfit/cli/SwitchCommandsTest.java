@@ -326,19 +326,29 @@ class SwitchCommandsTest {
     void compartmentsOfDifferentSizes() {
         String m = res("two-compartments.xml");
         BranchesFile f = branches(m, "--vary", "k", "--from", "0.5", "--to", "4");
-        // closed form (see the model's comment); states are amounts, A + B = T = 2, A = 2 / (1 + k / k2)
+        // closed form (see the model's comment); states are reported as simulate reports them, concentrations:
+        // [A] V_cyt + [B] V_nuc = T = 2 with V_cyt = 1, V_nuc = 0.5, and [A] = 2 / (1 + k / k2)
         for (BranchesFile.Point p : f.branches().get(0).points()) {
             double a = p.states()[f.stateIds().indexOf("A")];
             double b = p.states()[f.stateIds().indexOf("B")];
-            assertEquals(2, a + b, 1e-12); // reconstruction from the law: rounding only
+            assertEquals(2, a + 0.5 * b, 1e-12); // reconstruction from the law: rounding only
             assertEquals(2 / (1 + p.value()), a, 1e-9); // corrector tolerance 1e-11 relative, margin
         }
-        // the amount of A does not depend on the nucleus size (k = k2 = 1: A = 1), and the law on amounts holds
+        // the amount of A does not depend on the nucleus size (k = k2 = 1: amounts A = B = 1), so [A] = 1 and
+        // [B] = 1 / V_nuc with the nucleus size of each point (closed form from the model's comment)
         BranchesFile g = branches(m, "--vary", "nuc", "--from", "0.25", "--to", "1");
         assertTrue(g.branches().get(0).points().size() > 2);
         for (BranchesFile.Point p : g.branches().get(0).points()) {
             assertEquals(1, p.states()[g.stateIds().indexOf("A")], 1e-9); // as above
+            assertEquals(1 / p.value(), p.states()[g.stateIds().indexOf("B")], 1e-9 / p.value()); // as above
         }
+        // a sweep reports [B] too: the ramp starts at the steady state of k = 0.5, amount of B 2 - 2 / 1.5, so
+        // [B] = (2 / 3) / 0.5 = 4 / 3 (closed form as above)
+        Path sj = dir.resolve("sweep-nuc.json");
+        Result r = run("sweep", m, "--vary", "k", "--from", "0.5", "--to", "4", "--rate", "0.01", "--readout", "B",
+                "--samples", "11", "--json", sj.toString());
+        assertEquals(0, r.code(), r.err());
+        assertEquals(4.0 / 3, Json.read(sj, SweepFile.class).runs().get(0).response()[0], 1e-9); // as above
         // init:B in its declared unit (concentration): amount 0.5 [B]0, so T = 2 + 0.5 [B]0; at k = k2 = 1,
         // A = T / 2
         BranchesFile h = branches(m, "--vary", "init:B", "--from", "0", "--to", "2");
