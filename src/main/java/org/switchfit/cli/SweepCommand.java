@@ -67,16 +67,16 @@ public final class SweepCommand implements Callable<Integer> {
         if (samples < 3) {
             throw new UserInputException(null, "--samples " + samples + ": need at least 3");
         }
-        SweepFile file = sweep(setup, setup.start(), readout, rate, samples);
+        List<SweepResult> results = new ArrayList<>();
+        SweepFile file = sweep(setup, setup.start(), readout, rate, samples, results);
         String ro = file.readout();
         String label = file.parameter();
         List<SweepFile.Run> runs = file.runs();
         PrintWriter out = spec.commandLine().getOut();
-        for (SweepFile.Run r : runs) {
-            SweepFile.Jump j = r.jumps().get(0);
-            out.printf(Locale.ROOT, "%s ramp at %s per time unit: steepest change of %s at %s = %.8g (%.6g -> "
-                    + "%.6g)%n", r.direction() == SweepFile.Direction.UP ? "up" : "down", SwitchSetup.fmt(rate), ro,
-                    label, j.value(), j.before(), j.after());
+        for (int d = 0; d < runs.size(); d++) {
+            SweepFile.Run r = runs.get(d);
+            out.printf(Locale.ROOT, "%s ramp at %s per time unit: %s%n", r.direction() == SweepFile.Direction.UP
+                    ? "up" : "down", SwitchSetup.fmt(rate), describe(results.get(d), r, ro, label));
         }
         out.flush();
         Path jsonOut = setup.output(json, "sweep.json");
@@ -139,13 +139,46 @@ public final class SweepCommand implements Callable<Integer> {
             full[ri] = y[i];
             y[i] = s.sm.reportedAt(full, q, s.pEff)[ri];
         }
-        double jq = r.jumpParameter();
-        int i = 0;
-        while (i + 1 < lam.length && (lam[i + 1] - jq) * Math.signum(lam[lam.length - 1] - lam[0]) <= 0) {
-            i++;
+        List<SweepFile.Jump> jumps = r.jumpIndex() < 0 ? List.of() : List.of(new SweepFile.Jump(
+                c.toUser(r.jumpParameter()), y[r.jumpIndex()], y[r.jumpIndex() + 1]));
+        return new SweepFile.Run(d, v, y, jumps);
+    }
+
+    /**
+     * The terminal line of a ramp: the jump with the sample interval it happened in, or that there is none, or
+     * that the readout oscillates (then the largest change is no jump between branches).
+     */
+    static String describe(SweepResult res, SweepFile.Run r, String ro, String label) {
+        double[] v = r.values();
+        double[] y = r.response();
+        switch (res.response()) {
+            case JUMP: {
+                int i = res.jumpIndex();
+                return String.format(Locale.ROOT, "%s jumps from %.6g to %.6g between %s = %.8g and %.8g "
+                        + "(largest change between consecutive samples)", ro, y[i], y[i + 1], label, v[i], v[i + 1]);
+            }
+            case OSCILLATION: {
+                double lo = Double.POSITIVE_INFINITY;
+                double hi = Double.NEGATIVE_INFINITY;
+                for (double x : y) {
+                    lo = Math.min(lo, x);
+                    hi = Math.max(hi, x);
+                }
+                return String.format(Locale.ROOT, "%s oscillates (its increments change sign again and again, "
+                        + "between %.6g and %.6g), so no jump is reported; compare with the Hopf points of "
+                        + "'switchfit branches'", ro, lo, hi);
+            }
+            default: {
+                double lo = Double.POSITIVE_INFINITY;
+                double hi = Double.NEGATIVE_INFINITY;
+                for (double x : y) {
+                    lo = Math.min(lo, x);
+                    hi = Math.max(hi, x);
+                }
+                return String.format(Locale.ROOT, "no jump of %s (it stays within %.6g .. %.6g without a step "
+                        + "larger than twice its mean step)", ro, lo, hi);
+            }
         }
-        int after = Math.min(i + 1, lam.length - 1);
-        return new SweepFile.Run(d, v, y, List.of(new SweepFile.Jump(c.toUser(jq), y[i], y[after])));
     }
 
     /**
@@ -158,6 +191,12 @@ public final class SweepCommand implements Callable<Integer> {
      * @throws UserInputException for an unknown readout or a failed integration
      */
     static SweepFile sweep(SwitchSetup setup, SwitchSetup.Start s, String readout, double rate, int samples) {
+        return sweep(setup, s, readout, rate, samples, new ArrayList<>());
+    }
+
+    /** As {@link #sweep(SwitchSetup, SwitchSetup.Start, String, double, int)}; the two ramps also go to results. */
+    static SweepFile sweep(SwitchSetup setup, SwitchSetup.Start s, String readout, double rate, int samples,
+                           List<SweepResult> results) {
         // start the analysis at A: the up ramp begins there
         double[] range = {setup.from, setup.to};
         SwitchModel sm = s.sm;
@@ -195,6 +234,8 @@ public final class SweepCommand implements Callable<Integer> {
                     + setup.vary + " failed: " + e.getMessage() + "; try a smaller --rate, a narrower range or "
                     + "other --set values");
         }
+        results.add(up);
+        results.add(down);
         List<SweepFile.Run> runs = List.of(run(SweepFile.Direction.UP, up, s, ri),
                 run(SweepFile.Direction.DOWN, down, s, ri));
         SweepFile file = new SweepFile(c.label(), ro, rate, runs);

@@ -265,6 +265,57 @@ class SwitchCommandsTest {
         assertEquals(2 * 201 + 1, Files.readAllLines(csv).size());
     }
 
+    /** The switch-on fold of hill-switch.xml: bisection on d/dx (x - x^4 / (1/16 + x^4)) = 0 in (0.2, 0.5). */
+    private static double hillFoldOn() {
+        // closed form of the fold condition derived by hand: 1 = 4 x^3 K^4 / (K^4 + x^4)^2, K^4 = 1/16; the lower
+        // fold's x lies in (0.2, 0.5) (the function is 1 - 4 x^3 K^4 / (K^4 + x^4)^2: positive at 0.2, negative at
+        // 0.5)
+        double lo = 0.2;
+        double hi = 0.5;
+        for (int i = 0; i < 200; i++) {
+            double x = 0.5 * (lo + hi);
+            double g = 1 - 4 * x * x * x / 16 / Math.pow(1.0 / 16 + x * x * x * x, 2);
+            if (g > 0) {
+                lo = x;
+            } else {
+                hi = x;
+            }
+        }
+        double x = 0.5 * (lo + hi);
+        return x - x * x * x * x / (1.0 / 16 + x * x * x * x);
+    }
+
+    @Test
+    void sweepJumpIsTheLargestChangeBetweenSamplesAndNeverBeforeTheFold() {
+        double fold = hillFoldOn(); // 0.19189...
+        double h = 0.7 / 400; // sample spacing of the ramp from -0.2 to 0.5 with 401 samples
+        for (String rate : new String[] {"1e-9", "1e-5"}) {
+            Path json = dir.resolve("hill-" + rate + ".json");
+            Result r = run("sweep", res("hill-switch.xml"), "--vary", "s", "--from", "-0.2", "--to", "0.5",
+                    "--rate", rate, "--json", json.toString());
+            assertEquals(0, r.code(), r.err());
+            SweepFile.Run up = Json.read(json, SweepFile.class).runs().get(0);
+            SweepFile.Jump j = up.jumps().get(0);
+            // the jump leaves the lower branch (x < 0.5 there) for the upper one (x > 1) and its sample interval
+            // [value - h/2, value + h/2] ends after the fold: an up ramp cannot jump before it (slow passage
+            // delays the jump, Haberman 1979); at rate 1e-9 the delay (~rate^(2/3)) is far below one interval, so
+            // the interval holds the fold
+            assertTrue(j.before() < 0.5 && j.after() > 1, r.out());
+            assertTrue(j.value() + h / 2 > fold, r.out());
+            if (rate.equals("1e-9")) {
+                assertTrue(j.value() - h / 2 <= fold, r.out());
+            }
+            // the largest change between consecutive samples of the response array is the one reported
+            double[] y = up.response();
+            double big = 0;
+            for (int i = 0; i + 1 < y.length; i++) {
+                big = Math.max(big, Math.abs(y[i + 1] - y[i]));
+            }
+            assertEquals(big, j.after() - j.before(), 0.0, r.out());
+            assertTrue(r.out().contains("x jumps from"), r.out());
+        }
+    }
+
     private static void assertUserError(Result r, String... fragments) {
         assertEquals(Main.EXIT_USER_ERROR, r.code(), "stderr: " + r.err() + " stdout: " + r.out());
         String err = r.err().strip();
