@@ -36,6 +36,14 @@ import picocli.CommandLine.Spec;
         description = "Simulate a slow ramp of a control quantity up and down and report where the response jumps.")
 public final class SweepCommand implements Callable<Integer> {
 
+    /**
+     * Most samples per ramp. Each sample is kept in about ten double arrays along the way (sweep, user units, the
+     * file record) and written as two numbers of ~20 characters to JSON and CSV: 1e6 samples are ~100 MB of
+     * memory and ~80 MB of files for the two ramps, the most a default JVM heap and the HTML report handle; the
+     * jump is located to 1e-6 of the range, finer than the integrator's tolerances make meaningful.
+     */
+    static final int MAX_SAMPLES = 1_000_000;
+
     @Spec
     picocli.CommandLine.Model.CommandSpec spec;
 
@@ -49,8 +57,8 @@ public final class SweepCommand implements Callable<Integer> {
     @Option(names = "--readout", paramLabel = "SPECIES", description = "state followed (default: the first state)")
     String readout;
 
-    @Option(names = "--samples", defaultValue = "401", paramLabel = "N", description = "samples per ramp "
-            + "(default: ${DEFAULT-VALUE})")
+    @Option(names = "--samples", defaultValue = "401", paramLabel = "N", description = "samples per ramp, 3 to "
+            + "1000000 (default: ${DEFAULT-VALUE})")
     int samples;
 
     @Option(names = "--json", paramLabel = "FILE", description = "write the ramps as JSON")
@@ -64,8 +72,9 @@ public final class SweepCommand implements Callable<Integer> {
         if (!(rate > 0) || !Double.isFinite(rate)) {
             throw new UserInputException(null, "--rate " + rate + ": need a positive ramp speed, e.g. 0.01");
         }
-        if (samples < 3) {
-            throw new UserInputException(null, "--samples " + samples + ": need at least 3");
+        if (samples < 3 || samples > MAX_SAMPLES) {
+            throw new UserInputException(null, String.format(Locale.ROOT, "--samples %d: need between 3 and %d "
+                    + "samples per ramp", samples, MAX_SAMPLES));
         }
         List<SweepResult> results = new ArrayList<>();
         SweepFile file = sweep(setup, setup.start(), readout, rate, samples, results);

@@ -351,6 +351,9 @@ class SwitchCommandsTest {
                 "--from2", "1", "--to2", "0.1"), "--from2 1 --to2 0.1", "range is empty");
         assertUserError(run("sweep", DEMO, "--vary", "stimulus", "--from", "0", "--to", "4", "--rate", "0"),
                 "--rate 0.0", "positive");
+        // too many samples: refused in one line before anything is allocated (was an OutOfMemoryError)
+        assertUserError(run("sweep", DEMO, "--vary", "stimulus", "--from", "0", "--to", "4", "--rate", "0.1",
+                "--samples", "100000000"), "--samples 100000000", "between 3 and 1000000");
     }
 
     @Test
