@@ -77,7 +77,9 @@ public final class SweepCommand implements Callable<Integer> {
                     + "samples per ramp", samples, MAX_SAMPLES));
         }
         List<SweepResult> results = new ArrayList<>();
-        SweepFile file = sweep(setup, setup.start(), readout, rate, samples, results);
+        SwitchSetup.Start start = setup.start();
+        SwitchSetup.printCaveats(start.sm, true, spec.commandLine().getErr());
+        SweepFile file = sweep(setup, start, readout, rate, samples, results);
         String ro = file.readout();
         String label = file.parameter();
         List<SweepFile.Run> runs = file.runs();

@@ -173,6 +173,45 @@ final class SwitchSetup {
         return out;
     }
 
+    /**
+     * Warnings about what the analysis leaves out of the model, one line each (empty when nothing): continuation
+     * assumes a smooth, autonomous right-hand side without events, so state-dependent piecewise switches (the
+     * branch may jump at them and miss folds), events (ignored) and explicit time (evaluated at t = 0) are named.
+     * A ramp ({@code sweep}) integrates through switches, so only events and time are named for it.
+     *
+     * @param ramp true for {@code sweep}, false for {@code branches} and {@code region}
+     */
+    static java.util.List<String> caveats(SwitchModel sm, boolean ramp) {
+        java.util.List<String> out = new java.util.ArrayList<>();
+        java.util.List<org.switchfit.expr.Expr> sw = sm.compiled.stateRhsSwitchConditions();
+        if (!ramp && !sw.isEmpty()) {
+            out.add(String.format(Locale.ROOT, "warning: the right-hand side switches on the states (%d piecewise "
+                    + "condition(s), e.g. %s); continuation assumes a smooth right-hand side, so results may jump "
+                    + "at these non-smooth points and miss folds or branches there; check with 'switchfit sweep' "
+                    + "or 'switchfit simulate'", sw.size(), sw.get(0)));
+        }
+        int events = sm.compiled.form().events().size();
+        if (events > 0) {
+            out.add(String.format(Locale.ROOT, "warning: the model has %d event(s); %s ignores events (the "
+                    + "results are those of the model without them)", events, ramp ? "the ramp" : "continuation"));
+        }
+        if (sm.compiled.rhsUsesTime()) {
+            out.add(ramp ? "warning: the right-hand side depends on time explicitly; the ramp uses its own time "
+                    + "(0 at its start) as model time, so the response mixes the ramp with the time dependence"
+                    : "warning: the right-hand side depends on time explicitly; continuation ignores the time "
+                    + "dependence and evaluates it at time 0 (steady states of the model frozen at t = 0)");
+        }
+        return out;
+    }
+
+    /** Prints {@link #caveats} to err. */
+    static void printCaveats(SwitchModel sm, boolean ramp, java.io.PrintWriter err) {
+        for (String w : caveats(sm, ramp)) {
+            err.println(w);
+        }
+        err.flush();
+    }
+
     /** Continuation settings for the control range in q units. */
     static ContinuationSettings settings(ControlQuantity c, double a, double b) {
         double qa = c.toQ(a);

@@ -316,6 +316,30 @@ class SwitchCommandsTest {
         }
     }
 
+    @Test
+    void nonSmoothTimedOrEventfulModelsAreFlagged() {
+        // a switch on the state (u > 0.5): continuation assumes a smooth right-hand side
+        Result pw = run("branches", res("piecewise-switch.xml"), "--vary", "s", "--from", "-1", "--to", "1");
+        assertEquals(0, pw.code(), pw.err());
+        assertTrue(pw.err().contains("switches on the states") && pw.err().contains("gt(u, 0.5)"), pw.err());
+        Result reg = run("region", res("piecewise-switch.xml"), "--vary", "s", "--from", "-1", "--to", "1",
+                "--and", "c", "--from2", "0.5", "--to2", "2");
+        assertTrue(reg.err().contains("switches on the states"), reg.err());
+        // explicit time and events are ignored by the continuation, and events by the ramp
+        Result t = run("branches", res("time-decay.xml"), "--vary", "k", "--from", "0.5", "--to", "2");
+        assertEquals(0, t.code(), t.err());
+        assertTrue(t.err().contains("depends on time explicitly"), t.err());
+        Result e = run("branches", res("decay-event.xml"), "--vary", "k", "--from", "0.5", "--to", "2");
+        assertEquals(0, e.code(), e.err());
+        assertTrue(e.err().contains("1 event(s); continuation ignores events"), e.err());
+        Result sw = run("sweep", res("decay-event.xml"), "--vary", "k", "--from", "0.5", "--to", "2", "--rate",
+                "0.1", "--samples", "11");
+        assertTrue(sw.err().contains("the ramp ignores events"), sw.err());
+        // a smooth autonomous model without events gets no warning
+        Result h = run("branches", res("hill-switch.xml"), "--vary", "s", "--from", "-0.5", "--to", "0.5");
+        assertFalse(h.err().contains("warning"), h.err());
+    }
+
     private static void assertUserError(Result r, String... fragments) {
         assertEquals(Main.EXIT_USER_ERROR, r.code(), "stderr: " + r.err() + " stdout: " + r.out());
         String err = r.err().strip();
