@@ -83,7 +83,7 @@ public final class BranchesCommand implements Callable<Integer> {
         }
         long t0 = System.nanoTime();
         SwitchSetup.Start s = setup.start();
-        SwitchSetup.printCaveats(s.sm, false, spec.commandLine().getErr());
+        SwitchSetup.printCaveats(s, false, spec.commandLine().getErr());
         ContinuationSettings cs = SwitchSetup.settings(s.control, setup.from, setup.to).withMaxPoints(maxPoints)
                 .withLinearAlgebra(lu);
         long t1 = System.nanoTime();

@@ -56,7 +56,7 @@ public final class RegionCommand implements Callable<Integer> {
         SwitchSetup.checkRange("--from2", "--to2", from2, to2);
         // the second quantity's start value goes in first, then the steady state is found
         SwitchSetup.Start s0 = setup.start();
-        SwitchSetup.printCaveats(s0.sm, false, spec.commandLine().getErr());
+        SwitchSetup.printCaveats(s0, false, spec.commandLine().getErr());
         ControlQuantity c2 = ControlQuantity.resolve(s0.sm, second, "--and", s0.sm.reduced.fullState(s0.x, s0.q),
                 s0.q, s0.pEff);
         if (c2.index() == s0.control.index()) {

@@ -78,7 +78,7 @@ public final class SweepCommand implements Callable<Integer> {
         }
         List<SweepResult> results = new ArrayList<>();
         SwitchSetup.Start start = setup.start();
-        SwitchSetup.printCaveats(start.sm, true, spec.commandLine().getErr());
+        SwitchSetup.printCaveats(start, true, spec.commandLine().getErr());
         SweepFile file = sweep(setup, start, readout, rate, samples, results);
         String ro = file.readout();
         String label = file.parameter();

@@ -96,6 +96,8 @@ final class SwitchSetup {
          * the relaxations of rules 4 and 5 and the first, lazy, compilation of the Jacobian; laws excluded).
          */
         double[] timing = new double[5];
+        /** Notes on the options for the user (e.g. a --set the range overrides), one line each. */
+        java.util.List<String> notes = new java.util.ArrayList<>();
     }
 
     /** Loads the model, resolves the control, finds the steady state at the model's value (if in range) or A. */
@@ -109,6 +111,14 @@ final class SwitchSetup {
         s.startState = ini[0];
         s.q = s.sm.reduced.parameters(ini[1], ini[0]);
         s.control = ControlQuantity.resolve(s.sm, vary, "--vary", ini[0], s.q, s.pEff);
+        String setKey = vary.strip().startsWith("init:") ? vary.strip().substring(5).strip() : vary.strip();
+        for (String key : sets.keySet()) {
+            if (key.strip().equals(setKey) && !vary.strip().startsWith("total:")) {
+                s.notes.add(String.format(Locale.ROOT, "note: --set %s=%s is overridden by the range of --vary %s "
+                        + "(it only picks the start of the analysis when it lies in [--from, --to])", key,
+                        sets.get(key), vary));
+            }
+        }
         double model = s.control.toUser(s.q[s.control.index()]);
         s.startValue = model >= from && model <= to ? model : from;
         long t0 = System.nanoTime();
@@ -204,9 +214,12 @@ final class SwitchSetup {
         return out;
     }
 
-    /** Prints {@link #caveats} to err. */
-    static void printCaveats(SwitchModel sm, boolean ramp, java.io.PrintWriter err) {
-        for (String w : caveats(sm, ramp)) {
+    /** Prints the notes of the start ({@link Start#notes}) and {@link #caveats} to err. */
+    static void printCaveats(Start s, boolean ramp, java.io.PrintWriter err) {
+        for (String w : s.notes) {
+            err.println(w);
+        }
+        for (String w : caveats(s.sm, ramp)) {
             err.println(w);
         }
         err.flush();
@@ -241,7 +254,14 @@ final class SwitchSetup {
     }
 
     static void checkRange(String lo, String hi, double a, double b) {
-        if (!Double.isFinite(a) || !Double.isFinite(b) || !(a < b)) {
+        for (int k = 0; k < 2; k++) {
+            double v = k == 0 ? a : b;
+            if (!Double.isFinite(v)) {
+                throw new UserInputException(null, String.format(Locale.ROOT, "%s %s: the bound must be a finite "
+                        + "number; give one like 0 or 2.5", k == 0 ? lo : hi, fmt(v)));
+            }
+        }
+        if (!(a < b)) {
             throw new UserInputException(null, String.format(Locale.ROOT, "%s %s %s %s: the range is empty; give "
                     + "%s smaller than %s", lo, fmt(a), hi, fmt(b), lo, hi));
         }

@@ -335,6 +335,11 @@ class SwitchCommandsTest {
         Result sw = run("sweep", res("decay-event.xml"), "--vary", "k", "--from", "0.5", "--to", "2", "--rate",
                 "0.1", "--samples", "11");
         assertTrue(sw.err().contains("the ramp ignores events"), sw.err());
+        // a --set of the varied quantity is overridden by the range: said in a note
+        Result o = run("branches", res("hill-switch.xml"), "--vary", "s", "--from", "-0.5", "--to", "0.5", "--set",
+                "s=5");
+        assertEquals(0, o.code(), o.err());
+        assertTrue(o.err().contains("note: --set s=5 is overridden by the range of --vary s"), o.err());
         // a smooth autonomous model without events gets no warning
         Result h = run("branches", res("hill-switch.xml"), "--vary", "s", "--from", "-0.5", "--to", "0.5");
         assertFalse(h.err().contains("warning"), h.err());
@@ -375,6 +380,13 @@ class SwitchCommandsTest {
                 "--from2", "1", "--to2", "0.1"), "--from2 1 --to2 0.1", "range is empty");
         assertUserError(run("sweep", DEMO, "--vary", "stimulus", "--from", "0", "--to", "4", "--rate", "0"),
                 "--rate 0.0", "positive");
+        // bounds that are no numbers are not an empty range
+        assertUserError(run("branches", DEMO, "--vary", "stimulus", "--from", "0", "--to", "Infinity"),
+                "--to Infinity", "the bound must be a finite number");
+        assertUserError(run("branches", DEMO, "--vary", "stimulus", "--from", "NaN", "--to", "4"),
+                "--from NaN", "the bound must be a finite number");
+        assertUserError(run("region", DEMO, "--vary", "stimulus", "--from", "0", "--to", "4", "--and", "K_inh",
+                "--from2", "-Infinity", "--to2", "1"), "--from2 -Infinity", "the bound must be a finite number");
         // too many samples: refused in one line before anything is allocated (was an OutOfMemoryError)
         assertUserError(run("sweep", DEMO, "--vary", "stimulus", "--from", "0", "--to", "4", "--rate", "0.1",
                 "--samples", "100000000"), "--samples 100000000", "between 3 and 1000000");
