@@ -345,6 +345,24 @@ class SwitchCommandsTest {
         assertFalse(h.err().contains("warning"), h.err());
     }
 
+    @Test
+    void regionTracesBothFoldCurvesWhenNoCuspJoinsThem() {
+        // hill-switch.xml in (s, d) over [-0.5, 0.5] x [0.5, 2]: the cusp (max h'(x) = 2.13 = d) lies outside the
+        // box, so the switch-on and switch-off folds lie on two separate curves and the bistable band lies between
+        // them. Reference area: the closed-form fold curves s = d x - h(x) at h'(x) = d (derived by hand), the band
+        // clipped to the box and integrated over d with SciPy quad: 0.3262596557656887.
+        Path json = dir.resolve("region-hill.json");
+        Result r = run("region", res("hill-switch.xml"), "--vary", "s", "--from", "-0.5", "--to", "0.5", "--and",
+                "d", "--from2", "0.5", "--to2", "2", "--json", json.toString());
+        assertEquals(0, r.code(), r.err());
+        RegionFile f = Json.read(json, RegionFile.class);
+        assertEquals(2, f.curves().size(), r.out());
+        java.util.regex.Matcher m = java.util.regex.Pattern.compile("bistable area ([0-9.eE+-]+)").matcher(r.out());
+        assertTrue(m.find(), r.out());
+        // chords between ~20 points per curve under-resolve the curved boundary by O(h^2): 2e-3 relative
+        assertEquals(0.3262596557656887, Double.parseDouble(m.group(1)), 2e-3 * 0.3263, r.out());
+    }
+
     private static void assertUserError(Result r, String... fragments) {
         assertEquals(Main.EXIT_USER_ERROR, r.code(), "stderr: " + r.err() + " stdout: " + r.out());
         String err = r.err().strip();
