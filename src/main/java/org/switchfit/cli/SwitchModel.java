@@ -254,11 +254,21 @@ final class SwitchModel {
         }
     }
 
-    /** The full state after integrating for time t from y with (effective) parameters p. */
-    private double[] integrate(double[] p, double[] y, double t) {
+    /**
+     * The full state after integrating for time t from y with (effective) parameters p. The outputs are the state
+     * vector itself (amounts of species whose state is the amount), not what {@code simulate} reports.
+     */
+    double[] integrate(double[] p, double[] y, double t) {
+        List<String> names = new ArrayList<>();
+        OdeForm form = compiled.form();
+        for (int i = 0; i < states.size(); i++) {
+            String id = states.get(i);
+            Species sp = form.stateKind(i) == OdeForm.StateKind.SPECIES_AMOUNT ? model.species(id) : null;
+            names.add(sp != null && !sp.hasOnlySubstanceUnits() ? "amount(" + id + ")" : id);
+        }
         Trajectory tr = new Simulator(compiled, Integrators.create(SolverSettings.defaults()
                 .withMethod(SolverSettings.Method.BDF).withTolerances(1e-8, 1e-12)))
-                .simulate(new double[] {0, t}, withInitialState(p, y), ModelOutputs.of(compiled, states));
+                .simulate(new double[] {0, t}, withInitialState(p, y), ModelOutputs.of(compiled, names));
         double[] out = new double[states.size()];
         for (int i = 0; i < out.length; i++) {
             out[i] = tr.value(1, i);
@@ -266,13 +276,25 @@ final class SwitchModel {
         return out;
     }
 
-    /** Copy of the (effective) parameters p with the species initial values replaced by the full state y. */
+    /**
+     * Copy of the (effective) parameters p with the species initial values replaced by the full state y: an
+     * amount state of a species declared by its initial concentration is divided by its compartment size (from p),
+     * as the initial values multiply it back.
+     */
     double[] withInitialState(double[] p, double[] y) {
         double[] q = p.clone();
+        OdeForm form = compiled.form();
         for (int i = 0; i < states.size(); i++) {
-            int k = compiled.parameterIndex(states.get(i));
+            String id = states.get(i);
+            int k = compiled.parameterIndex(id);
             if (k >= 0) {
                 q[k] = y[i];
+                if (form.stateKind(i) == OdeForm.StateKind.SPECIES_AMOUNT && form.speciesDeclaredAsConcentration(id)) {
+                    int c = compiled.parameterIndex(model.species(id).compartment());
+                    if (c >= 0) {
+                        q[k] = y[i] / p[c];
+                    }
+                }
             }
         }
         return q;
