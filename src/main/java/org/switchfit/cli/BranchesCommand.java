@@ -28,9 +28,10 @@ import picocli.CommandLine.Spec;
 /**
  * {@code switchfit branches}: pseudo-arclength continuation of the steady states in one control quantity, both
  * directions from the steady state at the start value, with folds (refined) and Hopf points. Prints one line per
- * fold or Hopf point and a summary; writes {@code branches.json} content ({@link BranchesFile}) and a CSV. States
- * are the model's state vector: species amounts (concentrations only for species with rate rules), as in
- * {@code OdeForm}.
+ * fold or Hopf point and a summary; writes {@code branches.json} content ({@link BranchesFile}) and a CSV. The
+ * continuation runs on the model's state vector (species amounts, see {@code OdeForm}); states are written as
+ * {@code simulate} reports them: concentrations for species with hasOnlySubstanceUnits=false, amounts otherwise,
+ * with the compartment size of each point (it may be the control).
  */
 @Command(name = "branches", mixinStandardHelpOptions = true,
         footer = {"", "Examples:", "  switchfit branches models/stress_switch.xml --vary stimulus --from 0 --to 4 --json branches.json", "  switchfit branches fits/mine --vary stimulus --from 0 --to 4", "  switchfit branches fits/mine/model_fitted.xml --vary stimulus --from 0 --to 4 --set k_rec=2"},
@@ -82,6 +83,7 @@ public final class BranchesCommand implements Callable<Integer> {
         }
         long t0 = System.nanoTime();
         SwitchSetup.Start s = setup.start();
+        SwitchSetup.printCaveats(s, false, spec.commandLine().getErr());
         ContinuationSettings cs = SwitchSetup.settings(s.control, setup.from, setup.to).withMaxPoints(maxPoints)
                 .withLinearAlgebra(lu);
         long t1 = System.nanoTime();
@@ -331,13 +333,13 @@ public final class BranchesCommand implements Callable<Integer> {
         for (Fold f : b.folds()) {
             q[k] = lam(sc, f.parameter());
             specials.add(new BranchesFile.Special("fold" + i++, s.control.label(), s.control.toUser(q[k]),
-                    stateMap(ids, s.sm.reduced.fullState(x(sc, f.state()), q)), BranchesFile.Kind.FOLD));
+                    stateMap(ids, reported(s, x(sc, f.state()), q)), BranchesFile.Kind.FOLD));
         }
         i = 1;
         for (Hopf h : b.hopfs()) {
             q[k] = lam(sc, h.parameter());
             specials.add(new BranchesFile.Special("hopf" + i++, s.control.label(), s.control.toUser(q[k]),
-                    stateMap(ids, s.sm.reduced.fullState(x(sc, h.state()), q)), BranchesFile.Kind.HOPF));
+                    stateMap(ids, reported(s, x(sc, h.state()), q)), BranchesFile.Kind.HOPF));
         }
         List<BranchesFile.Point> pts = new ArrayList<>();
         BranchPoint prev = null;
@@ -348,11 +350,16 @@ public final class BranchesCommand implements Callable<Integer> {
             }
             prev = bp;
             q[k] = lam(sc, bp.parameter());
-            pts.add(new BranchesFile.Point(s.control.toUser(q[k]), s.sm.reduced.fullState(x(sc, bp.state()), q),
+            pts.add(new BranchesFile.Point(s.control.toUser(q[k]), reported(s, x(sc, bp.state()), q),
                     ContinuationFiles.stability(bp), bp.eigenReal(), bp.eigenImag()));
         }
         return new BranchesFile(s.control.label(), new double[] {a, bHi}, ids, specials,
                 List.of(new BranchesFile.Branch("branch1", pts)), List.of());
+    }
+
+    /** The full state of reduced state x at q in the quantities {@code simulate} reports (concentrations). */
+    private static double[] reported(SwitchSetup.Start s, double[] x, double[] q) {
+        return s.sm.reportedAt(s.sm.reduced.fullState(x, q), q, s.pEff);
     }
 
     private static double lam(ScaledSystem sc, double v) {

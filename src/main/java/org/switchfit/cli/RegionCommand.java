@@ -56,6 +56,7 @@ public final class RegionCommand implements Callable<Integer> {
         SwitchSetup.checkRange("--from2", "--to2", from2, to2);
         // the second quantity's start value goes in first, then the steady state is found
         SwitchSetup.Start s0 = setup.start();
+        SwitchSetup.printCaveats(s0, false, spec.commandLine().getErr());
         ControlQuantity c2 = ControlQuantity.resolve(s0.sm, second, "--and", s0.sm.reduced.fullState(s0.x, s0.q),
                 s0.q, s0.pEff);
         if (c2.index() == s0.control.index()) {
@@ -85,10 +86,15 @@ public final class RegionCommand implements Callable<Integer> {
         for (RegionFile.Cusp c : file.cusps()) {
             out.printf(Locale.ROOT, "cusp at %s = %.12g, %s = %.12g%n", c1.label(), c.p1(), c2.label(), c.p2());
         }
-        out.printf(Locale.ROOT, "%d fold-curve points (ends: %s, %s), %d cusp(s), bistable area %.6g in "
-                        + "(%s, %s)%s%n", curve.points().size(), curve.startEnd(), curve.finishEnd(), file.cusps().size(),
-                Math.abs(region.area() * c1.scale() * c2.scale()), c1.label(), c2.label(),
-                region.closedByChord() ? " (polygon closed by a chord)" : "");
+        out.printf(Locale.ROOT, "%d fold-curve points (ends: %s, %s)%s, %d cusp(s), bistable area %.6g in "
+                        + "(%s, %s)%s%n", curve.points().size(), curve.startEnd(), curve.finishEnd(),
+                t.curveCount() > 1 ? String.format(Locale.ROOT, " and %d more separate fold curve(s)",
+                        t.curveCount() - 1) : "", file.cusps().size(), t.note() != null ? Double.NaN
+                        : Math.abs(region.area() * c1.scale() * c2.scale()), c1.label(), c2.label(),
+                region.closedByChord() && t.note() == null ? " (polygon closed by a chord)" : "");
+        if (t.note() != null) {
+            out.println("note: " + t.note());
+        }
         out.flush();
         Path jsonOut = setup.output(json, "region.json");
         if (jsonOut != null) {
@@ -97,14 +103,19 @@ public final class RegionCommand implements Callable<Integer> {
         return 0;
     }
 
-    /** A traced fold curve, its bistable region and the file record of both (user units). */
-    record Traced(FoldCurve curve, BistableRegion region, RegionFile file) {
+    /**
+     * The first traced fold curve, how many separate curves were traced (one per fold of the branch not joined
+     * to an earlier one through a cusp), the bistable region they bound, the file record (user units) and a note
+     * when the region could not be built (else null).
+     */
+    record Traced(FoldCurve curve, int curveCount, BistableRegion region, RegionFile file, String note) {
     }
 
     /**
-     * The fold curve in (control of {@code s0}, {@code c2}) started from the first fold of {@code b}, the bistable
-     * region it bounds in the box, and its {@code region.json} record: the command's computation, also used by the
-     * demo.
+     * The fold curves in (control of {@code s0}, {@code c2}) started from the folds of {@code b} (a fold already on
+     * a traced curve, joined through a cusp, starts none: without a cusp in the box the switch-on and switch-off
+     * folds lie on separate curves), the bistable region they bound in the box, and the {@code region.json}
+     * record: the command's computation, also used by the demo.
      *
      * @throws UserInputException when the fold-curve continuation fails
      */
@@ -115,16 +126,42 @@ public final class RegionCommand implements Callable<Integer> {
         double q2b = c2.toQ(to2);
         double lo2 = Math.min(q2a, q2b);
         double hi2 = Math.max(q2a, q2b);
-        FoldCurve curve;
-        try {
-            double[] q = s0.q.clone();
-            curve = new FoldCurves(cs, lo2, hi2).trace(s0.sm.reduced, b.folds().get(0), q, c2.index());
-        } catch (ContinuationException e) {
-            throw new UserInputException(SourceLocation.ofFile(setup.modelFile.toString()), "fold-curve "
-                    + "continuation in (" + setup.vary + ", " + second + ") failed: " + e.getMessage()
-                    + "; try narrower ranges");
+        List<FoldCurve> curves = new ArrayList<>();
+        double q2 = s0.q[c2.index()];
+        double tol1 = 1e-3 * (cs.upperBound() - cs.lowerBound());
+        for (org.switchfit.continuation.Fold f : b.folds()) {
+            boolean known = false;
+            for (FoldCurve c : curves) {
+                known |= passesThrough(c, f.parameter(), q2, tol1);
+            }
+            if (known) {
+                continue; // joined to an earlier fold through a cusp: the same curve
+            }
+            try {
+                double[] q = s0.q.clone();
+                curves.add(new FoldCurves(cs, lo2, hi2).trace(s0.sm.reduced, f, q, c2.index()));
+            } catch (ContinuationException e) {
+                throw new UserInputException(SourceLocation.ofFile(setup.modelFile.toString()), "fold-curve "
+                        + "continuation in (" + setup.vary + ", " + second + ") failed: " + e.getMessage()
+                        + "; try narrower ranges");
+            }
         }
-        BistableRegion region = BistableRegion.of(curve, cs.lowerBound(), cs.upperBound(), lo2, hi2);
+        FoldCurve curve = curves.get(0);
+        BistableRegion region;
+        String note = null;
+        if (curves.size() == 1) {
+            region = BistableRegion.of(curve, cs.lowerBound(), cs.upperBound(), lo2, hi2);
+        } else {
+            region = curves.size() == 2 ? BistableRegion.between(curves.get(0), curves.get(1), cs.lowerBound(),
+                    cs.upperBound(), lo2, hi2) : null;
+            if (region == null) {
+                // the area between more than two curves, or curves ending inside the box, is not built: say so
+                region = new BistableRegion(new double[0][], List.of(), true);
+                note = String.format(Locale.ROOT, "%d separate fold curves were traced; the bistable region "
+                        + "between them is not computed (area NaN); narrow or widen the ranges so each curve runs "
+                        + "from edge to edge of the box", curves.size());
+            }
+        }
         ControlQuantity c1 = s0.control;
         double[] x1 = new double[curve.points().size()];
         double[] x2 = new double[x1.length];
@@ -143,9 +180,43 @@ public final class RegionCommand implements Callable<Integer> {
             y1[i] = c1.toUser(poly[i][0]);
             y2[i] = c2.toUser(poly[i][1]);
         }
+        List<RegionFile.Curve> fileCurves = new ArrayList<>();
+        fileCurves.add(new RegionFile.Curve(x1, x2));
+        for (int k = 1; k < curves.size(); k++) {
+            FoldCurve ck = curves.get(k);
+            double[] z1 = new double[ck.points().size()];
+            double[] z2 = new double[z1.length];
+            for (int i = 0; i < z1.length; i++) {
+                z1[i] = c1.toUser(ck.points().get(i).p1());
+                z2[i] = c2.toUser(ck.points().get(i).p2());
+            }
+            fileCurves.add(new RegionFile.Curve(z1, z2));
+            for (FoldCurve.Cusp c : ck.cusps()) {
+                cusps.add(new RegionFile.Cusp(c1.toUser(c.p1()), c2.toUser(c.p2())));
+            }
+        }
         RegionFile file = new RegionFile(c1.label(), c2.label(), new double[] {setup.from, setup.to},
-                new double[] {from2, to2}, List.of(new RegionFile.Curve(x1, x2)), cusps,
+                new double[] {from2, to2}, fileCurves, cusps,
                 new RegionFile.Curve(y1, y2), region.closedByChord(), null);
-        return new Traced(curve, region, file);
+        return new Traced(curve, curves.size(), region, file, note);
+    }
+
+    /**
+     * Whether the fold curve c crosses the line p2 = q2 at p1 within tol1 (linear interpolation between its
+     * points): then a fold of the branch at (p1, q2) lies on c.
+     */
+    static boolean passesThrough(FoldCurve c, double p1, double q2, double tol1) {
+        List<FoldCurve.Point> pts = c.points();
+        for (int i = 0; i + 1 < pts.size(); i++) {
+            FoldCurve.Point a = pts.get(i);
+            FoldCurve.Point e = pts.get(i + 1);
+            if ((a.p2() - q2) * (e.p2() - q2) <= 0) {
+                double t = a.p2() == e.p2() ? 0 : (q2 - a.p2()) / (e.p2() - a.p2());
+                if (Math.abs(a.p1() + t * (e.p1() - a.p1()) - p1) <= tol1) {
+                    return true;
+                }
+            }
+        }
+        return false;
     }
 }

@@ -36,6 +36,14 @@ import picocli.CommandLine.Spec;
         description = "Simulate a slow ramp of a control quantity up and down and report where the response jumps.")
 public final class SweepCommand implements Callable<Integer> {
 
+    /**
+     * Most samples per ramp. Each sample is kept in about ten double arrays along the way (sweep, user units, the
+     * file record) and written as two numbers of ~20 characters to JSON and CSV: 1e6 samples are ~100 MB of
+     * memory and ~80 MB of files for the two ramps, the most a default JVM heap and the HTML report handle; the
+     * jump is located to 1e-6 of the range, finer than the integrator's tolerances make meaningful.
+     */
+    static final int MAX_SAMPLES = 1_000_000;
+
     @Spec
     picocli.CommandLine.Model.CommandSpec spec;
 
@@ -49,8 +57,8 @@ public final class SweepCommand implements Callable<Integer> {
     @Option(names = "--readout", paramLabel = "SPECIES", description = "state followed (default: the first state)")
     String readout;
 
-    @Option(names = "--samples", defaultValue = "401", paramLabel = "N", description = "samples per ramp "
-            + "(default: ${DEFAULT-VALUE})")
+    @Option(names = "--samples", defaultValue = "401", paramLabel = "N", description = "samples per ramp, 3 to "
+            + "1000000 (default: ${DEFAULT-VALUE})")
     int samples;
 
     @Option(names = "--json", paramLabel = "FILE", description = "write the ramps as JSON")
@@ -64,19 +72,22 @@ public final class SweepCommand implements Callable<Integer> {
         if (!(rate > 0) || !Double.isFinite(rate)) {
             throw new UserInputException(null, "--rate " + rate + ": need a positive ramp speed, e.g. 0.01");
         }
-        if (samples < 3) {
-            throw new UserInputException(null, "--samples " + samples + ": need at least 3");
+        if (samples < 3 || samples > MAX_SAMPLES) {
+            throw new UserInputException(null, String.format(Locale.ROOT, "--samples %d: need between 3 and %d "
+                    + "samples per ramp", samples, MAX_SAMPLES));
         }
-        SweepFile file = sweep(setup, setup.start(), readout, rate, samples);
+        List<SweepResult> results = new ArrayList<>();
+        SwitchSetup.Start start = setup.start();
+        SwitchSetup.printCaveats(start, true, spec.commandLine().getErr());
+        SweepFile file = sweep(setup, start, readout, rate, samples, results);
         String ro = file.readout();
         String label = file.parameter();
         List<SweepFile.Run> runs = file.runs();
         PrintWriter out = spec.commandLine().getOut();
-        for (SweepFile.Run r : runs) {
-            SweepFile.Jump j = r.jumps().get(0);
-            out.printf(Locale.ROOT, "%s ramp at %s per time unit: steepest change of %s at %s = %.8g (%.6g -> "
-                    + "%.6g)%n", r.direction() == SweepFile.Direction.UP ? "up" : "down", SwitchSetup.fmt(rate), ro,
-                    label, j.value(), j.before(), j.after());
+        for (int d = 0; d < runs.size(); d++) {
+            SweepFile.Run r = runs.get(d);
+            out.printf(Locale.ROOT, "%s ramp at %s per time unit: %s%n", r.direction() == SweepFile.Direction.UP
+                    ? "up" : "down", SwitchSetup.fmt(rate), describe(results.get(d), r, ro, label));
         }
         out.flush();
         Path jsonOut = setup.output(json, "sweep.json");
@@ -119,7 +130,8 @@ public final class SweepCommand implements Callable<Integer> {
 
     /**
      * The ramp in user units. The sweep's readout is on the reduced state; the constant part of a dependent
-     * species (its total divided by its coefficient) is added back per sample.
+     * species (its total divided by its coefficient) is added back per sample, and the amount is reported as
+     * {@code simulate} reports the species (concentration unless hasOnlySubstanceUnits).
      */
     private static SweepFile.Run run(SweepFile.Direction d, SweepResult r, SwitchSetup.Start s, int ri) {
         ControlQuantity c = s.control;
@@ -131,15 +143,53 @@ public final class SweepCommand implements Callable<Integer> {
         for (int i = 0; i < v.length; i++) {
             v[i] = c.toUser(lam[i]);
             q[c.index()] = lam[i];
-            y[i] += s.sm.reduced.fullState(zero, q)[ri];
+            double[] full = s.sm.reduced.fullState(zero, q);
+            y[i] += full[ri];
+            // the readout as simulate reports it: the amount held in the state divided by the compartment size
+            // of this sample (a concentration unless hasOnlySubstanceUnits)
+            full[ri] = y[i];
+            y[i] = s.sm.reportedAt(full, q, s.pEff)[ri];
         }
-        double jq = r.jumpParameter();
-        int i = 0;
-        while (i + 1 < lam.length && (lam[i + 1] - jq) * Math.signum(lam[lam.length - 1] - lam[0]) <= 0) {
-            i++;
+        List<SweepFile.Jump> jumps = r.jumpIndex() < 0 ? List.of() : List.of(new SweepFile.Jump(
+                c.toUser(r.jumpParameter()), y[r.jumpIndex()], y[r.jumpIndex() + 1]));
+        return new SweepFile.Run(d, v, y, jumps);
+    }
+
+    /**
+     * The terminal line of a ramp: the jump with the sample interval it happened in, or that there is none, or
+     * that the readout oscillates (then the largest change is no jump between branches).
+     */
+    static String describe(SweepResult res, SweepFile.Run r, String ro, String label) {
+        double[] v = r.values();
+        double[] y = r.response();
+        switch (res.response()) {
+            case JUMP: {
+                int i = res.jumpIndex();
+                return String.format(Locale.ROOT, "%s jumps from %.6g to %.6g between %s = %.8g and %.8g "
+                        + "(largest change between consecutive samples)", ro, y[i], y[i + 1], label, v[i], v[i + 1]);
+            }
+            case OSCILLATION: {
+                double lo = Double.POSITIVE_INFINITY;
+                double hi = Double.NEGATIVE_INFINITY;
+                for (double x : y) {
+                    lo = Math.min(lo, x);
+                    hi = Math.max(hi, x);
+                }
+                return String.format(Locale.ROOT, "%s oscillates (its increments change sign again and again, "
+                        + "between %.6g and %.6g), so no jump is reported; compare with the Hopf points of "
+                        + "'switchfit branches'", ro, lo, hi);
+            }
+            default: {
+                double lo = Double.POSITIVE_INFINITY;
+                double hi = Double.NEGATIVE_INFINITY;
+                for (double x : y) {
+                    lo = Math.min(lo, x);
+                    hi = Math.max(hi, x);
+                }
+                return String.format(Locale.ROOT, "no jump of %s (it stays within %.6g .. %.6g without a step "
+                        + "larger than twice its mean step)", ro, lo, hi);
+            }
         }
-        int after = Math.min(i + 1, lam.length - 1);
-        return new SweepFile.Run(d, v, y, List.of(new SweepFile.Jump(c.toUser(jq), y[i], y[after])));
     }
 
     /**
@@ -152,6 +202,12 @@ public final class SweepCommand implements Callable<Integer> {
      * @throws UserInputException for an unknown readout or a failed integration
      */
     static SweepFile sweep(SwitchSetup setup, SwitchSetup.Start s, String readout, double rate, int samples) {
+        return sweep(setup, s, readout, rate, samples, new ArrayList<>());
+    }
+
+    /** As {@link #sweep(SwitchSetup, SwitchSetup.Start, String, double, int)}; the two ramps also go to results. */
+    static SweepFile sweep(SwitchSetup setup, SwitchSetup.Start s, String readout, double rate, int samples,
+                           List<SweepResult> results) {
         // start the analysis at A: the up ramp begins there
         double[] range = {setup.from, setup.to};
         SwitchModel sm = s.sm;
@@ -189,6 +245,8 @@ public final class SweepCommand implements Callable<Integer> {
                     + setup.vary + " failed: " + e.getMessage() + "; try a smaller --rate, a narrower range or "
                     + "other --set values");
         }
+        results.add(up);
+        results.add(down);
         List<SweepFile.Run> runs = List.of(run(SweepFile.Direction.UP, up, s, ri),
                 run(SweepFile.Direction.DOWN, down, s, ri));
         SweepFile file = new SweepFile(c.label(), ro, rate, runs);

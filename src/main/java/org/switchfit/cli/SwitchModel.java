@@ -50,6 +50,11 @@ final class SwitchModel {
     final List<String> states;
     /** The active part of the network the laws were computed on, or null for the whole stoichiometry. */
     final ActiveNetwork network;
+    /**
+     * The states as {@code simulate} reports them (species: concentration unless hasOnlySubstanceUnits), while the
+     * state vector holds species amounts: the two differ by the compartment size, which may depend on the control.
+     */
+    private final ModelOutputs reportedStates;
 
     private SwitchModel(Path file, Model model, CompiledModel compiled, ConservationLaws laws,
                         ActiveNetwork network) {
@@ -60,6 +65,30 @@ final class SwitchModel {
         this.network = network;
         this.reduced = laws.reduce(compiled);
         this.states = compiled.form().stateIds();
+        this.reportedStates = ModelOutputs.of(compiled, states);
+    }
+
+    /**
+     * The full state y (amounts, as the ODE holds them) converted to the quantities {@code simulate} reports for
+     * the same ids: concentrations for species with hasOnlySubstanceUnits=false, whatever the compartment size.
+     *
+     * @param y    full state
+     * @param pEff effective parameters with the control (and any --set) applied; compartment sizes are read here
+     */
+    double[] reported(double[] y, double[] pEff) {
+        double[] out = new double[states.size()];
+        reportedStates.evaluate(0, y, pEff, out);
+        return out;
+    }
+
+    /**
+     * {@link #reported} at reduced parameters q: the original parameters of q are copied over {@code pEff}, so a
+     * varied compartment size is the one of the point.
+     */
+    double[] reportedAt(double[] y, double[] q, double[] pEff) {
+        double[] p = pEff.clone();
+        System.arraycopy(q, 0, p, 0, Math.min(p.length, reduced.originalParameterCount()));
+        return reported(y, p);
     }
 
     /** Reads, compiles and reduces. Timings of the two phases go to {@code timing} (seconds) when non-null. */
@@ -225,11 +254,21 @@ final class SwitchModel {
         }
     }
 
-    /** The full state after integrating for time t from y with (effective) parameters p. */
-    private double[] integrate(double[] p, double[] y, double t) {
+    /**
+     * The full state after integrating for time t from y with (effective) parameters p. The outputs are the state
+     * vector itself (amounts of species whose state is the amount), not what {@code simulate} reports.
+     */
+    double[] integrate(double[] p, double[] y, double t) {
+        List<String> names = new ArrayList<>();
+        OdeForm form = compiled.form();
+        for (int i = 0; i < states.size(); i++) {
+            String id = states.get(i);
+            Species sp = form.stateKind(i) == OdeForm.StateKind.SPECIES_AMOUNT ? model.species(id) : null;
+            names.add(sp != null && !sp.hasOnlySubstanceUnits() ? "amount(" + id + ")" : id);
+        }
         Trajectory tr = new Simulator(compiled, Integrators.create(SolverSettings.defaults()
                 .withMethod(SolverSettings.Method.BDF).withTolerances(1e-8, 1e-12)))
-                .simulate(new double[] {0, t}, withInitialState(p, y), ModelOutputs.of(compiled, states));
+                .simulate(new double[] {0, t}, withInitialState(p, y), ModelOutputs.of(compiled, names));
         double[] out = new double[states.size()];
         for (int i = 0; i < out.length; i++) {
             out[i] = tr.value(1, i);
@@ -237,13 +276,25 @@ final class SwitchModel {
         return out;
     }
 
-    /** Copy of the (effective) parameters p with the species initial values replaced by the full state y. */
+    /**
+     * Copy of the (effective) parameters p with the species initial values replaced by the full state y: an
+     * amount state of a species declared by its initial concentration is divided by its compartment size (from p),
+     * as the initial values multiply it back.
+     */
     double[] withInitialState(double[] p, double[] y) {
         double[] q = p.clone();
+        OdeForm form = compiled.form();
         for (int i = 0; i < states.size(); i++) {
-            int k = compiled.parameterIndex(states.get(i));
+            String id = states.get(i);
+            int k = compiled.parameterIndex(id);
             if (k >= 0) {
                 q[k] = y[i];
+                if (form.stateKind(i) == OdeForm.StateKind.SPECIES_AMOUNT && form.speciesDeclaredAsConcentration(id)) {
+                    int c = compiled.parameterIndex(model.species(id).compartment());
+                    if (c >= 0) {
+                        q[k] = y[i] / p[c];
+                    }
+                }
             }
         }
         return q;

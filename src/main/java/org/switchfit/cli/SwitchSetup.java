@@ -96,6 +96,8 @@ final class SwitchSetup {
          * the relaxations of rules 4 and 5 and the first, lazy, compilation of the Jacobian; laws excluded).
          */
         double[] timing = new double[5];
+        /** Notes on the options for the user (e.g. a --set the range overrides), one line each. */
+        java.util.List<String> notes = new java.util.ArrayList<>();
     }
 
     /** Loads the model, resolves the control, finds the steady state at the model's value (if in range) or A. */
@@ -109,6 +111,14 @@ final class SwitchSetup {
         s.startState = ini[0];
         s.q = s.sm.reduced.parameters(ini[1], ini[0]);
         s.control = ControlQuantity.resolve(s.sm, vary, "--vary", ini[0], s.q, s.pEff);
+        String setKey = vary.strip().startsWith("init:") ? vary.strip().substring(5).strip() : vary.strip();
+        for (String key : sets.keySet()) {
+            if (key.strip().equals(setKey) && !vary.strip().startsWith("total:")) {
+                s.notes.add(String.format(Locale.ROOT, "note: --set %s=%s is overridden by the range of --vary %s "
+                        + "(it only picks the start of the analysis when it lies in [--from, --to])", key,
+                        sets.get(key), vary));
+            }
+        }
         double model = s.control.toUser(s.q[s.control.index()]);
         s.startValue = model >= from && model <= to ? model : from;
         long t0 = System.nanoTime();
@@ -173,6 +183,48 @@ final class SwitchSetup {
         return out;
     }
 
+    /**
+     * Warnings about what the analysis leaves out of the model, one line each (empty when nothing): continuation
+     * assumes a smooth, autonomous right-hand side without events, so state-dependent piecewise switches (the
+     * branch may jump at them and miss folds), events (ignored) and explicit time (evaluated at t = 0) are named.
+     * A ramp ({@code sweep}) integrates through switches, so only events and time are named for it.
+     *
+     * @param ramp true for {@code sweep}, false for {@code branches} and {@code region}
+     */
+    static java.util.List<String> caveats(SwitchModel sm, boolean ramp) {
+        java.util.List<String> out = new java.util.ArrayList<>();
+        java.util.List<org.switchfit.expr.Expr> sw = sm.compiled.stateRhsSwitchConditions();
+        if (!ramp && !sw.isEmpty()) {
+            out.add(String.format(Locale.ROOT, "warning: the right-hand side switches on the states (%d piecewise "
+                    + "condition(s), e.g. %s); continuation assumes a smooth right-hand side, so results may jump "
+                    + "at these non-smooth points and miss folds or branches there; check with 'switchfit sweep' "
+                    + "or 'switchfit simulate'", sw.size(), sw.get(0)));
+        }
+        int events = sm.compiled.form().events().size();
+        if (events > 0) {
+            out.add(String.format(Locale.ROOT, "warning: the model has %d event(s); %s ignores events (the "
+                    + "results are those of the model without them)", events, ramp ? "the ramp" : "continuation"));
+        }
+        if (sm.compiled.rhsUsesTime()) {
+            out.add(ramp ? "warning: the right-hand side depends on time explicitly; the ramp uses its own time "
+                    + "(0 at its start) as model time, so the response mixes the ramp with the time dependence"
+                    : "warning: the right-hand side depends on time explicitly; continuation ignores the time "
+                    + "dependence and evaluates it at time 0 (steady states of the model frozen at t = 0)");
+        }
+        return out;
+    }
+
+    /** Prints the notes of the start ({@link Start#notes}) and {@link #caveats} to err. */
+    static void printCaveats(Start s, boolean ramp, java.io.PrintWriter err) {
+        for (String w : s.notes) {
+            err.println(w);
+        }
+        for (String w : caveats(s.sm, ramp)) {
+            err.println(w);
+        }
+        err.flush();
+    }
+
     /** Continuation settings for the control range in q units. */
     static ContinuationSettings settings(ControlQuantity c, double a, double b) {
         double qa = c.toQ(a);
@@ -202,7 +254,14 @@ final class SwitchSetup {
     }
 
     static void checkRange(String lo, String hi, double a, double b) {
-        if (!Double.isFinite(a) || !Double.isFinite(b) || !(a < b)) {
+        for (int k = 0; k < 2; k++) {
+            double v = k == 0 ? a : b;
+            if (!Double.isFinite(v)) {
+                throw new UserInputException(null, String.format(Locale.ROOT, "%s %s: the bound must be a finite "
+                        + "number; give one like 0 or 2.5", k == 0 ? lo : hi, fmt(v)));
+            }
+        }
+        if (!(a < b)) {
             throw new UserInputException(null, String.format(Locale.ROOT, "%s %s %s %s: the range is empty; give "
                     + "%s smaller than %s", lo, fmt(a), hi, fmt(b), lo, hi));
         }

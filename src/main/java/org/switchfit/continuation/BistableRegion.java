@@ -74,6 +74,80 @@ public record BistableRegion(double[][] polygon, List<FoldCurve.Cusp> cusps, boo
         return new BistableRegion(v.toArray(new double[0][]), curve.cusps(), chord);
     }
 
+    /**
+     * Region between two separate fold curves (no cusp joins them inside the box, e.g. the switch-on and switch-off
+     * folds of a switch whose cusp lies outside), each running from box edge to box edge: curve a, the box boundary
+     * from its end to the nearer end of b (the way that does not pass a's start), curve b, and the boundary back to
+     * a's start the same way round. Null when an end of either curve is not on the box.
+     */
+    public static BistableRegion between(FoldCurve a, FoldCurve b, double lo1, double hi1, double lo2, double hi2) {
+        for (FoldCurve c : List.of(a, b)) {
+            if (c.startEnd() != Branch.EndReason.BOUNDARY || c.finishEnd() != Branch.EndReason.BOUNDARY
+                    || c.points().size() < 2) {
+                return null;
+            }
+        }
+        double[] box = {lo1, hi1, lo2, hi2};
+        double per = 2 * (hi1 - lo1) + 2 * (hi2 - lo2);
+        List<double[]> pa = points(a);
+        List<double[]> pb = points(b);
+        double sA = perimeterPosition(pa.get(0), box);
+        double sB = perimeterPosition(pa.get(pa.size() - 1), box);
+        double sC = perimeterPosition(pb.get(0), box);
+        double sD = perimeterPosition(pb.get(pb.size() - 1), box);
+        double fA = ((sA - sB) % per + per) % per;
+        double fC = ((sC - sB) % per + per) % per;
+        double fD = ((sD - sB) % per + per) % per;
+        boolean forward = Math.min(fC, fD) < fA;
+        // backward distance from B to C is (per - fC) mod per
+        boolean cFirst = forward ? fC <= fD : (per - fC) % per <= (per - fD) % per;
+        if (!cFirst) {
+            java.util.Collections.reverse(pb);
+            double t = sC;
+            sC = sD;
+            sD = t;
+        }
+        List<double[]> v = new ArrayList<>(pa);
+        v.addAll(corners(sB, sC, forward, box));
+        v.addAll(pb);
+        v.addAll(corners(sD, sA, forward, box));
+        List<FoldCurve.Cusp> cusps = new ArrayList<>(a.cusps());
+        cusps.addAll(b.cusps());
+        return new BistableRegion(v.toArray(new double[0][]), cusps, false);
+    }
+
+    private static List<double[]> points(FoldCurve c) {
+        List<double[]> v = new ArrayList<>();
+        for (FoldCurve.Point pt : c.points()) {
+            v.add(new double[] {pt.p1(), pt.p2()});
+        }
+        return v;
+    }
+
+    /** The box corners passed going round the boundary from perimeter position s0 to s1, in order. */
+    private static List<double[]> corners(double s0, double s1, boolean forward, double[] box) {
+        double w = box[1] - box[0];
+        double h = box[3] - box[2];
+        double per = 2 * w + 2 * h;
+        double[][] corner = {{box[0], box[2]}, {box[1], box[2]}, {box[1], box[3]}, {box[0], box[3]}};
+        double[] pos = {0, w, w + h, 2 * w + h};
+        double total = forward ? ((s1 - s0) % per + per) % per : ((s0 - s1) % per + per) % per;
+        List<double[]> out = new ArrayList<>();
+        List<Double> dist = new ArrayList<>();
+        for (int k = 0; k < 4; k++) {
+            double d = forward ? ((pos[k] - s0) % per + per) % per : ((s0 - pos[k]) % per + per) % per;
+            if (d > 0 && d < total) {
+                int at = 0;
+                while (at < dist.size() && dist.get(at) < d) {
+                    at++;
+                }
+                dist.add(at, d);
+                out.add(at, corner[k]);
+            }
+        }
+        return out;
+    }
+
     /** Order of corner distance d among all corners' distances from sLast (0 = nearest). */
     private static int rank(double d, double[] cornerPos, double sLast, double per, boolean forward) {
         int r = 0;

@@ -7,7 +7,8 @@ import org.switchfit.ode.OdeSystem;
 
 /**
  * Simulated hysteresis experiment: the control parameter is ramped linearly, λ(t) = from + rate·t, and the
- * readout c^T y is sampled; the jump is where |d(c^T y)/dλ| = |c^T f| / |rate| is largest. As the ramp slows the
+ * readout c^T y is sampled; the jump is the largest change of the readout between consecutive samples (see
+ * {@link #classify}, which also tells a ramp without a jump or with an oscillating readout). As the ramp slows the
  * jumps approach the folds of the quasi-static branch, with a delay that scales like rate^{2/3} for a slow
  * passage through a saddle-node (Haberman 1979, "Slowly varying jump and transition phenomena associated with
  * algebraic bifurcation problems", SIAM J. Appl. Math. 37:69-106; volume and pages from memory, unverified). Starts
@@ -15,6 +16,9 @@ import org.switchfit.ode.OdeSystem;
  * {@link SteadyStateSolver}). Immutable and thread-safe when the integrator is.
  */
 public final class HysteresisSweep {
+    /** Sign changes of the readout's (non-negligible) increments from which a ramp counts as oscillating. */
+    static final int OSCILLATION_TURNS = 6;
+
     private final Integrator integrator;
     private final int samples;
 
@@ -61,43 +65,72 @@ public final class HysteresisSweep {
         double duration = (to - from) / r;
         double[] lam = new double[samples];
         double[] out = new double[samples];
-        double[] slope = new double[samples];
-        double[] f = new double[n + 1];
         for (int k = 0; k < samples; k++) {
             double t = duration * k / (samples - 1);
             if (k > 0) {
                 session.advance(t, z, null);
             }
             lam[k] = z[n];
-            double s = 0;
+            double v = 0;
             for (int i = 0; i < n; i++) {
-                s += readout[i] * z[i];
+                v += readout[i] * z[i];
             }
-            out[k] = s;
-            ramp.rhs(t, z, q, f);
-            double d = 0;
-            for (int i = 0; i < n; i++) {
-                d += readout[i] * f[i];
-            }
-            slope[k] = Math.abs(d / r);
+            out[k] = v;
         }
+        return classify(r, lam, out);
+    }
+
+    /**
+     * What the sampled readout did. The jump is the largest change between consecutive samples: a sampled
+     * derivative can miss a jump that happens between two samples (and be large where nothing jumps), the
+     * difference cannot. No jump when the readout is flat (largest change below 1e-9 of its magnitude: rounding
+     * and integration tolerances) or changes evenly (largest change at most twice the mean change: a straight
+     * line gives exactly the mean). Oscillation when the increments larger than 1 % of the readout's range change
+     * sign at least {@value #OSCILLATION_TURNS} times: a jump between branches is one monotone step, a damped
+     * approach to a focus after it turns a few times with shrinking increments (common practice; the 1 % and the
+     * count are judgement).
+     */
+    static SweepResult classify(double rate, double[] lam, double[] out) {
+        int m = out.length;
+        double lo = Double.POSITIVE_INFINITY;
+        double hi = Double.NEGATIVE_INFINITY;
+        double mag = 0;
         int best = 0;
-        for (int k = 1; k < samples; k++) {
-            if (slope[k] > slope[best]) {
-                best = k;
+        double sum = 0;
+        for (int k = 0; k < m; k++) {
+            lo = Math.min(lo, out[k]);
+            hi = Math.max(hi, out[k]);
+            mag = Math.max(mag, Math.abs(out[k]));
+            if (k + 1 < m) {
+                double d = Math.abs(out[k + 1] - out[k]);
+                sum += d;
+                if (d > Math.abs(out[best + 1] - out[best])) {
+                    best = k;
+                }
             }
         }
-        double jump = lam[best];
-        if (best > 0 && best < samples - 1) {
-            double a = slope[best - 1];
-            double b = slope[best];
-            double c = slope[best + 1];
-            double den = a - 2 * b + c;
-            if (den < 0) {
-                double off = 0.5 * (a - c) / den;
-                jump = lam[best] + off * (lam[best + 1] - lam[best - 1]) / 2;
+        double big = Math.abs(out[best + 1] - out[best]);
+        double range = hi - lo;
+        int turns = 0;
+        double lastSign = 0;
+        for (int k = 0; k + 1 < m; k++) {
+            double d = out[k + 1] - out[k];
+            if (Math.abs(d) > 0.01 * range) {
+                if (lastSign != 0 && Math.signum(d) != lastSign) {
+                    turns++;
+                }
+                lastSign = Math.signum(d);
             }
         }
-        return new SweepResult(r, lam, out, jump, slope[best]);
+        if (!(big > 1e-9 * mag)) {
+            return new SweepResult(rate, lam, out, SweepResult.Response.NO_JUMP, -1);
+        }
+        if (turns >= OSCILLATION_TURNS) {
+            return new SweepResult(rate, lam, out, SweepResult.Response.OSCILLATION, -1);
+        }
+        if (big <= 2 * sum / (m - 1)) {
+            return new SweepResult(rate, lam, out, SweepResult.Response.NO_JUMP, -1);
+        }
+        return new SweepResult(rate, lam, out, SweepResult.Response.JUMP, best);
     }
 }

@@ -36,6 +36,7 @@ public final class CompiledModel implements OdeSystem {
     private final List<Expr> rhsConditions;
     private final List<Expr> rhsSwitchingExprs;
     private final boolean[] rhsTimeOnly;
+    private final boolean rhsUsesTime;
     private final CompiledBlock allSwitching;
     private final int[][] pattern;
     private volatile CompiledBlock forcedRhs;
@@ -61,6 +62,7 @@ public final class CompiledModel implements OdeSystem {
         }
         this.rhsSwitchingExprs = List.copyOf(rsw);
         this.rhsTimeOnly = RhsSwitches.timeOnly(rt, rhsConditions);
+        this.rhsUsesTime = RhsSwitches.usesTime(rt);
         List<Block> blocks = new ArrayList<>(List.of(rt.prune(), localsBlock, form.initial(), sw));
         if (!rsw.isEmpty()) {
             List<Expr> all = new ArrayList<>(switchingFunctions);
@@ -566,6 +568,25 @@ public final class CompiledModel implements OdeSystem {
     /** Whether right-hand-side switch k depends on time only (not on states): its time is known in advance. */
     boolean rhsSwitchOnTimeOnly(int k) {
         return rhsTimeOnly[k];
+    }
+
+    /**
+     * The conditions of the right-hand-side switches that depend on the states (not on time alone): where the
+     * right-hand side is not smooth in y, which continuation assumes it is.
+     */
+    public List<Expr> stateRhsSwitchConditions() {
+        List<Expr> out = new ArrayList<>();
+        for (int k = 0; k < rhsConditions.size(); k++) {
+            if (!rhsTimeOnly[k]) {
+                out.add(rhsConditions.get(k));
+            }
+        }
+        return out;
+    }
+
+    /** Whether the derivatives depend on time explicitly (directly or through rules and rates they use). */
+    public boolean rhsUsesTime() {
+        return rhsUsesTime;
     }
 
     /** The conditions of the right-hand-side switches (for messages and tests). */

@@ -57,6 +57,25 @@ final class RhsSwitches {
         return out;
     }
 
+    /**
+     * Whether the outputs of {@code rt} (the derivatives) depend on time explicitly, directly or through the
+     * runtime locals they use: then the system has no steady states in the usual sense.
+     */
+    static boolean usesTime(Block rt) {
+        int nl = rt.localCount();
+        boolean[] timed = new boolean[nl];
+        for (int l = 0; l < nl; l++) {
+            boolean[] t = timed;
+            timed[l] = rt.local(l).contains(x -> x.op() == Op.TIME || x.op() == Op.LOCAL && t[x.index()]);
+        }
+        for (Expr o : rt.outputs()) {
+            if (o.contains(x -> x.op() == Op.TIME || x.op() == Op.LOCAL && timed[x.index()])) {
+                return true;
+            }
+        }
+        return false;
+    }
+
     private static void markLocals(Expr e, boolean[] used) {
         e.forEach(x -> {
             if (x.op() == Op.LOCAL) {

@@ -109,8 +109,9 @@ public final class ContinuationFiles {
     }
 
     /**
-     * {@code sweep.json} content; each ramp's direction follows the sign of its rate, and its one jump is placed at
-     * {@link SweepResult#jumpParameter()} with the readouts of the samples on either side.
+     * {@code sweep.json} content; each ramp's direction follows the sign of its rate, and its one jump (none when
+     * the ramp has no jump or oscillates) is placed at {@link SweepResult#jumpParameter()} with the readouts of the
+     * samples on either side.
      *
      * @param parameter control parameter id
      * @param readout   readout id
@@ -123,12 +124,9 @@ public final class ContinuationFiles {
             double[] p = r.parameter();
             double[] y = r.readout();
             List<SweepFile.Jump> jumps = new ArrayList<>();
-            double j = r.jumpParameter();
-            for (int i = 0; i + 1 < p.length && Double.isFinite(j); i++) {
-                if ((p[i] - j) * (p[i + 1] - j) <= 0 && p[i] != p[i + 1]) {
-                    jumps.add(new SweepFile.Jump(j, y[i], y[i + 1]));
-                    break;
-                }
+            int i = r.jumpIndex();
+            if (i >= 0) {
+                jumps.add(new SweepFile.Jump(r.jumpParameter(), y[i], y[i + 1]));
             }
             out.add(new SweepFile.Run(r.rate() >= 0 ? SweepFile.Direction.UP : SweepFile.Direction.DOWN, p, y,
                     jumps));

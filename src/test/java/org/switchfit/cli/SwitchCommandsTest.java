@@ -265,6 +265,104 @@ class SwitchCommandsTest {
         assertEquals(2 * 201 + 1, Files.readAllLines(csv).size());
     }
 
+    /** The switch-on fold of hill-switch.xml: bisection on d/dx (x - x^4 / (1/16 + x^4)) = 0 in (0.2, 0.5). */
+    private static double hillFoldOn() {
+        // closed form of the fold condition derived by hand: 1 = 4 x^3 K^4 / (K^4 + x^4)^2, K^4 = 1/16; the lower
+        // fold's x lies in (0.2, 0.5) (the function is 1 - 4 x^3 K^4 / (K^4 + x^4)^2: positive at 0.2, negative at
+        // 0.5)
+        double lo = 0.2;
+        double hi = 0.5;
+        for (int i = 0; i < 200; i++) {
+            double x = 0.5 * (lo + hi);
+            double g = 1 - 4 * x * x * x / 16 / Math.pow(1.0 / 16 + x * x * x * x, 2);
+            if (g > 0) {
+                lo = x;
+            } else {
+                hi = x;
+            }
+        }
+        double x = 0.5 * (lo + hi);
+        return x - x * x * x * x / (1.0 / 16 + x * x * x * x);
+    }
+
+    @Test
+    void sweepJumpIsTheLargestChangeBetweenSamplesAndNeverBeforeTheFold() {
+        double fold = hillFoldOn(); // 0.19189...
+        double h = 0.7 / 400; // sample spacing of the ramp from -0.2 to 0.5 with 401 samples
+        for (String rate : new String[] {"1e-9", "1e-5"}) {
+            Path json = dir.resolve("hill-" + rate + ".json");
+            Result r = run("sweep", res("hill-switch.xml"), "--vary", "s", "--from", "-0.2", "--to", "0.5",
+                    "--rate", rate, "--json", json.toString());
+            assertEquals(0, r.code(), r.err());
+            SweepFile.Run up = Json.read(json, SweepFile.class).runs().get(0);
+            SweepFile.Jump j = up.jumps().get(0);
+            // the jump leaves the lower branch (x < 0.5 there) for the upper one (x > 1) and its sample interval
+            // [value - h/2, value + h/2] ends after the fold: an up ramp cannot jump before it (slow passage
+            // delays the jump, Haberman 1979); at rate 1e-9 the delay (~rate^(2/3)) is far below one interval, so
+            // the interval holds the fold
+            assertTrue(j.before() < 0.5 && j.after() > 1, r.out());
+            assertTrue(j.value() + h / 2 > fold, r.out());
+            if (rate.equals("1e-9")) {
+                assertTrue(j.value() - h / 2 <= fold, r.out());
+            }
+            // the largest change between consecutive samples of the response array is the one reported
+            double[] y = up.response();
+            double big = 0;
+            for (int i = 0; i + 1 < y.length; i++) {
+                big = Math.max(big, Math.abs(y[i + 1] - y[i]));
+            }
+            assertEquals(big, j.after() - j.before(), 0.0, r.out());
+            assertTrue(r.out().contains("x jumps from"), r.out());
+        }
+    }
+
+    @Test
+    void nonSmoothTimedOrEventfulModelsAreFlagged() {
+        // a switch on the state (u > 0.5): continuation assumes a smooth right-hand side
+        Result pw = run("branches", res("piecewise-switch.xml"), "--vary", "s", "--from", "-1", "--to", "1");
+        assertEquals(0, pw.code(), pw.err());
+        assertTrue(pw.err().contains("switches on the states") && pw.err().contains("gt(u, 0.5)"), pw.err());
+        Result reg = run("region", res("piecewise-switch.xml"), "--vary", "s", "--from", "-1", "--to", "1",
+                "--and", "c", "--from2", "0.5", "--to2", "2");
+        assertTrue(reg.err().contains("switches on the states"), reg.err());
+        // explicit time and events are ignored by the continuation, and events by the ramp
+        Result t = run("branches", res("time-decay.xml"), "--vary", "k", "--from", "0.5", "--to", "2");
+        assertEquals(0, t.code(), t.err());
+        assertTrue(t.err().contains("depends on time explicitly"), t.err());
+        Result e = run("branches", res("decay-event.xml"), "--vary", "k", "--from", "0.5", "--to", "2");
+        assertEquals(0, e.code(), e.err());
+        assertTrue(e.err().contains("1 event(s); continuation ignores events"), e.err());
+        Result sw = run("sweep", res("decay-event.xml"), "--vary", "k", "--from", "0.5", "--to", "2", "--rate",
+                "0.1", "--samples", "11");
+        assertTrue(sw.err().contains("the ramp ignores events"), sw.err());
+        // a --set of the varied quantity is overridden by the range: said in a note
+        Result o = run("branches", res("hill-switch.xml"), "--vary", "s", "--from", "-0.5", "--to", "0.5", "--set",
+                "s=5");
+        assertEquals(0, o.code(), o.err());
+        assertTrue(o.err().contains("note: --set s=5 is overridden by the range of --vary s"), o.err());
+        // a smooth autonomous model without events gets no warning
+        Result h = run("branches", res("hill-switch.xml"), "--vary", "s", "--from", "-0.5", "--to", "0.5");
+        assertFalse(h.err().contains("warning"), h.err());
+    }
+
+    @Test
+    void regionTracesBothFoldCurvesWhenNoCuspJoinsThem() {
+        // hill-switch.xml in (s, d) over [-0.5, 0.5] x [0.5, 2]: the cusp (max h'(x) = 2.13 = d) lies outside the
+        // box, so the switch-on and switch-off folds lie on two separate curves and the bistable band lies between
+        // them. Reference area: the closed-form fold curves s = d x - h(x) at h'(x) = d (derived by hand), the band
+        // clipped to the box and integrated over d with SciPy quad: 0.3262596557656887.
+        Path json = dir.resolve("region-hill.json");
+        Result r = run("region", res("hill-switch.xml"), "--vary", "s", "--from", "-0.5", "--to", "0.5", "--and",
+                "d", "--from2", "0.5", "--to2", "2", "--json", json.toString());
+        assertEquals(0, r.code(), r.err());
+        RegionFile f = Json.read(json, RegionFile.class);
+        assertEquals(2, f.curves().size(), r.out());
+        java.util.regex.Matcher m = java.util.regex.Pattern.compile("bistable area ([0-9.eE+-]+)").matcher(r.out());
+        assertTrue(m.find(), r.out());
+        // chords between ~20 points per curve under-resolve the curved boundary by O(h^2): 2e-3 relative
+        assertEquals(0.3262596557656887, Double.parseDouble(m.group(1)), 2e-3 * 0.3263, r.out());
+    }
+
     private static void assertUserError(Result r, String... fragments) {
         assertEquals(Main.EXIT_USER_ERROR, r.code(), "stderr: " + r.err() + " stdout: " + r.out());
         String err = r.err().strip();
@@ -300,6 +398,16 @@ class SwitchCommandsTest {
                 "--from2", "1", "--to2", "0.1"), "--from2 1 --to2 0.1", "range is empty");
         assertUserError(run("sweep", DEMO, "--vary", "stimulus", "--from", "0", "--to", "4", "--rate", "0"),
                 "--rate 0.0", "positive");
+        // bounds that are no numbers are not an empty range
+        assertUserError(run("branches", DEMO, "--vary", "stimulus", "--from", "0", "--to", "Infinity"),
+                "--to Infinity", "the bound must be a finite number");
+        assertUserError(run("branches", DEMO, "--vary", "stimulus", "--from", "NaN", "--to", "4"),
+                "--from NaN", "the bound must be a finite number");
+        assertUserError(run("region", DEMO, "--vary", "stimulus", "--from", "0", "--to", "4", "--and", "K_inh",
+                "--from2", "-Infinity", "--to2", "1"), "--from2 -Infinity", "the bound must be a finite number");
+        // too many samples: refused in one line before anything is allocated (was an OutOfMemoryError)
+        assertUserError(run("sweep", DEMO, "--vary", "stimulus", "--from", "0", "--to", "4", "--rate", "0.1",
+                "--samples", "100000000"), "--samples 100000000", "between 3 and 1000000");
     }
 
     @Test
@@ -326,19 +434,29 @@ class SwitchCommandsTest {
     void compartmentsOfDifferentSizes() {
         String m = res("two-compartments.xml");
         BranchesFile f = branches(m, "--vary", "k", "--from", "0.5", "--to", "4");
-        // closed form (see the model's comment); states are amounts, A + B = T = 2, A = 2 / (1 + k / k2)
+        // closed form (see the model's comment); states are reported as simulate reports them, concentrations:
+        // [A] V_cyt + [B] V_nuc = T = 2 with V_cyt = 1, V_nuc = 0.5, and [A] = 2 / (1 + k / k2)
         for (BranchesFile.Point p : f.branches().get(0).points()) {
             double a = p.states()[f.stateIds().indexOf("A")];
             double b = p.states()[f.stateIds().indexOf("B")];
-            assertEquals(2, a + b, 1e-12); // reconstruction from the law: rounding only
+            assertEquals(2, a + 0.5 * b, 1e-12); // reconstruction from the law: rounding only
             assertEquals(2 / (1 + p.value()), a, 1e-9); // corrector tolerance 1e-11 relative, margin
         }
-        // the amount of A does not depend on the nucleus size (k = k2 = 1: A = 1), and the law on amounts holds
+        // the amount of A does not depend on the nucleus size (k = k2 = 1: amounts A = B = 1), so [A] = 1 and
+        // [B] = 1 / V_nuc with the nucleus size of each point (closed form from the model's comment)
         BranchesFile g = branches(m, "--vary", "nuc", "--from", "0.25", "--to", "1");
         assertTrue(g.branches().get(0).points().size() > 2);
         for (BranchesFile.Point p : g.branches().get(0).points()) {
             assertEquals(1, p.states()[g.stateIds().indexOf("A")], 1e-9); // as above
+            assertEquals(1 / p.value(), p.states()[g.stateIds().indexOf("B")], 1e-9 / p.value()); // as above
         }
+        // a sweep reports [B] too: the ramp starts at the steady state of k = 0.5, amount of B 2 - 2 / 1.5, so
+        // [B] = (2 / 3) / 0.5 = 4 / 3 (closed form as above)
+        Path sj = dir.resolve("sweep-nuc.json");
+        Result r = run("sweep", m, "--vary", "k", "--from", "0.5", "--to", "4", "--rate", "0.01", "--readout", "B",
+                "--samples", "11", "--json", sj.toString());
+        assertEquals(0, r.code(), r.err());
+        assertEquals(4.0 / 3, Json.read(sj, SweepFile.class).runs().get(0).response()[0], 1e-9); // as above
         // init:B in its declared unit (concentration): amount 0.5 [B]0, so T = 2 + 0.5 [B]0; at k = k2 = 1,
         // A = T / 2
         BranchesFile h = branches(m, "--vary", "init:B", "--from", "0", "--to", "2");

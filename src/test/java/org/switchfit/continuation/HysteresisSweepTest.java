@@ -77,4 +77,29 @@ class HysteresisSweepTest {
                 new double[] {1}).jumpParameter();
         assertEquals(a, b, 1e-4);
     }
+
+    @Test
+    void aFlatOrEvenRampHasNoJumpAndAnOscillatingOneSaysSo() {
+        int m = 401;
+        double[] lam = new double[m];
+        double[] flat = new double[m];
+        double[] line = new double[m];
+        double[] wave = new double[m];
+        double[] step = new double[m];
+        for (int k = 0; k < m; k++) {
+            lam[k] = k * 0.01;
+            flat[k] = 0.676258; // a conserved readout: constant (SYNTHETIC values)
+            line[k] = 2 * lam[k];
+            wave[k] = 1 + Math.sin(lam[k] * 2 * Math.PI / 0.06); // period of 6 samples, like a limit cycle
+            step[k] = lam[k] < 2.005 ? 0.1 * lam[k] : 1 + 0.1 * lam[k]; // one step of 1 between samples 200, 201
+        }
+        assertEquals(SweepResult.Response.NO_JUMP, HysteresisSweep.classify(0.01, lam, flat).response());
+        assertTrue(Double.isNaN(HysteresisSweep.classify(0.01, lam, flat).jumpParameter()));
+        assertEquals(SweepResult.Response.NO_JUMP, HysteresisSweep.classify(0.01, lam, line).response());
+        assertEquals(SweepResult.Response.OSCILLATION, HysteresisSweep.classify(0.01, lam, wave).response());
+        SweepResult j = HysteresisSweep.classify(0.01, lam, step);
+        assertEquals(SweepResult.Response.JUMP, j.response());
+        assertEquals(200, j.jumpIndex());
+        assertEquals(2.005, j.jumpParameter(), 1e-12); // middle of the interval [2.00, 2.01]
+    }
 }

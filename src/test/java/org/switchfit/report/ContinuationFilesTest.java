@@ -77,9 +77,10 @@ class ContinuationFilesTest {
 
     @Test
     void sweepAndRegion() {
-        SweepResult up = new SweepResult(0.01, new double[] {0, 1, 2, 3}, new double[] {0, 0.1, 2, 2.1}, 1.5, 1.9);
-        SweepResult down = new SweepResult(-0.01, new double[] {3, 2, 1, 0}, new double[] {2.1, 2, 1.9, 0}, 0.5,
-                1.9);
+        SweepResult up = new SweepResult(0.01, new double[] {0, 1, 2, 3}, new double[] {0, 0.1, 2, 2.1},
+                SweepResult.Response.JUMP, 1);
+        SweepResult down = new SweepResult(-0.01, new double[] {3, 2, 1, 0}, new double[] {2.1, 2, 1.9, 0},
+                SweepResult.Response.JUMP, 2);
         SweepFile s = ContinuationFiles.sweep("p", "x", List.of(up, down));
         assertEquals(SweepFile.Direction.UP, s.runs().get(0).direction());
         assertEquals(SweepFile.Direction.DOWN, s.runs().get(1).direction());
