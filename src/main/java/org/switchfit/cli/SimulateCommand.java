@@ -12,6 +12,7 @@ import org.switchfit.model.Model;
 import org.switchfit.model.Species;
 import org.switchfit.ode.CompiledModel;
 import org.switchfit.ode.FastEquilibriumException;
+import org.switchfit.ode.InitialValueCheck;
 import org.switchfit.ode.IntegrationException;
 import org.switchfit.ode.Integrators;
 import org.switchfit.ode.ModelCompiler;
@@ -85,6 +86,7 @@ public final class SimulateCommand implements Callable<Integer> {
         ModelOutputs outs = ModelOutputs.of(cm, cols);
         Trajectory tr;
         try {
+            InitialValueCheck.require(cm, p, overrides.keySet(), "--set");
             tr = new Simulator(cm, Integrators.create(settings)).simulate(t, p, outs);
         } catch (FastEquilibriumException e) {
             throw new UserInputException(SourceLocation.ofFile(model.toString()), e.getMessage()
