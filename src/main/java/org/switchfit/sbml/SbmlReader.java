@@ -90,6 +90,7 @@ public final class SbmlReader {
         SBMLDocument doc;
         try {
             String xml = Files.readString(path, java.nio.charset.StandardCharsets.UTF_8);
+            requireSbmlRoot(xml, file);
             if (MathMlRepair.needed(xml)) {
                 try {
                     xml = MathMlRepair.repair(xml);
@@ -107,11 +108,18 @@ public final class SbmlReader {
         } catch (XMLStreamException e) {
             int line = e.getLocation() != null ? e.getLocation().getLineNumber() : 0;
             String msg = firstLine(e.getMessage());
+            if (msg.contains("JSBML")) {
+                // JSBML's own text ("... please submit a bug report ...") is about JSBML, not about the file
+                throw new UserInputException(SourceLocation.ofLine(file, line), "could not be read as SBML; check "
+                        + "that it is an SBML file (root element <sbml> with a <model>)", e);
+            }
             throw new UserInputException(SourceLocation.ofLine(file, line), "is not well-formed XML (" + msg
                     + "); fix or re-export the file", e);
         } catch (IOException e) {
             throw new UserInputException(SourceLocation.ofFile(file), "cannot be read (" + e.getMessage()
                     + "); check permissions", e);
+        } catch (UserInputException e) {
+            throw e;
         } catch (RuntimeException e) {
             throw new UserInputException(SourceLocation.ofFile(file), "could not be parsed as SBML ("
                     + firstLine(String.valueOf(e.getMessage())) + "); check that it is an SBML file", e);
@@ -127,6 +135,7 @@ public final class SbmlReader {
             // JSBML read it a moment ago; skip the text checks
         }
         if (text != null) {
+            requireSupportedPackages(text, file);
             requireNumbers(text, file);
             requireUniqueIds(text, doc.getLevel(), file);
         }
@@ -224,6 +233,73 @@ public final class SbmlReader {
                 Path f = dir.resolve(src);
                 emd.setSource(f.toString());
             }
+        }
+    }
+
+    /**
+     * Refuses well-formed XML whose root element is not {@code <sbml>} (an HTML page, say), which JSBML reported
+     * as an unreadable file with a request to file a bug report against JSBML. Text that is not well-formed is
+     * left to JSBML, whose message then names the line.
+     */
+    static void requireSbmlRoot(String text, String file) {
+        javax.xml.stream.XMLInputFactory f = javax.xml.stream.XMLInputFactory.newFactory();
+        f.setProperty(javax.xml.stream.XMLInputFactory.SUPPORT_DTD, false);
+        f.setProperty(javax.xml.stream.XMLInputFactory.IS_SUPPORTING_EXTERNAL_ENTITIES, false);
+        String root;
+        try {
+            javax.xml.stream.XMLStreamReader r = f.createXMLStreamReader(new java.io.StringReader(text));
+            while (r.hasNext() && r.next() != javax.xml.stream.XMLStreamConstants.START_ELEMENT) {
+                // skip the prolog
+            }
+            if (!r.isStartElement()) {
+                return;
+            }
+            root = r.getLocalName();
+        } catch (XMLStreamException | RuntimeException e) {
+            return;
+        }
+        if (!root.equals("sbml")) {
+            throw new UserInputException(SourceLocation.ofFile(file), "contains no SBML model (the root element is <"
+                    + root + ">; it must be <sbml> with a <model>); pass an SBML file");
+        }
+    }
+
+    /**
+     * Refuses a document that declares a Level 3 package it requires ({@code pkg:required="true"} on
+     * {@code <sbml>}) other than comp, the one switchfit supports: the SBML Level 3 core specification says a tool
+     * must not interpret such a model without the package (from memory), since the package changes its meaning.
+     * JSBML reads arrays, distrib and unknown packages quietly, and the model then ran as if they were absent.
+     */
+    static void requireSupportedPackages(String text, String file) {
+        javax.xml.stream.XMLInputFactory f = javax.xml.stream.XMLInputFactory.newFactory();
+        f.setProperty(javax.xml.stream.XMLInputFactory.SUPPORT_DTD, false);
+        f.setProperty(javax.xml.stream.XMLInputFactory.IS_SUPPORTING_EXTERNAL_ENTITIES, false);
+        try {
+            javax.xml.stream.XMLStreamReader r = f.createXMLStreamReader(new java.io.StringReader(text));
+            while (r.hasNext()) {
+                if (r.next() != javax.xml.stream.XMLStreamConstants.START_ELEMENT) {
+                    continue;
+                }
+                for (int i = 0; i < r.getAttributeCount(); i++) {
+                    String ns = r.getAttributeNamespace(i);
+                    if (!r.getAttributeLocalName(i).equals("required") || ns == null || ns.isEmpty()
+                            || !r.getAttributeValue(i).strip().equals("true")) {
+                        continue;
+                    }
+                    String prefix = r.getAttributePrefix(i);
+                    String pkg = ns.contains("/" + CompConstants.shortLabel + "/") ? CompConstants.shortLabel
+                            : prefix != null && !prefix.isEmpty() ? prefix : ns;
+                    if (!pkg.equals(CompConstants.shortLabel)) {
+                        throw new UnsupportedConstructException(SourceLocation.ofFile(file), "the SBML Level 3 "
+                                + "package '" + pkg + "' (declared required=\"true\": the specification forbids "
+                                + "simulating the model without it)", "remove the package's elements and its "
+                                + "declaration");
+                    }
+                }
+                return; // only the root element declares packages
+            }
+        } catch (XMLStreamException e) {
+            // JSBML parsed the file; leave the rest to the later checks
         }
     }
 

@@ -147,4 +147,36 @@ class SbmlValidityTest {
                 + "<parameter id=\"v\" value=\"0\" constant=\"false\"/>", DEG, alg, "1"), "'u'", "'v'",
                 "undetermined");
     }
+
+    @Test
+    void requiredUnsupportedPackageIsRefused() throws IOException {
+        String arrays = model("1", "", DEG, "", "1").replace("version=\"1\">", "version=\"1\" xmlns:arrays=\""
+                + "http://www.sbml.org/sbml/level3/version1/arrays/version1\" arrays:required=\"true\">");
+        assertRefused(arrays, "package 'arrays'", "required");
+        String foo = model("1", "", DEG, "", "1").replace("version=\"1\">", "version=\"1\" xmlns:foo=\""
+                + "http://example.org/foo/version1\" foo:required=\"true\">");
+        assertRefused(foo, "package 'foo'");
+        // not required: the package's elements may be ignored (SBML Level 3 core specification, from memory)
+        Path f = write(model("1", "", DEG, "", "1").replace("version=\"1\">", "version=\"1\" xmlns:foo=\""
+                + "http://example.org/foo/version1\" foo:required=\"false\">"));
+        assertDoesNotThrow(() -> SbmlReader.read(f));
+    }
+
+    @Test
+    void packageFunctionIsNamedPlainly() throws IOException {
+        String law = "<kineticLaw>" + MATH + "<apply><csymbol encoding=\"text\" definitionURL=\""
+                + "http://www.sbml.org/sbml/symbols/distrib/normal\">normal</csymbol><cn>1</cn><cn>0.1</cn></apply>"
+                + "</math></kineticLaw>";
+        String xml = model("1", "", law, "", "1").replace("version=\"1\">", "version=\"1\" xmlns:distrib=\""
+                + "http://www.sbml.org/sbml/level3/version1/distrib/version1\" distrib:required=\"false\">");
+        assertRefused(xml, "'normal'", "'distrib'");
+    }
+
+    @Test
+    void wellFormedNonSbmlNamesItsRootElement() throws IOException {
+        Path f = write("<html><head><title>t</title></head><body><p>not a model</p></body></html>\n");
+        UserInputException e = assertThrows(UserInputException.class, () -> SbmlReader.read(f));
+        assertTrue(e.getMessage().contains("<html>") && e.getMessage().contains("<sbml>"), e.getMessage());
+        assertTrue(!e.getMessage().contains("JSBML"), e.getMessage());
+    }
 }
