@@ -123,4 +123,12 @@ class SimulateCommandTest {
         java.nio.file.Files.writeString(f, xml);
         assertUserError(run("simulate", f.toString(), "--times", "0:1:2"), "'A'", "initial value", "NaN");
     }
+
+    @Test
+    void negativeOrInfiniteOutputTimesAreRefused() {
+        // simulations start at t = 0: -2 printed the initial state, Infinity repeated it
+        assertUserError(run("simulate", res("decay.xml"), "--times=-2,-1,0,1"), "-2", "before 0");
+        assertUserError(run("simulate", res("decay.xml"), "--times=-1:1:2"), "-1", "before 0");
+        assertUserError(run("simulate", res("decay.xml"), "--times", "0,Infinity"), "Infinity", "finite");
+    }
 }
