@@ -131,4 +131,12 @@ class SimulateCommandTest {
         assertUserError(run("simulate", res("decay.xml"), "--times=-1:1:2"), "-1", "before 0");
         assertUserError(run("simulate", res("decay.xml"), "--times", "0,Infinity"), "Infinity", "finite");
     }
+
+    @Test
+    void unwritableOutputOrLogIsOneLineUserError(@org.junit.jupiter.api.io.TempDir Path dir) {
+        // a directory given as output file: was "internal error" (exit 1), and for --log a stack trace
+        assertUserError(run("simulate", res("decay.xml"), "--times", "0,1", "--out", dir.toString()),
+                "cannot write", "writable file");
+        assertUserError(run("simulate", res("decay.xml"), "--times", "0,1", "--log", dir.toString()), "--log");
+    }
 }
