@@ -179,4 +179,15 @@ class SbmlValidityTest {
         assertTrue(e.getMessage().contains("<html>") && e.getMessage().contains("<sbml>"), e.getMessage());
         assertTrue(!e.getMessage().contains("JSBML"), e.getMessage());
     }
+
+    @Test
+    void floorOfTimeInTheRightHandSideIsRefused() throws IOException {
+        // light = rem(floor(time/12), 2) switches every 12 h; its jumps were stepped over (x = 0 at t = 24, 48, ...)
+        String light = "<kineticLaw>" + MATH + "<apply><rem/><apply><floor/><apply><divide/><csymbol encoding=\"text\""
+                + " definitionURL=\"http://www.sbml.org/sbml/symbols/time\">time</csymbol><cn>12</cn></apply></apply>"
+                + "<cn>2</cn></apply></math></kineticLaw>";
+        String xml = model("2", "", DEG, "", "1").replace("<kineticLaw>" + MATH + "<ci>k0</ci></math></kineticLaw>",
+                light);
+        assertRefused(xml, "rem", "time", "piecewise");
+    }
 }
