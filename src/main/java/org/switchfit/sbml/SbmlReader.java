@@ -303,9 +303,14 @@ public final class SbmlReader {
         }
     }
 
-    /** Numeric attributes of SBML elements (XML Schema double), by attribute name. */
+    /**
+     * Numeric attributes (XML Schema double) of the core SBML elements that carry them (Level 1 spellings
+     * included); elements of packages and annotations (an unprefixed name is the core namespace here) are not
+     * looked at, as their attributes may be anything.
+     */
     private static final java.util.regex.Pattern NUMERIC_ATTR = java.util.regex.Pattern.compile(
-            "<(?:\\w+:)?(\\w+)\\b[^>]*?\\s(stoichiometry|value|size|initialAmount|initialConcentration|volume)"
+            "<(compartment|species|specie|parameter|localParameter|speciesReference|specieReference)\\b[^>]*?"
+                    + "\\s(stoichiometry|value|size|initialAmount|initialConcentration|volume)"
                     + "\\s*=\\s*[\"']([^\"']*)[\"']");
     private static final java.util.regex.Pattern ID_ATTR = java.util.regex.Pattern.compile(
             "\\s(?:\\w+:)?id\\s*=\\s*[\"']([^\"']*)[\"']");
@@ -330,7 +335,7 @@ public final class SbmlReader {
                 }
                 SourceLocation loc = where != null ? SourceLocation.ofElement(file, where)
                         : SourceLocation.ofLine(file, line);
-                throw new UserInputException(loc, "<" + mt.group(1) + "> at line " + line + " has "
+                throw new UserInputException(loc, "<" + mt.group(1) + ">" + (where != null ? " at line " + line : "") + " has "
                         + mt.group(2) + "=\"" + mt.group(3) + "\", which is not a number; write a decimal number "
                         + "such as 1 or 0.5");
             }

@@ -108,6 +108,10 @@ class SbmlValidityTest {
         assertRefused(model("1", "", DEG, "", "x1"), "stoichiometry=\"x1\"", "not a number");
         assertRefused(model("1", "<parameter id=\"q\" value=\"abc\" constant=\"true\"/>", DEG, "", "1"), "'q'",
                 "value=\"abc\"");
+        // attributes of annotations are not SBML's: anything goes there
+        Path f = write(model("1", "", DEG, "", "1").replace("<model id=\"m\">", "<model id=\"m\"><annotation>"
+                + "<my:level xmlns:my=\"http://example.org/my\" value=\"high\"/></annotation>"));
+        assertDoesNotThrow(() -> SbmlReader.read(f));
     }
 
     @Test
