@@ -69,7 +69,13 @@ public final class Main implements Runnable {
             }
             OutputOptions o = OutputOptions.of(last.commandSpec());
             opened.add(o);
-            o.open(last.commandSpec().commandLine(), List.of(args));
+            try {
+                o.open(last.commandSpec().commandLine(), List.of(args));
+            } catch (UserInputException e) {
+                // an unusable --log file: outside picocli's execution handler, so reported here (was a stack trace)
+                err.println("error: " + e.getMessage());
+                return EXIT_USER_ERROR;
+            }
             return new CommandLine.RunLast().execute(parseResult);
         });
         cl.setExecutionExceptionHandler((ex, commandLine, parseResult) -> {
@@ -81,6 +87,12 @@ public final class Main implements Runnable {
             if (t instanceof UserInputException) {
                 err.println("error: " + t.getMessage());
                 o.logLine("error: " + t.getMessage());
+                return EXIT_USER_ERROR;
+            }
+            String unwritable = unwritableOutput(ex);
+            if (unwritable != null) {
+                err.println("error: " + unwritable);
+                o.logLine("error: " + unwritable);
                 return EXIT_USER_ERROR;
             }
             err.println("internal error: " + ex);
@@ -102,6 +114,42 @@ public final class Main implements Runnable {
         } finally {
             opened.forEach(OutputOptions::close); // after the error handler, which writes to the log as well
         }
+    }
+
+    /**
+     * One line for an output that could not be written (a directory, a missing folder, no permission), or null when
+     * {@code ex} is something else. Writing goes through AtomicFiles, which reports an {@link java.io.IOException}
+     * wrapped as "cannot write PATH: ..."; such a path comes from the user (--out, --json, ...), so it is a user
+     * error, not an internal one.
+     */
+    static String unwritableOutput(Throwable ex) {
+        java.io.UncheckedIOException wrapper = null;
+        java.io.IOException io = null;
+        for (Throwable t = ex; t != null && io == null; t = t.getCause() == t ? null : t.getCause()) {
+            if (t instanceof java.io.UncheckedIOException && wrapper == null) {
+                wrapper = (java.io.UncheckedIOException) t;
+            }
+            if (t instanceof java.io.IOException) {
+                io = (java.io.IOException) t;
+            }
+        }
+        if (wrapper == null || wrapper.getMessage() == null || !wrapper.getMessage().startsWith("cannot write ")) {
+            return null;
+        }
+        String msg = wrapper.getMessage();
+        int colon = msg.indexOf(": ");
+        String head = colon > 0 ? msg.substring(0, colon) : msg;
+        String reason = null;
+        if (io instanceof java.nio.file.FileSystemException) {
+            reason = ((java.nio.file.FileSystemException) io).getReason();
+        }
+        if (reason == null) {
+            reason = io instanceof java.nio.file.AccessDeniedException ? "permission denied"
+                    : io instanceof java.nio.file.NoSuchFileException ? "it cannot be created there"
+                    : io instanceof java.nio.file.FileAlreadyExistsException ? "it exists and cannot be replaced"
+                    : io != null && io.getMessage() != null ? io.getMessage() : "write failed";
+        }
+        return head + " (" + reason + "); choose a writable file path (not a directory)";
     }
 
     /**

@@ -12,6 +12,7 @@ import org.switchfit.model.Model;
 import org.switchfit.model.Species;
 import org.switchfit.ode.CompiledModel;
 import org.switchfit.ode.FastEquilibriumException;
+import org.switchfit.ode.InitialValueCheck;
 import org.switchfit.ode.IntegrationException;
 import org.switchfit.ode.Integrators;
 import org.switchfit.ode.ModelCompiler;
@@ -85,6 +86,7 @@ public final class SimulateCommand implements Callable<Integer> {
         ModelOutputs outs = ModelOutputs.of(cm, cols);
         Trajectory tr;
         try {
+            InitialValueCheck.require(cm, p, overrides.keySet(), "--set");
             tr = new Simulator(cm, Integrators.create(settings)).simulate(t, p, outs);
         } catch (FastEquilibriumException e) {
             throw new UserInputException(SourceLocation.ofFile(model.toString()), e.getMessage()
@@ -163,7 +165,7 @@ public final class SimulateCommand implements Callable<Integer> {
             for (int i = 0; i < t.length; i++) {
                 t[i] = a + i * h;
             }
-            return t;
+            return requireSimulatedRange(t, spec);
         }
         String[] parts = s.split(",");
         double[] t = new double[parts.length];
@@ -171,6 +173,25 @@ public final class SimulateCommand implements Callable<Integer> {
             t[i] = parseDouble(parts[i], "--times");
             if (i > 0 && t[i] < t[i - 1]) {
                 throw new UserInputException(null, "--times must be non-decreasing; " + t[i] + " follows " + t[i - 1]);
+            }
+        }
+        return requireSimulatedRange(t, spec);
+    }
+
+    /**
+     * Simulations start at t = 0 with the model's initial values and run forward; a negative output time was
+     * printed as if the state ran backwards from there (x(0) for x' = t at t = -2), and an infinite one repeated
+     * the initial state. Both are refused.
+     */
+    private static double[] requireSimulatedRange(double[] t, String spec) {
+        for (double v : t) {
+            if (v < 0) {
+                throw new UserInputException(null, "--times '" + spec + "': " + fmt(v) + " is before 0; simulations "
+                        + "start at t = 0 with the model's initial values: give times >= 0");
+            }
+            if (!Double.isFinite(v)) {
+                throw new UserInputException(null, "--times '" + spec + "': " + v + " is not a finite time; give "
+                        + "finite times >= 0 (for a steady state use a late time and check it has settled)");
             }
         }
         return t;

@@ -370,6 +370,8 @@ public final class OdeForm {
             }
         }
         boolean greedy = false;
+        // rules solved by choice among several undetermined quantities: rule, the quantity chosen, the others
+        List<Object[]> choices = new ArrayList<>();
         while (!pending.isEmpty()) {
             boolean progress = false;
             for (int i = 0; i < pending.size() && !progress; i++) {
@@ -394,6 +396,9 @@ public final class OdeForm {
                         continue;
                     }
                     Expr b = f.mapLeaves(x -> x.sameVariable(var) ? Expr.ZERO : x);
+                    if (cands.size() > 1) {
+                        choices.add(new Object[] {r, c, cands});
+                    }
                     assignRules.put(c, Expr.neg(Expr.div(b, a)));
                     pending.remove(i);
                     progress = true;
@@ -415,6 +420,29 @@ public final class OdeForm {
                     "an algebraic rule (0 = " + r.math() + ") that is not linear in exactly one undetermined "
                             + "quantity", "rewrite it as an assignment rule");
         }
+        // SBML: the algebraic rules must determine their quantities uniquely (the model is neither over- nor
+        // underdetermined; from memory). A choice that leaves another quantity of the same rule determined by
+        // nothing means two unknowns share one equation (0 = u + v - 1): refuse rather than pick one. A boundary
+        // species left over is fine: the SBML Test Suite (case 01787) solves for the other species then.
+        for (Object[] ch : choices) {
+            Rule r = (Rule) ch[0];
+            @SuppressWarnings("unchecked")
+            List<String> cands = (List<String>) ch[2];
+            for (String other : cands) {
+                if (!other.equals(ch[1]) && isAlgebraicCandidate(other) && isBoundary(other) == isBoundary(
+                        (String) ch[1])) {
+                    throw new UserInputException(SourceLocation.ofElement(file, r.elementId() != null
+                            ? r.elementId() : "algebraic rule"), "the algebraic rule 0 = " + r.math() + " leaves "
+                            + "both '" + ch[1] + "' and '" + other + "' undetermined (one equation, two unknowns; "
+                            + "SBML requires the model not to be underdetermined); give one of them a rule or "
+                            + "declare it constant");
+                }
+            }
+        }
+    }
+
+    private boolean isBoundary(String id) {
+        return types.get(id) == QType.SPECIES && model.species(id).boundaryCondition();
     }
 
     private boolean isAlgebraicCandidate(String id) {

@@ -9,7 +9,10 @@ import org.switchfit.expr.CompiledBlock;
 import org.switchfit.expr.Derivative;
 import org.switchfit.expr.Expr;
 import org.switchfit.linalg.DenseLu;
+import org.switchfit.expr.Op;
 import org.switchfit.model.OdeForm;
+import org.switchfit.util.SourceLocation;
+import org.switchfit.util.UnsupportedConstructException;
 
 /**
  * A model compiled to bytecode: the ODE right-hand side with its Jacobians, initial values, runtime locals, event
@@ -53,6 +56,15 @@ public final class CompiledModel implements OdeSystem {
         this.n = form.stateCount();
         this.m = form.parameterCount();
         Block rt = form.runtime();
+        Expr jump = RhsSwitches.discontinuousFunction(rt);
+        if (jump != null) {
+            String fn = jump.op() == Op.CEIL ? "ceiling" : jump.op().name().toLowerCase(java.util.Locale.ROOT);
+            throw new UnsupportedConstructException(SourceLocation.ofFile(form.model().source()),
+                    "the discontinuous function " + fn + " of time in the right-hand side (" + jump
+                            + "; its jumps are not located, so results would depend on the output times)",
+                    "write the switch as a piecewise condition (e.g. piecewise(1, time >= 12 && time < 24, 0)) or"
+                            + " as events");
+        }
         Block localsBlock = rt.withOutputs(localRefs(rt));
         Block sw = rt.withOutputs(switchingFunctions).prune();
         this.rhsConditions = List.copyOf(RhsSwitches.conditions(rt));

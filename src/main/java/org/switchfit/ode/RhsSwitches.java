@@ -76,6 +76,50 @@ final class RhsSwitches {
         return false;
     }
 
+    /**
+     * The first floor, ceiling, quotient or rem (SBML's rem/quotient, and mod through them) in the right-hand side
+     * whose argument varies with time or the states, or null. Such a function jumps wherever its argument crosses
+     * an integer (a multiple of the divisor); these jumps are no piecewise conditions, so no switching function
+     * stops the integration there, a step can pass a jump unseen and the result then depends on the output grid
+     * (x' = rem(floor(t/12), 2) - 0.1 x gave x = 0 at t = 24, 48, ...). Models using one of time only are refused
+     * until such jumps become switches. Functions of the states are left alone: the error control usually catches
+     * their jumps, and the SBML Test Suite (cases 00028, 00173, 00196, 00197, 00269: ceiling(p1 S1)) passes so.
+     */
+    static Expr discontinuousFunction(Block rt) {
+        int nl = rt.localCount();
+        boolean[] varying = new boolean[nl];
+        boolean[] stateful = new boolean[nl];
+        for (int l = 0; l < nl; l++) {
+            varying[l] = varies(rt.local(l), varying);
+            stateful[l] = onStates(rt.local(l), stateful);
+        }
+        boolean[] used = new boolean[nl];
+        for (Expr o : rt.outputs()) {
+            markLocals(o, used);
+        }
+        for (int l = nl - 1; l >= 0; l--) {
+            if (used[l]) {
+                markLocals(rt.local(l), used);
+            }
+        }
+        Expr[] found = new Expr[1];
+        java.util.function.Consumer<Expr> scan = e -> e.forEach(x -> {
+            if (found[0] == null && (x.op() == Op.FLOOR || x.op() == Op.CEIL || x.op() == Op.QUOTIENT
+                    || x.op() == Op.REM) && varies(x, varying) && !onStates(x, stateful)) {
+                found[0] = x;
+            }
+        });
+        for (int l = 0; l < nl && found[0] == null; l++) {
+            if (used[l]) {
+                scan.accept(rt.local(l));
+            }
+        }
+        for (Expr o : rt.outputs()) {
+            scan.accept(o);
+        }
+        return found[0];
+    }
+
     private static void markLocals(Expr e, boolean[] used) {
         e.forEach(x -> {
             if (x.op() == Op.LOCAL) {

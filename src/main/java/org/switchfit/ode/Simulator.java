@@ -962,6 +962,14 @@ public final class Simulator {
                     boolean now = holds(e);
                     if (now && !trig[e]) {
                         double delay = ev.delay() == null ? 0.0 : value(ev.delay());
+                        if (!(delay >= 0)) {
+                            // SBML: a delay must evaluate to a non-negative number (from memory); a negative one
+                            // would schedule the execution in the past
+                            throw new org.switchfit.util.UserInputException(org.switchfit.util.SourceLocation
+                                    .ofElement(model.form().model().source(), ev.id()), String.format(java.util.Locale.ROOT,
+                                    "the delay of event '%s' is %s when it triggers at t = %.6g; SBML requires a "
+                                            + "delay >= 0: correct the event's delay", ev.id(), delay, t));
+                        }
                         double[] vals = ev.useValuesFromTriggerTime() ? assignmentValues(ev) : null;
                         Pending pe = new Pending(e, ev.delay() == null ? t : t + delay, vals, seq++);
                         if (sens != null) {

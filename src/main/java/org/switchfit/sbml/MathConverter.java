@@ -160,6 +160,16 @@ final class MathConverter {
         }
         Op op = unary(t);
         if (op == null) {
+            if (t == ASTNode.Type.FUNCTION_CSYMBOL) {
+                // a csymbol function of an SBML package (distrib's normal, uniform, ...): name it by its URL
+                String url = n.getDefinitionURL() == null ? "" : n.getDefinitionURL();
+                int slash = url.lastIndexOf('/');
+                String fn = n.getName() != null ? n.getName() : slash >= 0 ? url.substring(slash + 1) : url;
+                String pkg = url.contains("/distrib/") ? "the SBML package 'distrib'" : "an SBML package";
+                throw new UnsupportedConstructException(SourceLocation.ofElement(file, el), "the function '" + fn
+                        + "' of " + pkg + " (csymbol " + url + ")", "replace it with core SBML math, e.g. a "
+                        + "parameter holding a sampled value");
+            }
             throw new UnsupportedConstructException(SourceLocation.ofElement(file, el),
                     "the MathML construct " + t, "rewrite the expression with standard SBML MathML");
         }

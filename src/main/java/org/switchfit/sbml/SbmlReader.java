@@ -90,6 +90,7 @@ public final class SbmlReader {
         SBMLDocument doc;
         try {
             String xml = Files.readString(path, java.nio.charset.StandardCharsets.UTF_8);
+            requireSbmlRoot(xml, file);
             if (MathMlRepair.needed(xml)) {
                 try {
                     xml = MathMlRepair.repair(xml);
@@ -107,11 +108,18 @@ public final class SbmlReader {
         } catch (XMLStreamException e) {
             int line = e.getLocation() != null ? e.getLocation().getLineNumber() : 0;
             String msg = firstLine(e.getMessage());
+            if (msg.contains("JSBML")) {
+                // JSBML's own text ("... please submit a bug report ...") is about JSBML, not about the file
+                throw new UserInputException(SourceLocation.ofLine(file, line), "could not be read as SBML; check "
+                        + "that it is an SBML file (root element <sbml> with a <model>)", e);
+            }
             throw new UserInputException(SourceLocation.ofLine(file, line), "is not well-formed XML (" + msg
                     + "); fix or re-export the file", e);
         } catch (IOException e) {
             throw new UserInputException(SourceLocation.ofFile(file), "cannot be read (" + e.getMessage()
                     + "); check permissions", e);
+        } catch (UserInputException e) {
+            throw e;
         } catch (RuntimeException e) {
             throw new UserInputException(SourceLocation.ofFile(file), "could not be parsed as SBML ("
                     + firstLine(String.valueOf(e.getMessage())) + "); check that it is an SBML file", e);
@@ -120,17 +128,22 @@ public final class SbmlReader {
             throw new UserInputException(SourceLocation.ofFile(file), "contains no SBML model (root element must "
                     + "be <sbml> with a <model>); pass an SBML file");
         }
-        Model flattened = null;
-        boolean compContent = true;
+        String text = null;
         try {
-            // a document may declare the comp namespace (even comp:required) without using any comp element;
-            // there is nothing to flatten then
-            String text = Files.readString(path, java.nio.charset.StandardCharsets.UTF_8);
-            compContent = text.contains(":listOf") || text.contains("listOfSubmodels")
-                    || text.contains("listOfModelDefinitions") || text.contains("listOfExternalModelDefinitions");
+            text = Files.readString(path, java.nio.charset.StandardCharsets.UTF_8);
         } catch (IOException e) {
-            // keep the conservative choice
+            // JSBML read it a moment ago; skip the text checks
         }
+        if (text != null) {
+            requireSupportedPackages(text, file);
+            requireNumbers(text, file);
+            requireUniqueIds(text, doc.getLevel(), file);
+        }
+        Model flattened = null;
+        // a document may declare the comp namespace (even comp:required) without using any comp element; there
+        // is nothing to flatten then (unreadable text: keep the conservative choice)
+        boolean compContent = text == null || text.contains(":listOf") || text.contains("listOfSubmodels")
+                || text.contains("listOfModelDefinitions") || text.contains("listOfExternalModelDefinitions");
         if (compContent && (doc.isPackageEnabled(CompConstants.shortLabel)
                 || doc.getModel().getExtension(CompConstants.shortLabel) != null
                 || doc.getExtension(CompConstants.shortLabel) != null)) {
@@ -146,10 +159,39 @@ public final class SbmlReader {
                         + "'", "remove the package constructs");
             }
         }
-        if (flattened != null) {
-            return flattened;
+        Model model = flattened != null ? flattened : new Builder(doc.getModel(), file, "", doc.getLevel())
+                .build(true);
+        requireRates(model);
+        return model;
+    }
+
+    /**
+     * A reaction without a kinetic law (or with an empty one) has no rate; SBML allows that, but the model cannot
+     * be simulated when the reaction changes a species whose value nothing else determines. (Reactions that only
+     * touch boundary, constant or rule-determined species are harmless and occur in the SBML Test Suite.)
+     */
+    private static void requireRates(Model model) {
+        Set<String> ruled = new HashSet<>();
+        for (Rule r : model.rules()) {
+            if (r.variable() != null) {
+                ruled.add(r.variable());
+            }
         }
-        return new Builder(doc.getModel(), file, "", doc.getLevel()).build(true);
+        for (Reaction r : model.reactions()) {
+            if (r.kineticLaw() != null) {
+                continue;
+            }
+            List<SpeciesRef> refs = new ArrayList<>(r.reactants());
+            refs.addAll(r.products());
+            for (SpeciesRef ref : refs) {
+                Species s = model.species(ref.species());
+                if (s != null && !s.boundaryCondition() && !s.constant() && !ruled.contains(s.id())) {
+                    throw new UserInputException(SourceLocation.ofElement(model.source(), r.id()), "reaction '"
+                            + r.id() + "' has no kinetic law (or its math is empty), so the rate of change of '"
+                            + s.id() + "' is unknown; add a <kineticLaw> with <math> giving the reaction rate");
+                }
+            }
+        }
     }
 
     /**
@@ -194,6 +236,191 @@ public final class SbmlReader {
         }
     }
 
+    /**
+     * Refuses well-formed XML whose root element is not {@code <sbml>} (an HTML page, say), which JSBML reported
+     * as an unreadable file with a request to file a bug report against JSBML. Text that is not well-formed is
+     * left to JSBML, whose message then names the line.
+     */
+    static void requireSbmlRoot(String text, String file) {
+        javax.xml.stream.XMLInputFactory f = javax.xml.stream.XMLInputFactory.newFactory();
+        f.setProperty(javax.xml.stream.XMLInputFactory.SUPPORT_DTD, false);
+        f.setProperty(javax.xml.stream.XMLInputFactory.IS_SUPPORTING_EXTERNAL_ENTITIES, false);
+        String root;
+        try {
+            javax.xml.stream.XMLStreamReader r = f.createXMLStreamReader(new java.io.StringReader(text));
+            while (r.hasNext() && r.next() != javax.xml.stream.XMLStreamConstants.START_ELEMENT) {
+                // skip the prolog
+            }
+            if (!r.isStartElement()) {
+                return;
+            }
+            root = r.getLocalName();
+        } catch (XMLStreamException | RuntimeException e) {
+            return;
+        }
+        if (!root.equals("sbml")) {
+            throw new UserInputException(SourceLocation.ofFile(file), "contains no SBML model (the root element is <"
+                    + root + ">; it must be <sbml> with a <model>); pass an SBML file");
+        }
+    }
+
+    /**
+     * Refuses a document that declares a Level 3 package it requires ({@code pkg:required="true"} on
+     * {@code <sbml>}) other than comp, the one switchfit supports: the SBML Level 3 core specification says a tool
+     * must not interpret such a model without the package (from memory), since the package changes its meaning.
+     * JSBML reads arrays, distrib and unknown packages quietly, and the model then ran as if they were absent.
+     */
+    static void requireSupportedPackages(String text, String file) {
+        javax.xml.stream.XMLInputFactory f = javax.xml.stream.XMLInputFactory.newFactory();
+        f.setProperty(javax.xml.stream.XMLInputFactory.SUPPORT_DTD, false);
+        f.setProperty(javax.xml.stream.XMLInputFactory.IS_SUPPORTING_EXTERNAL_ENTITIES, false);
+        try {
+            javax.xml.stream.XMLStreamReader r = f.createXMLStreamReader(new java.io.StringReader(text));
+            while (r.hasNext()) {
+                if (r.next() != javax.xml.stream.XMLStreamConstants.START_ELEMENT) {
+                    continue;
+                }
+                for (int i = 0; i < r.getAttributeCount(); i++) {
+                    String ns = r.getAttributeNamespace(i);
+                    if (!r.getAttributeLocalName(i).equals("required") || ns == null || ns.isEmpty()
+                            || !r.getAttributeValue(i).strip().equals("true")) {
+                        continue;
+                    }
+                    String prefix = r.getAttributePrefix(i);
+                    String pkg = ns.contains("/" + CompConstants.shortLabel + "/") ? CompConstants.shortLabel
+                            : prefix != null && !prefix.isEmpty() ? prefix : ns;
+                    if (!pkg.equals(CompConstants.shortLabel)) {
+                        throw new UnsupportedConstructException(SourceLocation.ofFile(file), "the SBML Level 3 "
+                                + "package '" + pkg + "' (declared required=\"true\": the specification forbids "
+                                + "simulating the model without it)", "remove the package's elements and its "
+                                + "declaration");
+                    }
+                }
+                return; // only the root element declares packages
+            }
+        } catch (XMLStreamException e) {
+            // JSBML parsed the file; leave the rest to the later checks
+        }
+    }
+
+    /**
+     * Numeric attributes (XML Schema double) of the core SBML elements that carry them (Level 1 spellings
+     * included); elements of packages and annotations (an unprefixed name is the core namespace here) are not
+     * looked at, as their attributes may be anything.
+     */
+    private static final java.util.regex.Pattern NUMERIC_ATTR = java.util.regex.Pattern.compile(
+            "<(compartment|species|specie|parameter|localParameter|speciesReference|specieReference)\\b[^>]*?"
+                    + "\\s(stoichiometry|value|size|initialAmount|initialConcentration|volume)"
+                    + "\\s*=\\s*[\"']([^\"']*)[\"']");
+    private static final java.util.regex.Pattern ID_ATTR = java.util.regex.Pattern.compile(
+            "\\s(?:\\w+:)?id\\s*=\\s*[\"']([^\"']*)[\"']");
+
+    /**
+     * Refuses numeric attributes that are not numbers ({@code stoichiometry="x1"}, {@code value="abc"}): JSBML
+     * drops them with a log message, and the element then ran with a default value (SBML types these attributes
+     * as XML Schema double, which allows INF, -INF and NaN; from memory).
+     */
+    static void requireNumbers(String text, String file) {
+        java.util.regex.Matcher mt = NUMERIC_ATTR.matcher(text);
+        while (mt.find()) {
+            String v = mt.group(3).strip();
+            if (!isXmlDouble(v)) {
+                java.util.regex.Matcher idm = ID_ATTR.matcher(mt.group(0));
+                String where = idm.find() ? idm.group(1) : null;
+                int line = 1;
+                for (int i = 0; i < mt.start(); i++) {
+                    if (text.charAt(i) == '\n') {
+                        line++;
+                    }
+                }
+                SourceLocation loc = where != null ? SourceLocation.ofElement(file, where)
+                        : SourceLocation.ofLine(file, line);
+                throw new UserInputException(loc, "<" + mt.group(1) + ">" + (where != null ? " at line " + line : "") + " has "
+                        + mt.group(2) + "=\"" + mt.group(3) + "\", which is not a number; write a decimal number "
+                        + "such as 1 or 0.5");
+            }
+        }
+    }
+
+    private static boolean isXmlDouble(String v) {
+        if (v.equals("INF") || v.equals("-INF") || v.equals("+INF") || v.equals("NaN")) {
+            return true;
+        }
+        if (v.isEmpty() || !v.matches("[+-]?(\\d+\\.?\\d*|\\.\\d+)([eE][+-]?\\d+)?")) {
+            return false;
+        }
+        return true;
+    }
+
+    /** Elements whose id lies in a model's main (SId) namespace, with the word used in messages. */
+    private static final Map<String, String> SID_ELEMENTS = Map.of("model", "model", "modelDefinition", "model",
+            "functionDefinition", "function definition", "compartment", "compartment", "species", "species",
+            "parameter", "parameter", "reaction", "reaction", "speciesReference", "species reference",
+            "modifierSpeciesReference", "species reference", "event", "event");
+
+    /**
+     * SBML requires every id of the main namespace (model, function definitions, compartments, species,
+     * reactions, species references, parameters, events) to be unique within a model (validity rule 10301, from
+     * memory). JSBML keeps only the first of two elements with one id, so a species and a parameter called alike
+     * made one of them silently vanish; the check therefore reads the text. Each model and model definition is
+     * its own scope; local parameters (inside a kinetic law) are not in the namespace.
+     */
+    static void requireUniqueIds(String text, int level, String file) {
+        javax.xml.stream.XMLInputFactory f = javax.xml.stream.XMLInputFactory.newFactory();
+        f.setProperty(javax.xml.stream.XMLInputFactory.SUPPORT_DTD, false);
+        f.setProperty(javax.xml.stream.XMLInputFactory.IS_SUPPORTING_EXTERNAL_ENTITIES, false);
+        java.util.ArrayDeque<Map<String, String>> scopes = new java.util.ArrayDeque<>();
+        int inLaw = 0;
+        try {
+            javax.xml.stream.XMLStreamReader r = f.createXMLStreamReader(new java.io.StringReader(text));
+            while (r.hasNext()) {
+                int ev = r.next();
+                if (ev == javax.xml.stream.XMLStreamConstants.START_ELEMENT) {
+                    String name = r.getLocalName();
+                    if (name.equals("kineticLaw")) {
+                        inLaw++;
+                    }
+                    String kind = SID_ELEMENTS.get(name);
+                    boolean scope = name.equals("model") || name.equals("modelDefinition");
+                    if (scope) {
+                        scopes.push(new HashMap<>());
+                        if (level < 2) {
+                            continue; // the Level 1 model name is no identifier
+                        }
+                    }
+                    if (kind == null || inLaw > 0 || scopes.isEmpty()) {
+                        continue;
+                    }
+                    String id = null;
+                    for (int i = 0; i < r.getAttributeCount(); i++) {
+                        if (r.getAttributeLocalName(i).equals(level < 2 ? "name" : "id")) {
+                            id = r.getAttributeValue(i);
+                        }
+                    }
+                    if (id == null || id.isEmpty()) {
+                        continue;
+                    }
+                    String before = scopes.peek().putIfAbsent(id, kind);
+                    if (before != null) {
+                        throw new UserInputException(SourceLocation.ofElement(file, id), "the id '" + id
+                                + "' is used by " + (before.equals(kind) ? "two " + kind + " elements" : "the "
+                                + before + " and a " + kind) + " (line " + r.getLocation().getLineNumber()
+                                + "); SBML requires ids to be unique within a model: rename one of them");
+                    }
+                } else if (ev == javax.xml.stream.XMLStreamConstants.END_ELEMENT) {
+                    String name = r.getLocalName();
+                    if (name.equals("kineticLaw")) {
+                        inLaw--;
+                    } else if (name.equals("model") || name.equals("modelDefinition")) {
+                        scopes.pop();
+                    }
+                }
+            }
+        } catch (XMLStreamException e) {
+            // JSBML parsed the file; anything this reader dislikes is left to the later checks
+        }
+    }
+
     static String firstLine(String s) {
         if (s == null) {
             return "";
@@ -210,6 +437,11 @@ public final class SbmlReader {
         private final MathConverter conv;
         private final int level;
         private final String px;
+        /**
+         * SBML Level 3 Version 2 made the math of rules, initial assignments, triggers and event assignments
+         * optional (an element without it has no effect); earlier versions require it.
+         */
+        private final boolean mathOptional;
 
         Builder(org.sbml.jsbml.Model m, String file, String prefix, int level) {
             this.m = m;
@@ -217,6 +449,36 @@ public final class SbmlReader {
             this.conv = new MathConverter(m, file, prefix);
             this.level = level;
             this.px = prefix;
+            this.mathOptional = m == null || level > 3 || level == 3 && m.getVersion() >= 2;
+        }
+
+        /** Refuses an element without math where the file's SBML version requires it. */
+        private void requireMath(Object math, String element, String what) {
+            if (math == null && !mathOptional) {
+                throw new UserInputException(SourceLocation.ofElement(file, element), what + " has no math, which "
+                        + "SBML Level " + level + " Version " + m.getVersion() + " requires; add the <math> "
+                        + "element");
+            }
+        }
+
+        /**
+         * Refuses a rule or event assignment to a quantity declared constant (SBML validity rules 10304 and 10307
+         * for rules and 10406 for event assignments, from memory: a constant's value never changes).
+         */
+        private void requireNotConstant(String variable, String what) {
+            if (level < 2 || variable == null) {
+                return; // Level 1 has no constant attribute on these
+            }
+            org.sbml.jsbml.Parameter p = m.getParameter(variable);
+            org.sbml.jsbml.Species s = m.getSpecies(variable);
+            org.sbml.jsbml.Compartment c = m.getCompartment(variable);
+            String kind = p != null && p.getConstant() ? "parameter" : s != null && s.getConstant() ? "species"
+                    : c != null && c.getConstant() ? "compartment" : null;
+            if (kind != null) {
+                throw new UserInputException(SourceLocation.ofElement(file, px + variable), what + " changes the "
+                        + kind + " '" + variable + "', which is declared constant=\"true\"; set constant=\"false\" "
+                        + "or remove the " + (what.startsWith("event") ? "assignment" : "rule"));
+            }
         }
 
         Model build(boolean check) {
@@ -254,10 +516,15 @@ public final class SbmlReader {
             }
             List<Rule> rules = new ArrayList<>();
             for (org.sbml.jsbml.Rule r : m.getListOfRules()) {
+                String rid = r.isSetMetaId() ? px + r.getMetaId() : null;
+                String var = r instanceof AssignmentRule ? ((AssignmentRule) r).getVariable()
+                        : r instanceof RateRule ? ((RateRule) r).getVariable() : null;
+                requireMath(r.getMath(), var != null ? px + var : rid != null ? rid : "algebraic rule",
+                        var != null ? "the rule for '" + var + "'" : "an algebraic rule");
                 if (r.getMath() == null) {
                     continue; // SBML L3V2 allows math to be absent: the rule then has no effect
                 }
-                String rid = r.isSetMetaId() ? px + r.getMetaId() : null;
+                requireNotConstant(var, r instanceof RateRule ? "a rate rule" : "an assignment rule");
                 if (r instanceof AlgebraicRule) {
                     rules.add(new Rule(Rule.Kind.ALGEBRAIC, null, conv.convert(r.getMath(), Map.of(),
                             rid == null ? "algebraic rule" : rid), rid));
@@ -273,6 +540,8 @@ public final class SbmlReader {
             }
             List<InitialAssignment> ias = new ArrayList<>();
             for (org.sbml.jsbml.InitialAssignment ia : m.getListOfInitialAssignments()) {
+                requireMath(ia.getMath(), px + ia.getVariable(), "the initial assignment of '" + ia.getVariable()
+                        + "'");
                 if (ia.getMath() == null) {
                     continue;
                 }
@@ -282,6 +551,9 @@ public final class SbmlReader {
             List<Event> events = new ArrayList<>();
             int en = 0;
             for (org.sbml.jsbml.Event e : m.getListOfEvents()) {
+                String eid = px + (e.isSetId() ? e.getId() : "event" + (en + 1));
+                requireMath(e.getTrigger() == null ? null : e.getTrigger().getMath(), eid, "the trigger of event '"
+                        + eid + "'");
                 if (e.getTrigger() == null || e.getTrigger().getMath() == null) {
                     en++;
                     continue; // SBML L3V2: an event without trigger math never fires
@@ -358,9 +630,11 @@ public final class SbmlReader {
             boolean uvftt = !e.isSetUseValuesFromTriggerTime() || e.getUseValuesFromTriggerTime();
             List<Event.Assignment> as = new ArrayList<>();
             for (org.sbml.jsbml.EventAssignment a : e.getListOfEventAssignments()) {
+                requireMath(a.getMath(), eid, "the assignment to '" + a.getVariable() + "' in event '" + eid + "'");
                 if (a.getMath() == null) {
                     continue;
                 }
+                requireNotConstant(a.getVariable(), "event '" + eid + "'");
                 as.add(new Event.Assignment(px + a.getVariable(), conv.convert(a.getMath(), Map.of(), eid)));
             }
             return new Event(eid, trig, init, persistent, delay, prio, uvftt, as);

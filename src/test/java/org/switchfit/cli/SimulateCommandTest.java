@@ -107,4 +107,36 @@ class SimulateCommandTest {
         assertUserError(run("simulate", res("decay.xml"), "--times", "0:1:2", "--set", "nope=1"), "nope",
                 "settable");
     }
+
+    @Test
+    void nonFiniteOrZeroStartingValuesNameTheElementAndOption(@org.junit.jupiter.api.io.TempDir Path dir)
+            throws Exception {
+        // were "integration stopped at t = 0: step size fell to NaN" / "Newton corrector failed", naming nothing
+        assertUserError(run("simulate", res("decay.xml"), "--times", "0:1:2", "--set", "k=NaN"), "'k'", "NaN",
+                "--set k=VALUE");
+        assertUserError(run("simulate", res("decay.xml"), "--times", "0:1:2", "--set", "cell=0"), "'cell'",
+                "size", "positive", "--set");
+        // SYNTHETIC: decay.xml with the species' initial concentration removed
+        String xml = java.nio.file.Files.readString(Path.of(res("decay.xml")))
+                .replace("initialConcentration=\"5\"", "");
+        Path f = dir.resolve("noinit.xml");
+        java.nio.file.Files.writeString(f, xml);
+        assertUserError(run("simulate", f.toString(), "--times", "0:1:2"), "'A'", "initial value", "NaN");
+    }
+
+    @Test
+    void negativeOrInfiniteOutputTimesAreRefused() {
+        // simulations start at t = 0: -2 printed the initial state, Infinity repeated it
+        assertUserError(run("simulate", res("decay.xml"), "--times=-2,-1,0,1"), "-2", "before 0");
+        assertUserError(run("simulate", res("decay.xml"), "--times=-1:1:2"), "-1", "before 0");
+        assertUserError(run("simulate", res("decay.xml"), "--times", "0,Infinity"), "Infinity", "finite");
+    }
+
+    @Test
+    void unwritableOutputOrLogIsOneLineUserError(@org.junit.jupiter.api.io.TempDir Path dir) {
+        // a directory given as output file: was "internal error" (exit 1), and for --log a stack trace
+        assertUserError(run("simulate", res("decay.xml"), "--times", "0,1", "--out", dir.toString()),
+                "cannot write", "writable file");
+        assertUserError(run("simulate", res("decay.xml"), "--times", "0,1", "--log", dir.toString()), "--log");
+    }
 }
