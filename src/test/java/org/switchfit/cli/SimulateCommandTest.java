@@ -136,7 +136,16 @@ class SimulateCommandTest {
     void unwritableOutputOrLogIsOneLineUserError(@org.junit.jupiter.api.io.TempDir Path dir) {
         // a directory given as output file: was "internal error" (exit 1), and for --log a stack trace
         assertUserError(run("simulate", res("decay.xml"), "--times", "0,1", "--out", dir.toString()),
-                "cannot write", "writable file");
+                "is a directory", "give a file name");
+        // a file in a folder that cannot be created (a regular file stands where the folder should be)
+        Path blocker = dir.resolve("blocker");
+        try {
+            java.nio.file.Files.writeString(blocker, "x");
+        } catch (java.io.IOException e) {
+            throw new java.io.UncheckedIOException(e);
+        }
+        assertUserError(run("simulate", res("decay.xml"), "--times", "0,1", "--out",
+                blocker.resolve("out.csv").toString()), "cannot write");
         assertUserError(run("simulate", res("decay.xml"), "--times", "0,1", "--log", dir.toString()), "--log");
     }
 }
