@@ -168,27 +168,13 @@ public final class SweepCommand implements Callable<Integer> {
                 return String.format(Locale.ROOT, "%s jumps from %.6g to %.6g between %s = %.8g and %.8g "
                         + "(largest change between consecutive samples)", ro, y[i], y[i + 1], label, v[i], v[i + 1]);
             }
-            case OSCILLATION: {
-                double lo = Double.POSITIVE_INFINITY;
-                double hi = Double.NEGATIVE_INFINITY;
-                for (double x : y) {
-                    lo = Math.min(lo, x);
-                    hi = Math.max(hi, x);
-                }
+            case OSCILLATION:
                 return String.format(Locale.ROOT, "%s oscillates (its increments change sign again and again, "
                         + "between %.6g and %.6g), so no jump is reported; compare with the Hopf points of "
-                        + "'switchfit branches'", ro, lo, hi);
-            }
-            default: {
-                double lo = Double.POSITIVE_INFINITY;
-                double hi = Double.NEGATIVE_INFINITY;
-                for (double x : y) {
-                    lo = Math.min(lo, x);
-                    hi = Math.max(hi, x);
-                }
+                        + "'switchfit branches'", ro, min(y), max(y));
+            default:
                 return String.format(Locale.ROOT, "no jump of %s (it stays within %.6g .. %.6g without a step "
-                        + "larger than twice its mean step)", ro, lo, hi);
-            }
+                        + "larger than twice its mean step)", ro, min(y), max(y));
         }
     }
 
@@ -251,5 +237,21 @@ public final class SweepCommand implements Callable<Integer> {
                 run(SweepFile.Direction.DOWN, down, s, ri));
         SweepFile file = new SweepFile(c.label(), ro, rate, runs);
         return file;
+    }
+
+    private static double min(double[] y) {
+        double lo = Double.POSITIVE_INFINITY;
+        for (double x : y) {
+            lo = Math.min(lo, x);
+        }
+        return lo;
+    }
+
+    private static double max(double[] y) {
+        double hi = Double.NEGATIVE_INFINITY;
+        for (double x : y) {
+            hi = Math.max(hi, x);
+        }
+        return hi;
     }
 }

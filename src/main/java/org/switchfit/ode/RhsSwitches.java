@@ -36,15 +36,7 @@ final class RhsSwitches {
         for (int l = 0; l < nl; l++) {
             varying[l] = varies(rt.local(l), varying);
         }
-        boolean[] used = new boolean[nl];
-        for (Expr o : rt.outputs()) {
-            markLocals(o, used);
-        }
-        for (int l = nl - 1; l >= 0; l--) {
-            if (used[l]) {
-                markLocals(rt.local(l), used);
-            }
-        }
+        boolean[] used = usedLocals(rt);
         List<Expr> out = new ArrayList<>();
         for (int l = 0; l < nl; l++) {
             if (used[l]) {
@@ -93,15 +85,7 @@ final class RhsSwitches {
             varying[l] = varies(rt.local(l), varying);
             stateful[l] = onStates(rt.local(l), stateful);
         }
-        boolean[] used = new boolean[nl];
-        for (Expr o : rt.outputs()) {
-            markLocals(o, used);
-        }
-        for (int l = nl - 1; l >= 0; l--) {
-            if (used[l]) {
-                markLocals(rt.local(l), used);
-            }
-        }
+        boolean[] used = usedLocals(rt);
         Expr[] found = new Expr[1];
         java.util.function.Consumer<Expr> scan = e -> e.forEach(x -> {
             if (found[0] == null && (x.op() == Op.FLOOR || x.op() == Op.CEIL || x.op() == Op.QUOTIENT
@@ -118,6 +102,21 @@ final class RhsSwitches {
             scan.accept(o);
         }
         return found[0];
+    }
+
+    /** Which runtime locals the outputs use, directly or through other locals. */
+    private static boolean[] usedLocals(Block rt) {
+        int nl = rt.localCount();
+        boolean[] used = new boolean[nl];
+        for (Expr o : rt.outputs()) {
+            markLocals(o, used);
+        }
+        for (int l = nl - 1; l >= 0; l--) {
+            if (used[l]) {
+                markLocals(rt.local(l), used);
+            }
+        }
+        return used;
     }
 
     private static void markLocals(Expr e, boolean[] used) {
