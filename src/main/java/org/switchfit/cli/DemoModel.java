@@ -125,8 +125,9 @@ final class DemoModel {
      * state is the attractor of the actual dynamics, polished to rounding). Returns the full state.
      */
     double[] settle(double[] p, double[] y0) {
+        // the state vector itself (amounts where the state is an amount), as withInitialState expects it
         Trajectory tr = new Simulator(compiled, settleIntegrator).simulate(new double[] {SETTLE_TIME},
-                withInitialState(p, y0), ModelOutputs.of(compiled, states));
+                withInitialState(p, y0), sm.stateOutputs());
         double[] y = new double[states.size()];
         for (int i = 0; i < y.length; i++) {
             y[i] = tr.value(0, i);

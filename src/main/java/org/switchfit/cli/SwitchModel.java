@@ -259,6 +259,22 @@ final class SwitchModel {
      * vector itself (amounts of species whose state is the amount), not what {@code simulate} reports.
      */
     double[] integrate(double[] p, double[] y, double t) {
+        Trajectory tr = new Simulator(compiled, Integrators.create(SolverSettings.defaults()
+                .withMethod(SolverSettings.Method.BDF).withTolerances(1e-8, 1e-12)))
+                .simulate(new double[] {0, t}, withInitialState(p, y), stateOutputs());
+        double[] out = new double[states.size()];
+        for (int i = 0; i < out.length; i++) {
+            out[i] = tr.value(1, i);
+        }
+        return out;
+    }
+
+    /**
+     * Outputs that read the state vector itself: {@code amount(S)} for a species whose state is its amount but
+     * whose reported value is its concentration, the plain id otherwise (what {@code simulate} reports differs
+     * from the state whenever a compartment size is not 1).
+     */
+    ModelOutputs stateOutputs() {
         List<String> names = new ArrayList<>();
         OdeForm form = compiled.form();
         for (int i = 0; i < states.size(); i++) {
@@ -266,14 +282,7 @@ final class SwitchModel {
             Species sp = form.stateKind(i) == OdeForm.StateKind.SPECIES_AMOUNT ? model.species(id) : null;
             names.add(sp != null && !sp.hasOnlySubstanceUnits() ? "amount(" + id + ")" : id);
         }
-        Trajectory tr = new Simulator(compiled, Integrators.create(SolverSettings.defaults()
-                .withMethod(SolverSettings.Method.BDF).withTolerances(1e-8, 1e-12)))
-                .simulate(new double[] {0, t}, withInitialState(p, y), ModelOutputs.of(compiled, names));
-        double[] out = new double[states.size()];
-        for (int i = 0; i < out.length; i++) {
-            out[i] = tr.value(1, i);
-        }
-        return out;
+        return ModelOutputs.of(compiled, names);
     }
 
     /**
