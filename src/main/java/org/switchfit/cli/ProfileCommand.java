@@ -78,6 +78,9 @@ public final class ProfileCommand implements Callable<Integer> {
         if (!(level > 0 && level < 1)) {
             throw new UserInputException(null, "--level must be between 0 and 1 (exclusive); got " + level);
         }
+        if (threads < 0) {
+            throw new UserInputException(null, "--threads must not be negative (0 means all cores); got " + threads);
+        }
         int nThreads = threads > 0 ? threads : Runtime.getRuntime().availableProcessors();
         PrintWriter out = spec.commandLine().getOut();
         PrintWriter err = spec.commandLine().getErr();

@@ -265,6 +265,11 @@ class ProfileCommandTest {
     }
 
     @Test
+    void negativeThreadCountIsUserError() {
+        assertUserError(run("profile", fitDir.toString(), "--resume", "--threads", "-1"), "--threads", "-1");
+    }
+
+    @Test
     void unknownPredictionObservableIsUserError() {
         assertUserError(run("profile", fitDir.toString(), "--resume", "--predict", "nosuch@1"), "nosuch",
                 "observables: obs");
