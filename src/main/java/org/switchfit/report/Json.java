@@ -115,7 +115,12 @@ public final class Json {
 
         JsonReadException(Path file, JsonProcessingException e) {
             super(file + (e.getLocation() == null ? "" : ", line " + e.getLocation().getLineNr() + ", column "
-                    + e.getLocation().getColumnNr()) + ": " + e.getOriginalMessage(), e);
+                    + e.getLocation().getColumnNr()) + ": " + withoutJavaTypes(e.getOriginalMessage()), e);
+        }
+
+        /** A user reads JSON, not our classes: {@code `org.switchfit...Stored`} becomes "the expected type". */
+        static String withoutJavaTypes(String message) {
+            return message == null ? "" : message.replaceAll("`[A-Za-z_][\\w.$]*`", "the expected type");
         }
     }
 
