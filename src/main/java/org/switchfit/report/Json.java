@@ -118,9 +118,14 @@ public final class Json {
                     + e.getLocation().getColumnNr()) + ": " + withoutJavaTypes(e.getOriginalMessage()), e);
         }
 
-        /** A user reads JSON, not our classes: {@code `org.switchfit...Stored`} becomes "the expected type". */
+        /** A user reads JSON, not our classes: {@code `org.switchfit...Stored`} becomes "the expected value". */
         static String withoutJavaTypes(String message) {
-            return message == null ? "" : message.replaceAll("`[A-Za-z_][\\w.$]*`", "the expected type");
+            if (message == null) {
+                return "";
+            }
+            return message.replaceAll(" \\(token `JsonToken\\.[A-Z_]+`\\)", "")
+                    .replaceAll("value of type `[\\w.$<>, ]+`", "the expected value")
+                    .replaceAll("`[a-z][\\w]*(\\.[\\w$]+)+`", "the expected value");
         }
     }
 
