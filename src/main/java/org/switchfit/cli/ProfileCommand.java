@@ -3,10 +3,12 @@ package org.switchfit.cli;
 import java.io.PrintWriter;
 import java.nio.file.Path;
 import java.util.ArrayList;
+import java.util.HashSet;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
 import java.util.Optional;
+import java.util.Set;
 import java.util.concurrent.Callable;
 import org.switchfit.fit.FitProblem;
 import org.switchfit.objective.FoldPredictionSource;
@@ -77,6 +79,9 @@ public final class ProfileCommand implements Callable<Integer> {
     public Integer call() {
         if (!(level > 0 && level < 1)) {
             throw new UserInputException(null, "--level must be between 0 and 1 (exclusive); got " + level);
+        }
+        if (threads < 0) {
+            throw new UserInputException(null, "--threads must not be negative (0 means all cores); got " + threads);
         }
         int nThreads = threads > 0 ? threads : Runtime.getRuntime().availableProcessors();
         PrintWriter out = spec.commandLine().getOut();
@@ -158,11 +163,16 @@ public final class ProfileCommand implements Callable<Integer> {
             }
             return tasks;
         }
+        // A repeated id is profiled once: twice would double the work, print the row twice and race on its file.
+        Set<Integer> seen = new HashSet<>();
         for (String id : parameters) {
             int k = fp.indexOf(id.trim());
             if (k < 0) {
                 throw new UserInputException(null, "--parameters: '" + id + "' is not an estimated parameter of the "
-                        + "fit (estimated: " + SimulateCommand.abbreviate(List.of(fp.ids())) + ")");
+                        + "fit (estimated: " + SimulateCommand.abbreviate(List.of(fp.ids())) + "); give one of these");
+            }
+            if (!seen.add(k)) {
+                continue;
             }
             tasks.add(new ProfileRun.Task(ProfilesFile.Kind.PARAMETER, fp.id(k), k, null));
         }

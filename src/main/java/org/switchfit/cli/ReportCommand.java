@@ -4,6 +4,7 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.concurrent.Callable;
 import org.switchfit.report.FitDirectory;
+import org.switchfit.report.FitFile;
 import org.switchfit.report.FitReport;
 import org.switchfit.report.HtmlReport;
 import org.switchfit.util.SourceLocation;
@@ -38,6 +39,12 @@ public final class ReportCommand implements Callable<Integer> {
                     + "--out folder of 'switchfit fit'");
         }
         FitDirectory dir = FitDirectory.of(fitDir);
+        // An empty or unrelated folder would otherwise give an empty page and exit code 0, hiding a wrong path.
+        if (FitFile.ALL.stream().noneMatch(dir::has)) {
+            throw new UserInputException(SourceLocation.ofFile(fitDir.toString()), "holds none of the files of a fit"
+                    + " directory (result.json, profiles.json, branches.json, ...); give the --out folder of "
+                    + "'switchfit fit'");
+        }
         String version = new Main.Version().getVersion()[0];
         HtmlReport page = FitReport.build(dir, version + "; report of " + fitDir);
         Path target = out == null ? fitDir.resolve("report.html") : out;

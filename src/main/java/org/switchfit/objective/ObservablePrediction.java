@@ -86,7 +86,9 @@ public final class ObservablePrediction implements Prediction {
                     + " give a time such as 30 or inf", e);
         }
         if (!(t >= 0)) {
-            throw new UserInputException(where, "prediction '" + spec + "': time must be >= 0");
+            throw new UserInputException(where, "prediction '" + spec + "': time " + tText + " is "
+                    + (Double.isNaN(t) ? "not a number" : "negative")
+                    + "; give a time >= 0, or inf for the steady state");
         }
         String expId = null;
         String obsId = head;

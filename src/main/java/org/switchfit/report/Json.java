@@ -115,7 +115,17 @@ public final class Json {
 
         JsonReadException(Path file, JsonProcessingException e) {
             super(file + (e.getLocation() == null ? "" : ", line " + e.getLocation().getLineNr() + ", column "
-                    + e.getLocation().getColumnNr()) + ": " + e.getOriginalMessage(), e);
+                    + e.getLocation().getColumnNr()) + ": " + withoutJavaTypes(e.getOriginalMessage()), e);
+        }
+
+        /** A user reads JSON, not our classes: {@code `org.switchfit...Stored`} becomes "the expected value". */
+        static String withoutJavaTypes(String message) {
+            if (message == null) {
+                return "";
+            }
+            return message.replaceAll(" \\(token `JsonToken\\.[A-Z_]+`\\)", "")
+                    .replaceAll("value of type `[\\w.$<>, ]+`", "the expected value")
+                    .replaceAll("`[a-z][\\w]*(\\.[\\w$]+)+`", "the expected value");
         }
     }
 

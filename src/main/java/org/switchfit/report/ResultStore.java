@@ -15,7 +15,6 @@ import java.util.Optional;
 import java.util.Set;
 import java.util.regex.Pattern;
 import java.util.stream.Stream;
-import org.switchfit.util.SourceLocation;
 import org.switchfit.util.UserInputException;
 
 /**
@@ -94,9 +93,9 @@ public final class ResultStore {
         try {
             return Json.read(f, type);
         } catch (Json.JsonReadException e) {
-            throw new UserInputException(SourceLocation.ofFile(f.toString()), "stored result is not a valid "
-                    + type.getSimpleName() + " (" + e.getCause().getMessage().lines().findFirst().orElse("")
-                    + "); delete the file to recompute that task, or use a fresh output directory", e);
+            throw new UserInputException(null, e.getMessage().lines().findFirst().orElse(f.toString())
+                    + "; not a valid stored result of this command: delete the file to recompute that task, or use a"
+                    + " fresh output directory", e);
         }
     }
 

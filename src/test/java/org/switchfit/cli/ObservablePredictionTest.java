@@ -70,5 +70,13 @@ class ObservablePredictionTest {
         UserInputException c = assertThrows(UserInputException.class,
                 () -> ObservablePrediction.of(p, TIGHT, SteadyState.defaults(), "other/obs@1"));
         assertTrue(c.getMessage().contains("no experiment 'other'"), c.getMessage());
+        // NaN is no time at all: the message must not claim it is a negative one.
+        UserInputException d = assertThrows(UserInputException.class,
+                () -> ObservablePrediction.of(p, TIGHT, SteadyState.defaults(), "obs@NaN"));
+        assertTrue(d.getMessage().contains("time NaN is not a number") && d.getMessage().contains("give a time >= 0"),
+                d.getMessage());
+        UserInputException n = assertThrows(UserInputException.class,
+                () -> ObservablePrediction.of(p, TIGHT, SteadyState.defaults(), "obs@-1"));
+        assertTrue(n.getMessage().contains("time -1 is negative"), n.getMessage());
     }
 }

@@ -265,6 +265,21 @@ class ProfileCommandTest {
     }
 
     @Test
+    void repeatedParameterIdIsProfiledOnce() throws IOException {
+        Path d = copyFit("repeated", 0.0);
+        Result r = run("profile", d.toString(), "--parameters", "k,k", "--threads", "2");
+        assertEquals(0, r.code(), r.err());
+        long rows = r.out().lines().filter(l -> l.startsWith("parameter ")).count();
+        assertEquals(1, rows, r.out());
+        assertTrue(r.out().contains("1 profiles in") || r.out().contains("1 profile in"), r.out());
+    }
+
+    @Test
+    void negativeThreadCountIsUserError() {
+        assertUserError(run("profile", fitDir.toString(), "--resume", "--threads", "-1"), "--threads", "-1");
+    }
+
+    @Test
     void unknownPredictionObservableIsUserError() {
         assertUserError(run("profile", fitDir.toString(), "--resume", "--predict", "nosuch@1"), "nosuch",
                 "observables: obs");

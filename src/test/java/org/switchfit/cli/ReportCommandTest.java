@@ -114,4 +114,17 @@ class ReportCommandTest {
         assertEquals("2", r[0]);
         assertTrue(r[2].contains("is not a directory"), r[2]);
     }
+
+    /** An empty or unrelated folder is a wrong path, not an empty report (common practice: fail loudly). */
+    @Test
+    void folderWithoutFitFilesIsExitCode2WithOneLine() throws Exception {
+        Path foreign = Files.createDirectories(dir.resolve("foreign"));
+        Files.writeString(foreign.resolve("notes.txt"), "not a fit directory");
+        String[] r = run("report", foreign.toString());
+        assertEquals("2", r[0], r[1]);
+        String err = r[2].strip();
+        assertFalse(err.contains("\n"), err);
+        assertTrue(err.startsWith("error: ") && err.contains("foreign") && err.contains("--out folder"), err);
+        assertFalse(Files.exists(foreign.resolve("report.html")));
+    }
 }

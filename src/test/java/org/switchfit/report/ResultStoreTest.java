@@ -94,6 +94,22 @@ class ResultStoreTest {
         assertEquals(1, e.getMessage().lines().count(), "one-line message");
     }
 
+    /** A file of the wrong shape names the place in the file, not the Java class it should have become. */
+    @Test
+    void wrongShapeNamesLineAndColumnButNoJavaType(@TempDir Path dir) throws Exception {
+        ResultStore store = new ResultStore(dir);
+        Files.writeString(dir.resolve("start-000002.json"), "[1, 2]");
+        UserInputException e = assertThrows(UserInputException.class,
+                () -> store.get("start-000002", StartResult.class));
+        String m = e.getMessage();
+        assertTrue(m.contains("start-000002.json, line 1, column 1"), m);
+        assertTrue(m.contains("delete the file"), m);
+        assertFalse(m.contains("org.switchfit") || m.contains("StartResult") || m.contains("`")
+                || m.contains("JsonToken"), m);
+        assertTrue(m.contains("Cannot deserialize the expected value from Array value"), m);
+        assertEquals(1, m.lines().count(), "one-line message");
+    }
+
     @Test
     void keysMustBePortableFileNames(@TempDir Path dir) {
         ResultStore store = new ResultStore(dir);
