@@ -102,20 +102,14 @@ public final class BranchesCommand implements Callable<Integer> {
                 b.size(), s.control.label(), SwitchSetup.fmt(s.startValue), b.folds().size(), b.hopfs().size(),
                 b.startEnd(), b.finishEnd(), s.timing[0], s.timing[1], s.timing[2], s.sm.laws.lawCount(),
                 s.timing[4], s.timing[3], (t2 - t1) * 1e-9);
-        for (Branch.EndReason e : List.of(b.startEnd(), b.finishEnd())) {
-            if (e == Branch.EndReason.MAX_POINTS) {
-                out.printf(Locale.ROOT, "note: a direction stopped at the point limit (%d) before the end of the "
-                        + "range; raise --max-points to trace further%n", maxPoints);
-                break;
-            }
+        if (b.startEnd() == Branch.EndReason.MAX_POINTS || b.finishEnd() == Branch.EndReason.MAX_POINTS) {
+            out.printf(Locale.ROOT, "note: a direction stopped at the point limit (%d) before the end of the "
+                    + "range; raise --max-points to trace further%n", maxPoints);
         }
-        for (Branch.EndReason e : List.of(b.startEnd(), b.finishEnd())) {
-            if (e == Branch.EndReason.STEP_TOO_SMALL) {
-                out.printf(Locale.ROOT, "note: a direction stopped because the step fell below the minimum (the "
-                        + "branch may end at a singular point, or the model may be stiff there); narrow the range "
-                        + "or check the model near the last point%n");
-                break;
-            }
+        if (b.startEnd() == Branch.EndReason.STEP_TOO_SMALL || b.finishEnd() == Branch.EndReason.STEP_TOO_SMALL) {
+            out.printf(Locale.ROOT, "note: a direction stopped because the step fell below the minimum (the "
+                    + "branch may end at a singular point, or the model may be stiff there); narrow the range "
+                    + "or check the model near the last point%n");
         }
         out.printf(Locale.ROOT, "continuation: %d reduced states, %s linear algebra, %.1f ms per point%n",
                 s.sm.reduced.stateCount(), SwitchSetup.usesSparseLu(sc, cs) ? "sparse" : "dense",

@@ -47,6 +47,9 @@ import picocli.CommandLine.Spec;
         footer = {"", "Examples:", "  switchfit fit datasets/stress_switch.yaml --starts 20 --seed 1 --threads 2 --out fits/mine", "  switchfit fit datasets/stress_switch.yaml --starts 20 --seed 1 --out fits/mine --resume --log fit.log"},
         description = "Fit a problem (PEtab YAML or switchfit problem file) by multistart Levenberg-Marquardt.")
 public final class FitCommand implements Callable<Integer> {
+    /** Inputs' checksums and result-changing settings of this run (set in call()). */
+    private StartStore.RunIdentity identity;
+
 
     @Spec
     picocli.CommandLine.Model.CommandSpec spec;
@@ -91,10 +94,10 @@ public final class FitCommand implements Callable<Integer> {
         }
         LikelihoodObjective objective = LikelihoodObjective.of(problem, solver.settings());
         FitProblem fp = fitProblem(problem, objective);
+        identity = StartStore.RunIdentity.of(problem.inputFiles(), solver.identity(starts, seed, nominalStart));
         StartStore store = new StartStore(out.resolve("starts"), resume, () -> new UserInputException(
                 SourceLocation.ofFile(out.toString()), "already holds finished starts; add --resume to continue that "
-                + "run, or choose another --out folder"), StartStore.RunIdentity.of(problem.inputFiles(),
-                solver.identity(starts, seed, nominalStart)));
+                + "run, or choose another --out folder"), identity);
         List<StartResult> finished = store.finished();
         Multistart ms = solver.multistart(starts, seed);
         double[] guess = nominalStart ? problem.nominalTheta() : null;
@@ -233,10 +236,8 @@ public final class FitCommand implements Callable<Integer> {
         Map<String, String> versions = new LinkedHashMap<>();
         versions.put("switchfit", new Main.Version().getVersion()[0]);
         versions.put("java", System.getProperty("java.version"));
-        List<FitSummary.InputFile> inputs = new ArrayList<>();
-        for (Path p : problem.inputFiles()) {
-            inputs.add(FitSummary.InputFile.of(p));
-        }
+        // the checksums taken when the run opened its folder (the ones a resume checks), not a second hashing
+        List<FitSummary.InputFile> inputs = identity.inputs();
         FitSummary.Settings settings = new FitSummary.Settings(starts, seed, solver.rtol, solver.atol, nominalStart,
                 solver.costTolerance, solver.maxIterations, !solver.noClosedFormFactors);
         FitSummary summary = FitSummary.of(problem, result, settings, wall, versions, inputs);
@@ -258,7 +259,7 @@ public final class FitCommand implements Callable<Integer> {
         }
         csv.write(out.resolve(DataCounts.RESIDUALS));
         if (!ev.switching().isEmpty()) {
-            switchingCsv(ev.switching()).write(out.resolve(SWITCHING_RESIDUALS));
+            switchingCsv(ev.switching()).write(out.resolve(DataCounts.SWITCHING_RESIDUALS));
         }
         Map<String, Double> values = new LinkedHashMap<>();
         for (int k = 0; k < problem.parameterCount(); k++) {
@@ -268,9 +269,6 @@ public final class FitCommand implements Callable<Integer> {
         writeTrajectories(objective, th);
         return ev.switching();
     }
-
-    /** File name of the switching-threshold and dose-response residuals in a fit directory. */
-    public static final String SWITCHING_RESIDUALS = DataCounts.SWITCHING_RESIDUALS;
 
     /**
      * The switching-threshold and dose-response data with the model's values: one row per datum, residual

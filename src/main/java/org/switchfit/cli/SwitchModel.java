@@ -55,6 +55,8 @@ final class SwitchModel {
      * state vector holds species amounts: the two differ by the compartment size, which may depend on the control.
      */
     private final ModelOutputs reportedStates;
+    /** Outputs reading the state vector itself ({@link #stateOutputs}). */
+    private final ModelOutputs stateOutputs;
 
     private SwitchModel(Path file, Model model, CompiledModel compiled, ConservationLaws laws,
                         ActiveNetwork network) {
@@ -66,6 +68,7 @@ final class SwitchModel {
         this.reduced = laws.reduce(compiled);
         this.states = compiled.form().stateIds();
         this.reportedStates = ModelOutputs.of(compiled, states);
+        this.stateOutputs = buildStateOutputs();
     }
 
     /**
@@ -275,6 +278,10 @@ final class SwitchModel {
      * from the state whenever a compartment size is not 1).
      */
     ModelOutputs stateOutputs() {
+        return stateOutputs;
+    }
+
+    private ModelOutputs buildStateOutputs() {
         List<String> names = new ArrayList<>();
         OdeForm form = compiled.form();
         for (int i = 0; i < states.size(); i++) {

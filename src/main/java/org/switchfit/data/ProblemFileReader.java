@@ -216,9 +216,10 @@ public final class ProblemFileReader {
     private static Prior readPrior(YamlNode n, String id) {
         n.requireMap("{type: normal, mean: 1.0, sd: 0.5}");
         String type = n.string("type", "normal");
+        String kind = keyword(type);
         double a;
         double b;
-        switch (keyword(type)) {
+        switch (kind) {
             case "normal":
                 n.checkKeys(List.of("type", "mean", "sd"));
                 a = n.number("mean", "1.0");
@@ -238,7 +239,7 @@ public final class ProblemFileReader {
             throw Messages.error(n.location(), "parameter '%s': prior %s needs a finite centre and a positive"
                     + " finite spread (got %s, %s); correct the values", id, type, fmt(a), fmt(b));
         }
-        return "normal".equals(keyword(type)) ? Prior.normal(a, b) : Prior.logNormal(a, b);
+        return "normal".equals(kind) ? Prior.normal(a, b) : Prior.logNormal(a, b);
     }
 
     private static List<Experiment> readExperiments(YamlNode root) {

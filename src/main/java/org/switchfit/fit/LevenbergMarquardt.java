@@ -308,7 +308,7 @@ public final class LevenbergMarquardt {
                     break;
                 }
                 if (scaledProjectedGradient(g, d) <= gradientTolerance) {
-                    why = iters == 0 && allZero(g) ? Termination.FLAT : Termination.GRADIENT;
+                    why = Termination.GRADIENT; // FLAT or GRADIENT: decided after the loop
                     break;
                 }
                 int[] work = workingSet(g);

@@ -74,8 +74,8 @@ final class ExperimentBlock implements ResidualBlock {
                         "noise spread of observable '%s' evaluates to %s for this data point; it must be positive and "
                         + "finite: correct the observable's noise definition (%s) or the noise values given for this "
                         + "point (its sigma, or in PEtab its noiseParameters)",
-                        od.id(), s, od.location() == null ? "" : new SourceLocation(od.location().file(),
-                        od.location().line(), 0, null)));
+                        od.id(), s, od.location() == null ? "" : SourceLocation.ofLine(od.location().file(),
+                        od.location().line())));
             }
             c = NoiseResidual.addConstant(c, od, me.value(), sigmaVariable[i], s, shift[i]);
         }

@@ -174,7 +174,7 @@ public final class ProblemLoader {
                 int k = cm.parameterIndex(conditionTarget(cm, col));
                 if (k < 0) {
                     // the column is the problem, so the location is the header line
-                    SourceLocation header = new SourceLocation(c.location().file(), 1, 0, col);
+                    SourceLocation header = SourceLocation.ofLine(c.location().file(), 1).withElement(col);
                     throw UserInputException.of(header, "condition table column '%s' is not "
                             + "a parameter, species or compartment of the model that a condition can set; remove "
                             + "the column or correct the id", col);
@@ -183,8 +183,9 @@ public final class ProblemLoader {
                     continue;
                 }
                 src.put(k, resolve(v, sources, cm, c.location().withElement(col), "condition '" + c.id() + "'"));
-                if (conditionFlag(cm, col) >= 0) {
-                    src.put(conditionFlag(cm, col), ValueSource.ofConstant(1.0));
+                int flag = conditionFlag(cm, col);
+                if (flag >= 0) {
+                    src.put(flag, ValueSource.ofConstant(1.0));
                 }
                 if (species && form.stateIndex(col) >= 0) {
                     reinit.add(form.stateIndex(col));

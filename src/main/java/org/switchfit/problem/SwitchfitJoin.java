@@ -107,9 +107,10 @@ final class SwitchfitJoin {
                             e.id(), id, modelFile);
                 }
                 src.put(k, value(v.getValue(), sources, cm, e.location(), e.id()));
-                if (species && ProblemLoader.conditionFlag(cm, id) >= 0) {
+                int flag = species ? ProblemLoader.conditionFlag(cm, id) : -1;
+                if (flag >= 0) {
                     // the species has an initial assignment in the model: the experiment's value replaces it
-                    src.put(ProblemLoader.conditionFlag(cm, id), ValueSource.ofConstant(1.0));
+                    src.put(flag, ValueSource.ofConstant(1.0));
                 }
                 if (species && form.stateIndex(id) >= 0) {
                     reinit.add(form.stateIndex(id));

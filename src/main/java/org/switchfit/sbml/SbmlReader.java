@@ -88,8 +88,10 @@ public final class SbmlReader {
             throw new UserInputException(SourceLocation.ofFile(file), "file not found; check the path");
         }
         SBMLDocument doc;
+        String text;
         try {
-            String xml = Files.readString(path, java.nio.charset.StandardCharsets.UTF_8);
+            text = Files.readString(path, java.nio.charset.StandardCharsets.UTF_8);
+            String xml = text;
             requireSbmlRoot(xml, file);
             if (MathMlRepair.needed(xml)) {
                 try {
@@ -128,21 +130,14 @@ public final class SbmlReader {
             throw new UserInputException(SourceLocation.ofFile(file), "contains no SBML model (root element must "
                     + "be <sbml> with a <model>); pass an SBML file");
         }
-        String text = null;
-        try {
-            text = Files.readString(path, java.nio.charset.StandardCharsets.UTF_8);
-        } catch (IOException e) {
-            // JSBML read it a moment ago; skip the text checks
-        }
-        if (text != null) {
-            requireSupportedPackages(text, file);
-            requireNumbers(text, file);
-            requireUniqueIds(text, doc.getLevel(), file);
-        }
+        // the file's own text (before any MathML repair), read once above
+        requireSupportedPackages(text, file);
+        requireNumbers(text, file);
+        requireUniqueIds(text, doc.getLevel(), file);
         Model flattened = null;
         // a document may declare the comp namespace (even comp:required) without using any comp element; there
         // is nothing to flatten then (unreadable text: keep the conservative choice)
-        boolean compContent = text == null || text.contains(":listOf") || text.contains("listOfSubmodels")
+        boolean compContent = text.contains(":listOf") || text.contains("listOfSubmodels")
                 || text.contains("listOfModelDefinitions") || text.contains("listOfExternalModelDefinitions");
         if (compContent && (doc.isPackageEnabled(CompConstants.shortLabel)
                 || doc.getModel().getExtension(CompConstants.shortLabel) != null
@@ -242,9 +237,7 @@ public final class SbmlReader {
      * left to JSBML, whose message then names the line.
      */
     static void requireSbmlRoot(String text, String file) {
-        javax.xml.stream.XMLInputFactory f = javax.xml.stream.XMLInputFactory.newFactory();
-        f.setProperty(javax.xml.stream.XMLInputFactory.SUPPORT_DTD, false);
-        f.setProperty(javax.xml.stream.XMLInputFactory.IS_SUPPORTING_EXTERNAL_ENTITIES, false);
+        javax.xml.stream.XMLInputFactory f = safeXmlFactory();
         String root;
         try {
             javax.xml.stream.XMLStreamReader r = f.createXMLStreamReader(new java.io.StringReader(text));
@@ -271,9 +264,7 @@ public final class SbmlReader {
      * JSBML reads arrays, distrib and unknown packages quietly, and the model then ran as if they were absent.
      */
     static void requireSupportedPackages(String text, String file) {
-        javax.xml.stream.XMLInputFactory f = javax.xml.stream.XMLInputFactory.newFactory();
-        f.setProperty(javax.xml.stream.XMLInputFactory.SUPPORT_DTD, false);
-        f.setProperty(javax.xml.stream.XMLInputFactory.IS_SUPPORTING_EXTERNAL_ENTITIES, false);
+        javax.xml.stream.XMLInputFactory f = safeXmlFactory();
         try {
             javax.xml.stream.XMLStreamReader r = f.createXMLStreamReader(new java.io.StringReader(text));
             while (r.hasNext()) {
@@ -366,9 +357,7 @@ public final class SbmlReader {
      * its own scope; local parameters (inside a kinetic law) are not in the namespace.
      */
     static void requireUniqueIds(String text, int level, String file) {
-        javax.xml.stream.XMLInputFactory f = javax.xml.stream.XMLInputFactory.newFactory();
-        f.setProperty(javax.xml.stream.XMLInputFactory.SUPPORT_DTD, false);
-        f.setProperty(javax.xml.stream.XMLInputFactory.IS_SUPPORTING_EXTERNAL_ENTITIES, false);
+        javax.xml.stream.XMLInputFactory f = safeXmlFactory();
         java.util.ArrayDeque<Map<String, String>> scopes = new java.util.ArrayDeque<>();
         int inLaw = 0;
         try {
@@ -694,4 +683,12 @@ public final class SbmlReader {
         }
     }
 
+
+    /** A StAX factory without DTDs or external entities, for the text checks on the file. */
+    private static javax.xml.stream.XMLInputFactory safeXmlFactory() {
+        javax.xml.stream.XMLInputFactory f = javax.xml.stream.XMLInputFactory.newFactory();
+        f.setProperty(javax.xml.stream.XMLInputFactory.SUPPORT_DTD, false);
+        f.setProperty(javax.xml.stream.XMLInputFactory.IS_SUPPORTING_EXTERNAL_ENTITIES, false);
+        return f;
+    }
 }
